@@ -1,0 +1,1 @@
+"""Constants, unit conversion, error classes and validity ranges shared by every layer."""

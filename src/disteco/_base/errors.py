@@ -1,0 +1,77 @@
+"""Error classes. One base class; each subclass also inherits the matching built-in.
+
+User mistakes (bad case file, infeasible specification, bad cost data) derive from
+``ValueError`` and map to exit code 2; internal failures derive from ``RuntimeError``
+and map to exit code 1.
+"""
+
+from __future__ import annotations
+
+
+class DistecoError(Exception):
+    """Base class of every error disteco raises on purpose."""
+
+
+class CaseError(DistecoError, ValueError):
+    """A case-file field is missing or invalid.
+
+    Attributes carry the dotted field name, the offending value and what is allowed.
+    """
+
+    def __init__(self, field: str, problem: str, allowed: str | None = None, value=None):
+        self.field = field
+        self.problem = problem
+        self.allowed = allowed
+        self.value = value
+        message = f"{field}: {problem}"
+        if allowed:
+            message += f" (allowed: {allowed})"
+        super().__init__(message)
+
+
+class InfeasibleSpecError(DistecoError, ValueError):
+    """The separation asked for cannot be done (mass balance, azeotrope, reflux)."""
+
+
+class CorrelationRangeError(DistecoError, ValueError):
+    """An input lies outside the range where a correlation is valid."""
+
+    def __init__(self, correlation: str, variable: str, value: float, low: float, high: float,
+                 unit: str, source: str):
+        self.correlation = correlation
+        self.variable = variable
+        self.value = value
+        self.low = low
+        self.high = high
+        self.unit = unit
+        self.source = source
+        super().__init__(
+            f"{correlation}: {variable} = {value:.4g} {unit} is outside the valid range "
+            f"{low:.4g} to {high:.4g} {unit} ({source})")
+
+
+class CostDataError(DistecoError, ValueError):
+    """A cost-data file is malformed; names the file, row and column."""
+
+    def __init__(self, file: str, problem: str, row: int | None = None, column: str | None = None):
+        self.file = file
+        self.row = row
+        self.column = column
+        where = file
+        if row is not None:
+            where += f", row {row}"
+        if column is not None:
+            where += f", column '{column}'"
+        super().__init__(f"{where}: {problem}")
+
+
+class PropertyError(DistecoError, RuntimeError):
+    """A property or phase-equilibrium calculation failed."""
+
+
+class ConvergenceError(DistecoError, RuntimeError):
+    """A numerical solution did not converge."""
+
+
+class SolverError(DistecoError, RuntimeError):
+    """The optimisation solver failed or stopped without a usable design."""

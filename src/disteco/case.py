@@ -1,0 +1,373 @@
+"""The case file (TOML) into frozen dataclasses, with field-named validation errors.
+
+Only syntax, units and ranges are checked here. Component names are resolved and the
+feed flow is put on a molar basis by the properties layer, which knows the chemicals.
+"""
+
+from __future__ import annotations
+
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from ._base.errors import CaseError
+from ._base.units import ATMOSPHERE, parse_quantity
+
+METHODS = ("ideal", "unifac-dortmund", "nrtl", "wilson", "peng-robinson")
+CONDENSERS = ("total", "partial")
+MIN_PRESSURE = 1e3  # Pa; below this vacuum distillation is out of scope
+MAX_PRESSURE = 5e6  # Pa; above this a cubic EOS and a high-pressure column design are needed
+COMPOSITION_TOLERANCE = 1e-6
+
+
+@dataclass(frozen=True)
+class FeedFlow:
+    """Feed flow as written: basis "molar" [mol/s], "mass" [kg/s] or "volume" [m^3/s]."""
+
+    basis: str
+    value: float
+
+
+@dataclass(frozen=True)
+class ThermalCondition:
+    """Feed thermal condition: "temperature" [K], "vapour_fraction" [-] or "q" [-]."""
+
+    kind: str
+    value: float
+
+
+@dataclass(frozen=True)
+class Feed:
+    flow: FeedFlow
+    composition: tuple[float, ...]  # mole fractions, in component order [-]
+    condition: ThermalCondition
+    pressure: float | None  # Pa; None means the feed-stage pressure
+
+
+@dataclass(frozen=True)
+class Column:
+    top_pressure: float  # Pa, absolute
+    pressure_drop_per_stage: float  # Pa
+    condenser: str  # "total" or "partial"
+    subcooling: float  # K below the bubble point of the reflux and distillate
+
+
+@dataclass(frozen=True)
+class EndSpec:
+    """One end of the split: kind "recovery" (fraction of feed) or "fraction" (mole fraction)."""
+
+    kind: str
+    value: float
+
+
+@dataclass(frozen=True)
+class Products:
+    """Key components (indices into the component list) and the two end specifications.
+
+    ``light_key`` is specified by its recovery to the distillate or by its mole fraction
+    in the bottoms; ``heavy_key`` by its recovery to the bottoms or its mole fraction in
+    the distillate.
+    """
+
+    light_key: int
+    heavy_key: int
+    light_key_spec: EndSpec
+    heavy_key_spec: EndSpec
+
+
+@dataclass(frozen=True)
+class Thermo:
+    """Thermodynamic method and user-supplied interaction parameters."""
+
+    method: str  # one of METHODS, or "auto"
+    nrtl_a: tuple[tuple[float, ...], ...] | None = None  # tau_ij = a_ij + b_ij/T [-]
+    nrtl_b: tuple[tuple[float, ...], ...] | None = None  # [K]
+    nrtl_alpha: tuple[tuple[float, ...], ...] | None = None  # [-]
+    wilson_a: tuple[tuple[float, ...], ...] | None = None  # ln Lambda_ij = a_ij + b_ij/T [-]
+    wilson_b: tuple[tuple[float, ...], ...] | None = None  # [K]
+    kij: tuple[tuple[float, ...], ...] | None = None  # Peng-Robinson [-]
+
+
+@dataclass(frozen=True)
+class Economics:
+    cost_data: Path | None  # None means the bundled cost_data
+    cost_year: int | None  # None means the newest year in the index table
+    scenarios: tuple[str, ...]  # empty means the cost data's default scenario
+    currency: str = "USD"
+
+
+@dataclass(frozen=True)
+class Case:
+    title: str
+    components: tuple[str, ...]  # as written: names or CAS numbers
+    feed: Feed
+    column: Column
+    products: Products
+    thermo: Thermo
+    economics: Economics
+    source: Path | None = field(default=None, compare=False)
+
+
+def load_case(path: str | Path) -> Case:
+    """Read and validate a case file."""
+    path = Path(path)
+    if not path.is_file():
+        raise CaseError("case file", f"{path} does not exist or is not a file")
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except tomllib.TOMLDecodeError as exc:
+        raise CaseError("case file", f"{path} is not valid TOML: {exc}") from None
+    except UnicodeDecodeError:
+        raise CaseError("case file", f"{path} is not UTF-8 text") from None
+    case = parse_case(data)
+    return Case(**{**case.__dict__, "source": path.resolve()})
+
+
+def parse_case(data: dict) -> Case:
+    """Validate a case given as the dict read from TOML."""
+    _only_keys(data, "", {"title", "mixture", "feed", "column", "products", "economics"})
+    title = _get(data, "title", str, default="untitled case")
+    mixture = _table(data, "mixture")
+    components = _components(mixture)
+    return Case(
+        title=title,
+        components=components,
+        feed=_feed(_table(data, "feed"), components),
+        column=_column(_table(data, "column")),
+        products=_products(_table(data, "products"), components),
+        thermo=_thermo(mixture, len(components)),
+        economics=_economics(data.get("economics", {})),
+    )
+
+
+# ---------------------------------------------------------------- helpers
+
+
+def _only_keys(table: dict, prefix: str, allowed: set[str]) -> None:
+    for key in table:
+        if key not in allowed:
+            raise CaseError(f"{prefix}{key}", "unknown field", ", ".join(sorted(allowed)))
+
+
+def _table(data: dict, name: str, prefix: str = "") -> dict:
+    if name not in data:
+        raise CaseError(f"{prefix}{name}", "missing table", f"a [{prefix}{name}] table")
+    value = data[name]
+    if not isinstance(value, dict):
+        raise CaseError(f"{prefix}{name}", "must be a table", f"[{prefix}{name}]")
+    return value
+
+
+_MISSING = object()
+
+
+def _get(table: dict, key: str, kind, prefix: str = "", default=_MISSING):
+    if key not in table:
+        if default is _MISSING:
+            raise CaseError(f"{prefix}{key}", "missing field")
+        return default
+    value = table[key]
+    if kind is float and isinstance(value, int) and not isinstance(value, bool):
+        value = float(value)
+    if not isinstance(value, kind) or isinstance(value, bool) and kind is not bool:
+        raise CaseError(f"{prefix}{key}", f"expected {kind.__name__}, got {value!r}")
+    return value
+
+
+def _fraction(table: dict, key: str, prefix: str, open_ends: bool = True) -> float:
+    value = _get(table, key, float, prefix)
+    ok = 0.0 < value < 1.0 if open_ends else 0.0 <= value <= 1.0
+    if not ok:
+        raise CaseError(f"{prefix}{key}", f"{value} is not a fraction",
+                        "strictly between 0 and 1" if open_ends else "0 to 1", value)
+    return value
+
+
+def _components(mixture: dict) -> tuple[str, ...]:
+    names = _get(mixture, "components", list, "mixture.")
+    if len(names) < 2:
+        raise CaseError("mixture.components", f"{len(names)} component(s) given",
+                        "at least 2 names or CAS numbers")
+    for name in names:
+        if not isinstance(name, str) or not name.strip():
+            raise CaseError("mixture.components", f"{name!r} is not a name", "text names or CAS numbers")
+    lowered = [n.strip().lower() for n in names]
+    if len(set(lowered)) != len(lowered):
+        raise CaseError("mixture.components", "a component is listed twice", "distinct components")
+    return tuple(n.strip() for n in names)
+
+
+def _composition(feed: dict, components: tuple[str, ...]) -> tuple[float, ...]:
+    raw = _get(feed, "composition", (list, dict), "feed.")
+    if isinstance(raw, dict):
+        unknown = [k for k in raw if k not in components]
+        if unknown:
+            raise CaseError("feed.composition", f"{unknown[0]!r} is not in mixture.components",
+                            ", ".join(components))
+        values = [raw.get(name, 0.0) for name in components]
+    else:
+        if len(raw) != len(components):
+            raise CaseError("feed.composition", f"{len(raw)} values for {len(components)} components",
+                            "one mole fraction per component, in the order of mixture.components")
+        values = raw
+    for name, value in zip(components, values):
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0.0 <= value <= 1.0:
+            raise CaseError("feed.composition", f"mole fraction of {name} is {value!r}", "0 to 1")
+    total = float(sum(values))
+    if abs(total - 1.0) > COMPOSITION_TOLERANCE:
+        raise CaseError("feed.composition", f"mole fractions sum to {total:.8g}",
+                        f"a sum of 1 within {COMPOSITION_TOLERANCE:g}")
+    return tuple(float(v) for v in values)
+
+
+def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
+    _only_keys(feed, "feed.", {"flow", "composition", "temperature", "vapour_fraction", "q", "pressure"})
+    flow_si, unit = parse_quantity(_get(feed, "flow", str, "feed."), "flow", "feed.flow")
+    if flow_si <= 0.0:
+        raise CaseError("feed.flow", f"{feed['flow']!r} is not positive", "a flow above zero")
+    conditions = [k for k in ("temperature", "vapour_fraction", "q") if k in feed]
+    if len(conditions) != 1:
+        raise CaseError("feed", f"{len(conditions)} thermal conditions given ({', '.join(conditions) or 'none'})",
+                        "exactly one of temperature, vapour_fraction, q")
+    kind = conditions[0]
+    if kind == "temperature":
+        value, _ = parse_quantity(feed["temperature"], "temperature", "feed.temperature")
+        if value <= 0.0:
+            raise CaseError("feed.temperature", "below absolute zero", "above 0 K")
+    elif kind == "vapour_fraction":
+        value = _fraction(feed, "vapour_fraction", "feed.", open_ends=False)
+    else:
+        value = _get(feed, "q", float, "feed.")
+        if not -5.0 <= value <= 5.0:
+            raise CaseError("feed.q", f"q = {value}", "-5 to 5 (q = 1 saturated liquid, 0 saturated vapour)")
+    pressure = None
+    if "pressure" in feed:
+        pressure = _pressure(feed, "pressure", "feed.")
+    return Feed(FeedFlow(unit.basis, flow_si), _composition(feed, components),
+                ThermalCondition(kind, value), pressure)
+
+
+def _pressure(table: dict, key: str, prefix: str) -> float:
+    value, _ = parse_quantity(_get(table, key, str, prefix), "pressure", prefix + key)
+    if not MIN_PRESSURE <= value <= MAX_PRESSURE:
+        raise CaseError(prefix + key, f"{table[key]!r} is {value / 1e5:.4g} bar absolute",
+                        f"{MIN_PRESSURE / 1e5:g} to {MAX_PRESSURE / 1e5:g} bar absolute")
+    return value
+
+
+def _column(column: dict) -> Column:
+    _only_keys(column, "column.", {"top_pressure", "pressure_drop_per_stage", "condenser", "subcooling"})
+    top = _pressure(column, "top_pressure", "column.")
+    drop, _ = parse_quantity(_get(column, "pressure_drop_per_stage", str, "column.", "0.7 kPa"),
+                             "pressure difference", "column.pressure_drop_per_stage")
+    if not 0.0 <= drop <= 5e3:
+        raise CaseError("column.pressure_drop_per_stage", f"{drop / 1e3:.4g} kPa per stage", "0 to 5 kPa per stage")
+    condenser = _get(column, "condenser", str, "column.", "total")
+    if condenser not in CONDENSERS:
+        raise CaseError("column.condenser", f"{condenser!r}", ", ".join(CONDENSERS))
+    subcooling, _ = parse_quantity(_get(column, "subcooling", str, "column.", "0 K"),
+                                   "temperature difference", "column.subcooling")
+    if not 0.0 <= subcooling <= 50.0:
+        raise CaseError("column.subcooling", f"{subcooling:.4g} K", "0 to 50 K")
+    if condenser == "partial" and subcooling > 0.0:
+        raise CaseError("column.subcooling", "a partial condenser has no subcooling", "0 K with a partial condenser")
+    return Column(top, drop, condenser, subcooling)
+
+
+def _component_index(products: dict, key: str, components: tuple[str, ...]) -> int:
+    name = _get(products, key, str, "products.")
+    if name not in components:
+        raise CaseError(f"products.{key}", f"{name!r} is not in mixture.components", ", ".join(components))
+    return components.index(name)
+
+
+def _products(products: dict, components: tuple[str, ...]) -> Products:
+    prefix = "products."
+    binary_keys = {"distillate_light_key_fraction", "bottoms_light_key_fraction"}
+    key_keys = {"light_key", "heavy_key", "light_key_recovery", "light_key_in_bottoms",
+                "heavy_key_recovery", "heavy_key_in_distillate"}
+    _only_keys(products, prefix, binary_keys | key_keys)
+    if binary_keys & products.keys():
+        if len(components) != 2:
+            raise CaseError(prefix + "distillate_light_key_fraction",
+                            f"binary specification given for {len(components)} components",
+                            "light_key, heavy_key with recoveries or fractions for more than 2 components")
+        light = _component_index(products, "light_key", components) if "light_key" in products else 0
+        heavy = 1 - light
+        x_d = _fraction(products, "distillate_light_key_fraction", prefix)
+        x_b = _fraction(products, "bottoms_light_key_fraction", prefix)
+        return Products(light, heavy, EndSpec("fraction", x_b), EndSpec("fraction", 1.0 - x_d))
+    light = _component_index(products, "light_key", components)
+    heavy = _component_index(products, "heavy_key", components)
+    if light == heavy:
+        raise CaseError(prefix + "heavy_key", "same component as the light key", "two different components")
+    return Products(light, heavy,
+                    _end_spec(products, "light_key_recovery", "light_key_in_bottoms"),
+                    _end_spec(products, "heavy_key_recovery", "heavy_key_in_distillate"))
+
+
+def _end_spec(products: dict, recovery_key: str, fraction_key: str) -> EndSpec:
+    given = [k for k in (recovery_key, fraction_key) if k in products]
+    if len(given) != 1:
+        raise CaseError("products", f"give exactly one of {recovery_key} and {fraction_key}",
+                        "a recovery (fraction of the key in the feed) or a mole fraction in the other product")
+    key = given[0]
+    kind = "recovery" if key == recovery_key else "fraction"
+    value = products[key]
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0.0 < value < 1.0:
+        raise CaseError(f"products.{key}", f"{value!r} is not a fraction", "strictly between 0 and 1", value)
+    return EndSpec(kind, float(value))
+
+
+def _matrix(table: dict, key: str, n: int, prefix: str):
+    if key not in table:
+        raise CaseError(prefix + key, "missing field", f"a {n} x {n} list of numbers")
+    value = table[key]
+    if (not isinstance(value, list) or len(value) != n
+            or any(not isinstance(row, list) or len(row) != n for row in value)
+            or any(isinstance(x, bool) or not isinstance(x, (int, float)) for row in value for x in row)):
+        raise CaseError(prefix + key, f"not a {n} x {n} matrix of numbers", f"a {n} x {n} list of lists")
+    return tuple(tuple(float(x) for x in row) for row in value)
+
+
+def _thermo(mixture: dict, n: int) -> Thermo:
+    _only_keys(mixture, "mixture.", {"components", "method", "nrtl", "wilson", "peng_robinson"})
+    method = _get(mixture, "method", str, "mixture.", "auto")
+    if method not in METHODS + ("auto",):
+        raise CaseError("mixture.method", f"unknown method {method!r}", ", ".join(METHODS + ("auto",)))
+    kwargs = {}
+    if method == "nrtl":
+        table = _table(mixture, "nrtl", "mixture.")
+        _only_keys(table, "mixture.nrtl.", {"a", "b", "alpha"})
+        kwargs = dict(nrtl_a=_matrix(table, "a", n, "mixture.nrtl."),
+                      nrtl_b=_matrix(table, "b", n, "mixture.nrtl."),
+                      nrtl_alpha=_matrix(table, "alpha", n, "mixture.nrtl."))
+    elif method == "wilson":
+        table = _table(mixture, "wilson", "mixture.")
+        _only_keys(table, "mixture.wilson.", {"a", "b"})
+        kwargs = dict(wilson_a=_matrix(table, "a", n, "mixture.wilson."),
+                      wilson_b=_matrix(table, "b", n, "mixture.wilson."))
+    elif method == "peng-robinson" and "peng_robinson" in mixture:
+        table = _table(mixture, "peng_robinson", "mixture.")
+        _only_keys(table, "mixture.peng_robinson.", {"kij"})
+        kwargs = dict(kij=_matrix(table, "kij", n, "mixture.peng_robinson."))
+    return Thermo(method, **kwargs)
+
+
+def _economics(table) -> Economics:
+    if not isinstance(table, dict):
+        raise CaseError("economics", "must be a table", "[economics]")
+    _only_keys(table, "economics.", {"cost_data", "cost_year", "scenarios", "currency"})
+    cost_data = _get(table, "cost_data", str, "economics.", None)
+    year = _get(table, "cost_year", int, "economics.", None)
+    if year is not None and not 1950 <= year <= 2100:
+        raise CaseError("economics.cost_year", f"{year}", "a year from 1950 to 2100 present in the cost-index table")
+    scenarios = _get(table, "scenarios", list, "economics.", [])
+    if any(not isinstance(s, str) for s in scenarios):
+        raise CaseError("economics.scenarios", "every scenario must be a name", "a list of scenario names")
+    currency = _get(table, "currency", str, "economics.", "USD")
+    return Economics(Path(cost_data) if cost_data else None, year, tuple(scenarios), currency)
+
+
+__all__ = ["Case", "Column", "Economics", "EndSpec", "Feed", "FeedFlow", "Products",
+           "ThermalCondition", "Thermo", "load_case", "parse_case", "ATMOSPHERE", "METHODS"]

@@ -1,0 +1,92 @@
+"""The feed on a molar basis, and its thermal condition q, from the mixture's properties."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .._base.errors import InfeasibleSpecError
+from ..case import Feed
+from .mixture import Mixture
+
+STANDARD_T = 288.15  # K; volumetric feed flows are taken as liquid at 15 degC (common practice, no source)
+
+
+@dataclass(frozen=True)
+class FeedState:
+    """Feed molar flow [mol/s], composition [-], pressure [Pa], q [-] and enthalpy [J/mol]."""
+
+    molar_flow: float
+    z: tuple[float, ...]
+    pressure: float
+    q: float
+    enthalpy: float
+    bubble_T: float  # K
+    dew_T: float  # K
+    temperature: float  # K
+
+
+def feed_molar_flow(feed: Feed, mixture: Mixture) -> float:
+    """Feed molar flow [mol/s] from the flow as written (molar, mass or liquid volume)."""
+    z = np.asarray(feed.composition)
+    if feed.flow.basis == "molar":
+        return feed.flow.value
+    if feed.flow.basis == "mass":
+        return feed.flow.value / mixture.molar_mass(z)
+    density = mixture.liquid_density(STANDARD_T, 101325.0, z)
+    return feed.flow.value * density / mixture.molar_mass(z)
+
+
+def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
+    """Feed state at ``pressure`` [Pa] (the feed's own pressure if given, else the caller's).
+
+    q = (H_dew_vapour - H_feed) / (H_dew_vapour - H_bubble_liquid): the fraction of the
+    feed that joins the liquid flow (McCabe-Thiele convention).
+    """
+    P = feed.pressure or pressure
+    z = feed.composition
+    bubble = mixture.bubble_point(P, z)
+    dew = mixture.dew_point(P, z)
+    h_liquid = mixture.liquid_enthalpy(bubble.T, P, z)
+    h_vapour = mixture.vapour_enthalpy(dew.T, P, z)
+    latent = h_vapour - h_liquid
+    condition = feed.condition
+    if condition.kind == "q":
+        q = condition.value
+        h_feed = h_vapour - q * latent
+        T = _temperature_of(q, bubble.T, dew.T)
+    elif condition.kind == "vapour_fraction":
+        q = 1.0 - condition.value
+        point = mixture.flash_pvf(P, condition.value, z)
+        T = point.T
+        h_feed = (1.0 - condition.value) * mixture.liquid_enthalpy(T, P, point.x) \
+            + condition.value * mixture.vapour_enthalpy(T, P, point.y)
+        q = (h_vapour - h_feed) / latent
+    else:
+        T = condition.value
+        if T <= bubble.T:
+            h_feed = mixture.liquid_enthalpy(T, P, z)
+        elif T >= dew.T:
+            h_feed = mixture.vapour_enthalpy(T, P, z)
+        else:
+            point = mixture.flash_tp(T, P, z)
+            vf = point.vapour_fraction
+            h_feed = (1.0 - vf) * mixture.liquid_enthalpy(T, P, point.x) + vf * mixture.vapour_enthalpy(T, P, point.y)
+        q = (h_vapour - h_feed) / latent
+    if not -5.0 <= q <= 5.0:
+        raise InfeasibleSpecError(
+            f"feed thermal condition: q = {q:.3g} is outside -5 to 5 (feed at {T - 273.15:.1f} degC against "
+            f"bubble point {bubble.T - 273.15:.1f} degC and dew point {dew.T - 273.15:.1f} degC); "
+            "check the feed temperature and pressure")
+    return FeedState(feed_molar_flow(feed, mixture), tuple(z), P, float(q), float(h_feed),
+                     bubble.T, dew.T, float(T))
+
+
+def _temperature_of(q: float, bubble_T: float, dew_T: float) -> float:
+    """Temperature for display only when q is given: bubble, dew, or linear in between [K]."""
+    if q >= 1.0:
+        return bubble_T
+    if q <= 0.0:
+        return dew_T
+    return dew_T + q * (bubble_T - dew_T)

@@ -1,0 +1,264 @@
+"""The thermodynamics adapter: one ``Mixture`` per case, built once over thermo and cached.
+
+This module and ``components`` are the only places that import thermo/chemicals. Every
+method takes and returns SI floats and mole-fraction sequences; callers never see a thermo
+object.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cached_property, lru_cache
+
+import numpy as np
+from scipy.optimize import brentq
+from thermo import (CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL, GibbsExcessLiquid,
+                    IdealGas, NRTL, PRMIX, UNIFAC, Wilson)
+from thermo.unifac import DOUFIP2016, DOUFSG
+
+from .._base.errors import CaseError, PropertyError
+from ..case import Thermo
+from .components import ComponentId, resolve_components
+
+HIGH_PRESSURE = 1e6  # Pa; above this the automatic choice is Peng-Robinson (common practice, no source)
+REFERENCE_T = 298.15  # K
+
+
+@dataclass(frozen=True)
+class PhasePoint:
+    """A two-phase state: temperature [K], pressure [Pa], vapour fraction [-], x and y [-]."""
+
+    T: float
+    P: float
+    vapour_fraction: float
+    x: tuple[float, ...]
+    y: tuple[float, ...]
+
+
+class Mixture:
+    """Phase equilibrium and physical properties of one mixture over thermo.
+
+    Build it with :func:`build_mixture`, which caches one instance per components and
+    method, because thermo's set-up takes about a second.
+    """
+
+    def __init__(self, components: tuple[ComponentId, ...], method: str, thermo_spec: Thermo):
+        self.components = components
+        self.method = method
+        ids = [c.cas for c in components]
+        self._constants, self._correlations = ChemicalConstantsPackage.from_IDs(ids)
+        self._flasher = self._make_flasher(thermo_spec)
+
+    # ------------------------------------------------------------ set-up
+    def _make_flasher(self, spec: Thermo) -> FlashVL:
+        consts, props = self._constants, self._correlations
+        n = len(self.components)
+        z = [1.0 / n] * n
+        state = dict(T=REFERENCE_T, P=101325.0, zs=z)
+        if self.method == "peng-robinson":
+            kij = [list(row) for row in spec.kij] if spec.kij else [[0.0] * n for _ in range(n)]
+            eos_kwargs = dict(Tcs=consts.Tcs, Pcs=consts.Pcs, omegas=consts.omegas, kijs=kij)
+            gas = CEOSGas(PRMIX, eos_kwargs=eos_kwargs, HeatCapacityGases=props.HeatCapacityGases, **state)
+            liquid = CEOSLiquid(PRMIX, eos_kwargs=eos_kwargs, HeatCapacityGases=props.HeatCapacityGases,
+                                **state)
+            return FlashVL(consts, props, liquid=liquid, gas=gas)
+        excess = self._excess_model(spec, z)
+        liquid = GibbsExcessLiquid(
+            VaporPressures=props.VaporPressures, HeatCapacityGases=props.HeatCapacityGases,
+            VolumeLiquids=props.VolumeLiquids, EnthalpyVaporizations=props.EnthalpyVaporizations,
+            GibbsExcessModel=excess, equilibrium_basis="Psat", caloric_basis="Hvap", **state)
+        gas = IdealGas(HeatCapacityGases=props.HeatCapacityGases, **state)
+        return FlashVL(consts, props, liquid=liquid, gas=gas)
+
+    def _excess_model(self, spec: Thermo, z):
+        if self.method == "unifac-dortmund":
+            groups = self._constants.UNIFAC_Dortmund_groups
+            missing = [c.given for c, g in zip(self.components, groups) if not g]
+            if missing:
+                raise CaseError("mixture.method", f"no UNIFAC (Dortmund) groups for {', '.join(missing)}",
+                                "nrtl or wilson with parameters in the case file")
+            return UNIFAC.from_subgroups(T=REFERENCE_T, xs=z, chemgroups=groups, version=1,
+                                         interaction_data=DOUFIP2016, subgroups=DOUFSG)
+        if self.method == "nrtl":
+            return NRTL(T=REFERENCE_T, xs=z, tau_as=[list(r) for r in spec.nrtl_a],
+                        tau_bs=[list(r) for r in spec.nrtl_b], alpha_cs=[list(r) for r in spec.nrtl_alpha])
+        if self.method == "wilson":
+            return Wilson(T=REFERENCE_T, xs=z, lambda_as=[list(r) for r in spec.wilson_a],
+                          lambda_bs=[list(r) for r in spec.wilson_b])
+        return None  # ideal solution: activity coefficients of one
+
+    # ------------------------------------------------------------ constants
+    @property
+    def names(self) -> tuple[str, ...]:
+        return tuple(c.given for c in self.components)
+
+    @cached_property
+    def molar_masses(self) -> np.ndarray:
+        """Molar masses [kg/mol]."""
+        return np.array(self._constants.MWs) * 1e-3
+
+    @cached_property
+    def normal_boiling_points(self) -> np.ndarray:
+        """Normal boiling points [K]."""
+        return np.array(self._constants.Tbs, dtype=float)
+
+    @cached_property
+    def critical_temperatures(self) -> np.ndarray:
+        """Critical temperatures [K]."""
+        return np.array(self._constants.Tcs, dtype=float)
+
+    @cached_property
+    def critical_pressures(self) -> np.ndarray:
+        """Critical pressures [Pa]."""
+        return np.array(self._constants.Pcs, dtype=float)
+
+    @property
+    def size(self) -> int:
+        return len(self.components)
+
+    # ------------------------------------------------------------ equilibrium
+    def _flash(self, **kwargs):
+        zs = [float(v) for v in kwargs.pop("zs")]
+        try:
+            return self._flasher.flash(zs=zs, **kwargs)
+        except Exception as exc:  # thermo raises many kinds; ours names the state
+            state = ", ".join(f"{k}={v:.6g}" for k, v in kwargs.items())
+            raise PropertyError(f"phase equilibrium failed at {state}, z={np.round(zs, 6).tolist()}: {exc}") \
+                from exc
+
+    def _point(self, result, P: float) -> PhasePoint:
+        liquid = result.liquid0 if result.liquid_count else None
+        gas = result.gas
+        x = tuple(liquid.zs) if liquid is not None else tuple(result.zs)
+        y = tuple(gas.zs) if gas is not None else tuple(result.zs)
+        return PhasePoint(result.T, P, float(result.VF), x, y)
+
+    def bubble_point(self, P: float, x) -> PhasePoint:
+        """Bubble temperature and incipient vapour of liquid ``x`` at ``P`` [Pa].
+
+        With an ideal-gas vapour K depends on T and x only, so sum(K_i x_i) = 1 is solved
+        directly in T; this also holds at an azeotrope, where a general flash struggles.
+        """
+        if self.method == "peng-robinson":
+            return self._point(self._flash(P=P, VF=0.0, zs=x), P)
+        x = np.asarray(x, dtype=float)
+
+        def residual(T):
+            return float(np.log(np.dot(self.k_values(T, P, x), x)))
+
+        T_sat = self.saturation_temperatures(P)
+        low, high = float(T_sat.min()) - 20.0, float(T_sat.max()) + 20.0
+        for _ in range(10):
+            if residual(low) < 0.0 < residual(high):
+                break
+            low, high = low - 20.0, high + 20.0
+        else:
+            raise PropertyError(f"no bubble point found for x={np.round(x, 6).tolist()} at P={P:.6g} Pa")
+        T = brentq(residual, low, high, xtol=1e-9)
+        y = self.k_values(T, P, x) * x
+        return PhasePoint(float(T), P, 0.0, tuple(map(float, x)), tuple(map(float, y / y.sum())))
+
+    def saturation_temperatures(self, P: float) -> np.ndarray:
+        """Pure-component saturation temperatures at ``P`` [Pa] from thermo's vapour pressures [K]."""
+        return np.array([psat.solve_property(P) for psat in self._correlations.VaporPressures])
+
+    def vapour_pressures(self, T: float) -> np.ndarray:
+        """Pure-component vapour pressures at ``T`` [K] [Pa]."""
+        return np.array([psat(T) for psat in self._correlations.VaporPressures])
+
+    def dew_point(self, P: float, y) -> PhasePoint:
+        """Dew temperature and incipient liquid of vapour ``y`` at ``P`` [Pa]."""
+        return self._point(self._flash(P=P, VF=1.0, zs=y), P)
+
+    def flash_tp(self, T: float, P: float, z) -> PhasePoint:
+        """Isothermal flash at ``T`` [K] and ``P`` [Pa]."""
+        return self._point(self._flash(T=T, P=P, zs=z), P)
+
+    def flash_pvf(self, P: float, vapour_fraction: float, z) -> PhasePoint:
+        """Flash at ``P`` [Pa] and a molar vapour fraction [-]."""
+        return self._point(self._flash(P=P, VF=vapour_fraction, zs=z), P)
+
+    def k_values(self, T: float, P: float, x, y=None) -> np.ndarray:
+        """Equilibrium ratios K_i = y_i/x_i = phi_i^L(x)/phi_i^V(y) [-] (y defaults to x)."""
+        y = x if y is None else y
+        liquid = self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x])
+        gas = self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y])
+        return np.array(liquid.phis()) / np.array(gas.phis())
+
+    def relative_volatility(self, T: float, P: float, x, light: int, heavy: int, y=None) -> float:
+        """alpha = K_light / K_heavy [-]."""
+        k = self.k_values(T, P, x, y)
+        return float(k[light] / k[heavy])
+
+    # ------------------------------------------------------------ caloric
+    def liquid_enthalpy(self, T: float, P: float, x) -> float:
+        """Molar enthalpy of liquid ``x`` [J/mol] (ideal-gas elements reference of thermo)."""
+        return float(self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).H())
+
+    def vapour_enthalpy(self, T: float, P: float, y) -> float:
+        """Molar enthalpy of vapour ``y`` [J/mol]."""
+        return float(self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y]).H())
+
+    def heat_of_vaporisation(self, P: float, z) -> float:
+        """Dew-point vapour minus bubble-point liquid enthalpy of composition ``z`` [J/mol]."""
+        bubble = self.bubble_point(P, z)
+        dew = self.dew_point(P, z)
+        return self.vapour_enthalpy(dew.T, P, z) - self.liquid_enthalpy(bubble.T, P, z)
+
+    # ------------------------------------------------------------ transport and density
+    def molar_mass(self, z) -> float:
+        """Mean molar mass [kg/mol]."""
+        return float(np.dot(self.molar_masses, z))
+
+    def mass_fractions(self, z) -> list[float]:
+        mass = self.molar_masses * np.asarray(z, dtype=float)
+        return list(mass / mass.sum())
+
+    def liquid_density(self, T: float, P: float, x) -> float:
+        """Liquid mass density [kg/m^3] from thermo's mixture liquid-volume correlation."""
+        volume = self._correlations.VolumeLiquidMixture(T, P, [float(v) for v in x], self.mass_fractions(x))
+        return self.molar_mass(x) / volume
+
+    def vapour_density(self, T: float, P: float, y) -> float:
+        """Vapour mass density [kg/m^3] from the gas model of the method."""
+        return self.molar_mass(y) / float(self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y]).V())
+
+    def liquid_viscosity(self, T: float, P: float, x) -> float:
+        """Liquid dynamic viscosity [Pa s]."""
+        return float(self._correlations.ViscosityLiquidMixture(T, P, [float(v) for v in x],
+                                                               self.mass_fractions(x)))
+
+    def surface_tension(self, T: float, x) -> float:
+        """Liquid surface tension [N/m]."""
+        return float(self._correlations.SurfaceTensionMixture(T, 101325.0, [float(v) for v in x],
+                                                              self.mass_fractions(x)))
+
+    def liquid_heat_capacity(self, T: float, P: float, x) -> float:
+        """Liquid molar heat capacity [J/(mol K)]."""
+        return float(self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).Cp())
+
+
+def choose_method(components: tuple[ComponentId, ...], pressure: float) -> str:
+    """Default method: Peng-Robinson above 10 bar, UNIFAC (Dortmund) for polar mixtures, else ideal.
+
+    A common-practice choice, no source: activity-coefficient liquids for polar liquids at
+    low pressure, a cubic equation of state at high pressure, Raoult's law for the rest.
+    """
+    if pressure > HIGH_PRESSURE:
+        return "peng-robinson"
+    if any(c.is_polar for c in components):
+        return "unifac-dortmund"
+    return "ideal"
+
+
+@lru_cache(maxsize=16)
+def build_mixture(names: tuple[str, ...], thermo_spec: Thermo, pressure: float) -> Mixture:
+    """Resolve ``names`` and build (once) the mixture for the case's method.
+
+    ``pressure`` [Pa] only steers the automatic choice of method.
+    """
+    components = resolve_components(names)
+    method = thermo_spec.method
+    if method == "auto":
+        method = choose_method(components, pressure)
+    return Mixture(components, method, thermo_spec)

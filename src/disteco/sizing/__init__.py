@@ -1,0 +1,1 @@
+"""sizing layer."""

@@ -1,0 +1,21 @@
+"""Shared fixtures: example paths and cached mixtures (thermo's set-up takes about a second)."""
+
+from pathlib import Path
+
+import pytest
+
+from disteco.case import Thermo
+from disteco.properties import build_mixture
+
+ROOT = Path(__file__).resolve().parents[1]
+EXAMPLES = ROOT / "examples"
+
+
+@pytest.fixture(scope="session")
+def benzene_toluene():
+    return build_mixture(("benzene", "toluene"), Thermo("ideal"), 101325.0)
+
+
+@pytest.fixture(scope="session")
+def ethanol_water():
+    return build_mixture(("ethanol", "water"), Thermo("unifac-dortmund"), 101325.0)

@@ -1,0 +1,95 @@
+"""Bad case files: each error names the field, says what is wrong, and exits with code 2."""
+
+import json
+
+import pytest
+
+from disteco._base.errors import CaseError
+from disteco._base.units import parse_quantity
+from disteco.case import load_case
+from disteco.cli import main
+
+from conftest import EXAMPLES
+
+BASE = (EXAMPLES / "aromatics_binary.toml").read_text()
+
+
+def run_cli(tmp_path, text, capsys, command="check"):
+    case = tmp_path / "case.toml"
+    case.write_text(text)
+    code = main([command, str(case)] + (["-o", str(tmp_path / "out")] if command == "design" else []))
+    return code, capsys.readouterr().err
+
+
+@pytest.mark.parametrize("edit, field, fragment", [
+    (("toluene\"]", "tolunee\"]"), "feed.composition", "not in mixture.components"),
+    (("0.58 }", "0.68 }"), "feed.composition", "sum to 1.1"),
+    (("180 kmol/h", "-180 kmol/h"), "feed.flow", "not positive"),
+    (("flow = \"180 kmol/h\"\n", ""), "flow", "missing field"),
+    (("method = \"ideal\"", "method = \"magic\""), "mixture.method", "unknown method 'magic'"),
+    (("1.15 bar", "900 bar"), "column.top_pressure", "900 bar absolute"),
+    (("1.15 bar", "0.001 bar"), "column.top_pressure", "allowed: 0.01 to 50 bar"),
+    (("1.15 bar", "1.15 furlongs"), "column.top_pressure", "unknown pressure unit"),
+    (("q = 1.0", "q = 1.0\ntemperature = \"90 degC\""), "feed", "2 thermal conditions"),
+    (("0.985", "1.5"), "products.distillate_light_key_fraction", "not a fraction"),
+])
+def test_bad_field_named_with_exit_code_2(tmp_path, capsys, edit, field, fragment):
+    """Every user mistake is named by its field and exits with code 2 without a traceback."""
+    text = BASE.replace(*edit)
+    assert text != BASE
+    code, err = run_cli(tmp_path, text, capsys)
+    assert code == 2
+    assert f"{field}" in err and fragment in err
+    assert "Traceback" not in err
+
+
+def test_misspelled_component_lists_close_matches(tmp_path, capsys):
+    """An unknown component name is reported with close matches from the databank."""
+    text = BASE.replace('["benzene", "toluene"]', '["benzene", "tolunee"]').replace(
+        "{ benzene = 0.42, toluene = 0.58 }", "[0.42, 0.58]")
+    code, err = run_cli(tmp_path, text, capsys)
+    assert code == 2
+    assert "mixture.components: unknown component 'tolunee'" in err
+    assert "toluene" in err.split("close matches")[1]
+
+
+def test_design_with_bad_input_writes_no_file(tmp_path, capsys):
+    """A failed run leaves no result file behind."""
+    code, _ = run_cli(tmp_path, BASE.replace('["benzene", "toluene"]', '["benzene", "tolunee"]').replace(
+        "{ benzene = 0.42, toluene = 0.58 }", "[0.42, 0.58]"), capsys, command="design")
+    assert code == 2
+    assert not (tmp_path / "out" / "result.json").exists()
+
+
+def test_not_toml(tmp_path):
+    path = tmp_path / "case.toml"
+    path.write_text("title = \n")
+    with pytest.raises(CaseError, match="not valid TOML"):
+        load_case(path)
+
+
+@pytest.mark.parametrize("text, kind, expected", [
+    ("120 kmol/h", "flow", 120e3 / 3600),
+    ("12 t/h", "flow", 12e3 / 3600),
+    ("1.2 bar", "pressure", 1.2e5),
+    ("1.2 bara", "pressure", 1.2e5),
+    ("2 barg", "pressure", 2e5 + 101325.0),
+    ("14.696 psia", "pressure", 101325.0),
+    ("85 degC", "temperature", 358.15),
+    ("212 degF", "temperature", 373.15),
+    ("0.7 kPa", "pressure difference", 700.0),
+])
+def test_units_to_si(text, kind, expected):
+    """Unit conversions against the defining values (1 psi = 6894.757 Pa, NIST SP 811 appendix B)."""
+    value, _ = parse_quantity(text, kind, "field")
+    assert value == pytest.approx(expected, rel=1e-5)
+
+
+def test_design_writes_result_json(tmp_path, capsys):
+    """The design command writes result.json with units in the keys."""
+    code, _ = run_cli(tmp_path, BASE, capsys, command="design")
+    assert code == 0
+    data = json.loads((tmp_path / "out" / "result.json").read_text())
+    assert data["schema_version"] == 1
+    assert data["feed"]["molar_flow_kmol_per_h"] == pytest.approx(180.0)
+    assert data["mixture"]["components"][0]["normal_boiling_point_degC"] == pytest.approx(80.1, abs=0.1)

@@ -1,0 +1,249 @@
+"""Algebraic forms fitted to the mixture over a column's temperature range, for equation models.
+
+The optimisation model cannot call thermo, so it uses small closed forms fitted here to
+the :class:`Mixture` over the range the column can reach, and it bounds every stage
+temperature to that range:
+
+* vapour pressure per component: ln(Psat/Pa) = A + B/T + C ln T (Riedel's three-term form,
+  linear least squares);
+* liquid non-ideality (activity-coefficient methods): NRTL with tau_ij = a_ij + b_ij/T and
+  alpha = 0.3, each pair fitted to the method's binary activity coefficients;
+* Peng-Robinson: ln K_i = a_i + b_i/T + c_i ln(P/Pa), fitted at the feed composition;
+* pure-component liquid and ideal-gas enthalpies (quadratic in T), liquid molar volume and
+  surface tension (linear in T), mixed by mole fraction.
+
+Every evaluator takes the exponential/logarithm as arguments (default ``math``), so the
+equation model builds the same algebra from Pyomo's functions: one formula, two uses.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import brentq, least_squares
+
+from .._base.errors import PropertyError
+from .binary import all_azeotropes
+from .mixture import Mixture
+
+NRTL_ALPHA = 0.3  # non-randomness fixed at a common value for fitted forms (common practice, no source)
+RANGE_MARGIN = 5.0  # K added at both ends of the column range
+T_POINTS = 12
+X_GRID = (0.01, 0.05, 0.15, 0.3, 0.5, 0.7, 0.85, 0.95, 0.99)
+GAS_CONSTANT = 8.314462618  # J/(mol K)
+
+
+@dataclass(frozen=True)
+class FittedMixture:
+    """Fitted closed forms of one mixture, valid for T_low <= T <= T_high [K].
+
+    ``form`` is "ideal" (Raoult), "nrtl" (modified Raoult with fitted NRTL) or "k-fit"
+    (Peng-Robinson K-values). Unused parameter groups are empty tuples.
+    """
+
+    names: tuple[str, ...]
+    form: str
+    T_low: float  # K
+    T_high: float  # K
+    P_low: float  # Pa
+    P_high: float  # Pa
+    antoine: tuple[tuple[float, float, float], ...]  # A [-], B [K], C [-]: ln(Psat/Pa)
+    nrtl_a: tuple[tuple[float, ...], ...]  # [-]
+    nrtl_b: tuple[tuple[float, ...], ...]  # [K]
+    k_fit: tuple[tuple[float, float, float], ...]  # a [-], b [K], c [-]: ln K
+    liquid_enthalpy: tuple[tuple[float, float, float], ...]  # J/mol, J/(mol K), J/(mol K^2) about T_low
+    vapour_enthalpy: tuple[tuple[float, float, float], ...]
+    liquid_volume: tuple[tuple[float, float], ...]  # m^3/mol, m^3/(mol K) about T_low
+    surface_tension: tuple[tuple[float, float], ...]  # N/m, N/(m K) about T_low
+    molar_masses: tuple[float, ...]  # kg/mol
+
+    @property
+    def size(self) -> int:
+        return len(self.names)
+
+    # ----------------------------------------------------------- equilibrium
+    def ln_vapour_pressure(self, i: int, T, log=math.log):
+        """ln(Psat_i / Pa) at ``T`` [K]."""
+        A, B, C = self.antoine[i]
+        return A + B / T + C * log(T)
+
+    def ln_gamma(self, T, x, exp=math.exp):
+        """NRTL ln(gamma_i) [-] for liquid ``x`` [-] at ``T`` [K] (zeros for the ideal form)."""
+        n = self.size
+        if self.form != "nrtl":
+            return [0.0 * T for _ in range(n)]
+        tau = [[self.nrtl_a[i][j] + self.nrtl_b[i][j] / T for j in range(n)] for i in range(n)]
+        G = [[exp(-NRTL_ALPHA * tau[i][j]) if i != j else 1.0 for j in range(n)] for i in range(n)]
+        den = [sum(G[k][j] * x[k] for k in range(n)) for j in range(n)]
+        num = [sum(x[m] * tau[m][j] * G[m][j] for m in range(n)) for j in range(n)]
+        return [num[i] / den[i] + sum(x[j] * G[i][j] / den[j] * (tau[i][j] - num[j] / den[j]) for j in range(n))
+                for i in range(n)]
+
+    def ln_k(self, T, P, x, exp=math.exp, log=math.log):
+        """ln K_i = ln(y_i/x_i) [-] at ``T`` [K], ``P`` [Pa] (a float) and liquid ``x`` [-]."""
+        if self.form == "k-fit":
+            return [a + b / T + c * math.log(P) for a, b, c in self.k_fit]
+        ln_g = self.ln_gamma(T, x, exp)
+        return [self.ln_vapour_pressure(i, T, log) + ln_g[i] - math.log(P) for i in range(self.size)]
+
+    def k_values(self, T: float, P: float, x) -> np.ndarray:
+        """K_i [-] as floats."""
+        return np.exp(np.array(self.ln_k(T, P, list(x)), dtype=float))
+
+    def bubble_temperature(self, P: float, x) -> float:
+        """Bubble temperature [K] of liquid ``x`` at ``P`` [Pa] from the fitted forms."""
+        x = list(x)
+
+        def residual(T):
+            return math.log(float(np.dot(self.k_values(T, P, x), x)))
+
+        low, high = self.T_low - 50.0, self.T_high + 50.0
+        if residual(low) * residual(high) > 0.0:
+            raise PropertyError(f"fitted forms give no bubble point for x={np.round(x, 6).tolist()} at {P:.6g} Pa")
+        return brentq(residual, low, high, xtol=1e-9)
+
+    # ----------------------------------------------------------- caloric and physical
+    def _poly(self, coeffs, T):
+        dT = T - self.T_low
+        return sum(c * dT ** k for k, c in enumerate(coeffs))
+
+    def liquid_enthalpy_of(self, T, x):
+        """Liquid molar enthalpy [J/mol], ideal mixing of the fitted pure liquids."""
+        return sum(x[i] * self._poly(self.liquid_enthalpy[i], T) for i in range(self.size))
+
+    def vapour_enthalpy_of(self, T, y):
+        """Vapour molar enthalpy [J/mol], ideal-gas mixing."""
+        return sum(y[i] * self._poly(self.vapour_enthalpy[i], T) for i in range(self.size))
+
+    def liquid_molar_volume(self, T, x):
+        """Liquid molar volume [m^3/mol], additive volumes."""
+        return sum(x[i] * self._poly(self.liquid_volume[i], T) for i in range(self.size))
+
+    def surface_tension_of(self, T, x):
+        """Surface tension [N/m], mole-fraction average of the pure liquids."""
+        return sum(x[i] * self._poly(self.surface_tension[i], T) for i in range(self.size))
+
+    def molar_mass(self, x):
+        """Mean molar mass [kg/mol]."""
+        return sum(x[i] * self.molar_masses[i] for i in range(self.size))
+
+
+def column_temperature_range(mixture: Mixture, P_low: float, P_high: float,
+                             margin: float = RANGE_MARGIN) -> tuple[float, float]:
+    """Temperatures [K] a column between ``P_low`` and ``P_high`` [Pa] can reach, with a margin.
+
+    From the lightest component's saturation temperature at the top pressure (or a lower
+    azeotrope) to the heaviest one's at the bottom pressure.
+    """
+    low = float(mixture.saturation_temperatures(P_low).min())
+    high = float(mixture.saturation_temperatures(P_high).max())
+    if mixture.method not in ("ideal", "peng-robinson"):
+        for azeotrope in all_azeotropes(mixture, P_low):
+            low = min(low, azeotrope.T)
+        for azeotrope in all_azeotropes(mixture, P_high):
+            high = max(high, azeotrope.T)
+    return low - margin, high + margin
+
+
+def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
+                T_range: tuple[float, float] | None = None) -> FittedMixture:
+    """Fit the closed forms to ``mixture`` for a column between ``P_low`` and ``P_high`` [Pa].
+
+    ``z`` [-] is the composition used for the Peng-Robinson K fit (default equimolar).
+    """
+    T_low, T_high = T_range or column_temperature_range(mixture, P_low, P_high)
+    Ts = np.linspace(T_low, T_high, T_POINTS)
+    n = mixture.size
+    psat = np.array([mixture.vapour_pressures(T) for T in Ts])
+    basis = np.column_stack([np.ones_like(Ts), 1.0 / Ts, np.log(Ts)])
+    antoine = tuple(tuple(map(float, np.linalg.lstsq(basis, np.log(psat[:, i]), rcond=None)[0])) for i in range(n))
+    zero = tuple(tuple(0.0 for _ in range(n)) for _ in range(n))
+    nrtl_a, nrtl_b, k_fit = zero, zero, ()
+    if mixture.method == "peng-robinson":
+        form = "k-fit"
+        k_fit = _fit_k(mixture, Ts, P_low, P_high, np.full(n, 1.0 / n) if z is None else np.asarray(z))
+    elif mixture.method == "ideal":
+        form = "ideal"
+    else:
+        form = "nrtl"
+        nrtl_a, nrtl_b = _fit_nrtl(mixture, Ts[:: max(1, T_POINTS // 4)], P_low)
+    unit = np.eye(n)
+    P_mid = 0.5 * (P_low + P_high)
+
+    def quad(values):
+        return tuple(float(c) for c in np.polynomial.polynomial.polyfit(Ts - T_low, values, 2))
+
+    def line(values):
+        return tuple(float(c) for c in np.polynomial.polynomial.polyfit(Ts - T_low, values, 1))
+
+    return FittedMixture(
+        names=mixture.names, form=form, T_low=float(T_low), T_high=float(T_high), P_low=P_low, P_high=P_high,
+        antoine=antoine, nrtl_a=nrtl_a, nrtl_b=nrtl_b, k_fit=k_fit,
+        liquid_enthalpy=tuple(quad([mixture.liquid_enthalpy(T, P_mid, unit[i]) for T in Ts]) for i in range(n)),
+        vapour_enthalpy=tuple(quad([mixture.vapour_enthalpy(T, P_mid, unit[i]) for T in Ts]) for i in range(n)),
+        liquid_volume=tuple(line([mixture.molar_masses[i] / mixture.liquid_density(T, P_mid, unit[i]) for T in Ts])
+                            for i in range(n)),
+        surface_tension=tuple(line([mixture.surface_tension(T, unit[i]) for T in Ts]) for i in range(n)),
+        molar_masses=tuple(float(m) for m in mixture.molar_masses))
+
+
+def _fit_k(mixture: Mixture, Ts, P_low: float, P_high: float, z) -> tuple[tuple[float, float, float], ...]:
+    Ps = np.linspace(P_low, P_high, 3) if P_high > P_low else np.array([P_low])
+    rows, lnk = [], []
+    for T in Ts:
+        for P in Ps:
+            rows.append([1.0, 1.0 / T, math.log(P)])
+            lnk.append(np.log(mixture.k_values(T, P, z)))
+    rows, lnk = np.array(rows), np.array(lnk)
+    if len(Ps) == 1:  # no pressure spread: fold ln P into the constant
+        coef = np.linalg.lstsq(rows[:, :2], lnk, rcond=None)[0]
+        coef = np.vstack([coef[0] - math.log(P_low), coef[1], np.ones(mixture.size)])
+    else:
+        coef = np.linalg.lstsq(rows, lnk, rcond=None)[0]
+    return tuple(tuple(float(v) for v in coef[:, i]) for i in range(mixture.size))
+
+
+def _fit_nrtl(mixture: Mixture, Ts, P: float):
+    """NRTL pair parameters fitted to the mixture's binary ln(gamma) over ``Ts`` and ``X_GRID``."""
+    n = mixture.size
+    a = np.zeros((n, n))
+    b = np.zeros((n, n))
+    for i in range(n):
+        for j in range(i + 1, n):
+            points = []
+            for T in Ts:
+                psat = mixture.vapour_pressures(T)
+                for xi in X_GRID:
+                    x = np.zeros(n)
+                    x[i], x[j] = xi, 1.0 - xi
+                    gamma = mixture.k_values(T, P, x) * P / psat
+                    points.append((T, xi, math.log(gamma[i]), math.log(gamma[j])))
+            a[i, j], a[j, i], b[i, j], b[j, i] = _fit_pair(np.array(points))
+    return tuple(map(tuple, a.tolist())), tuple(map(tuple, b.tolist()))
+
+
+def _binary_nrtl(p, T, x1):
+    a12, a21, b12, b21 = p
+    t12, t21 = a12 + b12 / T, a21 + b21 / T
+    g12, g21 = np.exp(-NRTL_ALPHA * t12), np.exp(-NRTL_ALPHA * t21)
+    x2 = 1.0 - x1
+    ln1 = x2 ** 2 * (t21 * (g21 / (x1 + x2 * g21)) ** 2 + t12 * g12 / (x2 + x1 * g12) ** 2)
+    ln2 = x1 ** 2 * (t12 * (g12 / (x2 + x1 * g12)) ** 2 + t21 * g21 / (x1 + x2 * g21) ** 2)
+    return ln1, ln2
+
+
+def _fit_pair(points: np.ndarray) -> tuple[float, float, float, float]:
+    T, x1, ln1, ln2 = points.T
+    scale = 1.0 / np.mean(T)  # b is fitted in units of the mean T so both parameters are O(1)
+
+    def residual(p):
+        m1, m2 = _binary_nrtl((p[0], p[1], p[2] / scale, p[3] / scale), T, x1)
+        return np.concatenate([m1 - ln1, m2 - ln2])
+
+    fit = least_squares(residual, np.zeros(4), method="lm")
+    return float(fit.x[0]), float(fit.x[1]), float(fit.x[2] / scale), float(fit.x[3] / scale)
+
+
+__all__ = ["FittedMixture", "column_temperature_range", "fit_mixture", "GAS_CONSTANT", "NRTL_ALPHA"]

@@ -1,0 +1,151 @@
+"""Shortcut design of a column on the mixture's phase behaviour: Fenske-Underwood-Gilliland.
+
+Relative volatilities come from the mixture's K-values: at the bubble point of the
+distillate (top pressure), of the bottoms (bottom pressure) and of the feed (feed
+pressure). Fenske uses the geometric mean of top and bottom values; Underwood uses the
+feed values, because the pinch that sets the minimum reflux sits at the feed.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from .._base.errors import InfeasibleSpecError
+from ..case import Column, Products
+from ..properties import FeedState, Mixture, find_azeotropes
+from .correlations import (fenske_minimum_stages, kirkbride_feed_stage, kirkbride_ratio,
+                           stages_from_gilliland, underwood_minimum_vapour)
+from .splits import ProductSplit, check_binary_azeotropes, product_split
+
+STAGE_ESTIMATE = 2.0  # N ~ 2 Nmin for the bottom pressure estimate (common practice, no source)
+ALPHA_PASSES = 3  # volatility <-> product composition passes; the split changes < 1e-4 after 3
+REFLUX_FACTORS = (1.05, 1.1, 1.2, 1.3, 1.5, 1.75, 2.0, 2.5, 3.0)
+
+
+@dataclass(frozen=True)
+class ShortcutPoint:
+    """One row of the reflux-stages trade-off: R [-], R/Rmin [-], stages N [-], feed stage [-]."""
+
+    reflux_ratio: float
+    reflux_factor: float
+    stages: float  # Gilliland, fractional, reboiler included
+    whole_stages: int  # rounded up
+    feed_stage: int  # Kirkbride, from the top
+
+
+@dataclass(frozen=True)
+class ShortcutDesign:
+    """Fenske-Underwood-Gilliland result. Volatilities are referred to the heavy key [-]."""
+
+    light_key: int
+    heavy_key: int
+    feed_flow: float  # mol/s
+    feed_q: float  # -
+    z: tuple[float, ...]
+    split: ProductSplit
+    alpha_top: tuple[float, ...]
+    alpha_bottom: tuple[float, ...]
+    alpha_feed: tuple[float, ...]
+    top_temperature: float  # K, bubble point of the distillate
+    bottom_temperature: float  # K, bubble point of the bottoms
+    top_pressure: float  # Pa
+    bottom_pressure: float  # Pa, estimated at STAGE_ESTIMATE x Nmin stages
+    minimum_stages: float  # Fenske, reboiler included
+    minimum_reflux: float  # Underwood
+    underwood_roots: tuple[float, ...]
+
+    @property
+    def alpha_mean(self) -> tuple[float, ...]:
+        """Geometric mean of top and bottom volatilities [-]."""
+        return tuple(math.sqrt(a * b) for a, b in zip(self.alpha_top, self.alpha_bottom))
+
+    @property
+    def distillate_flow(self) -> float:
+        return self.split.distillate_flow
+
+    @property
+    def bottoms_flow(self) -> float:
+        return self.split.bottoms_flow
+
+    def stages(self, reflux_ratio: float) -> float:
+        """Equilibrium stages (reboiler included) at ``reflux_ratio`` by Gilliland [-]."""
+        return stages_from_gilliland(self.minimum_stages, self.minimum_reflux, reflux_ratio)
+
+    def feed_stage(self, stages: float) -> int:
+        """Feed stage from the top for ``stages`` equilibrium stages, by Kirkbride [-]."""
+        xd = self.split.distillate_composition
+        xb = self.split.bottoms_composition
+        ratio = kirkbride_ratio(self.z[self.light_key], self.z[self.heavy_key], xb[self.light_key],
+                                xd[self.heavy_key], self.bottoms_flow, self.distillate_flow)
+        return kirkbride_feed_stage(stages, ratio)
+
+    def point(self, reflux_factor: float) -> ShortcutPoint:
+        """The trade-off row at R = reflux_factor x Rmin."""
+        reflux = reflux_factor * self.minimum_reflux
+        n = self.stages(reflux)
+        return ShortcutPoint(reflux, reflux_factor, n, math.ceil(n - 1e-9), self.feed_stage(math.ceil(n - 1e-9)))
+
+    def table(self, factors=REFLUX_FACTORS) -> tuple[ShortcutPoint, ...]:
+        """Stages and feed stage against R/Rmin (default 1.05 to 3)."""
+        return tuple(self.point(f) for f in factors)
+
+
+def _alpha_at_bubble(mixture: Mixture, pressure: float, x, heavy: int) -> tuple[np.ndarray, float]:
+    point = mixture.bubble_point(pressure, x)
+    k = mixture.k_values(point.T, pressure, point.x, point.y)
+    return k / k[heavy], point.T
+
+
+def minimum_reflux_underwood(alpha, z, q: float, split: ProductSplit) -> tuple[float, tuple[float, ...]]:
+    """Underwood minimum reflux L0/D [-] and the roots used, with the impossible cases explained."""
+    alpha = np.asarray(alpha, dtype=float)
+    light, heavy = split.light_key, split.heavy_key
+    v_min, _, roots = underwood_minimum_vapour(alpha, np.asarray(z, dtype=float), q,
+                                               np.asarray(split.distillate), light, heavy)
+    r_min = v_min / split.distillate_flow - 1.0
+    if not math.isfinite(r_min):
+        raise InfeasibleSpecError("Underwood's equations have no root between the key volatilities; "
+                                  "check that the keys differ in volatility at column conditions")
+    if r_min <= 0.0:
+        raise InfeasibleSpecError(
+            f"Underwood's equations give a minimum vapour flow {v_min:.4g} mol/s that is not above the "
+            f"distillate flow {split.distillate_flow:.4g} mol/s: the specified split is looser than "
+            f"the feed itself provides at q = {q:.3g} (no reflux would be needed, a flash or a stripping "
+            "column does it); tighten the key specifications or change the feed condition")
+    return float(r_min), roots
+
+
+def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, column: Column) -> ShortcutDesign:
+    """Fenske minimum stages, Underwood minimum reflux and the product split for the case.
+
+    For a binary the products are checked against the azeotropes of the pair at the top
+    pressure.
+    """
+    z = np.asarray(feed.z, dtype=float)
+    light, heavy = products.light_key, products.heavy_key
+    P_top = column.top_pressure
+    alpha_feed, _ = _alpha_at_bubble(mixture, feed.pressure, z, heavy)
+    alpha_top = alpha_bottom = alpha_feed
+    P_bottom = P_top
+    T_top = T_bottom = math.nan
+    split = product_split(products, z, feed.molar_flow, alpha_feed)
+    if mixture.size == 2 and mixture.method != "ideal":
+        check_binary_azeotropes(split, z, find_azeotropes(mixture, P_top, light, heavy))
+    for _ in range(ALPHA_PASSES):
+        alpha_top, T_top = _alpha_at_bubble(mixture, P_top, split.distillate_composition, heavy)
+        n_min = fenske_minimum_stages(split.distillate[light], split.bottoms[light], split.distillate[heavy],
+                                      split.bottoms[heavy], math.sqrt(alpha_top[light] * alpha_bottom[light]))
+        P_bottom = P_top + column.pressure_drop_per_stage * STAGE_ESTIMATE * max(n_min, 1.0)
+        alpha_bottom, T_bottom = _alpha_at_bubble(mixture, P_bottom, split.bottoms_composition, heavy)
+        split = product_split(products, z, feed.molar_flow, np.sqrt(alpha_top * alpha_bottom))
+    alpha_mean = np.sqrt(alpha_top * alpha_bottom)
+    n_min = fenske_minimum_stages(split.distillate[light], split.bottoms[light], split.distillate[heavy],
+                                  split.bottoms[heavy], alpha_mean[light])
+    r_min, roots = minimum_reflux_underwood(alpha_feed, z, feed.q, split)
+    return ShortcutDesign(light, heavy, feed.molar_flow, feed.q, tuple(map(float, z)), split,
+                          tuple(map(float, alpha_top)), tuple(map(float, alpha_bottom)),
+                          tuple(map(float, alpha_feed)), float(T_top), float(T_bottom), P_top, P_bottom,
+                          float(n_min), r_min, roots)

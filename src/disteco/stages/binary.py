@@ -1,0 +1,214 @@
+"""McCabe-Thiele stage stepping on the real equilibrium curve of a binary (or key pair).
+
+The curve is tabulated once from the mixture's bubble points at one pressure and
+interpolated monotonically (PCHIP); stepping, the minimum reflux (feed pinch or tangent
+pinch) and the total-reflux minimum stages all work on that table. Mole fractions are of
+the light key. Constant molar overflow is assumed, as in the method.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.interpolate import PchipInterpolator
+from scipy.optimize import brentq
+
+from .._base.errors import ConvergenceError, InfeasibleSpecError
+from ..properties import Mixture
+
+CURVE_POINTS = 161
+END_POINTS = 12  # extra points geometrically close to each pure end, where high purities are stepped
+MAX_STEPS = 2000
+PINCH_GRID = 4001
+REFLUX_CEILING = 1e4  # above this the split is treated as unreachable at any reflux
+
+
+@dataclass(frozen=True)
+class EquilibriumCurve:
+    """Tabulated y(x) of the light key at one pressure [Pa]; x, y [-] increasing in x."""
+
+    x: tuple[float, ...]
+    y: tuple[float, ...]
+    pressure: float
+
+    def __post_init__(self):
+        object.__setattr__(self, "_y_of_x", PchipInterpolator(np.array(self.x), np.array(self.y)))
+
+    def y_of(self, x):
+        """Vapour mole fraction in equilibrium with liquid ``x`` [-]."""
+        return self._y_of_x(x)
+
+    def x_of(self, y: float) -> float:
+        """Liquid mole fraction in equilibrium with vapour ``y`` [-] (inverse of the curve)."""
+        y_grid = np.array(self.y)
+        if not np.all(np.diff(y_grid) > 0.0):
+            raise InfeasibleSpecError("the equilibrium curve is not monotone (liquid-liquid split); "
+                                      "stage stepping needs a single liquid phase")
+        return float(brentq(lambda x: float(self._y_of_x(x)) - y, self.x[0], self.x[-1], xtol=1e-14))
+
+
+@dataclass(frozen=True)
+class MinimumReflux:
+    """Minimum reflux from the curve: L0/D [-], the pinch point (x, y) [-] and its kind."""
+
+    reflux_ratio: float
+    pinch_x: float
+    pinch_y: float
+    kind: str  # "feed pinch" or "tangent pinch"
+
+
+@dataclass(frozen=True)
+class SteppedColumn:
+    """A McCabe-Thiele construction.
+
+    ``stages`` counts equilibrium stages with the reboiler, the last one fractional;
+    ``feed_stage`` is the optimal one from the top; ``steps`` the corner points (x, y) of
+    the staircase starting at (x_D, x_D), for diagrams.
+    """
+
+    reflux_ratio: float
+    stages: float
+    feed_stage: int
+    steps: tuple[tuple[float, float], ...]
+    x_distillate: float
+    x_bottoms: float
+    z: float
+    q: float
+    partial_condenser: bool
+
+
+def equilibrium_curve(mixture: Mixture, pressure: float, light: int = 0, heavy: int = 1,
+                      points: int = CURVE_POINTS) -> EquilibriumCurve:
+    """Tabulate the light key's y(x) from bubble points at ``pressure`` [Pa]."""
+    inner = 0.5 - 0.5 * np.cos(np.linspace(0.0, math.pi, points))
+    ends = np.geomspace(1e-7, inner[1], END_POINTS, endpoint=False)
+    xs = np.unique(np.concatenate([inner[1:-1], ends, 1.0 - ends]))
+    ys = []
+    for x1 in xs:
+        z = np.zeros(mixture.size)
+        z[light], z[heavy] = x1, 1.0 - x1
+        point = mixture.bubble_point(pressure, z)
+        ys.append(point.y[light] / (point.y[light] + point.y[heavy]))
+    x = np.concatenate([[0.0], xs, [1.0]])
+    y = np.concatenate([[0.0], ys, [1.0]])
+    return EquilibriumCurve(tuple(map(float, x)), tuple(map(float, y)), pressure)
+
+
+def _intersection(x_d: float, z: float, q: float, reflux: float) -> float:
+    """x where the rectifying operating line meets the q-line: ((q-1) x_D + (R+1) z)/(q + R)."""
+    return ((q - 1.0) * x_d + (reflux + 1.0) * z) / (q + reflux)
+
+
+def _operating_lines(x_d: float, x_b: float, z: float, q: float, reflux: float):
+    """Return x_int and a vectorised y_op(x) of both sections."""
+    x_int = min(max(_intersection(x_d, z, q, reflux), x_b), x_d)
+    y_int = (reflux * x_int + x_d) / (reflux + 1.0)
+    slope_s = (y_int - x_b) / (x_int - x_b) if x_int > x_b else math.inf
+
+    def y_op(x):
+        x = np.asarray(x, dtype=float)
+        return np.where(x >= x_int, (reflux * x + x_d) / (reflux + 1.0), x_b + slope_s * (x - x_b))
+
+    return x_int, y_op
+
+
+def _check_fractions(x_d: float, x_b: float, z: float) -> None:
+    if not 0.0 < x_b < z < x_d < 1.0:
+        raise InfeasibleSpecError(
+            f"light-key mole fractions must satisfy bottoms < feed < distillate, strictly between 0 and 1; "
+            f"got bottoms {x_b:.6g}, feed {z:.6g}, distillate {x_d:.6g}")
+
+
+def minimum_reflux(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q: float) -> MinimumReflux:
+    """Smallest reflux at which both operating lines stay below the equilibrium curve.
+
+    The gap between curve and operating lines is checked on a fine grid from x_B to x_D,
+    so a tangent pinch inside a section is found as well as the pinch at the feed.
+    """
+    _check_fractions(x_d, x_b, z)
+    grid = np.linspace(x_b, x_d, PINCH_GRID)[1:-1]
+    y_eq = curve.y_of(grid)
+
+    def gap(reflux: float) -> float:
+        _, y_op = _operating_lines(x_d, x_b, z, q, reflux)
+        return float(np.min(y_eq - y_op(grid)))
+
+    low, high = 1e-9, 1.0
+    while gap(high) <= 0.0:
+        high *= 4.0
+        if high > REFLUX_CEILING:
+            raise InfeasibleSpecError(
+                f"no reflux reaches a distillate of {x_d:.6g} and bottoms of {x_b:.6g}: the operating lines "
+                "cross the equilibrium curve at any reflux (an azeotrope or a pinch lies between the products)")
+    if gap(low) > 0.0:
+        raise InfeasibleSpecError(
+            f"the split (distillate {x_d:.6g}, bottoms {x_b:.6g}) needs no reflux at this feed condition "
+            f"(q = {q:.3g}): a minimum reflux is not defined; tighten the purities or use a stripping column")
+    r_min = brentq(gap, low, high, xtol=1e-10, rtol=1e-10)
+    _, y_op = _operating_lines(x_d, x_b, z, q, r_min)
+    i = int(np.argmin(y_eq - y_op(grid)))
+    x_int = _intersection(x_d, z, q, r_min)
+    kind = "feed pinch" if abs(grid[i] - x_int) <= 2.0 * (x_d - x_b) / PINCH_GRID else "tangent pinch"
+    return MinimumReflux(float(r_min), float(grid[i]), float(y_eq[i]), kind)
+
+
+def step_stages(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q: float, reflux: float,
+                partial_condenser: bool = False) -> SteppedColumn:
+    """Step off ideal stages from the top, switching to the stripping line at the optimum feed.
+
+    The last stage counts as the fraction of its step that is needed to reach x_B. With a
+    partial condenser the first step is the condenser and is not counted in ``stages``.
+    """
+    r_min = minimum_reflux(curve, x_d, x_b, z, q)
+    if reflux <= r_min.reflux_ratio:
+        raise InfeasibleSpecError(f"reflux ratio {reflux:.4g} is at or below the minimum reflux "
+                                  f"{r_min.reflux_ratio:.4g} ({r_min.kind} at x = {r_min.pinch_x:.4g}); "
+                                  "choose a larger reflux ratio")
+    x_int, _ = _operating_lines(x_d, x_b, z, q, reflux)
+    slope_s = ((reflux * x_int + x_d) / (reflux + 1.0) - x_b) / (x_int - x_b)
+    steps = [(x_d, x_d)]
+    x_prev, y = x_d, x_d
+    feed_stage, count = 0, 0.0
+    for n in range(1, MAX_STEPS + 1):
+        x = curve.x_of(y)
+        steps.append((x, y))
+        if x <= x_b:
+            count = n - 1 + (x_prev - x_b) / (x_prev - x)
+            break
+        if feed_stage == 0 and x <= x_int:
+            feed_stage = n
+        stripping = feed_stage != 0
+        y = x_b + slope_s * (x - x_b) if stripping else (reflux * x + x_d) / (reflux + 1.0)
+        steps.append((x, y))
+        x_prev = x
+    else:
+        raise ConvergenceError(f"more than {MAX_STEPS} stages at reflux {reflux:.4g}; too close to the minimum")
+    if feed_stage == 0:
+        feed_stage = math.ceil(count)
+    if partial_condenser:
+        count -= 1.0
+        feed_stage = max(feed_stage - 1, 1)
+    return SteppedColumn(float(reflux), float(count), int(feed_stage), tuple(steps), x_d, x_b, z, q,
+                         partial_condenser)
+
+
+def total_reflux_stages(curve: EquilibriumCurve, x_d: float, x_b: float) -> SteppedColumn:
+    """Minimum number of stages: steps between the curve and the diagonal (total reflux)."""
+    steps = [(x_d, x_d)]
+    x_prev, y, count = x_d, x_d, 0.0
+    for n in range(1, MAX_STEPS + 1):
+        x = curve.x_of(y)
+        steps.append((x, y))
+        if x <= x_b:
+            count = n - 1 + (x_prev - x_b) / (x_prev - x)
+            break
+        if x >= x_prev:
+            raise InfeasibleSpecError(f"the equilibrium curve meets the diagonal at x = {x:.4g} "
+                                      "(an azeotrope) between the products; no number of stages reaches them")
+        steps.append((x, x))
+        x_prev, y = x, x
+    else:
+        raise ConvergenceError(f"more than {MAX_STEPS} stages at total reflux")
+    return SteppedColumn(math.inf, float(count), 0, tuple(steps), x_d, x_b, math.nan, math.nan, False)

@@ -1,0 +1,270 @@
+"""Column shell: height, design conditions, wall and head thickness (ASME VIII-1), mass.
+
+A preliminary estimate for costing: wind, seismic and external-pressure loads, nozzles,
+supports and fabrication tolerances are not included (see :data:`CAUTION`).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from fluids.geometry import SA_ellipsoidal_head
+
+from .._base.errors import CorrelationRangeError
+from .._base.units import ATMOSPHERE
+from .materials import material
+
+MILLIMETRE = 1e-3  # m
+UG16_MINIMUM = 1.5 * MILLIMETRE  # m, 1/16 in, exclusive of corrosion allowance (ASME VIII-1 UG-16(b))
+THIN_WALL_LIMIT = 0.385  # P <= 0.385 S E for the UG-27(c)(1) formula
+
+CAUTION = ("Preliminary sizes for cost estimation only. The vessel must be designed to the "
+           "applicable pressure-vessel code (e.g. ASME Section VIII Division 1), including wind, "
+           "seismic, external-pressure and support loads, and checked by a qualified engineer.")
+
+# Minimum practical wall thickness for rigidity, including 2 mm corrosion allowance:
+# (largest inside diameter [m], thickness [m]). Towler and Sinnott, Chemical Engineering
+# Design, 2nd ed. (2013), Section 14.5 (from memory).
+_RIGIDITY = ((1.0, 5e-3), (2.0, 7e-3), (2.5, 9e-3), (3.0, 10e-3), (math.inf, 12e-3))
+_RIGIDITY_ALLOWANCE = 2e-3  # m, the corrosion allowance included in that table
+
+
+def shell_thickness_ug27(pressure, inside_radius, allowable_stress, joint_efficiency):
+    r"""Cylindrical shell thickness under internal pressure, ASME VIII-1 UG-27(c)(1).
+
+    .. math::
+        t = \frac{P R}{S E - 0.6 P}
+
+    Parameters
+    ----------
+    pressure : float
+        Internal design pressure, gauge [Pa]
+    inside_radius : float
+        Inside radius, corroded [m]
+    allowable_stress : float
+        Maximum allowable stress at the design temperature [Pa]
+    joint_efficiency : float
+        Longitudinal weld joint efficiency (UW-12) [-]
+
+    Returns
+    -------
+    float
+        Required thickness without corrosion allowance [m]
+
+    Notes
+    -----
+    Circumferential stress; valid for P <= 0.385 S E (raises CorrelationRangeError
+    otherwise: thick-wall rules of Appendix 1-2 apply). Any consistent units in the code.
+
+    Examples
+    --------
+    >>> round(shell_thickness_ug27(0.5e6, 0.75, 88.9e6, 0.85) * 1e3, 2)
+    4.98
+
+    References
+    ----------
+    1. ASME Boiler and Pressure Vessel Code, Section VIII Division 1, UG-27.
+    """
+    _check_thin_wall("UG-27 cylindrical shell", pressure, allowable_stress, joint_efficiency)
+    return pressure * inside_radius / (allowable_stress * joint_efficiency - 0.6 * pressure)
+
+
+def head_thickness_ug32(pressure, inside_diameter, allowable_stress, joint_efficiency):
+    r"""2:1 ellipsoidal head thickness under internal pressure, ASME VIII-1 UG-32(d).
+
+    .. math::
+        t = \frac{P D}{2 S E - 0.2 P}
+
+    Parameters
+    ----------
+    pressure : float
+        Internal design pressure, gauge [Pa]
+    inside_diameter : float
+        Inside diameter of the head skirt, corroded [m]
+    allowable_stress : float
+        Maximum allowable stress at the design temperature [Pa]
+    joint_efficiency : float
+        Weld joint efficiency (UW-12) [-]
+
+    Returns
+    -------
+    float
+        Required thickness without corrosion allowance [m]
+
+    Notes
+    -----
+    For heads whose half minor axis is one quarter of the inside diameter. Any consistent
+    units in the code.
+
+    Examples
+    --------
+    >>> round(head_thickness_ug32(0.5e6, 1.5, 88.9e6, 0.85) * 1e3, 2)
+    4.97
+
+    References
+    ----------
+    1. ASME Boiler and Pressure Vessel Code, Section VIII Division 1, UG-32(d).
+    """
+    _check_thin_wall("UG-32 ellipsoidal head", pressure, allowable_stress, joint_efficiency)
+    return pressure * inside_diameter / (2.0 * allowable_stress * joint_efficiency - 0.2 * pressure)
+
+
+def _check_thin_wall(rule: str, pressure: float, stress: float, efficiency: float) -> None:
+    limit = THIN_WALL_LIMIT * stress * efficiency
+    if pressure > limit:
+        raise CorrelationRangeError(rule, "design pressure", pressure, 0.0, limit, "Pa",
+                                    "ASME VIII-1: P <= 0.385 S E, thick-wall rules beyond")
+
+
+def minimum_thickness(inside_diameter: float, corrosion_allowance: float) -> float:
+    """Smallest nominal wall [m]: UG-16(b) 1.5 mm and the rigidity table, with corrosion allowance."""
+    rigidity = next(t for d, t in _RIGIDITY if inside_diameter <= d)
+    return max(UG16_MINIMUM + corrosion_allowance, rigidity - _RIGIDITY_ALLOWANCE + corrosion_allowance)
+
+
+def shell_mass(inside_diameter, tangent_length, shell_thickness, head_thickness, density):
+    r"""Mass of a cylindrical shell with two 2:1 ellipsoidal heads, from mid-wall areas.
+
+    .. math::
+        m = \rho\,[\pi D_m L t_s + 2 A_{head}(D_m) t_h],\quad D_m = D_i + t
+
+    Parameters
+    ----------
+    inside_diameter : float
+        Inside diameter [m]
+    tangent_length : float
+        Tangent-to-tangent length of the cylinder [m]
+    shell_thickness : float
+        Nominal shell thickness [m]
+    head_thickness : float
+        Nominal head thickness [m]
+    density : float
+        Density of the plate material [kg/m^3]
+
+    Returns
+    -------
+    float
+        Mass of shell and heads, without nozzles, internals, supports or skirt [kg]
+
+    Notes
+    -----
+    Head area by ``fluids.geometry.SA_ellipsoidal_head`` (depth D/4); straight flanges of the
+    heads are neglected.
+
+    Examples
+    --------
+    >>> round(shell_mass(1.5, 20.0, 0.008, 0.008, 7850.0))
+    6260
+
+    References
+    ----------
+    1. Bell, C., fluids library, ``fluids.geometry.SA_ellipsoidal_head``.
+    """
+    d_shell = inside_diameter + shell_thickness
+    d_head = inside_diameter + head_thickness
+    head_area = SA_ellipsoidal_head(d_head, d_head / 4.0)
+    return density * (math.pi * d_shell * tangent_length * shell_thickness + 2.0 * head_area * head_thickness)
+
+
+def design_pressure(operating_pressure: float, margin_fraction: float, margin_minimum: float) -> float:
+    """Internal design pressure, gauge [Pa]: the larger of (1 + f) P_g and P_g + minimum margin.
+
+    Common practice, no source. ``operating_pressure`` is the highest absolute pressure [Pa].
+    """
+    gauge = operating_pressure - ATMOSPHERE
+    return max(gauge * (1.0 + margin_fraction), gauge + margin_minimum)
+
+
+def _round_up(value: float, step: float) -> float:
+    return round(math.ceil(value / step - 1e-9) * step, 9)
+
+
+@dataclass(frozen=True)
+class VesselDesign:
+    """Shell and heads of the column (SI; pressures gauge)."""
+
+    material: str
+    material_class: str  # cost-data vocabulary: "CS", "LA", "SS"
+    design_pressure: float  # Pa, gauge
+    design_temperature: float  # K
+    allowable_stress: float  # Pa
+    joint_efficiency: float  # -
+    corrosion_allowance: float  # m
+    inside_diameter: float  # m
+    tangent_length: float  # m
+    shell_thickness_pressure: float  # m, UG-27 without corrosion allowance
+    head_thickness_pressure: float  # m, UG-32 without corrosion allowance
+    shell_thickness: float  # m, nominal: corrosion allowance, minimum thickness, rounded up to 1 mm
+    head_thickness: float  # m, nominal
+    mass: float  # kg, shell and heads
+    warnings: tuple[str, ...]
+    caution: str = CAUTION
+
+
+def design_vessel(inside_diameter: float, tangent_length: float, max_pressure: float, max_temperature: float,
+                  material_name: str, joint_efficiency: float, corrosion_allowance: float,
+                  pressure_margin_fraction: float, pressure_margin_minimum: float,
+                  temperature_margin: float) -> VesselDesign:
+    """Design conditions, thicknesses and mass of a column shell with 2:1 ellipsoidal heads.
+
+    ``max_pressure`` [Pa, absolute] and ``max_temperature`` [K] are operating maxima.
+    """
+    warnings = []
+    if max_pressure < ATMOSPHERE:
+        warnings.append(f"operating pressure {max_pressure / 1e5:.3g} bar is below atmospheric: the shell "
+                        "must also be checked for external pressure (ASME VIII-1 UG-28), not done here")
+    p_design = design_pressure(max_pressure, pressure_margin_fraction, pressure_margin_minimum)
+    t_design = max_temperature + temperature_margin
+    steel = material(material_name)
+    stress = steel.allowable_stress(t_design)
+    corroded = inside_diameter + 2.0 * corrosion_allowance
+    t_shell = shell_thickness_ug27(p_design, corroded / 2.0, stress, joint_efficiency)
+    t_head = head_thickness_ug32(p_design, corroded, stress, joint_efficiency)
+    floor = minimum_thickness(inside_diameter, corrosion_allowance)
+    nominal_shell = _round_up(max(t_shell + corrosion_allowance, floor), MILLIMETRE)
+    nominal_head = _round_up(max(t_head + corrosion_allowance, floor), MILLIMETRE)
+    mass = shell_mass(inside_diameter, tangent_length, nominal_shell, nominal_head, steel.density)
+    return VesselDesign(steel.name, steel.material_class, p_design, t_design, stress, joint_efficiency,
+                        corrosion_allowance, inside_diameter, tangent_length, t_shell, t_head,
+                        nominal_shell, nominal_head, mass, tuple(warnings))
+
+
+@dataclass(frozen=True)
+class ColumnHeight:
+    """Heights of the column [m] and the ratio to its diameter."""
+
+    real_trays: int
+    tray_spacing: float
+    tray_section: float  # trays x spacing
+    top_space: float  # disengagement above the top tray
+    sump_liquid: float  # liquid level for the residence time
+    bottom_space: float  # vapour space between liquid level and bottom tray
+    tangent_length: float  # tray section + top + sump + bottom space
+    skirt: float
+    overall: float  # tangent length + skirt
+    height_to_diameter: float  # tangent length / diameter [-]
+    warnings: tuple[str, ...]
+
+
+def column_height(real_trays: int, tray_spacing: float, diameter: float, sump_liquid_flow: float,
+                  residence_time: float, top_space: float, bottom_space: float, skirt: float,
+                  max_height: float, max_height_to_diameter: float) -> ColumnHeight:
+    """Tangent and overall height; warnings when common-practice limits are passed.
+
+    ``sump_liquid_flow`` [m^3/s] is the liquid leaving the bottom tray to the reboiler;
+    ``residence_time`` [s] of it is held in the sump of the column's cross-section.
+    """
+    tray_section = real_trays * tray_spacing
+    sump = sump_liquid_flow * residence_time / (math.pi * diameter ** 2 / 4.0)
+    tangent = tray_section + top_space + sump + bottom_space
+    ratio = tangent / diameter
+    warnings = []
+    if tangent > max_height:
+        warnings.append(f"column tangent height {tangent:.1f} m exceeds {max_height:.0f} m "
+                        "(common practice, no source): consider two shells or packing")
+    if ratio > max_height_to_diameter:
+        warnings.append(f"height-to-diameter ratio {ratio:.0f} exceeds {max_height_to_diameter:.0f} "
+                        "(common practice, no source): wind and seismic loads may govern the shell")
+    return ColumnHeight(real_trays, tray_spacing, tray_section, top_space, sump, bottom_space, tangent,
+                        skirt, tangent + skirt, ratio, tuple(warnings))

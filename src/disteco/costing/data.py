@@ -78,13 +78,15 @@ class CostData:
                             f"no row for item '{item}' (items: {', '.join(c.item for c in self.curves)})",
                             column="item")
 
-    def material_factor(self, group: str, material: str) -> MaterialFactor:
+    def material_factor(self, group: str, material: str | None) -> MaterialFactor:
+        """Material factor row; ``material`` None gives the group's base material (F_M = 1)."""
         for row in self.material_factors:
-            if row.material_group == group and row.material == material:
+            if row.material_group == group and (row.material == material or material is None and row.factor == 1.0):
                 return row
         known = [r.material for r in self.material_factors if r.material_group == group]
         raise CostDataError(self._file("material_factors.csv"),
-                            f"no material '{material}' for group '{group}' (materials: {', '.join(known)})",
+                            f"no material '{material}' for group '{group}'"
+                            + (" with factor 1" if material is None else "") + f" (materials: {', '.join(known)})",
                             column="material")
 
     def bare_module(self, group: str) -> BareModuleFactor:

@@ -1,1 +1,24 @@
-"""sizing layer."""
+"""Sizing layer: trays and diameter, efficiency, shell, condenser, reboiler, reflux drum and pump.
+
+Public entry point: :func:`size_column` with :class:`SizingOptions`; the correlations are
+small functions in the modules ``flooding``, ``efficiency``, ``vessel``, ``exchangers`` and
+``auxiliaries``.
+"""
+
+from .auxiliaries import DrumSizing, PumpSizing
+from .column import ColumnSizing, EquipmentItem, SizingProperties, size_column
+from .efficiency import TrayEfficiency, oconnell_efficiency_lockett, real_trays
+from .exchangers import ExchangerSizing, choose_utility, log_mean_temperature_difference, size_exchanger
+from .flooding import (FLOODING_METHODS, TrayHydraulics, capacity_factor_kessler_wankat,
+                       capacity_factor_lygeros_magoulas, flooding_diameter_smooth)
+from .materials import Material, load_materials, material
+from .options import SizingOptions
+from .utilities import UtilityLevel
+from .vessel import CAUTION, ColumnHeight, VesselDesign
+
+__all__ = ["CAUTION", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentItem", "ExchangerSizing",
+           "FLOODING_METHODS", "Material", "PumpSizing", "SizingOptions", "SizingProperties", "TrayEfficiency",
+           "TrayHydraulics", "UtilityLevel", "VesselDesign", "capacity_factor_kessler_wankat",
+           "capacity_factor_lygeros_magoulas", "choose_utility", "flooding_diameter_smooth",
+           "load_materials", "log_mean_temperature_difference", "material", "oconnell_efficiency_lockett",
+           "real_trays", "size_column", "size_exchanger"]

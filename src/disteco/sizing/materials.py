@@ -92,7 +92,11 @@ def _parse_row(row: dict, line: int) -> tuple:
 @lru_cache(maxsize=1)
 def load_materials() -> dict[str, Material]:
     """All materials of ``cost_data/allowable_stress.csv`` by name (read once)."""
-    text = (files("disteco.cost_data") / FILE).read_text(encoding="utf-8")
+    return parse_materials((files("disteco.cost_data") / FILE).read_text(encoding="utf-8"))
+
+
+def parse_materials(text: str) -> dict[str, Material]:
+    """Materials from the text of an allowable-stress table; ``CostDataError`` on a bad row."""
     reader = csv.DictReader(text.splitlines())
     missing = [c for c in COLUMNS if c not in (reader.fieldnames or ())]
     if missing:

@@ -110,54 +110,34 @@ def test_missing_folder_names_the_case_field(tmp_path):
         load_cost_data(tmp_path / "nowhere")
 
 
-def test_missing_column_names_file_and_column(folder):
-    _edit(folder / "purchased_cost_correlations.csv", ",k3,", ",k_three,")
-    with pytest.raises(CostDataError, match=r"purchased_cost_correlations.csv, row 1, column 'k3': missing column"):
-        load_cost_data(folder)
+MALFORMED = [
+    # (file, text replaced, replacement, expected message fragment)
+    ("purchased_cost_correlations.csv", ",k3,", ",k_three,",
+     r"purchased_cost_correlations.csv, row 1, column 'k3': missing column"),
+    ("utility_prices.csv", "reference,mp_steam,14.19,", "reference,mp_steam,-14.19,",
+     r"utility_prices.csv, row 7, column 'price': -14.19 is negative"),
+    ("material_factors.csv", "process_vessel,SS,3.12,", "process_vessel,SS,three,",
+     r"material_factors.csv, row 4, column 'material_factor': 'three' is not a number"),
+    ("purchased_cost_correlations.csv", "area,m2,10,100,", "area,m2,100,10,",
+     r"row 8, column 'size_min': size_min 100 is not below size_max 10"),
+    ("cost_index.csv", '2003,402.0,CEPCI,annual average,"from memory: Chemical Engineering Plant Cost Index, '
+     'annual average as printed in Chemical Engineering magazine"', "2003,402.0,CEPCI,annual average,",
+     r"cost_index.csv, row 4, column 'source': empty cell"),
+    ("purchased_cost_correlations.csv", "parallel,pump_centrifugal,", "parallel,pump_rotary,",
+     r"row 11, column 'material_group': 'pump_rotary' is not one of"),
+    ("utility_prices.csv", 'expensive-power-demo,electricity,0.25,USD,kWh,2023,"demo, invented"\n', "",
+     r"scenario 'expensive-power-demo' has no price for electricity"),
+    ("annualisation.toml", 'method = "capital_recovery"\n', 'method = "annuity"\n',
+     r"annualisation.toml, column 'method': 'annuity' is not one of"),
+    ("utility_levels.csv", "lp_steam,heating,steam,158.9,158.9,2086,", "lp_steam,heating,steam,158.9,158.9,,",
+     r"utility_levels.csv, row 6, column 'latent_heat_kJ_per_kg': steam needs its latent heat"),
+]
 
 
-def test_negative_price_names_file_row_and_column(folder):
-    _edit(folder / "utility_prices.csv", "reference,mp_steam,14.19,", "reference,mp_steam,-14.19,")
-    with pytest.raises(CostDataError, match=r"utility_prices.csv, row 7, column 'price': -14.19 is negative"):
-        load_cost_data(folder)
-
-
-def test_text_in_a_number_column(folder):
-    _edit(folder / "material_factors.csv", "process_vessel,SS,3.12,", "process_vessel,SS,three,")
-    with pytest.raises(CostDataError, match=r"material_factors.csv, row 4, column 'material_factor': 'three'"):
-        load_cost_data(folder)
-
-
-def test_size_min_not_below_size_max(folder):
-    _edit(folder / "purchased_cost_correlations.csv", "area,m2,10,100,", "area,m2,100,10,")
-    with pytest.raises(CostDataError, match=r"row 8, column 'size_min': size_min 100 is not below size_max 10"):
-        load_cost_data(folder)
-
-
-def test_missing_source(folder):
-    path = folder / "cost_index.csv"
-    lines = path.read_text(encoding="utf-8").splitlines()
-    lines[3] = lines[3].split(",\"")[0] + ","
-    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
-    with pytest.raises(CostDataError, match=r"cost_index.csv, row 4, column 'source': empty cell"):
-        load_cost_data(folder)
-
-
-def test_unknown_material_group_reference(folder):
-    _edit(folder / "purchased_cost_correlations.csv", "parallel,pump_centrifugal,", "parallel,pump_rotary,")
-    with pytest.raises(CostDataError, match=r"row 11, column 'material_group': 'pump_rotary' is not one of"):
-        load_cost_data(folder)
-
-
-def test_scenario_without_a_price(folder):
-    _edit(folder / "utility_prices.csv", "expensive-power-demo,electricity,0.25,USD,kWh,2023,\"demo, invented\"\n", "")
-    with pytest.raises(CostDataError, match=r"scenario 'expensive-power-demo' has no price for electricity"):
-        load_cost_data(folder)
-
-
-def test_bad_annualisation_method(folder):
-    _edit(folder / "annualisation.toml", 'method = "capital_recovery"\n', 'method = "annuity"\n')
-    with pytest.raises(CostDataError, match=r"annualisation.toml, column 'method': 'annuity' is not one of"):
+@pytest.mark.parametrize("name, old, new, message", MALFORMED, ids=[m[3][:40] for m in MALFORMED])
+def test_malformed_file_names_file_row_and_column(folder, name, old, new, message):
+    _edit(folder / name, old, new)
+    with pytest.raises(CostDataError, match=message):
         load_cost_data(folder)
 
 

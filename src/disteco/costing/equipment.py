@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 from .._base.errors import CorrelationRangeError
 from .._base.validity import OutOfRange
-from .curves import VesselPressureFactor
+from .curves import VesselPressureFactor, bare_module_factor
 from .data import CostData
 from .indices import escalate
 
@@ -49,11 +49,12 @@ def cost_equipment(data: CostData, item: str, equipment: str, size: float, cost_
                    policy: OutOfRange = OutOfRange.WARN) -> EquipmentCost:
     """Installed (bare-module) cost of one item from its size.
 
-    ``material`` None means the correlation's base material (F_M = 1). ``size`` in SI units of the curve's size variable (m3, m2 or W) for one piece;
-    ``count`` identical pieces share the ``quantity_factor`` (trays). ``pressure_gauge``
-    [Pa] is the design pressure above atmospheric; ``diameter`` [m] is needed for
-    vessels, whose pressure factor follows from the wall thickness. With
-    ``policy=OutOfRange.RAISE`` a size outside the range raises instead of warning.
+    ``size`` in SI units of the curve's size variable (m3, m2 or W) for one piece;
+    ``count`` identical pieces share the ``quantity_factor`` (trays). ``material`` None
+    means the correlation's base material (F_M = 1). ``pressure_gauge`` [Pa] is the
+    design pressure above atmospheric; ``diameter`` [m] is needed for vessels, whose
+    pressure factor follows from the wall thickness. With ``policy=OutOfRange.RAISE`` a
+    size outside the range raises instead of warning.
     """
     curve = data.curve(equipment)
     validity = curve.validity()
@@ -73,12 +74,12 @@ def cost_equipment(data: CostData, item: str, equipment: str, size: float, cost_
     material_row = data.material_factor(curve.material_group, material)
     pressure_factor = _pressure_factor(data, curve.pressure_group, pressure_gauge, diameter, item, warnings)
     bare = data.bare_module(curve.bare_module_group)
-    f_bm = bare.b1 + bare.b2 * material_row.factor * pressure_factor
+    f_bm = bare_module_factor(bare.b1, bare.b2, material_row.factor, pressure_factor)
     escalated = escalate(purchased, curve.base_index, cost_index)
     source = "; ".join(dict.fromkeys((curve.source, material_row.source, bare.source)))
     return EquipmentCost(item, equipment, size * count, validity.unit, units, count, quantity_factor, purchased,
-                         curve.base_index, cost_index, escalated, material_row.material, material_row.factor, pressure_factor,
-                         f_bm, escalated * f_bm, source, tuple(warnings))
+                         curve.base_index, cost_index, escalated, material_row.material, material_row.factor,
+                         pressure_factor, f_bm, escalated * f_bm, source, tuple(warnings))
 
 
 def cost_trays(data: CostData, item: str, equipment: str, tray_area: float, trays: int, cost_index: float, *,

@@ -1,0 +1,69 @@
+"""PNG figures of the design for reports and slides (matplotlib, no display needed).
+
+The figures draw the same :class:`Plot` data as the workbook's charts, so a number read
+off a figure is the number in the workbook and in result.json.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")  # files only; never open a window
+
+from matplotlib.figure import Figure  # noqa: E402  (after the backend is chosen)
+from matplotlib.ticker import MaxNLocator  # noqa: E402
+
+from .files import write_atomically  # noqa: E402
+from .tables import PALETTE, Plot  # noqa: E402
+
+FIGURE_SIZE = (6.4, 4.6)  # inch
+DPI = 150
+
+
+def draw(plot: Plot) -> Figure:
+    """A matplotlib Figure of ``plot``: one line per series, in the series' order."""
+    figure = Figure(figsize=FIGURE_SIZE, dpi=DPI, layout="constrained")
+    axes = figure.add_subplot()
+    for k, series in enumerate(plot.series):
+        colour = "#" + PALETTE[k % len(PALETTE)]
+        if series.style == "markers":
+            axes.plot(series.x, series.y, linestyle="", marker="o", markersize=4, color=colour, label=series.name)
+        elif series.style == "dashed":
+            axes.plot(series.x, series.y, linestyle="--", linewidth=1.0, color=colour, label=series.name)
+        else:
+            marker = "o" if plot.stage_axis else ""  # a dot on each stage
+            axes.plot(series.x, series.y, linestyle="-", linewidth=1.6, marker=marker, markersize=3,
+                      color=colour, label=series.name)
+    axes.set_title(plot.title, fontsize=11)
+    axes.set_xlabel(plot.x_label)
+    axes.set_ylabel(plot.y_label)
+    if plot.x_limits:
+        axes.set_xlim(*plot.x_limits)
+    if plot.y_limits:
+        axes.set_ylim(*plot.y_limits)
+    if plot.stage_axis:
+        axes.invert_yaxis()  # stage 1 at the top, as in the column
+        axes.yaxis.set_major_locator(MaxNLocator(integer=True))
+    if plot.x_limits == (0.0, 1.0) and plot.y_limits == (0.0, 1.0):
+        axes.set_aspect("equal")
+    axes.grid(True, color="#DDDDDD", linewidth=0.6)
+    axes.set_axisbelow(True)
+    for side in ("top", "right"):
+        axes.spines[side].set_visible(False)
+    axes.legend(fontsize=8, frameon=False, loc="best")
+    return figure
+
+
+def write_figure(plot: Plot, folder: str | Path) -> Path:
+    """Draw ``plot`` into ``folder``/<plot.name>.png atomically; return the path."""
+    path = Path(folder) / f"{plot.name}.png"
+    figure = draw(plot)
+    write_atomically(path, lambda tmp: figure.savefig(tmp, format="png"))
+    return path
+
+
+def write_figures(plots: tuple[Plot, ...] | list[Plot], folder: str | Path) -> list[Path]:
+    """Write one PNG per plot into ``folder``; return the paths in the plots' order."""
+    return [write_figure(plot, folder) for plot in plots]

@@ -1,0 +1,347 @@
+"""Typed tables and plot data with display units, built from the layers' result dataclasses.
+
+Everything below the reports layer is SI; here, at the edge, numbers are converted once
+to the units an engineer reads (degC, kPa, kmol/h, kW) and every header names its unit.
+Numbers stay numbers: the workbook stores them as numbers with a number format, the
+figures plot them as they are.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from .._base.units import HOUR, to_degC
+from ..case import Case, EndSpec
+from ..properties import BinaryDiagram, FeedState, MixtureSummary
+from ..stages.binary import EquilibriumCurve, SteppedColumn
+from ..stages.results import StageProfile
+from .design_result import CAUTIONS
+
+TEXT = "@"  # Excel's number format for text
+MIXED = "General"  # a column of labelled values: numbers stay numbers, text stays text
+KMOL_PER_H = HOUR / 1e3  # (kmol/h) per (mol/s)
+KPA = 1e3  # Pa per kPa
+KW = 1e3  # W per kW
+
+Cell = float | int | str | None
+
+
+@dataclass(frozen=True)
+class Column:
+    """One column: a label, its display unit ("-" when dimensionless, "" for text) and format."""
+
+    label: str
+    unit: str = ""
+    number_format: str = "0.000"
+    width: float = 14.0
+
+    @property
+    def header(self) -> str:
+        """The label with its unit in brackets, e.g. ``Temperature [degC]``."""
+        return f"{self.label} [{self.unit}]" if self.unit else self.label
+
+    @property
+    def is_text(self) -> bool:
+        return self.number_format == TEXT
+
+    @property
+    def is_mixed(self) -> bool:
+        return self.number_format == MIXED
+
+
+def text(label: str, width: float = 24.0) -> Column:
+    """A text column."""
+    return Column(label, "", TEXT, width)
+
+
+@dataclass(frozen=True)
+class Table:
+    """A titled table; text columns hold ``str``, number columns finite numbers or None (empty)."""
+
+    title: str
+    columns: tuple[Column, ...]
+    rows: tuple[tuple[Cell, ...], ...]
+
+    def __post_init__(self):
+        for number, row in enumerate(self.rows, start=1):
+            if len(row) != len(self.columns):
+                raise ValueError(f"table '{self.title}', row {number}: {len(row)} cells for "
+                                 f"{len(self.columns)} columns")
+            for column, value in zip(self.columns, row):
+                _check_cell(self.title, number, column, value)
+
+    def column(self, header: str) -> tuple[Cell, ...]:
+        """The values of the column with this header (label and unit)."""
+        index = [c.header for c in self.columns].index(header)
+        return tuple(row[index] for row in self.rows)
+
+
+def is_number(value: Cell) -> bool:
+    """True for a finite int or float (bool excluded)."""
+    return isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
+
+
+def _check_cell(title: str, number: int, column: Column, value: Cell) -> None:
+    if column.is_text:
+        ok, wanted = isinstance(value, str), "text"
+    elif column.is_mixed:
+        ok, wanted = value is None or isinstance(value, str) or is_number(value), "text or a finite number"
+    else:
+        ok, wanted = value is None or is_number(value), "a finite number"
+    if not ok:
+        raise ValueError(f"table '{title}', row {number}, column '{column.header}': {value!r} is not {wanted}")
+
+
+# ------------------------------------------------------------------ plot data
+
+# Our own palette (hex RGB), used in turn by the series of a chart and of a PNG figure.
+PALETTE = ("1F5A7A", "D9822B", "3E8E41", "B23A48", "6C4F9C", "8C6D1F", "2A9D8F", "5C5C5C")
+
+
+@dataclass(frozen=True)
+class Series:
+    """One plotted series; ``style`` is "line", "markers" or "dashed"."""
+
+    name: str
+    x: tuple[float, ...]
+    y: tuple[float, ...]
+    style: str = "line"
+
+    def __post_init__(self):
+        if len(self.x) != len(self.y):
+            raise ValueError(f"series '{self.name}': {len(self.x)} x values for {len(self.y)} y values")
+        if self.style not in ("line", "markers", "dashed"):
+            raise ValueError(f"series '{self.name}': style {self.style!r} is not line, markers or dashed")
+
+
+@dataclass(frozen=True)
+class Plot:
+    """The data of one chart: axis labels carry units; ``stage_axis`` puts stage 1 at the top."""
+
+    name: str  # file stem and chart key, snake_case
+    title: str
+    x_label: str
+    y_label: str
+    series: tuple[Series, ...]
+    x_limits: tuple[float, float] | None = None
+    y_limits: tuple[float, float] | None = None
+    stage_axis: bool = False
+
+
+# ------------------------------------------------------------------ key-value tables
+
+
+QUANTITY = text("Quantity [unit]", 46.0)
+VALUE = Column("Value", "", MIXED, 30.0)
+
+
+def quantity_table(title: str, items: list[tuple[str, Cell]]) -> Table:
+    """A two-column table of labelled values; each label that names a number carries its unit."""
+    return Table(title, (QUANTITY, VALUE), tuple((label, v) for label, v in items))
+
+
+def _end_spec(spec: EndSpec, key: str, product: str) -> str:
+    if spec.kind == "recovery":
+        return f"{key}: recovery {spec.value:.6g} [-]"
+    return f"{key}: mole fraction {spec.value:.6g} in the {product} [-]"
+
+
+def case_table(case: Case) -> Table:
+    """The case as given (SI converted to display units); text from the case stays text."""
+    names = case.components
+    p = case.products
+    items: list[tuple[str, Cell]] = [
+        ("Case title", case.title),
+        ("Case file", str(case.source) if case.source else "(not from a file)"),
+        ("Component names (as written)", ", ".join(names)),
+        ("Thermodynamic method (as asked)", case.thermo.method),
+        ("Top pressure [kPa]", case.column.top_pressure / KPA),
+        ("Pressure drop per stage [kPa]", case.column.pressure_drop_per_stage / KPA),
+        ("Condenser", case.column.condenser),
+        ("Subcooling [K]", case.column.subcooling),
+        ("Light key", names[p.light_key]),
+        ("Heavy key", names[p.heavy_key]),
+        ("Light-key specification", _end_spec(p.light_key_spec, names[p.light_key], "bottoms")),
+        ("Heavy-key specification", _end_spec(p.heavy_key_spec, names[p.heavy_key], "distillate")),
+        ("Cost data", str(case.economics.cost_data) if case.economics.cost_data else "bundled"),
+        ("Cost year [year]", case.economics.cost_year if case.economics.cost_year is not None else "newest"),
+        ("Scenarios", ", ".join(case.economics.scenarios) or "default"),
+        ("Currency", case.economics.currency),
+    ]
+    return quantity_table("Case", items)
+
+
+def feed_table(feed: FeedState, names: tuple[str, ...]) -> Table:
+    """Feed state in display units, one mole fraction per component."""
+    items: list[tuple[str, Cell]] = [
+        ("Molar flow [kmol/h]", feed.molar_flow * KMOL_PER_H),
+        ("Pressure [kPa]", feed.pressure / KPA),
+        ("Temperature [degC]", to_degC(feed.temperature)),
+        ("Thermal condition q [-]", feed.q),
+        ("Bubble point [degC]", to_degC(feed.bubble_T)),
+        ("Dew point [degC]", to_degC(feed.dew_T)),
+    ]
+    items += [(f"Mole fraction {name} [-]", zi) for name, zi in zip(names, feed.z)]
+    return quantity_table("Feed", items)
+
+
+def components_table(mixture: MixtureSummary) -> Table:
+    """The mixture's components: names as written, databank identity, properties, feed fraction."""
+    columns = (text("Component (as written)"), text("Databank name"), text("CAS number", 14.0),
+               Column("Molar mass", "g/mol", "0.00"), Column("Normal boiling point", "degC", "0.00", 22.0),
+               Column("Feed mole fraction", "-", "0.0000", 20.0))
+    rows = tuple((c.name, c.databank_name, c.cas, c.molar_mass * 1e3, to_degC(c.normal_boiling_point),
+                  c.feed_fraction) for c in mixture.components)
+    return Table("Components", columns, rows)
+
+
+def mixture_table(mixture: MixtureSummary) -> Table:
+    """Method, keys, volatility range, feed bubble and dew points and azeotropes at top pressure."""
+    items: list[tuple[str, Cell]] = [
+        ("Thermodynamic method (used)", mixture.method),
+        ("Top pressure [kPa]", mixture.pressure / KPA),
+        ("Light key", mixture.light_key),
+        ("Heavy key", mixture.heavy_key),
+        ("Key relative volatility, lowest [-]", mixture.key_volatility_min),
+        ("Key relative volatility, highest [-]", mixture.key_volatility_max),
+        ("Feed bubble point at top pressure [degC]", to_degC(mixture.feed_bubble_T)),
+        ("Feed dew point at top pressure [degC]", to_degC(mixture.feed_dew_T)),
+    ]
+    for a in mixture.azeotropes:
+        items.append((f"Azeotrope {a.first}/{a.second} ({a.kind})",
+                      f"{a.x_first:.4f} mole fraction {a.first} at {to_degC(a.T):.2f} degC"))
+    if not mixture.azeotropes:
+        items.append(("Azeotropes", "none found between any pair at top pressure"))
+    return quantity_table("Mixture", items)
+
+
+def stage_profile_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
+    """Per stage from the top: T, P, liquid and vapour flows leaving, x_i and y_i."""
+    columns = [Column("Stage", "-", "0", 8.0), text("Role", 12.0),
+               Column("Temperature", "degC", "0.00"), Column("Pressure", "kPa", "0.00"),
+               Column("Liquid flow", "kmol/h", "0.00"), Column("Vapour flow", "kmol/h", "0.00")]
+    columns += [Column(f"x {name}", "-", "0.00000") for name in names]
+    columns += [Column(f"y {name}", "-", "0.00000") for name in names]
+    rows = []
+    for i in range(profile.stages):
+        n = i + 1
+        role = "reboiler" if n == profile.stages else "feed" if n == profile.feed_stage else ""
+        rows.append((n, role, to_degC(profile.T[i]), profile.P[i] / KPA, profile.L[i] * KMOL_PER_H,
+                     profile.V[i] * KMOL_PER_H, *profile.x[i], *profile.y[i]))
+    return Table("Stage profile", tuple(columns), tuple(rows))
+
+
+def _design_items(profile: StageProfile) -> list[tuple[str, Cell]]:
+    return [
+        ("Reflux ratio [-]", profile.reflux_ratio),
+        ("Equilibrium stages, reboiler included [-]", profile.stages),
+        ("Feed stage, from the top [-]", profile.feed_stage),
+        ("Distillate flow [kmol/h]", profile.distillate_flow * KMOL_PER_H),
+        ("Bottoms flow [kmol/h]", profile.bottoms_flow * KMOL_PER_H),
+        ("Condenser duty [kW]", profile.condenser_duty / KW),
+        ("Reboiler duty [kW]", profile.reboiler_duty / KW),
+        ("Condenser temperature [degC]", to_degC(profile.condenser_temperature)),
+        ("Reboiler temperature [degC]", to_degC(profile.reboiler_temperature)),
+    ]
+
+
+def design_table(title: str, profile: StageProfile | None) -> Table:
+    """The chosen design in one table: the case title and the headline numbers present."""
+    items: list[tuple[str, Cell]] = [("Case title", title)]
+    if profile is not None:
+        items += _design_items(profile)
+    return quantity_table("Chosen design", items)
+
+
+def products_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
+    """Distillate and bottoms: flows, compositions, duties and end temperatures."""
+    items = _design_items(profile)
+    items += [(f"Distillate mole fraction {n} [-]", v) for n, v in zip(names, profile.distillate_composition)]
+    items += [(f"Bottoms mole fraction {n} [-]", v) for n, v in zip(names, profile.bottoms_composition)]
+    return quantity_table("Products", items)
+
+
+def cautions_table() -> Table:
+    """The standing cautions of every estimate."""
+    return Table("Cautions", (text("Caution", 120.0),), tuple((c,) for c in CAUTIONS))
+
+
+def warnings_table(warnings: tuple[str, ...] | list[str]) -> Table:
+    """Every warning of the run, numbered."""
+    rows = tuple((i, w) for i, w in enumerate(warnings, start=1)) or ((0, "no warnings"),)
+    return Table("Warnings", (Column("No.", "-", "0", 6.0), text("Warning", 120.0)), rows)
+
+
+# ------------------------------------------------------------------ plots
+
+
+def temperature_profile_plot(profile: StageProfile) -> Plot:
+    """Stage temperature against stage number (stage 1 at the top)."""
+    stages = tuple(float(n) for n in range(1, profile.stages + 1))
+    return Plot("temperature_profile", "Stage temperatures", "Temperature [degC]", "Stage [-]",
+                (Series("Temperature", tuple(to_degC(t) for t in profile.T), stages),), stage_axis=True)
+
+
+def composition_profile_plot(profile: StageProfile, names: tuple[str, ...]) -> Plot:
+    """Liquid mole fraction of each component against stage number (stage 1 at the top)."""
+    stages = tuple(float(n) for n in range(1, profile.stages + 1))
+    series = tuple(Series(f"x {name}", tuple(row[i] for row in profile.x), stages)
+                   for i, name in enumerate(names))
+    return Plot("composition_profile", "Liquid composition on the stages", "Liquid mole fraction [-]",
+                "Stage [-]", series, x_limits=(0.0, 1.0), stage_axis=True)
+
+
+def operating_series(column: SteppedColumn) -> tuple[Series, ...]:
+    """Operating lines, feed line and stage steps of a McCabe-Thiele construction.
+
+    The rectifying line runs from (x_D, x_D) to its meeting point with the feed line,
+    y = (R x + x_D)/(R + 1) and x = ((q - 1) x_D + (R + 1) z_F)/(q + R); the stripping line
+    from there to (x_B, x_B); the feed line from (z_F, z_F). At total reflux only the steps.
+    """
+    steps = Series("Stage steps", tuple(p[0] for p in column.steps), tuple(p[1] for p in column.steps))
+    R, x_d, x_b, z, q = column.reflux_ratio, column.x_distillate, column.x_bottoms, column.z, column.q
+    if not math.isfinite(R):
+        return (steps,)
+    x_int = min(max(((q - 1.0) * x_d + (R + 1.0) * z) / (q + R), x_b), x_d)
+    y_int = (R * x_int + x_d) / (R + 1.0)
+    return (Series("Rectifying line", (x_d, x_int), (x_d, y_int)),
+            Series("Stripping line", (x_int, x_b), (y_int, x_b)),
+            Series("Feed line", (z, x_int), (z, y_int), "dashed"),
+            steps)
+
+
+def xy_plot(curve: EquilibriumCurve | BinaryDiagram, light_name: str,
+            column: SteppedColumn | None = None) -> Plot:
+    """x-y diagram of the light key: equilibrium curve, diagonal and, given a construction, its lines."""
+    series = (Series("Equilibrium", tuple(curve.x), tuple(curve.y)),
+              Series("y = x", (0.0, 1.0), (0.0, 1.0), "dashed"))
+    if column is not None:
+        series += operating_series(column)
+    return Plot("xy_diagram", f"x-y diagram of {light_name} at {curve.pressure / KPA:.1f} kPa",
+                f"Liquid mole fraction {light_name} [-]", f"Vapour mole fraction {light_name} [-]",
+                series, (0.0, 1.0), (0.0, 1.0))
+
+
+@dataclass(frozen=True)
+class ReportParts:
+    """The typed results the reports draw on; a part that is None leaves its sheet or chart out.
+
+    ``profile`` is the converged stage profile of the chosen design; ``curve`` and
+    ``stepped`` the binary (key-pair) equilibrium curve and McCabe-Thiele construction.
+    """
+
+    profile: StageProfile | None = None
+    curve: EquilibriumCurve | BinaryDiagram | None = None
+    stepped: SteppedColumn | None = None
+
+
+def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...]:
+    """Every plot whose data is present, in a fixed order."""
+    names = tuple(c.name for c in mixture.components)
+    plots: list[Plot] = []
+    if parts.profile is not None:
+        plots += [temperature_profile_plot(parts.profile), composition_profile_plot(parts.profile, names)]
+    if parts.curve is not None:
+        plots.append(xy_plot(parts.curve, mixture.light_key, parts.stepped))
+    return tuple(plots)

@@ -1,0 +1,87 @@
+"""The workbook an estimator can use without disteco: tables with units, charts, cautions.
+
+Sheets (in this order, each only when its data exists): Summary, Inputs, Stages,
+Equipment, Capital, Utilities, Scenarios, Warnings, Chart data, Charts. Every table has a
+title row and a header row with units; numbers are stored as numbers with a number
+format; header rows are frozen; column widths are set. Text from the user's files is
+written as text and never as a formula.
+
+The file is written through :func:`write_atomically`: a failed run leaves no partial
+workbook, and an existing file is replaced only when the new one is complete.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+
+from openpyxl import Workbook
+
+from .design_result import DesignResult
+from .files import write_atomically
+from .tables import (Plot, ReportParts, Table, cautions_table, case_table, components_table, design_plots,
+                     design_table, feed_table, mixture_table, products_table, stage_profile_table,
+                     warnings_table)
+from .workbook_cells import write_tables
+from .workbook_charts import write_charts
+
+WORKBOOK_FILE = "design.xlsx"
+DATA_SHEET = "Chart data"
+CHART_SHEET = "Charts"
+
+
+@dataclass(frozen=True)
+class Sheet:
+    """One worksheet: a name of our own and the tables stacked on it."""
+
+    name: str
+    tables: tuple[Table, ...]
+
+
+@dataclass(frozen=True)
+class WorkbookContent:
+    """Everything the workbook shows: sheets of tables and the plots drawn as native charts."""
+
+    sheets: tuple[Sheet, ...]
+    plots: tuple[Plot, ...] = ()
+
+
+def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -> WorkbookContent:
+    """Sheets and plots for ``result``; sheets whose data is absent are left out."""
+    names = result.case.components
+    sheets = [Sheet("Summary", (design_table(result.case.title, parts.profile), cautions_table())),
+              Sheet("Inputs", (case_table(result.case), mixture_table(result.mixture),
+                               components_table(result.mixture), feed_table(result.feed, names)))]
+    if parts.profile is not None:
+        sheets.append(Sheet("Stages", (stage_profile_table(parts.profile, names),
+                                       products_table(parts.profile, names))))
+    sheets.append(Sheet("Warnings", (warnings_table(result.warnings), cautions_table())))
+    return WorkbookContent(tuple(sheets), design_plots(result.mixture, parts))
+
+
+def build_workbook(content: WorkbookContent) -> Workbook:
+    """An openpyxl workbook holding ``content`` (not yet saved)."""
+    book = Workbook()
+    book.remove(book.active)
+    for sheet in content.sheets:
+        write_tables(book.create_sheet(sheet.name), sheet.tables)
+    if content.plots:
+        data_ws = book.create_sheet(DATA_SHEET)
+        chart_ws = book.create_sheet(CHART_SHEET)
+        write_charts(data_ws, chart_ws, content.plots)
+    book.properties.title = "disteco design workbook"
+    book.properties.creator = "disteco"
+    return book
+
+
+def save_workbook(content: WorkbookContent, path: str | Path) -> Path:
+    """Write ``content`` to ``path`` atomically; return the path."""
+    path = Path(path)
+    book = build_workbook(content)
+    write_atomically(path, lambda tmp: book.save(tmp))
+    return path
+
+
+def write_workbook(result: DesignResult, path: str | Path, parts: ReportParts = ReportParts()) -> Path:
+    """Build and write the design workbook of ``result`` to ``path`` (an .xlsx file)."""
+    return save_workbook(workbook_content(result, parts), path)

@@ -1,0 +1,98 @@
+"""Native spreadsheet charts (scatter charts) from :class:`Plot` data.
+
+Each plot's series are written as pairs of columns on a data sheet; the chart on the
+charts sheet refers to those cells, so an estimator can see and reuse the numbers.
+"""
+
+from __future__ import annotations
+
+from openpyxl.chart import Reference, ScatterChart
+from openpyxl.chart import Series as ChartSeries
+from openpyxl.chart.layout import Layout, ManualLayout
+from openpyxl.worksheet.worksheet import Worksheet
+
+from .tables import PALETTE, Plot
+from .workbook_cells import TITLE_FONT, put_text, put_value
+
+CHART_WIDTH = 17.0  # cm
+CHART_HEIGHT = 10.0  # cm
+ROWS_PER_CHART = 21  # spreadsheet rows a chart of CHART_HEIGHT covers, with a gap
+
+
+def write_plot_data(ws: Worksheet, plot: Plot, left: int) -> list[tuple[Reference, Reference]]:
+    """Write the series of ``plot`` from column ``left``; return (x, y) references per series."""
+    put_text(ws, 1, left, plot.title).font = TITLE_FONT
+    refs = []
+    column = left
+    for series in plot.series:
+        put_text(ws, 2, column, series.name)
+        put_text(ws, 3, column, plot.x_label)
+        put_text(ws, 3, column + 1, plot.y_label)
+        for i, (x, y) in enumerate(zip(series.x, series.y)):
+            put_value(ws, 4 + i, column, x, "0.0000")
+            put_value(ws, 4 + i, column + 1, y, "0.0000")
+        last = 3 + max(len(series.x), 1)
+        refs.append((Reference(ws, min_col=column, min_row=4, max_row=last),
+                     Reference(ws, min_col=column + 1, min_row=4, max_row=last)))
+        ws.column_dimensions[_letter(column)].width = 16.0
+        ws.column_dimensions[_letter(column + 1)].width = 16.0
+        column += 2
+    return refs
+
+
+def _letter(column: int) -> str:
+    from openpyxl.utils import get_column_letter
+
+    return get_column_letter(column)
+
+
+def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> ScatterChart:
+    """A scatter chart with straight lines (or markers only) for each series of ``plot``."""
+    chart = ScatterChart()
+    chart.title = plot.title
+    chart.style = 2
+    chart.scatterStyle = "lineMarker"
+    chart.width, chart.height = CHART_WIDTH, CHART_HEIGHT
+    chart.x_axis.title = plot.x_label
+    chart.y_axis.title = plot.y_label
+    # Recent spreadsheet versions hide axes that are not explicitly kept.
+    chart.x_axis.delete = False
+    chart.y_axis.delete = False
+    chart.x_axis.majorGridlines = None
+    if plot.x_limits:
+        chart.x_axis.scaling.min, chart.x_axis.scaling.max = plot.x_limits
+    if plot.y_limits:
+        chart.y_axis.scaling.min, chart.y_axis.scaling.max = plot.y_limits
+    if plot.stage_axis:
+        chart.y_axis.scaling.orientation = "maxMin"  # stage 1 at the top, as in the column
+        chart.y_axis.scaling.min = 1.0
+    chart.legend.position = "b"
+    chart.layout = Layout(manualLayout=ManualLayout(x=0.02, y=0.1, w=0.95, h=0.62))
+    for k, (series, (x_ref, y_ref)) in enumerate(zip(plot.series, refs)):
+        line = ChartSeries(y_ref, x_ref, title=series.name)
+        colour = PALETTE[k % len(PALETTE)]
+        line.smooth = False
+        if series.style == "markers":
+            line.marker.symbol = "circle"
+            line.marker.size = 6
+            line.marker.graphicalProperties.solidFill = colour
+            line.marker.graphicalProperties.line.solidFill = colour
+            line.graphicalProperties.line.noFill = True
+        else:
+            line.marker.symbol = "none"
+            line.graphicalProperties.line.solidFill = colour
+            line.graphicalProperties.line.width = 22000  # EMU, about 1.7 pt
+            if series.style == "dashed":
+                line.graphicalProperties.line.dashStyle = "dash"
+        chart.series.append(line)
+    return chart
+
+
+def write_charts(data_ws: Worksheet, chart_ws: Worksheet, plots: tuple[Plot, ...] | list[Plot]) -> None:
+    """Write every plot's data on ``data_ws`` (side by side) and its chart on ``chart_ws``."""
+    left = 1
+    for k, plot in enumerate(plots):
+        refs = write_plot_data(data_ws, plot, left)
+        left += 2 * len(plot.series) + 1
+        chart_ws.add_chart(scatter_chart(plot, refs), f"A{1 + k * ROWS_PER_CHART}")
+    data_ws.freeze_panes = "A4"

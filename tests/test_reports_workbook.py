@@ -1,0 +1,204 @@
+"""The design workbook, opened as an estimator would: sheets, units, numbers, charts, no formulas."""
+
+from __future__ import annotations
+
+import re
+import zipfile
+from xml.etree import ElementTree
+
+import openpyxl
+import pytest
+
+from disteco.reports.json_result import result_json
+from disteco.reports.tables import ReportParts
+from disteco.reports.workbook import (CHART_SHEET, DATA_SHEET, save_workbook, workbook_content,
+                                      write_workbook)
+from disteco.reports.workbook_cells import HEADER_FILL
+
+from test_reports_tables import HOSTILE_TITLE, HOSTILE_WARNINGS, design_parts
+
+UNIT = re.compile(r"\[[^\]]+\]$")
+CHART = "{http://schemas.openxmlformats.org/drawingml/2006/chart}"
+# The file keeps about 16 significant digits (openpyxl writes floats with "%.16g").
+DIGITS = 1e-15
+
+
+@pytest.fixture(scope="module")
+def workbook_path(tmp_path_factory):
+    result, parts = design_parts()
+    return write_workbook(result, tmp_path_factory.mktemp("wb") / "design.xlsx", parts)
+
+
+@pytest.fixture(scope="module")
+def book(workbook_path):
+    return openpyxl.load_workbook(workbook_path)
+
+
+def _headers(ws):
+    """(row, column, text) of every header cell (recognised by its fill)."""
+    return [(c.row, c.column, c.value) for row in ws.iter_rows() for c in row
+            if c.value is not None and c.fill.fgColor.rgb == HEADER_FILL.fgColor.rgb]
+
+
+def _column_below(ws, row, column):
+    cells = []
+    for r in range(row + 1, ws.max_row + 1):
+        cell = ws.cell(r, column)
+        if cell.value is None and ws.cell(r, 1).value is None:
+            break
+        cells.append(cell)
+    return cells
+
+
+def _quantities(ws, title: str) -> dict:
+    """The labelled values of a two-column table, by label."""
+    start = next(r for r in range(1, ws.max_row + 1) if ws.cell(r, 1).value == title)
+    return {c.value: ws.cell(c.row, 2).value for c in _column_below(ws, start + 1, 1)}
+
+
+def test_expected_sheets(book):
+    assert book.sheetnames == ["Summary", "Inputs", "Stages", "Warnings", DATA_SHEET, CHART_SHEET]
+
+
+def test_units_in_headers_and_numbers_stored_as_numbers(book):
+    checked = 0
+    for ws in book.worksheets:
+        if ws.title in (DATA_SHEET, CHART_SHEET):
+            continue
+        for row, column, header in _headers(ws):
+            cells = _column_below(ws, row, column)
+            numbers = [c for c in cells if c.data_type == "n" and c.value is not None]
+            if header == "Value":  # labelled values: the unit sits in the label on the left
+                assert all(UNIT.search(ws.cell(c.row, column - 1).value) for c in numbers), ws.title
+            elif numbers:
+                assert UNIT.search(header), (ws.title, header)
+                assert all(c.number_format != "General" for c in numbers), (ws.title, header)
+            checked += len(numbers)
+    assert checked > 100
+    stages = book["Stages"]
+    temperatures = _column_below(stages, 2, 3)
+    assert stages.cell(2, 3).value == "Temperature [degC]"
+    assert all(isinstance(c.value, float) for c in temperatures)
+
+
+def test_frozen_headers_and_column_widths(book):
+    for ws in book.worksheets:
+        if ws.title == CHART_SHEET:
+            continue
+        assert ws.freeze_panes in ("A3", "A4"), ws.title
+        assert (ws.column_dimensions["A"].width or 0) >= 6.0, ws.title
+
+
+def test_chart_parts_present(workbook_path):
+    with zipfile.ZipFile(workbook_path) as archive:
+        charts = sorted(n for n in archive.namelist() if re.fullmatch(r"xl/charts/chart\d+\.xml", n))
+        assert len(charts) == 3
+        trees = [ElementTree.fromstring(archive.read(name)) for name in charts]
+    assert all(len(tree.findall(f".//{CHART}scatterChart")) == 1 for tree in trees)
+    series = [len(tree.findall(f".//{CHART}ser")) for tree in trees]
+    assert series == [1, 2, 6]  # the x-y diagram: curve, diagonal, two operating lines, feed line, steps
+    orientation = trees[0].findall(f".//{CHART}valAx/{CHART}scaling/{CHART}orientation")
+    assert "maxMin" in [o.get("val") for o in orientation]  # stage 1 at the top
+
+
+def test_no_cell_is_a_formula(book, workbook_path):
+    for ws in book.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                assert cell.data_type != "f", (ws.title, cell.coordinate, cell.value)
+    with zipfile.ZipFile(workbook_path) as archive:
+        for name in archive.namelist():
+            if name.startswith("xl/worksheets/sheet"):
+                assert "<f>" not in archive.read(name).decode(), name
+    inputs = _quantities(book["Inputs"], "Case")
+    assert inputs["Case title"] == HOSTILE_TITLE
+    assert book["Summary"]["B3"].value == HOSTILE_TITLE and book["Summary"]["B3"].quotePrefix
+    warnings = [c.value for c in _column_below(book["Warnings"], 2, 2)]
+    assert tuple(warnings) == HOSTILE_WARNINGS
+    components = [c.value for c in _column_below(book["Inputs"], _header_row(book["Inputs"], "Components"), 1)]
+    assert components == ["71-43-2", "toluene"]
+
+
+def _header_row(ws, title: str) -> int:
+    return next(r for r in range(1, ws.max_row + 1) if ws.cell(r, 1).value == title) + 1
+
+
+def _same(a, b):
+    return a == pytest.approx(b, rel=DIGITS, abs=0.0)
+
+
+def test_numbers_equal_result_json(book):
+    result, _ = design_parts()
+    data = result_json(result)
+    feed = _quantities(book["Inputs"], "Feed")
+    assert _same(feed["Molar flow [kmol/h]"], data["feed"]["molar_flow_kmol_per_h"])
+    assert _same(feed["Pressure [kPa]"], data["feed"]["pressure_kPa"])
+    assert _same(feed["Temperature [degC]"], data["feed"]["temperature_degC"])
+    assert _same(feed["Thermal condition q [-]"], data["feed"]["q"])
+    assert _same([feed[f"Mole fraction {n} [-]"] for n in result.case.components], data["feed"]["mole_fractions"])
+    mixture = _quantities(book["Inputs"], "Mixture")
+    assert _same(mixture["Top pressure [kPa]"], data["mixture"]["top_pressure_kPa"])
+    assert _same(mixture["Key relative volatility, lowest [-]"], data["mixture"]["key_relative_volatility_min"])
+    assert _same(mixture["Feed bubble point at top pressure [degC]"], data["mixture"]["feed_bubble_point_degC"])
+    ws = book["Inputs"]
+    top = _header_row(ws, "Components")
+    for i, component in enumerate(data["mixture"]["components"]):
+        assert ws.cell(top + 1 + i, 2).value == component["databank_name"]
+        assert ws.cell(top + 1 + i, 3).value == component["cas"]
+        assert _same(ws.cell(top + 1 + i, 4).value, component["molar_mass_g_per_mol"])
+        assert _same(ws.cell(top + 1 + i, 5).value, component["normal_boiling_point_degC"])
+    cautions = [c.value for c in _column_below(book["Summary"], _header_row(book["Summary"], "Cautions"), 1)]
+    assert cautions == data["cautions"]
+
+
+def test_stage_sheet_equals_profile(book):
+    result, parts = design_parts()
+    p = parts.profile
+    ws = book["Stages"]
+    headers = {ws.cell(2, j).value: j for j in range(1, ws.max_column + 1)}
+    rows = range(3, 3 + p.stages)
+    assert _same([ws.cell(r, headers["Temperature [degC]"]).value for r in rows], [t - 273.15 for t in p.T])
+    assert _same([ws.cell(r, headers["Vapour flow [kmol/h]"]).value for r in rows], [v * 3.6 for v in p.V])
+    assert _same([ws.cell(r, headers["x 71-43-2 [-]"]).value for r in rows], [x[0] for x in p.x])
+    products = _quantities(ws, "Products")
+    assert _same(products["Reboiler duty [kW]"], p.reboiler_duty / 1e3)
+    assert products["Feed stage, from the top [-]"] == p.feed_stage
+
+
+def test_chart_data_equal_plot_data(book):
+    result, parts = design_parts()
+    plots = workbook_content(result, parts).plots
+    ws = book[DATA_SHEET]
+    column = 1
+    for plot in plots:
+        assert ws.cell(1, column).value == plot.title
+        for series in plot.series:
+            assert ws.cell(2, column).value == series.name
+            xs = [ws.cell(4 + i, column).value for i in range(len(series.x))]
+            ys = [ws.cell(4 + i, column + 1).value for i in range(len(series.y))]
+            assert _same(xs, series.x) and _same(ys, series.y)
+            column += 2
+        column += 1
+
+
+def test_sheets_without_data_are_left_out(tmp_path):
+    result, _ = design_parts()
+    path = write_workbook(result, tmp_path / "short.xlsx", ReportParts())
+    assert openpyxl.load_workbook(path).sheetnames == ["Summary", "Inputs", "Warnings"]
+
+
+def test_failed_write_keeps_the_old_file(tmp_path, monkeypatch):
+    result, parts = design_parts()
+    path = tmp_path / "design.xlsx"
+    path.write_bytes(b"previous run")
+
+    def broken_save(self, filename):
+        with open(filename, "wb") as handle:
+            handle.write(b"PK half a workbook")
+        raise OSError("disk full")
+
+    monkeypatch.setattr(openpyxl.Workbook, "save", broken_save)
+    with pytest.raises(OSError, match="disk full"):
+        save_workbook(workbook_content(result, parts), path)
+    assert path.read_bytes() == b"previous run"
+    assert [p.name for p in tmp_path.iterdir()] == ["design.xlsx"]

@@ -94,6 +94,27 @@ def test_scenarios_change_only_the_utilities():
     assert power.utilities[2].cost_per_year > ref.utilities[2].cost_per_year
 
 
+def test_curve_as_pyomo_expression_matches_the_float():
+    """Twin check: the same constants as a Pyomo expression give the float cost at design points."""
+    pyo = pytest.importorskip("pyomo.environ")
+    curve = DATA.curve("kettle_reboiler")
+    model = pyo.ConcreteModel()
+    model.area = pyo.Var(bounds=(curve.size_min, curve.size_max))
+    model.cost = pyo.Expression(expr=curve.expression(model.area, pyo.log, pyo.exp))
+    for area in (12.0, 50.0, 95.0):
+        model.area.set_value(area)
+        assert pyo.value(model.cost) == pytest.approx(curve.purchased_cost(area), rel=1e-12)
+
+
+def test_price_per_joule_is_the_linear_utility_coefficient():
+    """cost per year = duty x hours x 3600 x price per joule, for every scenario and utility."""
+    summary = cost_column(DATA, INPUT, "cheap-steam-demo", 2020)
+    hours = DATA.settings.operating_hours_per_year
+    for use in summary.utilities:
+        coefficient = DATA.price_per_joule("cheap-steam-demo", use.utility)
+        assert use.duty * hours * 3600.0 * coefficient == pytest.approx(use.cost_per_year, rel=1e-12)
+
+
 # ---------------------------------------------------------------- docstring format
 
 

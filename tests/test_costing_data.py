@@ -20,7 +20,7 @@ BUNDLED = Path(str(files("disteco.cost_data")))
 # file -> (data rows, key columns)
 FINGERPRINT = {
     "purchased_cost_correlations.csv": (10, ("item",)),
-    "material_factors.csv": (23, ("material_group", "material")),
+    "material_factors.csv": (24, ("material_group", "material")),
     "bare_module_factors.csv": (5, ("bare_module_group",)),
     "pressure_factors.csv": (2, ("pressure_group",)),
     "vessel_pressure_factor.csv": (2, ("pressure_group",)),
@@ -117,7 +117,7 @@ MALFORMED = [
     ("utility_prices.csv", "reference,mp_steam,14.19,", "reference,mp_steam,-14.19,",
      r"utility_prices.csv, row 7, column 'price': -14.19 is negative"),
     ("material_factors.csv", "process_vessel,SS,3.12,", "process_vessel,SS,three,",
-     r"material_factors.csv, row 4, column 'material_factor': 'three' is not a number"),
+     r"material_factors.csv, row 5, column 'material_factor': 'three' is not a number"),
     ("purchased_cost_correlations.csv", "area,m2,10,100,", "area,m2,100,10,",
      r"row 8, column 'size_min': size_min 100 is not below size_max 10"),
     ("cost_index.csv", '2003,402.0,CEPCI,annual average,"from memory: Chemical Engineering Plant Cost Index, '

@@ -18,7 +18,7 @@ from .annual import AccuracyBand, AnnualisationSettings
 from .curves import (BAR, BareModuleFactor, CostCurve, MaterialFactor, PressureFactorCurve, TrayQuantityFactor,
                      VesselPressureFactor)
 from .indices import CostIndexTable
-from .operating import UtilityPrice
+from .operating import ELECTRICITY, UtilityPrice, price_per_joule
 from .tables import Folder, bundled_folder, user_folder
 from .validation import (FILES, check_curves, check_levels, check_prices, read_accuracy,
                          read_annualisation, read_bare_module, read_curves, read_heat_transfer, read_index,
@@ -124,6 +124,16 @@ class CostData:
                 return price
         raise CostDataError(self._file("utility_prices.csv"), f"scenario '{scenario}' has no price for '{utility}'",
                             column="utility")
+
+    def price_per_joule(self, scenario: str, utility: str) -> float:
+        """Price of one joule of duty of a level (or of electricity) in a scenario [currency/J].
+
+        The linear coefficient of a utility's yearly cost: cost = duty x hours x 3600 x this.
+        """
+        price = self.price(scenario, utility)
+        if utility == ELECTRICITY:
+            return price_per_joule(price.price, price.per)
+        return price_per_joule(price.price, price.per, self.level(utility), self.density(utility))
 
     def heat_transfer_coefficient(self, service: str, utility_kind: str,
                                   process_side: str | None = None) -> HeatTransferCoefficient:

@@ -82,11 +82,11 @@ class FittedMixture:
                 for i in range(n)]
 
     def ln_k(self, T, P, x, exp=math.exp, log=math.log):
-        """ln K_i = ln(y_i/x_i) [-] at ``T`` [K], ``P`` [Pa] (a float) and liquid ``x`` [-]."""
+        """ln K_i = ln(y_i/x_i) [-] at ``T`` [K], ``P`` [Pa] and liquid ``x`` [-]."""
         if self.form == "k-fit":
-            return [a + b / T + c * math.log(P) for a, b, c in self.k_fit]
+            return [a + b / T + c * log(P) for a, b, c in self.k_fit]
         ln_g = self.ln_gamma(T, x, exp)
-        return [self.ln_vapour_pressure(i, T, log) + ln_g[i] - math.log(P) for i in range(self.size)]
+        return [self.ln_vapour_pressure(i, T, log) + ln_g[i] - log(P) for i in range(self.size)]
 
     def k_values(self, T: float, P: float, x) -> np.ndarray:
         """K_i [-] as floats."""

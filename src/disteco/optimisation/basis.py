@@ -1,0 +1,154 @@
+"""The numbers the optimisation model is built from: the separation problem and the cost basis.
+
+``SeparationProblem`` carries the process side (fitted mixture, feed, pressures, product
+specifications); ``CostBasis`` carries the sizing and costing side as plain numbers, so
+that the model does not depend on how the sizing and costing layers load their data.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from .._base.errors import CaseError
+from ..case import EndSpec
+from ..properties.fitted import FittedMixture
+
+
+@dataclass(frozen=True)
+class SeparationProblem:
+    """One column's process specification, SI units.
+
+    Stage j (1 = top stage, N = reboiler) is at ``top_pressure + (j - 1) * stage_pressure_drop``;
+    the condenser is at ``top_pressure``. The feed (liquid and vapour parts) enters the feed stage.
+    """
+
+    fitted: FittedMixture
+    feed_flow: float  # mol/s
+    z: tuple[float, ...]  # feed mole fractions [-]
+    q: float  # feed thermal condition [-]
+    top_pressure: float  # Pa
+    stage_pressure_drop: float  # Pa
+    light_key: int
+    heavy_key: int
+    light_key_spec: EndSpec  # recovery to the distillate, or mole fraction in the bottoms
+    heavy_key_spec: EndSpec  # recovery to the bottoms, or mole fraction in the distillate
+    subcooling: float = 0.0  # K below the distillate bubble point
+
+    def pressure(self, stage: int) -> float:
+        """Pressure of ``stage`` [Pa]."""
+        return self.top_pressure + (stage - 1) * self.stage_pressure_drop
+
+    def feed_enthalpy(self) -> float:
+        """Feed molar enthalpy from the fitted forms and q [J/mol]."""
+        P = self.pressure(1)
+        f = self.fitted
+        T_bubble = f.bubble_temperature(P, self.z)
+        h_liquid = f.liquid_enthalpy_of(T_bubble, self.z)
+        h_vapour = f.vapour_enthalpy_of(_dew_temperature(f, P, self.z), self.z)
+        return h_vapour - self.q * (h_vapour - h_liquid)
+
+
+def _dew_temperature(fitted: FittedMixture, P: float, y) -> float:
+    """Dew temperature [K] of vapour ``y`` with the fitted forms (x from successive substitution)."""
+    x = list(y)
+    T = fitted.bubble_temperature(P, y)
+    for _ in range(200):
+        k = fitted.k_values(T, P, x)
+        x_new = [yi / ki for yi, ki in zip(y, k)]
+        total = sum(x_new)
+        x_new = [v / total for v in x_new]
+        T_new = fitted.bubble_temperature(P, x_new)
+        if abs(T_new - T) < 1e-7:
+            return T_new
+        x, T = x_new, T_new
+    return T
+
+
+@dataclass(frozen=True)
+class CostCurve:
+    """Purchased cost = multiplier * 10**(k1 + k2 log10 S + k3 (log10 S)^2) [currency].
+
+    ``multiplier`` folds the cost-index ratio and any fixed factors; ``installed_factor``
+    turns purchased into installed (bare-module) cost. ``size_min``/``size_max`` are the
+    curve's validity range in its size unit.
+    """
+
+    name: str
+    k1: float
+    k2: float
+    k3: float
+    size_unit: str
+    size_min: float
+    size_max: float
+    multiplier: float = 1.0
+    installed_factor: float = 1.0
+    source: str = ""
+
+    def purchased(self, size: float) -> float:
+        """Purchased cost [currency] at ``size`` [size_unit]."""
+        s = math.log10(size)
+        return self.multiplier * 10.0 ** (self.k1 + self.k2 * s + self.k3 * s * s)
+
+
+@dataclass(frozen=True)
+class ExchangerBasis:
+    """A condenser or reboiler: overall coefficient, utility temperatures, price and cost curve."""
+
+    U: float  # W/(m^2 K)
+    utility_in: float  # K, utility supply temperature
+    utility_out: float  # K, utility return temperature (equal to supply for condensing steam)
+    minimum_approach: float  # K
+    price: float  # currency/J of duty
+    curve: CostCurve
+
+
+@dataclass(frozen=True)
+class TrayBasis:
+    """Tray and shell numbers for sizing.
+
+    Flooding capacity (Fair), in the smooth form
+    C_sb = c0 + c1 * exp(-c2 * F_LV**c3) [m/s] at the chosen tray spacing, then
+    u_flood = C_sb (sigma/0.02)^0.2 sqrt((rho_L - rho_V)/rho_V).
+    """
+
+    tray_spacing: float  # m
+    flooding_fraction: float  # [-]
+    downcomer_fraction: float  # [-] of the column cross-section
+    efficiency: float  # overall tray efficiency [-]
+    extra_height: float  # m, sump, top space and feed nozzles
+    capacity: tuple[float, float, float, float]  # c0 [m/s], c1 [m/s], c2 [-], c3 [-]
+    diameter_min: float = 0.3  # m
+    diameter_max: float = 12.0  # m
+
+    def real_trays(self, stages: int) -> int:
+        """Real trays for ``stages`` equilibrium stages (the reboiler is not a tray) [-]."""
+        return max(1, math.ceil((stages - 1) / self.efficiency - 1e-9))
+
+    def height(self, stages: int) -> float:
+        """Shell height (tangent to tangent) [m]."""
+        return self.real_trays(stages) * self.tray_spacing + self.extra_height
+
+
+@dataclass(frozen=True)
+class CostBasis:
+    """Everything the TAC needs beyond the stages: sizing numbers, curves, prices, annualisation."""
+
+    trays: TrayBasis
+    shell: CostCurve  # size: shell volume [m^3]
+    tray_cost: CostCurve  # size: tray area [m^2], cost per tray
+    condenser: ExchangerBasis
+    reboiler: ExchangerBasis
+    annualisation: float  # 1/yr, capital charge
+    operating_hours: float  # h/yr
+    currency: str = "USD"
+    cost_year: int = 0
+
+
+def check_problem(problem: SeparationProblem) -> None:
+    """Reject specifications no column can meet, in engineering words."""
+    for spec, field in ((problem.light_key_spec, "light key"), (problem.heavy_key_spec, "heavy key")):
+        if not 0.0 < spec.value < 1.0:
+            raise CaseError(f"products ({field})", f"{spec.kind} {spec.value}", "strictly between 0 and 1")
+    if problem.feed_flow <= 0.0:
+        raise CaseError("feed.flow", "not positive", "a flow above zero")

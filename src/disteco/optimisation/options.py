@@ -1,0 +1,47 @@
+"""Typed options of the optimiser (a Pyomo ConfigDict), with defaults that work from pip alone."""
+
+from __future__ import annotations
+
+from pyomo.common.config import Bool, ConfigDict, ConfigValue, NonNegativeFloat, PositiveFloat, PositiveInt
+
+SOLVERS = ("ripopt", "ipopt", "scip_direct")
+
+
+def _options() -> ConfigDict:
+    config = ConfigDict("disteco optimiser options")
+    config.declare("solver", ConfigValue(default="ripopt", domain=str,
+                                         description="Pyomo NLP solver for each fixed configuration"))
+    config.declare("time_limit", ConfigValue(default=120.0, domain=PositiveFloat,
+                                             description="wall-clock limit of the whole search [s]"))
+    config.declare("relative_gap", ConfigValue(default=1e-4, domain=NonNegativeFloat,
+                                               description="relative optimality gap asked of a certifying solver [-]"))
+    config.declare("energy_balances", ConfigValue(default=False, domain=Bool,
+                                                  description="stage energy balances; False: constant molar overflow"))
+    config.declare("reflux_min", ConfigValue(default=0.01, domain=PositiveFloat, description="lowest reflux ratio [-]"))
+    config.declare("reflux_max", ConfigValue(default=50.0, domain=PositiveFloat, description="highest reflux ratio [-]"))
+    config.declare("min_stages", ConfigValue(default=3, domain=PositiveInt,
+                                             description="fewest equilibrium stages, reboiler included"))
+    config.declare("max_stages", ConfigValue(default=60, domain=PositiveInt,
+                                             description="most equilibrium stages, reboiler included"))
+    config.declare("max_iterations", ConfigValue(default=3000, domain=PositiveInt,
+                                                 description="iteration limit of each NLP solve"))
+    config.declare("certify", ConfigValue(default=False, domain=Bool,
+                                          description="certify the best configuration with a global solver"))
+    config.declare("certify_solver", ConfigValue(default="scip_direct", domain=str))
+    config.declare("certify_time_limit", ConfigValue(default=30.0, domain=PositiveFloat, description="[s]"))
+    config.declare("tee", ConfigValue(default=False, domain=Bool, description="print solver logs"))
+    return config
+
+
+OPTIONS = _options()
+
+
+def model_options(options=None) -> ConfigDict:
+    """A fresh options block; ``options`` may be a dict or a ConfigDict of overrides."""
+    config = OPTIONS()
+    if options is not None:
+        config.set_value(options)
+    return config
+
+
+__all__ = ["OPTIONS", "SOLVERS", "model_options"]

@@ -1,0 +1,102 @@
+"""Result dataclasses of the optimiser: sizes, cost breakdown, solver report, designs."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..stages.results import StageProfile
+
+
+@dataclass(frozen=True)
+class CostItem:
+    """One priced item: its size in the cost curve's unit, purchased and installed cost [currency]."""
+
+    name: str
+    size: float
+    size_unit: str
+    purchased: float
+    installed: float
+
+
+@dataclass(frozen=True)
+class CostBreakdown:
+    """Installed capital, utilities and total annualised cost [currency, currency/yr]."""
+
+    items: tuple[CostItem, ...]
+    capital_installed: float
+    condenser_utility_per_year: float
+    reboiler_utility_per_year: float
+    utilities_per_year: float
+    annualised_capital_per_year: float
+    tac_per_year: float
+    currency: str
+    cost_year: int
+
+
+@dataclass(frozen=True)
+class ColumnSizes:
+    """Sizes of the column and its exchangers, SI units."""
+
+    diameter: float  # m
+    height: float  # m
+    real_trays: int
+    tray_efficiency: float  # [-]
+    condenser_area: float  # m^2
+    reboiler_area: float  # m^2
+    condenser_duty: float  # W
+    reboiler_duty: float  # W
+    flooding_stage: int  # the tray that sets the diameter (highest required diameter)
+
+
+@dataclass(frozen=True)
+class SolverReport:
+    """How a result was obtained: solver, status in words, termination condition, gap, effort."""
+
+    solver: str
+    status: str  # "optimal", "locally optimal", "certified", "time limit", "iteration limit", "failed"
+    termination: str  # Pyomo's termination condition
+    gap: float | None  # relative optimality gap where a bound exists [-]
+    wall_time: float  # s
+    configurations_solved: int = 1
+    message: str = ""
+
+
+@dataclass(frozen=True)
+class DesignEvaluation:
+    """One configuration solved: its column profile, sizes, costs and how it was solved."""
+
+    stages: int  # ideal stages incl. reboiler
+    feed_stage: int  # from the top
+    reflux_ratio: float  # [-]
+    profile: StageProfile
+    sizes: ColumnSizes
+    cost: CostBreakdown
+    solver: SolverReport
+    warnings: tuple[str, ...] = ()
+
+    @property
+    def tac(self) -> float:
+        """Total annualised cost [currency/yr]."""
+        return self.cost.tac_per_year
+
+
+@dataclass(frozen=True)
+class SearchStep:
+    """One configuration visited by the search: TAC [currency/yr] or None when it had no feasible design."""
+
+    stages: int
+    feed_stage: int
+    tac: float | None
+    status: str
+
+
+@dataclass(frozen=True)
+class OptimumDesign:
+    """The lowest-TAC design found, the shortcut bounds and the search trail."""
+
+    best: DesignEvaluation
+    minimum_reflux_ratio: float  # [-], Underwood on the fitted forms
+    minimum_stages: float  # [-], Fenske on the fitted forms, reboiler included
+    solver: SolverReport
+    visited: tuple[SearchStep, ...]
+    warnings: tuple[str, ...] = ()

@@ -1,0 +1,155 @@
+"""Solve one configuration's model and read it back into result dataclasses.
+
+Termination conditions are always checked: an optimal or locally optimal answer is read
+back; infeasibility becomes :class:`InfeasibleSpecError`; anything else (iteration or
+time limit, solver error) becomes :class:`SolverError` naming the configuration.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+
+import pyomo.environ as pyo
+import pyomo_ripopt  # noqa: F401  registers the 'ripopt' solver with Pyomo
+from pyomo.opt import SolverStatus, TerminationCondition as TC
+
+from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
+from ..stages.results import StageProfile
+from .basis import CostBasis, SeparationProblem
+from .model import KILO, SECONDS_PER_HOUR, build_column_model, flooding_terms, initialise
+from .options import model_options
+from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
+from .start import Profile, cmo_profile, gilliland_reflux, shortcut
+
+OK = {TC.optimal: "optimal", TC.locallyOptimal: "locally optimal"}
+INFEASIBLE = (TC.infeasible, TC.invalidProblem, TC.infeasibleOrUnbounded)
+STOPPED = {TC.maxIterations: "iteration limit", TC.maxTimeLimit: "time limit",
+           TC.maxEvaluations: "evaluation limit"}
+
+
+def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap: float):
+    """A Pyomo solver with the limits set in its own option names."""
+    solver = pyo.SolverFactory(name)
+    if not solver.available(exception_flag=False):
+        raise SolverError(f"solver {name!r} is not available; the default 'ripopt' installs with pyomo-ripopt")
+    if name in ("ripopt", "ipopt"):
+        solver.options["max_iter"] = max_iterations
+        solver.options["max_wall_time" if name == "ripopt" else "max_cpu_time"] = max(time_limit, 1.0)
+    elif name.startswith("scip"):
+        solver.options["limits/time"] = max(time_limit, 1.0)
+        solver.options["limits/gap"] = relative_gap
+    return solver
+
+
+def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None) -> SolverReport:
+    """Solve ``model``; return the report or raise our errors (never pass a failure on silently)."""
+    name = solver_name or config.solver
+    limit = config.time_limit if time_limit is None else time_limit
+    solver = make_solver(name, limit, config.max_iterations, config.relative_gap)
+    start = time.perf_counter()
+    try:
+        results = solver.solve(model, tee=config.tee, load_solutions=False)
+    except (ValueError, RuntimeError, OSError) as exc:
+        raise SolverError(f"{name} failed on {model.name}: {exc}") from exc
+    wall = time.perf_counter() - start
+    tc = results.solver.termination_condition
+    if tc in OK or (tc in STOPPED and name.startswith("scip") and len(results.solution) > 0):
+        model.solutions.load_from(results)
+        gap = _gap(results)
+        status = OK.get(tc, STOPPED.get(tc, str(tc)))
+        return SolverReport(name, status, str(tc), gap, wall)
+    if tc in INFEASIBLE:
+        raise InfeasibleSpecError(f"{model.name}: no design meets the product specifications "
+                                  f"within the reflux range ({name}: {tc})")
+    status = STOPPED.get(tc, "failed")
+    raise SolverError(f"{name} stopped on {model.name} with {status} ({tc}, solver status "
+                      f"{results.solver.status if results.solver.status != SolverStatus.ok else 'ok'}) "
+                      f"after {wall:.1f} s")
+
+
+def _gap(results) -> float | None:
+    problem = results.problem
+    try:
+        upper, lower = float(problem.upper_bound), float(problem.lower_bound)
+    except (TypeError, ValueError, AttributeError):
+        return None
+    if not (math.isfinite(upper) and math.isfinite(lower)):
+        return None
+    return abs(upper - lower) / max(abs(upper), 1e-10)
+
+
+def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float | None = None,
+                  distillate: float | None = None) -> Profile:
+    """Constant-molar-overflow profile at the shortcut's distillate and Gilliland's reflux."""
+    estimate = shortcut(problem)
+    R = reflux if reflux is not None else gilliland_reflux(stages, estimate)
+    D = distillate if distillate is not None else float(sum(estimate.distillate))
+    for factor in (1.0, 1.5, 3.0):
+        try:
+            return cmo_profile(problem, stages, feed_stage, R * factor, D)
+        except (ConvergenceError, InfeasibleSpecError):
+            continue
+    raise ConvergenceError(f"no start profile for {stages} stages, feed stage {feed_stage}")
+
+
+def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
+                        options=None, start: Profile | None = None, fixed_reflux: float | None = None,
+                        time_limit: float | None = None) -> DesignEvaluation:
+    """Lowest-TAC design of one configuration (or the priced design at ``fixed_reflux``)."""
+    config = model_options(options)
+    model = build_column_model(problem, basis, stages, feed_stage, config)
+    initialise(model, start or start_profile(problem, stages, feed_stage, fixed_reflux))
+    if fixed_reflux is not None:
+        model.R.fix(fixed_reflux)
+    report = run_solver(model, config, time_limit)
+    return read_design(model, report)
+
+
+def read_design(model, report: SolverReport) -> DesignEvaluation:
+    """Read a solved model back into a :class:`DesignEvaluation`."""
+    m, p, b = model, model.problem, model.basis
+    v = pyo.value
+    J, C = list(m.J), list(m.C)
+    x = tuple(tuple(v(m.x[j, i]) for i in C) for j in J)
+    y = tuple(tuple(v(m.y[j, i]) for i in C) for j in J)
+    D, B = v(m.D), v(m.L[m.N])
+    profile = StageProfile(
+        T=tuple(v(m.T[j]) for j in J), P=tuple(m.P[j] for j in J), L=tuple(v(m.L[j]) for j in J),
+        V=tuple(v(m.V[j]) for j in J), x=x, y=y, feed_stage=m.NF, reflux_ratio=v(m.R),
+        distillate_flow=D, bottoms_flow=B, distillate_composition=y[0], bottoms_composition=x[-1],
+        condenser_duty=v(m.Qc) * KILO, reboiler_duty=v(m.Qr) * KILO, condenser_temperature=v(m.TD) - p.subcooling,
+        partial_condenser=False, model="rigorous" if m.config.energy_balances else "cmo")
+    need = {j: v(flooding_terms(m, j)[1]) / v(flooding_terms(m, j)[0]) for j in m.TRAYS}
+    sizes = ColumnSizes(diameter=v(m.diameter), height=m.height, real_trays=m.real_trays,
+                        tray_efficiency=b.trays.efficiency, condenser_area=v(m.condenser_area),
+                        reboiler_area=v(m.reboiler_area), condenser_duty=v(m.Qc) * KILO,
+                        reboiler_duty=v(m.Qr) * KILO, flooding_stage=max(need, key=need.get))
+    items = (
+        _item(b.shell, v(m.shell_volume), v(m.cost_shell), 1),
+        _item(b.tray_cost, v(m.tray_area), v(m.cost_trays), m.real_trays),
+        _item(b.condenser.curve, sizes.condenser_area, v(m.cost_condenser), 1),
+        _item(b.reboiler.curve, sizes.reboiler_area, v(m.cost_reboiler), 1),
+    )
+    seconds = b.operating_hours * SECONDS_PER_HOUR
+    capital = v(m.capital)
+    cond_utility = sizes.condenser_duty * b.condenser.price * seconds
+    reb_utility = sizes.reboiler_duty * b.reboiler.price * seconds
+    cost = CostBreakdown(items, capital, cond_utility, reb_utility, cond_utility + reb_utility,
+                         b.annualisation * capital, v(m.tac), b.currency, b.cost_year)
+    warnings = tuple(_range_warnings(items, b))
+    return DesignEvaluation(m.N, m.NF, v(m.R), profile, sizes, cost, report, warnings)
+
+
+def _item(curve, size: float, installed: float, count: int) -> CostItem:
+    return CostItem(curve.name, size, curve.size_unit, installed / curve.installed_factor, installed)
+
+
+def _range_warnings(items, basis: CostBasis) -> list[str]:
+    curves = (basis.shell, basis.tray_cost, basis.condenser.curve, basis.reboiler.curve)
+    notes = []
+    for item, curve in zip(items, curves):
+        if not curve.size_min <= item.size <= curve.size_max:
+            notes.append(f"extrapolated: {curve.name} cost curve at {item.size:.4g} {curve.size_unit}, outside "
+                         f"{curve.size_min:g} to {curve.size_max:g} {curve.size_unit} ({curve.source or 'cost data'})")
+    return notes

@@ -122,7 +122,7 @@ def _hydraulics(profile: StageProfile, mixture: SizingProperties, options: Sizin
 def _efficiency(profile: StageProfile, mixture: SizingProperties, options: SizingOptions,
                 warnings: list[str]) -> TrayEfficiency:
     if options.tray_efficiency is not None:
-        return TrayEfficiency(options.tray_efficiency, "user value", math.nan, math.nan)
+        return TrayEfficiency(options.tray_efficiency, "user value", None, None)
     ends = (0, profile.stages - 1)  # top tray and reboiler: the average of the two ends
     mu = sum(mixture.liquid_viscosity(profile.T[i], profile.P[i], profile.x[i]) for i in ends) / 2.0
     alpha = sum(mixture.relative_volatility(profile.T[i], profile.P[i], profile.x[i], options.light_key,

@@ -63,8 +63,8 @@ class TrayEfficiency:
 
     value: float  # -
     method: str  # "O'Connell (Lockett fit)" or "user value"
-    viscosity: float  # Pa s, average of top and bottom (nan for a user value)
-    relative_volatility: float  # -, average of top and bottom (nan for a user value)
+    viscosity: float | None  # Pa s, average of top and bottom; None for a user value
+    relative_volatility: float | None  # -, average of top and bottom; None for a user value
 
 
 def real_trays(ideal_stages: int, efficiency: float) -> int:

@@ -1,0 +1,143 @@
+"""size_column on a hand-built benzene-toluene profile: equipment list, options, errors, warnings."""
+
+import dataclasses
+import json
+
+import pytest
+
+from disteco._base.errors import CaseError, CorrelationRangeError, InfeasibleSpecError
+from disteco._base.validity import OutOfRange
+from disteco.case import Thermo
+from disteco.properties import build_mixture
+from disteco.sizing import SizingOptions, UtilityLevel, flooding_diameter_smooth, size_column
+from disteco.stages.results import StageProfile
+
+C = 273.15
+UTILITIES = (  # levels for the tests only
+    UtilityLevel("cooling water", "cooling", "cooling_water", C + 30, C + 45, heat_capacity=4180.0),
+    UtilityLevel("low-pressure steam", "heating", "steam", C + 160, C + 160, latent_heat=2.08e6),
+)
+N, FEED, D, R = 12, 6, 13.9, 2.0  # stages, feed stage, distillate mol/s, reflux ratio
+
+
+@pytest.fixture(scope="module")
+def mixture():
+    return build_mixture(("benzene", "toluene"), Thermo("ideal"), 101325.0)
+
+
+def make_profile(mixture, liquid_scale=1.0):
+    """A column at 1 atm top, 0.7 kPa per stage; bubble-point stages, constant molar overflow."""
+    pressures = [101325.0 + 700.0 * i for i in range(N)]
+    points = [mixture.bubble_point(p, (x, 1.0 - x))
+              for p, x in zip(pressures, [0.95 - 0.92 * i / (N - 1) for i in range(N)])]
+    liquid = [R * D * liquid_scale] * (FEED - 1) + [(R * D + 2 * D) * liquid_scale] * (N - FEED) + [D]
+    return StageProfile(
+        T=tuple(p.T for p in points), P=tuple(pressures), L=tuple(liquid), V=((R + 1) * D,) * N,
+        x=tuple(p.x for p in points), y=tuple(p.y for p in points), feed_stage=FEED, reflux_ratio=R,
+        distillate_flow=D, bottoms_flow=D, distillate_composition=points[0].x,
+        bottoms_composition=points[-1].x, condenser_duty=(R + 1) * D * 31e3,
+        reboiler_duty=(R + 1) * D * 33e3, condenser_temperature=points[0].T)
+
+
+@pytest.fixture(scope="module")
+def sized(mixture):
+    return size_column(make_profile(mixture), mixture, UTILITIES, 850.0, 1000.0)
+
+
+def test_equipment_list(sized):
+    tags = [item.tag for item in sized.equipment]
+    assert tags == ["column", "trays", "condenser", "reboiler", "reflux_drum", "reflux_pump"]
+    units = {item.tag: item.size_unit for item in sized.equipment}
+    assert units == {"column": "kg", "trays": "m", "condenser": "m^2", "reboiler": "m^2",
+                     "reflux_drum": "m^3", "reflux_pump": "W"}
+    trays = sized.equipment[1]
+    assert trays.quantity == sized.real_trays and trays.size == sized.diameter
+    assert all(item.design_pressure > 0.0 and item.design_temperature > C for item in sized.equipment)
+    assert sized.condenser.utility.name == "cooling water"
+    assert sized.reboiler.utility.name == "low-pressure steam"
+
+
+def test_result_serialises_to_json(sized):
+    text = json.dumps(dataclasses.asdict(sized), allow_nan=False)
+    assert '"tag": "reflux_pump"' in text
+
+
+def test_regression_pin(sized):
+    """Regression pin only: guards against unnoticed change, not a published value."""
+    assert sized.diameter == pytest.approx(1.20)
+    assert sized.real_trays == 21
+    assert sized.efficiency.value == pytest.approx(0.538, abs=0.002)
+    assert sized.condenser.area == pytest.approx(35.2, abs=0.1)
+    assert sized.warnings == ()
+
+
+def test_column_diameter_is_rounded_largest_tray(sized):
+    largest = max(t.diameter for t in sized.hydraulics)
+    assert sized.diameter - 0.05 < largest <= sized.diameter
+    assert len(sized.hydraulics) == N - 1
+    assert max(sized.rectifying_diameter, sized.stripping_diameter) == sized.diameter
+
+
+def test_smooth_form_agrees_on_every_tray(mixture, sized):
+    """The branch-free (Pyomo-ready) form gives each tray's diameter (downcomer 0.1 below F_LV 0.1)."""
+    profile = make_profile(mixture)
+    for tray in sized.hydraulics:
+        i = tray.stage - 1
+        smooth = flooding_diameter_smooth(
+            profile.V[i] * mixture.molar_mass(profile.y[i]), profile.L[i] * mixture.molar_mass(profile.x[i]),
+            tray.liquid_density, tray.vapour_density, tray.surface_tension, 24 * 0.0254, 0.8,
+            tray.downcomer_fraction)
+        assert smooth == pytest.approx(tray.diameter, rel=1e-12)
+
+
+def test_user_efficiency_and_separate_sections(mixture):
+    options = SizingOptions(tray_efficiency=0.7, separate_sections=True, diameter_increment=0.01)
+    sized = size_column(make_profile(mixture), mixture, UTILITIES, 850.0, 1000.0, options)
+    assert sized.real_trays == 16  # ceil(11 / 0.7)
+    assert sized.efficiency.method == "user value" and sized.efficiency.viscosity is None
+    tags = [item.tag for item in sized.equipment]
+    assert "trays_rectifying" in tags and "trays_stripping" in tags
+    counts = {item.tag: item.quantity for item in sized.equipment}
+    assert counts["trays_rectifying"] + counts["trays_stripping"] == 16
+
+
+# ---------------------------------------------------------------- bad input
+
+
+def test_tray_spacing_outside_correlation_range():
+    with pytest.raises(CorrelationRangeError, match="tray spacing = 0.1 m is outside"):
+        SizingOptions(tray_spacing=0.1)
+
+
+@pytest.mark.parametrize("field, value, match", [
+    ("flood_fraction", 1.2, "sizing.flood_fraction: 1.2 is not a fraction"),
+    ("flood_fraction", 0.0, "sizing.flood_fraction"),
+    ("flooding_method", "chart", "unknown method 'chart'"),
+    ("material", "wood", "unknown material 'wood'"),
+    ("corrosion_allowance", -1e-3, "sizing.corrosion_allowance"),
+    ("heavy_key", 0, "two different component indices"),
+])
+def test_bad_options(field, value, match):
+    with pytest.raises(CaseError, match=match):
+        SizingOptions(**{field: value})
+
+
+def test_flow_parameter_outside_chart_warns_or_raises(mixture):
+    profile = make_profile(mixture, liquid_scale=0.1)
+    sized = size_column(profile, mixture, UTILITIES, 850.0, 1000.0)
+    assert any("flow parameter outside 0.01 to 1" in w and "stage(s) 1, 2" in w for w in sized.warnings)
+    with pytest.raises(CorrelationRangeError, match=r"Fair flooding chart \(stage 1\): flow parameter"):
+        size_column(profile, mixture, UTILITIES, 850.0, 1000.0, SizingOptions(out_of_range=OutOfRange.RAISE))
+
+
+def test_no_steam_hot_enough(mixture):
+    cool_steam = (UTILITIES[0], UtilityLevel("steam 100 degC", "heating", "steam", C + 100, C + 100,
+                                             latent_heat=2.26e6))
+    with pytest.raises(InfeasibleSpecError, match=r"reboiler: .* steam 100 degC 100.0 -> 100.0 degC"):
+        size_column(make_profile(mixture), mixture, cool_steam, 850.0, 1000.0)
+
+
+def test_profile_feed_stage_checked(mixture):
+    profile = dataclasses.replace(make_profile(mixture), feed_stage=N + 1)
+    with pytest.raises(CaseError, match="profile.feed_stage"):
+        size_column(profile, mixture, UTILITIES, 850.0, 1000.0)

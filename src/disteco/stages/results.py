@@ -45,3 +45,18 @@ class StageProfile:
     def reboiler_temperature(self) -> float:
         """Temperature of the bottom stage [K]."""
         return self.T[-1]
+
+
+@dataclass(frozen=True)
+class Duties:
+    """Condenser and reboiler duties [W], from energy balances and the CMO estimate.
+
+    ``condenser``/``reboiler`` come from the converged profile's energy balances;
+    ``condenser_cmo``/``reboiler_cmo`` are the constant-molar-overflow estimates
+    (vapour flow x latent heat of the product leaving that end).
+    """
+
+    condenser: float
+    reboiler: float
+    condenser_cmo: float
+    reboiler_cmo: float

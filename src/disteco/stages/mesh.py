@@ -1,0 +1,186 @@
+"""The stage equations (material, equilibrium, summation, enthalpy) and their Newton solution.
+
+Unknowns are grouped in blocks of 2C + 1, one per contact, numbered from the top:
+block 0 is the condenser (reflux flows l_0, distillate flows d, temperature T_0), block
+j = 1..N is stage j (liquid flows l_j, vapour flows v_j, temperature T_j). Equations of a
+block involve only its own and its neighbours' unknowns, so the Jacobian is block
+tridiagonal: it is built by finite differences with three groups of blocks perturbed at
+once, and the mixture's K-values and enthalpies are re-evaluated only for the blocks that
+moved (Naphtali-Sandholm arrangement; component flows keep the material balances linear).
+
+With ``energy=False`` the stage enthalpy balances are replaced by constant molar overflow
+(liquid flows fixed per section) and no enthalpy is evaluated during the iteration.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .._base.errors import ConvergenceError, PropertyError
+from ..properties import Mixture
+
+TOLERANCE = 1e-10  # max scaled residual at convergence
+MAX_ITERATIONS = 60
+MAX_TEMPERATURE_STEP = 10.0  # K per Newton step
+ENTHALPY_SCALE = 3.0e4  # J/mol; a typical latent heat, to scale the enthalpy balances
+RELATIVE_STEP = 1e-7  # finite-difference step relative to the variable's scale
+
+
+@dataclass(frozen=True)
+class ColumnProblem:
+    """Everything fixed in one solve; SI units. Flows in mol/s, pressures in Pa."""
+
+    N: int
+    feed_stage: int
+    reflux_ratio: float
+    distillate_flow: float
+    feed_flow: float
+    z: tuple[float, ...]
+    feed_enthalpy: float  # J/mol
+    feed_q: float
+    pressures: tuple[float, ...]  # condenser, stage 1 .. N
+    partial_condenser: bool
+    subcooling: float  # K
+    energy: bool  # False: constant molar overflow
+
+    @property
+    def cmo_liquid(self) -> np.ndarray:
+        """Liquid leaving stages 1..N under constant molar overflow [mol/s]."""
+        L = np.full(self.N, self.reflux_ratio * self.distillate_flow)
+        L[self.feed_stage - 1:] += self.feed_q * self.feed_flow
+        L[-1] = self.feed_flow - self.distillate_flow
+        return L
+
+
+class Stages:
+    """Residuals, properties and Newton iteration for one ColumnProblem."""
+
+    def __init__(self, mixture: Mixture, problem: ColumnProblem):
+        self.mixture = mixture
+        self.p = problem
+        self.C = len(problem.z)
+        self.width = 2 * self.C + 1
+        self.f = np.zeros((problem.N + 1, self.C))
+        self.f[problem.feed_stage] = problem.feed_flow * np.asarray(problem.z)
+        self.scale_flow = problem.feed_flow
+
+    # ------------------------------------------------------------ properties of one block
+    def block_properties(self, j: int, u: np.ndarray) -> np.ndarray:
+        """[K (C), h_L, h_V] of block j at its unknowns u (length 2C + 1)."""
+        C, m, P = self.C, self.mixture, self.p.pressures[j]
+        l, v, T = u[:C], u[C:2 * C], u[-1]
+        x, y = _fractions(l), _fractions(v)
+        if j == 0 and not self.p.partial_condenser:
+            k = m.k_values(T, P, y)  # bubble point of the distillate
+            h_l = m.liquid_enthalpy(T - self.p.subcooling, P, y) if self.p.energy else 0.0
+            return np.concatenate([k, [h_l, h_l]])
+        k = m.k_values(T, P, x, y)
+        if not self.p.energy and j > 0:
+            return np.concatenate([k, [0.0, 0.0]])
+        return np.concatenate([k, [m.liquid_enthalpy(T, P, x), m.vapour_enthalpy(T, P, y)]])
+
+    def all_properties(self, U: np.ndarray) -> np.ndarray:
+        return np.array([self.block_properties(j, U[j]) for j in range(self.p.N + 1)])
+
+    # ------------------------------------------------------------ residuals
+    def residuals(self, U: np.ndarray, props: np.ndarray) -> np.ndarray:
+        """Scaled residuals, shape (N + 1, 2C + 1)."""
+        C, p = self.C, self.p
+        l, v = U[:, :C], U[:, C:2 * C]
+        L, V = l.sum(axis=1), v.sum(axis=1)
+        K, hL, hV = props[:, :C], props[:, C], props[:, C + 1]
+        R = np.empty_like(U)
+        # condenser: v[0] holds the distillate flows d
+        R[0, :C] = (v[1] - l[0] - v[0]) / self.scale_flow
+        x0, d0 = l[0] / L[0], v[0] / V[0]
+        if p.partial_condenser:
+            R[0, C:2 * C] = K[0] * x0 - d0
+            R[0, -1] = (L[0] - p.reflux_ratio * V[0]) / self.scale_flow
+        else:
+            R[0, C:2 * C] = (l[0] - p.reflux_ratio * v[0]) / self.scale_flow
+            R[0, -1] = np.log(np.dot(K[0], d0))
+        # stages 1..N
+        liquid_in = l[:-1]
+        vapour_in = np.vstack([v[2:], np.zeros((1, C))])
+        R[1:, :C] = (liquid_in + vapour_in + self.f[1:] - l[1:] - v[1:]) / self.scale_flow
+        R[1:, C:2 * C] = K[1:] * l[1:] / L[1:, None] - v[1:] / V[1:, None]
+        if p.energy:
+            h_in = L[:-1] * hL[:-1] + np.append(V[2:] * hV[2:], 0.0)
+            h_in[p.feed_stage - 1] += p.feed_flow * p.feed_enthalpy
+            R[1:, -1] = (h_in - L[1:] * hL[1:] - V[1:] * hV[1:]) / (self.scale_flow * ENTHALPY_SCALE)
+        else:
+            R[1:, -1] = (L[1:] - p.cmo_liquid) / self.scale_flow
+        R[-1, -1] = (L[-1] - (p.feed_flow - p.distillate_flow)) / self.scale_flow
+        return R
+
+    # ------------------------------------------------------------ Jacobian
+    def jacobian(self, U: np.ndarray, props: np.ndarray, R0: np.ndarray) -> np.ndarray:
+        """Block-tridiagonal Jacobian by grouped forward differences."""
+        n_blocks, w = self.p.N + 1, self.width
+        J = np.zeros((n_blocks * w, n_blocks * w))
+        typical = np.concatenate([np.full(2 * self.C, 1e-3 * self.scale_flow), [100.0]])
+        for group in range(3):
+            blocks = range(group, n_blocks, 3)
+            for k in range(w):
+                Up, Pp = U.copy(), props.copy()
+                steps = {}
+                for j in blocks:
+                    h = RELATIVE_STEP * max(abs(U[j, k]), typical[k])
+                    Up[j, k] += h
+                    steps[j] = h
+                    Pp[j] = self.block_properties(j, Up[j])
+                dR = self.residuals(Up, Pp) - R0
+                for j, h in steps.items():
+                    lo, hi = max(j - 1, 0), min(j + 2, n_blocks)
+                    J[lo * w:hi * w, j * w + k] = dR[lo:hi].ravel() / h
+        return J
+
+    # ------------------------------------------------------------ Newton
+    def solve(self, U: np.ndarray) -> tuple[np.ndarray, np.ndarray, int]:
+        """Newton iteration from U; returns the solution, its properties and the iteration count."""
+        U = U.copy()
+        props = self.all_properties(U)
+        R = self.residuals(U, props)
+        norm = np.abs(R).max()
+        for iteration in range(1, MAX_ITERATIONS + 1):
+            if norm < TOLERANCE:
+                return U, props, iteration - 1
+            J = self.jacobian(U, props, R)
+            try:
+                step = np.linalg.solve(J, -R.ravel()).reshape(U.shape)
+            except np.linalg.LinAlgError:
+                raise ConvergenceError("the stage equations became singular; check the feed stage and "
+                                       "that the distillate flow is between zero and the feed flow") from None
+            U, props, R, norm = self._damped_update(U, step, R)
+        raise ConvergenceError(f"stage equations not converged in {MAX_ITERATIONS} Newton steps "
+                               f"(largest scaled residual {norm:.3g}); the specification may be near "
+                               "minimum reflux or the distillate flow may be impossible for the stage count")
+
+    def _damped_update(self, U, step, R0):
+        norm_2 = np.linalg.norm(R0)
+        alpha = min(1.0, MAX_TEMPERATURE_STEP / max(np.abs(step[:, -1]).max(), 1e-30))
+        for _ in range(8):
+            trial = U + alpha * step
+            flows = trial[:, :-1]
+            old = U[:, :-1]
+            # a flow that would turn negative shrinks by a factor instead (keeps positivity)
+            shrink = flows <= 0.0
+            flows[shrink] = old[shrink] * np.exp(np.maximum(alpha * step[:, :-1][shrink] / old[shrink], -5.0))
+            try:
+                props = self.all_properties(trial)
+            except PropertyError:
+                alpha *= 0.5
+                continue
+            R = self.residuals(trial, props)
+            new_norm = np.abs(R).max()
+            # the Newton step is a descent direction of the 2-norm, not of the max-norm
+            if np.isfinite(new_norm) and (np.linalg.norm(R) < norm_2 or alpha < 0.05):
+                return trial, props, R, new_norm
+            alpha *= 0.5
+        return trial, props, R, new_norm
+
+
+def _fractions(flows: np.ndarray) -> np.ndarray:
+    return flows / flows.sum()

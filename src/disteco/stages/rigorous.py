@@ -1,0 +1,150 @@
+"""Stage-by-stage column solution for a given design: constant molar overflow or energy balances.
+
+What is fixed in a solve (``ColumnSpec``): the number of equilibrium stages N (reboiler
+included, condenser not counted), the feed stage, the reflux ratio L0/D, the distillate
+flow D, the top pressure and the pressure drop per stage. Everything else follows:
+temperatures, flows, compositions, the product purities and both duties.
+
+Stage j (1..N) sits at P_top + (j - 1) dP; the condenser at P_top. A total condenser
+returns reflux and distillate at their bubble point less the subcooling; a partial
+condenser is an equilibrium contact giving a vapour distillate.
+
+The energy-balance solution starts from the constant-molar-overflow one, which starts
+from Newton's method on the temperatures of the CMO column (see ``cmo``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .._base.errors import CaseError, InfeasibleSpecError
+from ..case import Column
+from ..properties import FeedState, Mixture
+from .cmo import cmo_unknowns
+from .mesh import ColumnProblem, Stages
+from .results import StageProfile
+
+@dataclass(frozen=True)
+class ColumnSpec:
+    """The fixed quantities of one solve. N counts the reboiler; stages numbered from the top."""
+
+    stages: int
+    feed_stage: int
+    reflux_ratio: float  # L0/D [-]
+    distillate_flow: float  # mol/s
+    top_pressure: float  # Pa
+    pressure_drop_per_stage: float = 0.0  # Pa
+    partial_condenser: bool = False
+    subcooling: float = 0.0  # K
+
+    @classmethod
+    def from_column(cls, column: Column, stages: int, feed_stage: int, reflux_ratio: float,
+                    distillate_flow: float) -> "ColumnSpec":
+        """Spec from the case's column table and the design variables."""
+        return cls(stages, feed_stage, reflux_ratio, distillate_flow, column.top_pressure,
+                   column.pressure_drop_per_stage, column.condenser == "partial", column.subcooling)
+
+
+def _check(spec: ColumnSpec, feed: FeedState) -> None:
+    if spec.stages < 2:
+        raise CaseError("stages", f"{spec.stages} equilibrium stages", "at least 2 (one stage and the reboiler)")
+    if not 1 <= spec.feed_stage <= spec.stages:
+        raise CaseError("feed_stage", f"feed stage {spec.feed_stage} with {spec.stages} stages",
+                        f"1 to {spec.stages}, counted from the top")
+    if spec.reflux_ratio <= 0.0:
+        raise InfeasibleSpecError(f"reflux ratio {spec.reflux_ratio:.4g} is not positive; a rectifying column "
+                                  "needs reflux")
+    if not 0.0 < spec.distillate_flow < feed.molar_flow:
+        raise InfeasibleSpecError(f"distillate flow {spec.distillate_flow:.6g} mol/s must lie between zero and "
+                                  f"the feed flow {feed.molar_flow:.6g} mol/s")
+    if spec.partial_condenser and spec.subcooling > 0.0:
+        raise CaseError("subcooling", "a partial condenser has no subcooling", "0 K with a partial condenser")
+
+
+def _problem(spec: ColumnSpec, feed: FeedState, energy: bool) -> ColumnProblem:
+    pressures = (spec.top_pressure,) + tuple(spec.top_pressure + j * spec.pressure_drop_per_stage
+                                             for j in range(spec.stages))
+    return ColumnProblem(spec.stages, spec.feed_stage, spec.reflux_ratio, spec.distillate_flow,
+                         feed.molar_flow, tuple(feed.z), feed.enthalpy, feed.q, pressures,
+                         spec.partial_condenser, spec.subcooling, energy)
+
+
+def _unknowns_from_profile(profile: StageProfile) -> np.ndarray:
+    D, R = profile.distillate_flow, profile.reflux_ratio
+    d = D * np.asarray(profile.distillate_composition)
+    top = np.concatenate([R * d, d, [profile.condenser_temperature]])
+    rows = [np.concatenate([L * np.asarray(x), V * np.asarray(y), [T]])
+            for L, V, x, y, T in zip(profile.L, profile.V, profile.x, profile.y, profile.T)]
+    return np.vstack([top] + rows)
+
+
+def _profile(stages: Stages, U: np.ndarray, props: np.ndarray, feed: FeedState) -> StageProfile:
+    p, C = stages.p, stages.C
+    l, v = U[:, :C], U[:, C:2 * C]
+    L, V = l.sum(axis=1), v.sum(axis=1)
+    hL, hV = props[:, C], props[:, C + 1]
+    if not p.energy:  # enthalpies of the converged CMO profile, for the duties
+        m = stages.mixture
+        hL = np.array([hL[0]] + [m.liquid_enthalpy(U[j, -1], p.pressures[j], l[j] / L[j]) for j in range(1, p.N + 1)])
+        hV = np.array([hV[0]] + [m.vapour_enthalpy(U[j, -1], p.pressures[j], v[j] / V[j]) for j in range(1, p.N + 1)])
+        if not p.partial_condenser:
+            hL[0] = m.liquid_enthalpy(U[0, -1] - p.subcooling, p.pressures[0], v[0] / V[0])
+        else:
+            hL[0] = m.liquid_enthalpy(U[0, -1], p.pressures[0], l[0] / L[0])
+            hV[0] = m.vapour_enthalpy(U[0, -1], p.pressures[0], v[0] / V[0])
+    D = V[0]
+    h_distillate = hV[0] if p.partial_condenser else hL[0]
+    q_condenser = V[1] * hV[1] - L[0] * hL[0] - D * h_distillate
+    B = L[-1]
+    if p.energy:
+        feed_in = feed.molar_flow * feed.enthalpy if p.feed_stage == p.N else 0.0
+        q_reboiler = L[-1] * hL[-1] + V[-1] * hV[-1] - L[-2] * hL[-2] - feed_in
+    else:  # overall balance, so that the CMO profile still closes its energy balance
+        q_reboiler = D * h_distillate + B * hL[-1] + q_condenser - feed.molar_flow * feed.enthalpy
+    x = l[1:] / L[1:, None]
+    y = v[1:] / V[1:, None]
+    return StageProfile(
+        T=tuple(map(float, U[1:, -1])), P=tuple(map(float, p.pressures[1:])),
+        L=tuple(map(float, L[1:])), V=tuple(map(float, V[1:])),
+        x=tuple(tuple(map(float, row)) for row in x), y=tuple(tuple(map(float, row)) for row in y),
+        feed_stage=p.feed_stage, reflux_ratio=p.reflux_ratio, distillate_flow=float(D), bottoms_flow=float(B),
+        distillate_composition=tuple(map(float, v[0] / D)), bottoms_composition=tuple(map(float, x[-1])),
+        condenser_duty=float(q_condenser), reboiler_duty=float(q_reboiler),
+        condenser_temperature=float(U[0, -1] - (0.0 if p.partial_condenser else p.subcooling)),
+        partial_condenser=p.partial_condenser, model="rigorous" if p.energy else "cmo")
+
+
+def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
+           guess: StageProfile | None) -> StageProfile:
+    _check(spec, feed)
+    stages = Stages(mixture, _problem(spec, feed, energy))
+    if guess is not None and guess.stages == spec.stages and len(guess.x[0]) == len(feed.z):
+        U0 = _unknowns_from_profile(guess)
+        if not guess.partial_condenser:
+            U0[0, -1] += spec.subcooling
+    else:
+        U0 = cmo_unknowns(mixture, _problem(spec, feed, energy=False))
+    U, props, _ = stages.solve(U0)
+    return _profile(stages, U, props, feed)
+
+
+def solve_cmo(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
+              guess: StageProfile | None = None) -> StageProfile:
+    """Stage profile under constant molar overflow (no stage energy balances).
+
+    Duties: condenser from its energy balance on the converged vapour, reboiler from the
+    overall energy balance. ``guess`` (a profile with the same N) warm-starts Newton.
+    """
+    return _solve(mixture, feed, spec, False, guess)
+
+
+def solve_rigorous(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
+                   guess: StageProfile | None = None) -> StageProfile:
+    """Stage profile with energy balances on every stage (MESH equations).
+
+    Starts from ``guess`` when given (same N), else from the constant-molar-overflow
+    solution of the same spec.
+    """
+    return _solve(mixture, feed, spec, True, guess)

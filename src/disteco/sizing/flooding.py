@@ -334,7 +334,7 @@ def flooding_diameter_smooth(vapour_mass_flow, liquid_mass_flow, liquid_density,
 
     Notes
     -----
-    Only powers and ``exp``: the same code gives the Pyomo twin. Ranges as in
+    Only powers and ``exp`` (here and in the helpers it calls): the same code gives the Pyomo twin. Ranges as in
     :func:`capacity_factor_lygeros_magoulas`.
 
     Examples
@@ -347,9 +347,9 @@ def flooding_diameter_smooth(vapour_mass_flow, liquid_mass_flow, liquid_density,
     1. Lygeros, A. I., and K. G. Magoulas, Hydrocarbon Processing 65(12), 43 (1986).
     2. Fair, J. R., Petro/Chem Engineer 33(10), 45 (1961).
     """
-    flv = liquid_mass_flow / vapour_mass_flow * (vapour_density / liquid_density) ** 0.5
-    c = capacity_factor_lygeros_magoulas(flv, tray_spacing, exp) \
-        * (surface_tension / FAIR_REFERENCE_SURFACE_TENSION) ** 0.2
+    flv = flow_parameter(liquid_mass_flow, vapour_mass_flow, liquid_density, vapour_density)
+    c = capacity_factor_lygeros_magoulas(flv, tray_spacing, exp) * surface_tension_correction(surface_tension)
+    # written out rather than flooding_velocity(): fluids' sqrt does not take Pyomo expressions
     u_flood = c * ((liquid_density - vapour_density) / vapour_density) ** 0.5
     area = vapour_mass_flow / vapour_density / (flood_fraction * u_flood * (1.0 - downcomer_fraction))
     return (4.0 * area / math.pi) ** 0.5

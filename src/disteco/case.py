@@ -120,7 +120,12 @@ def load_case(path: str | Path) -> Case:
     except UnicodeDecodeError:
         raise CaseError("case file", f"{path} is not UTF-8 text") from None
     case = parse_case(data)
-    return Case(**{**case.__dict__, "source": path.resolve()})
+    economics = case.economics
+    if economics.cost_data is not None and not economics.cost_data.is_absolute():
+        # A cost-data folder is written relative to the case file, as a person expects.
+        economics = Economics(path.resolve().parent / economics.cost_data, economics.cost_year,
+                              economics.scenarios, economics.currency)
+    return Case(**{**case.__dict__, "economics": economics, "source": path.resolve()})
 
 
 def parse_case(data: dict) -> Case:

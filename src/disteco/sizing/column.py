@@ -147,15 +147,16 @@ def _condenser_liquid(profile: StageProfile, mixture: SizingProperties) -> tuple
 
 
 def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Sequence[UtilityLevel],
-                U_condenser: float, U_reboiler: float, options: SizingOptions = SizingOptions()) -> ColumnSizing:
+                U_condenser: float, U_reboiler: float, options: SizingOptions | None = None) -> ColumnSizing:
     """Size trays, shell, condenser, reboiler, reflux drum and pump for a converged column.
 
     ``U_condenser`` and ``U_reboiler`` are overall heat-transfer coefficients [W/(m^2 K)];
     ``utilities`` are the levels the scenario offers. Raises ``CaseError`` for bad options or
     profile, ``CorrelationRangeError`` when a range is passed under the RAISE policy, and
     ``InfeasibleSpecError`` when no utility level fits. Other range excursions are listed
-    in ``warnings``.
+    in ``warnings``. ``options`` defaults to ``SizingOptions()``.
     """
+    options = SizingOptions() if options is None else options
     _check_profile(profile)
     warnings: list[str] = []
     n = profile.stages

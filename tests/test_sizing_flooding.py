@@ -7,11 +7,11 @@ import pyomo.environ as pyo
 import pytest
 
 from disteco._base.errors import CorrelationRangeError
-from disteco.sizing import flooding
 from disteco.sizing.flooding import (FLOODING_METHODS, INCH, capacity_factor_kessler_wankat,
                                      capacity_factor_lygeros_magoulas, downcomer_area_fraction,
-                                     flooding_diameter_smooth, round_up, surface_tension_correction,
-                                     tray_hydraulics)
+                                     flooding_diameter_smooth, lygeros_magoulas_constants,
+                                     surface_tension_correction)
+from disteco.sizing.trays import round_up, tray_hydraulics
 
 CHART_SPACINGS = [6, 9, 12, 18, 24, 36]  # in, the curves of Fair's chart
 CHART_FLV = [0.02, 0.05, 0.1, 0.2, 0.5, 1.0]
@@ -112,6 +112,13 @@ def test_registry_names_call_the_functions_named_after_them():
         assert function.__name__ == "capacity_factor_" + name.replace("-", "_")
 
 
+def test_constants_at_24_inch_spacing():
+    """Lygeros and Magoulas (1986): c1 = 8.127e-4 TS[mm]^0.755; at 609.6 mm, c1 = 0.1030 m/s."""
+    c0, c1, c2, c3 = lygeros_magoulas_constants(0.6096)
+    assert (c0, c2, c3) == (0.0105, 1.463, 0.842)
+    assert c1 == pytest.approx(0.1030, abs=0.0001)
+
+
 def test_spacing_outside_chart_raises():
     with pytest.raises(CorrelationRangeError, match="tray spacing"):
         capacity_factor_kessler_wankat(0.1, 40 * INCH)
@@ -147,4 +154,4 @@ def test_smooth_form_equals_stage_calculation_at_design_points():
 def test_round_up_to_increment():
     assert round_up(1.2, 0.05) == 1.2
     assert round_up(1.2001, 0.05) == 1.25
-    assert flooding.round_up(0.31, 0.15) == pytest.approx(0.45)
+    assert round_up(0.31, 0.15) == pytest.approx(0.45)

@@ -7,18 +7,19 @@ small functions in the modules ``flooding``, ``efficiency``, ``vessel``, ``excha
 
 from .auxiliaries import DrumSizing, PumpSizing
 from .column import ColumnSizing, EquipmentItem, SizingProperties, size_column
-from .efficiency import TrayEfficiency, oconnell_efficiency_lockett, real_trays
+from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchangers import ExchangerSizing, choose_utility, log_mean_temperature_difference, size_exchanger
-from .flooding import (FLOODING_METHODS, TrayHydraulics, capacity_factor_kessler_wankat,
-                       capacity_factor_lygeros_magoulas, flooding_diameter_smooth)
+from .flooding import (FLOODING_METHODS, FLOW_PARAMETER_RANGE, TRAY_SPACING_RANGE, capacity_factor_kessler_wankat,
+                       capacity_factor_lygeros_magoulas, flooding_diameter_smooth, lygeros_magoulas_constants)
 from .materials import Material, load_materials, material
 from .options import SizingOptions
+from .trays import TrayHydraulics
 from .utilities import UtilityLevel
 from .vessel import CAUTION, ColumnHeight, VesselDesign
 
-__all__ = ["CAUTION", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentItem", "ExchangerSizing",
+__all__ = ["CAUTION", "FLOW_PARAMETER_RANGE", "OCONNELL_RANGE", "TRAY_SPACING_RANGE", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentItem", "ExchangerSizing",
            "FLOODING_METHODS", "Material", "PumpSizing", "SizingOptions", "SizingProperties", "TrayEfficiency",
            "TrayHydraulics", "UtilityLevel", "VesselDesign", "capacity_factor_kessler_wankat",
            "capacity_factor_lygeros_magoulas", "choose_utility", "flooding_diameter_smooth",
-           "load_materials", "log_mean_temperature_difference", "material", "oconnell_efficiency_lockett",
+           "load_materials", "log_mean_temperature_difference", "lygeros_magoulas_constants", "material", "oconnell_efficiency_lockett",
            "real_trays", "size_column", "size_exchanger"]

@@ -17,7 +17,8 @@ from ..stages.results import StageProfile
 from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchangers import ExchangerSizing, size_exchanger
-from .flooding import FLOW_PARAMETER_RANGE, TrayHydraulics, round_up, tray_hydraulics
+from .flooding import FLOW_PARAMETER_RANGE
+from .trays import TrayHydraulics, round_up, tray_hydraulics
 from .options import SizingOptions
 from .utilities import UtilityLevel
 from .vessel import ColumnHeight, VesselDesign, column_height, design_pressure, design_vessel

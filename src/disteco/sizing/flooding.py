@@ -22,7 +22,6 @@ re-measures this spread.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 from fluids.separator import v_Souders_Brown
 
@@ -80,8 +79,16 @@ def capacity_factor_lygeros_magoulas(flow_parameter, tray_spacing, exp=math.exp)
     2. Seader, J. D., E. J. Henley and D. K. Roper, Separation Process Principles, 3rd ed.,
        Wiley (2011), Section 6.6 (quotes the fit).
     """
-    spacing_mm = tray_spacing / MILLIMETRE
-    return 0.0105 + 8.127e-4 * spacing_mm ** 0.755 * exp(-1.463 * flow_parameter ** 0.842)
+    c0, c1, c2, c3 = lygeros_magoulas_constants(tray_spacing)
+    return c0 + c1 * exp(-c2 * flow_parameter ** c3)
+
+
+def lygeros_magoulas_constants(tray_spacing: float) -> tuple[float, float, float, float]:
+    """(c0 [m/s], c1 [m/s], c2 [-], c3 [-]) of C_F = c0 + c1 exp(-c2 F_LV^c3) at one tray spacing [m].
+
+    The Lygeros-Magoulas fit at a fixed spacing, in the form an equation model takes as constants.
+    """
+    return (0.0105, 8.127e-4 * (tray_spacing / MILLIMETRE) ** 0.755, 1.463, 0.842)
 
 
 # log10(C_F [ft/s]) = a0 + a1 log10(F_LV) + a2 log10(F_LV)^2, one row per charted spacing [in].
@@ -353,45 +360,3 @@ def flooding_diameter_smooth(vapour_mass_flow, liquid_mass_flow, liquid_density,
     u_flood = c * ((liquid_density - vapour_density) / vapour_density) ** 0.5
     area = vapour_mass_flow / vapour_density / (flood_fraction * u_flood * (1.0 - downcomer_fraction))
     return (4.0 * area / math.pi) ** 0.5
-
-
-@dataclass(frozen=True)
-class TrayHydraulics:
-    """Flooding and area of one tray at the design fraction of flood (SI)."""
-
-    stage: int  # counted from the top
-    liquid_density: float  # kg/m^3
-    vapour_density: float  # kg/m^3
-    surface_tension: float  # N/m
-    vapour_volume_flow: float  # m^3/s
-    flow_parameter: float  # -
-    capacity_factor: float  # m/s, at flood, surface-tension and system factor applied
-    flooding_velocity: float  # m/s, on the net area
-    design_velocity: float  # m/s, on the net area
-    downcomer_fraction: float  # -
-    net_area: float  # m^2
-    total_area: float  # m^2
-    diameter: float  # m, not rounded
-
-
-def tray_hydraulics(stage: int, liquid_mass_flow: float, vapour_mass_flow: float, liquid_density: float,
-                    vapour_density: float, surface_tension: float, tray_spacing: float,
-                    flood_fraction: float, method: str = "lygeros-magoulas", system_factor: float = 1.0,
-                    downcomer_fraction: float | None = None) -> TrayHydraulics:
-    """Flooding, net and total area and diameter of one tray (ranges are checked by the caller)."""
-    flv = flow_parameter(liquid_mass_flow, vapour_mass_flow, liquid_density, vapour_density)
-    c = FLOODING_METHODS[method](flv, tray_spacing) * surface_tension_correction(surface_tension) * system_factor
-    u_flood = flooding_velocity(c, liquid_density, vapour_density)
-    fraction = downcomer_area_fraction(flv) if downcomer_fraction is None else downcomer_fraction
-    volume_flow = vapour_mass_flow / vapour_density
-    net = volume_flow / (flood_fraction * u_flood)
-    total = net / (1.0 - fraction)
-    return TrayHydraulics(stage, liquid_density, vapour_density, surface_tension, volume_flow, flv, c,
-                          u_flood, flood_fraction * u_flood, fraction, net, total,
-                          math.sqrt(4.0 * total / math.pi))
-
-
-def round_up(value: float, increment: float) -> float:
-    """``value`` rounded up to a whole multiple of ``increment`` (same unit)."""
-    steps = math.ceil(value / increment - 1e-9)
-    return round(steps * increment, 10)

@@ -17,9 +17,10 @@ from .trays import TrayHydraulics
 from .utilities import UtilityLevel
 from .vessel import CAUTION, ColumnHeight, VesselDesign
 
-__all__ = ["CAUTION", "FLOW_PARAMETER_RANGE", "OCONNELL_RANGE", "TRAY_SPACING_RANGE", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentItem", "ExchangerSizing",
-           "FLOODING_METHODS", "Material", "PumpSizing", "SizingOptions", "SizingProperties", "TrayEfficiency",
-           "TrayHydraulics", "UtilityLevel", "VesselDesign", "capacity_factor_kessler_wankat",
-           "capacity_factor_lygeros_magoulas", "choose_utility", "flooding_diameter_smooth",
-           "load_materials", "log_mean_temperature_difference", "lygeros_magoulas_constants", "material", "oconnell_efficiency_lockett",
-           "real_trays", "size_column", "size_exchanger"]
+__all__ = ["CAUTION", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentItem", "ExchangerSizing",
+           "FLOODING_METHODS", "FLOW_PARAMETER_RANGE", "Material", "OCONNELL_RANGE", "PumpSizing",
+           "SizingOptions", "SizingProperties", "TRAY_SPACING_RANGE", "TrayEfficiency", "TrayHydraulics",
+           "UtilityLevel", "VesselDesign", "capacity_factor_kessler_wankat",
+           "capacity_factor_lygeros_magoulas", "choose_utility", "flooding_diameter_smooth", "load_materials",
+           "log_mean_temperature_difference", "lygeros_magoulas_constants", "material",
+           "oconnell_efficiency_lockett", "real_trays", "size_column", "size_exchanger"]

@@ -7,8 +7,6 @@ import pytest
 
 from disteco._base.errors import CaseError, CorrelationRangeError, InfeasibleSpecError
 from disteco._base.validity import OutOfRange
-from disteco.case import Thermo
-from disteco.properties import build_mixture
 from disteco.sizing import SizingOptions, UtilityLevel, flooding_diameter_smooth, size_column
 from disteco.stages.results import StageProfile
 
@@ -21,8 +19,8 @@ N, FEED, D, R = 12, 6, 13.9, 2.0  # stages, feed stage, distillate mol/s, reflux
 
 
 @pytest.fixture(scope="module")
-def mixture():
-    return build_mixture(("benzene", "toluene"), Thermo("ideal"), 101325.0)
+def mixture(benzene_toluene):
+    return benzene_toluene
 
 
 def make_profile(mixture, liquid_scale=1.0):

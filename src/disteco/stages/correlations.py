@@ -304,7 +304,7 @@ def stages_from_gilliland(minimum_stages: float, minimum_reflux: float, reflux: 
         raise InfeasibleSpecError(f"reflux ratio {reflux:.4g} is at or below the minimum reflux "
                                   f"{minimum_reflux:.4g}: no number of stages reaches the specification")
     Y = gilliland_molokanov((reflux - minimum_reflux) / (reflux + 1.0))
-    return (minimum_stages + Y) / (1.0 - Y)
+    return (minimum_stages + Y) / (1.0 - Y) if Y < 1.0 else math.inf
 
 
 def kirkbride_ratio(z_light: float, z_heavy: float, x_light_bottoms: float, x_heavy_distillate: float,

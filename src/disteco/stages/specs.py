@@ -1,0 +1,102 @@
+"""Distillate flow and reflux ratio that make a column of given size meet the key specifications.
+
+For a fixed number of stages and feed stage the two end specifications of the case
+(``case.Products``) are met by adjusting D and R: Newton's method on
+(ln R, D), with the stage solution (CMO or energy balances) warm-started from the
+previous one. The start comes from the shortcut design (its D, and R from Gilliland).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from scipy.optimize import brentq
+
+from .._base.errors import ConvergenceError, InfeasibleSpecError
+from ..case import Column, EndSpec, Products
+from ..properties import FeedState, Mixture
+from .results import StageProfile
+from .rigorous import ColumnSpec, solve_cmo, solve_rigorous
+from .shortcut import ShortcutDesign
+
+TOLERANCE = 1e-7  # on the log residuals of the specifications
+MAX_ITERATIONS = 30
+MAX_LOG_REFLUX_STEP = 0.5
+DIFFERENCE = 1e-6  # relative step of the finite-difference Jacobian
+
+
+def spec_residuals(profile: StageProfile, products: Products, feed: FeedState) -> np.ndarray:
+    """Log-mismatch of the two end specifications [-]; zero when both are met."""
+    F, z = feed.molar_flow, np.asarray(feed.z)
+    light, heavy = products.light_key, products.heavy_key
+    d = profile.distillate_flow * np.asarray(profile.distillate_composition)
+    b = profile.bottoms_flow * np.asarray(profile.bottoms_composition)
+    return np.array([
+        _residual(products.light_key_spec, b[light] / (F * z[light]), profile.bottoms_composition[light]),
+        _residual(products.heavy_key_spec, d[heavy] / (F * z[heavy]), profile.distillate_composition[heavy]),
+    ])
+
+
+def _residual(spec: EndSpec, loss: float, fraction: float) -> float:
+    """A recovery is met through the loss (1 - recovery), a fraction directly; both in logs."""
+    if spec.kind == "recovery":
+        return math.log(max(loss, 1e-300) / (1.0 - spec.value))
+    return math.log(max(fraction, 1e-300) / spec.value)
+
+
+def gilliland_reflux(design: ShortcutDesign, stages: int) -> float:
+    """Reflux ratio at which Gilliland's correlation gives ``stages`` [-]."""
+    if stages <= design.minimum_stages + 1e-6:
+        raise InfeasibleSpecError(
+            f"{stages} equilibrium stages are not more than the minimum {design.minimum_stages:.2f} "
+            "(Fenske, total reflux): no reflux ratio meets the specification; add stages")
+    low = design.minimum_reflux * (1.0 + 1e-6)
+    high = max(design.minimum_reflux * 1e3, 1e3)
+    return brentq(lambda r: design.stages(r) - stages, low, high, xtol=1e-12, rtol=1e-12)
+
+
+def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column: Column,
+                   design: ShortcutDesign, stages: int, feed_stage: int, energy: bool = True) -> StageProfile:
+    """Profile of a column with ``stages`` and ``feed_stage`` that meets both key specifications.
+
+    ``energy`` chooses the stage model (energy balances, or constant molar overflow).
+    Raises InfeasibleSpecError when the stages are too few, ConvergenceError when Newton
+    fails (usually: too close to the minimum number of stages).
+    """
+    solve = solve_rigorous if energy else solve_cmo
+    F = feed.molar_flow
+
+    def run(log_r: float, D: float, guess: StageProfile | None):
+        spec = ColumnSpec.from_column(column, stages, feed_stage, math.exp(log_r), D)
+        profile = solve(mixture, feed, spec, guess)
+        return profile, spec_residuals(profile, products, feed)
+
+    u = np.array([math.log(gilliland_reflux(design, stages)), design.distillate_flow])
+    profile, r = run(u[0], u[1], None)
+    for _ in range(MAX_ITERATIONS):
+        if np.abs(r).max() < TOLERANCE:
+            return profile
+        J = np.empty((2, 2))
+        for k, h in enumerate((DIFFERENCE, DIFFERENCE * F)):
+            shifted = u.copy()
+            shifted[k] += h
+            J[:, k] = (run(shifted[0], shifted[1], profile)[1] - r) / h
+        step = np.linalg.solve(J, -r)
+        step *= min(1.0, MAX_LOG_REFLUX_STEP / max(abs(step[0]), 1e-30))
+        for _ in range(12):
+            trial = u + step
+            if 0.0 < trial[1] < F:
+                try:
+                    new_profile, new_r = run(trial[0], trial[1], profile)
+                    if np.abs(new_r).max() < np.abs(r).max():
+                        break
+                except (ConvergenceError, InfeasibleSpecError):
+                    pass
+            step *= 0.5
+        else:
+            break
+        u, profile, r = trial, new_profile, new_r
+    raise ConvergenceError(
+        f"could not meet the key specifications with {stages} stages and feed on stage {feed_stage} "
+        f"(remaining log-mismatch {np.abs(r).max():.3g}); add stages or move the feed stage")

@@ -1,0 +1,169 @@
+"""Shortcut correlations (Fenske, Underwood, Gilliland, Kirkbride) and the shortcut design.
+
+Validation tests name their source; regression pins say that they only guard against change.
+"""
+
+import doctest
+import inspect
+import math
+import re
+
+import numpy as np
+import pytest
+
+from disteco.case import Column, EndSpec, Feed, FeedFlow, Products, ThermalCondition, Thermo
+from disteco.properties import build_mixture, feed_state
+from disteco.stages import correlations, duties, shortcut
+from disteco.stages.correlations import (fenske_distribution, fenske_minimum_stages, gilliland_eduljee,
+                                         gilliland_molokanov, kirkbride_feed_stage, stages_from_gilliland,
+                                         underwood_minimum_vapour, underwood_roots)
+from disteco.stages.shortcut import shortcut_design
+from disteco.stages.splits import product_split
+
+# Benzene-toluene-cumene at 1 atm with constant volatilities (toluene = 1), 100 mol feed
+# of 40/30/30 mol %, 95 % of toluene to the distillate and 95 % of cumene to the bottoms.
+BTC_ALPHA = np.array([2.25, 1.0, 0.21])
+BTC_Z = np.array([0.40, 0.30, 0.30])
+
+
+def test_fenske_benzene_toluene_cumene():
+    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-1 (values from memory):
+    Nmin = 3.77 and fractional recovery of benzene in the distillate 0.9975."""
+    alpha = BTC_ALPHA / BTC_ALPHA[2]
+    n_min = fenske_minimum_stages(28.5, 1.5, 1.5, 28.5, alpha[1])
+    assert n_min == pytest.approx(3.77, abs=0.005)
+    d = fenske_distribution(alpha, 100.0 * BTC_Z, 1.5, 28.5, n_min)
+    assert d[0] / 40.0 == pytest.approx(0.9975, abs=5e-4)
+
+
+def test_underwood_root_saturated_vapour_feed():
+    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-2 (from memory): the
+    Underwood root between the keys is 0.5454 for the saturated-vapour feed (q = 0)."""
+    roots = underwood_roots(BTC_ALPHA, BTC_Z, 0.0, 0.21, 1.0)
+    assert roots == [pytest.approx(0.5454, abs=2e-4)]
+
+
+def test_underwood_root_is_scale_free_and_vmin_pin():
+    """Regression pin (guards against change only): Vmin for the example above with
+    volatilities referred to cumene instead of toluene; the roots scale, Vmin does not."""
+    d = np.array([39.90, 28.5, 1.5])
+    v1, _, r1 = underwood_minimum_vapour(BTC_ALPHA, BTC_Z, 0.0, d, 1, 2)
+    v2, _, r2 = underwood_minimum_vapour(BTC_ALPHA / 0.21, BTC_Z, 0.0, d, 1, 2)
+    assert v1 == pytest.approx(v2, rel=1e-10)
+    assert r2[0] == pytest.approx(r1[0] / 0.21, rel=1e-10)
+    assert v1 == pytest.approx(114.41, abs=0.01)
+
+
+def test_underwood_binary_closed_form():
+    """Underwood's equations for a binary saturated-liquid feed reduce to the closed form
+    Rmin = [x_D/z - alpha (1 - x_D)/(1 - z)]/(alpha - 1) (King, Separation Processes,
+    2nd ed., 1980, section 9.4)."""
+    alpha, z, x_d, D = 2.5, 0.45, 0.95, 0.40
+    d = np.array([x_d * D, (1.0 - x_d) * D])
+    v_min, _, _ = underwood_minimum_vapour(np.array([alpha, 1.0]), np.array([z, 1 - z]), 1.0, d, 0, 1)
+    closed = (x_d / z - alpha * (1.0 - x_d) / (1.0 - z)) / (alpha - 1.0)
+    assert v_min / D - 1.0 == pytest.approx(closed, rel=1e-9)
+
+
+def test_underwood_with_distributing_middle_component():
+    """A component between the keys gets its distillate flow from the two roots; the two
+    equations must then hold at both roots (Underwood 1948, Class 2 separation)."""
+    alpha = np.array([4.0, 2.0, 1.5, 1.0])
+    z = np.array([0.25, 0.25, 0.25, 0.25])
+    d = np.array([25.0, 24.0, 0.0, 1.0])
+    v_min, d_out, roots = underwood_minimum_vapour(alpha, z, 1.0, d, 1, 3)
+    assert len(roots) == 2 and 0.0 < d_out[2] < 25.0
+    for phi in roots:
+        assert np.sum(alpha * d_out / (alpha - phi)) == pytest.approx(v_min, rel=1e-9)
+
+
+@pytest.mark.parametrize("X", [0.01, 0.05, 0.1, 0.3, 0.5, 0.9])
+def test_gilliland_forms_agree(X):
+    """Molokanov et al. (1972) and Eduljee (1975) fit the same chart of Gilliland (1940);
+    they agree within 0.025 in Y for 0.01 <= X <= 0.9."""
+    assert gilliland_molokanov(X) == pytest.approx(gilliland_eduljee(X), abs=0.025)
+
+
+def test_gilliland_end_points():
+    """Molokanov's form meets Gilliland's end points: Y = 1 at minimum reflux, 0 at total reflux."""
+    assert gilliland_molokanov(0.0) == 1.0
+    assert gilliland_molokanov(1.0) == pytest.approx(0.0, abs=1e-12)
+    assert stages_from_gilliland(5.0, 1.0, 1e9) == pytest.approx(5.0, rel=1e-3)
+
+
+def test_gilliland_outside_range_raises():
+    from disteco._base.errors import CorrelationRangeError
+
+    with pytest.raises(CorrelationRangeError, match="Molokanov"):
+        gilliland_molokanov(1.5)
+
+
+def test_kirkbride_feed_stage_bounds():
+    """Regression pin: the feed stage stays above the reboiler and at or below stage 1."""
+    assert kirkbride_feed_stage(10, 1e6) == 9
+    assert kirkbride_feed_stage(10, 1e-6) == 1
+
+
+def test_doctests_run():
+    for module in (correlations, duties):
+        failures, _ = doctest.testmod(module)
+        assert failures == 0
+
+
+PUBLIC_CORRELATIONS = [f for name, f in inspect.getmembers(correlations, inspect.isfunction)
+                       if f.__module__ == correlations.__name__ and not name.startswith("_")
+                       and "Parameters" in (f.__doc__ or "")]
+
+
+@pytest.mark.parametrize("function", PUBLIC_CORRELATIONS, ids=lambda f: f.__name__)
+def test_correlation_docstring_format(function):
+    """Every documented parameter is in the signature and carries a unit in brackets."""
+    doc = function.__doc__
+    for section in ("Parameters", "Notes", "Examples", "References"):
+        assert section in doc
+    block = doc.split("Parameters")[1].split("Notes")[0]
+    documented = re.findall(r"^\s{4}(\w+) : (.*)$", block, flags=re.M)
+    assert [name for name, _ in documented] == list(inspect.signature(function).parameters)
+    for name, text in documented:
+        assert re.search(r"\[[^\]]*\]$", text.strip()), f"{name} has no unit"
+
+
+# ---------------------------------------------------------------- on real mixtures
+
+
+@pytest.fixture(scope="module")
+def hydrocarbons():
+    names = ("n-butane", "n-pentane", "n-hexane", "n-heptane", "n-octane")
+    mixture = build_mixture(names, Thermo("ideal"), 3e5)
+    feed = Feed(FeedFlow("molar", 1.0), (0.1, 0.3, 0.3, 0.2, 0.1), ThermalCondition("q", 1.0), None)
+    return mixture, feed_state(feed, mixture, 3e5), Column(3e5, 700.0, "total", 0.0)
+
+
+def test_shortcut_design_hydrocarbons(hydrocarbons):
+    """Regression pin (guards against change only) of the five-alkane shortcut design, and
+    internal checks: component balance closes; Gilliland at 1.3 Rmin lies above Nmin."""
+    mixture, feed, column = hydrocarbons
+    products = Products(1, 2, EndSpec("recovery", 0.98), EndSpec("recovery", 0.98))
+    design = shortcut_design(mixture, feed, products, column)
+    split = design.split
+    total = np.array(split.distillate) + np.array(split.bottoms)
+    assert total == pytest.approx(np.array(feed.z) * feed.molar_flow, rel=1e-12)
+    assert split.distillate[1] == pytest.approx(0.98 * 0.3, rel=1e-12)
+    assert split.bottoms[2] == pytest.approx(0.98 * 0.3, rel=1e-12)
+    assert design.minimum_stages == pytest.approx(8.413, abs=0.005)
+    assert design.minimum_reflux == pytest.approx(0.9482, abs=0.0005)
+    table = design.table()
+    assert [p.reflux_factor for p in table][0] == 1.05 and table[-1].reflux_factor == 3.0
+    assert all(p.stages > design.minimum_stages for p in table)
+    assert all(1 <= p.feed_stage < p.whole_stages for p in table)
+
+
+def test_fraction_specs_iterate_with_non_keys(hydrocarbons):
+    """Mole-fraction specifications hold exactly after the Fenske iteration of the non-keys."""
+    mixture, feed, _ = hydrocarbons
+    products = Products(1, 2, EndSpec("fraction", 0.01), EndSpec("fraction", 0.02))
+    alpha = np.array([7.0, 2.6, 1.0, 0.4, 0.16])
+    split = product_split(products, feed.z, feed.molar_flow, alpha)
+    assert split.bottoms_composition[1] == pytest.approx(0.01, rel=1e-9)
+    assert split.distillate_composition[2] == pytest.approx(0.02, rel=1e-9)
+    assert math.isclose(split.distillate_flow + split.bottoms_flow, feed.molar_flow, rel_tol=1e-12)

@@ -16,10 +16,15 @@ import numpy as np
 import pytest
 
 from disteco.case import parse_case
+from disteco.costing import ColumnCostInput, cost_column, load_cost_data
 from disteco.properties import build_mixture, feed_state, summarise_mixture
 from disteco.reports.design_result import DesignResult
 from disteco.reports.tables import (Column, ReportParts, Series, Table, case_table, components_table,
                                     design_plots, feed_table, operating_series, stage_profile_table, text)
+from disteco.reports.tables_costs import (capital_table, column_table, equipment_table, exchangers_table,
+                                          provenance_table, summary_table, tac_breakdown_table, tac_table,
+                                          utilities_table)
+from disteco.sizing import size_column
 from disteco.stages.binary import equilibrium_curve, step_stages
 from disteco.stages.results import StageProfile
 
@@ -73,25 +78,47 @@ def design_parts() -> tuple[DesignResult, ReportParts]:
     curve = equilibrium_curve(mixture, P)
     stepped = step_stages(curve, X_D, X_B, Z, feed.q, REFLUX)
     profile = profile_from_steps(mixture, feed, stepped, P, case.column.pressure_drop_per_stage)
-    return result, ReportParts(profile=profile, curve=curve, stepped=stepped)
+    data = load_cost_data()
+    sizing = size_column(profile, mixture, data.levels,
+                         data.heat_transfer_coefficient("condenser", "cooling_water").u_typical,
+                         data.heat_transfer_coefficient("reboiler", "steam").u_typical)
+    cost = cost_column(data, cost_input(sizing), "reference")
+    return result, ReportParts(profile=profile, curve=curve, stepped=stepped, sizing=sizing, cost=cost,
+                               cost_data=data)
+
+
+def cost_input(sizing) -> ColumnCostInput:
+    """The sized column as the costing layer's input."""
+    return ColumnCostInput(
+        shell_diameter=sizing.diameter, shell_height=sizing.height.tangent_length,
+        design_pressure_gauge=sizing.vessel.design_pressure, trays=sizing.real_trays,
+        condenser_area=sizing.condenser.area, condenser_duty=sizing.condenser.duty,
+        condenser_utility=sizing.condenser.utility.name, reboiler_area=sizing.reboiler.area,
+        reboiler_duty=sizing.reboiler.duty, reboiler_utility=sizing.reboiler.utility.name,
+        drum_volume=sizing.reflux_drum.volume, drum_diameter=sizing.reflux_drum.diameter,
+        pump_shaft_power=sizing.reflux_pump.shaft_power)
 
 
 def _tables():
     result, parts = design_parts()
     names = result.case.components
+    cost = parts.cost
     return [case_table(result.case), components_table(result.mixture), feed_table(result.feed, names),
-            stage_profile_table(parts.profile, names)]
+            stage_profile_table(parts.profile, names), summary_table(result.case.title, parts),
+            column_table(parts.sizing), equipment_table(parts.sizing), exchangers_table(parts.sizing),
+            capital_table(cost), utilities_table(cost), tac_table(cost), tac_breakdown_table(cost),
+            provenance_table(parts.cost_data, cost)]
 
 
 def test_every_number_column_names_its_unit():
     for table in _tables():
-        for column in table.columns:
+        for j, column in enumerate(table.columns):
             if column.is_text:
                 continue
-            if column.is_mixed:  # labelled values: the label of every number carries the unit
-                for label, value in table.rows:
-                    if not isinstance(value, str) and value is not None:
-                        assert UNIT.search(label), (table.title, label)
+            if column.is_mixed:  # labelled values: the label on the left of every number carries the unit
+                for row in table.rows:
+                    if not isinstance(row[j], str) and row[j] is not None:
+                        assert UNIT.search(row[j - 1]), (table.title, row[j - 1])
             else:
                 assert UNIT.search(column.header), (table.title, column.header)
 
@@ -155,3 +182,41 @@ def test_plots_carry_units_and_the_result_data():
 def test_missing_parts_leave_plots_out():
     result, _ = design_parts()
     assert design_plots(result.mixture, ReportParts()) == ()
+
+
+def test_cost_tables_add_up_to_the_cost_summary():
+    """Regression pin: the tables show the costing layer's numbers unchanged, totals included."""
+    _, parts = design_parts()
+    cost = parts.cost
+    capital = capital_table(cost)
+    installed = capital.column("Installed cost [USD]")
+    assert installed[:-1] == tuple(e.installed for e in cost.items)
+    assert installed[-1] == pytest.approx(sum(installed[:-1]), rel=1e-12) == cost.capital_installed
+    assert capital.column("Bare-module factor F_BM [-]")[:-1] == tuple(e.bare_module_factor for e in cost.items)
+    assert all(capital.column("Source")[:-1])
+    utilities = utilities_table(cost)
+    assert utilities.column("Cost [USD/year]")[-1] == cost.utilities_per_year
+    shares = tac_breakdown_table(cost).column("Share of TAC [USD/year]")
+    assert sum(shares) == pytest.approx(cost.tac_per_year, rel=1e-12)
+
+
+def test_provenance_lists_every_cost_curve_and_price_used():
+    _, parts = design_parts()
+    table = provenance_table(parts.cost_data, parts.cost)
+    keys = " | ".join(table.column("Row"))
+    for item in parts.cost.items:
+        assert f"{item.equipment}: k1, k2, k3" in keys
+    for utility in parts.cost.utilities:
+        assert f"reference / {utility.utility} [" in keys
+    assert all(source for source in table.column("Source"))
+
+
+def test_equipment_table_in_display_units():
+    """Regression pin of the conversions: W -> kW, Pa gauge -> kPa gauge, K -> degC."""
+    _, parts = design_parts()
+    table = equipment_table(parts.sizing)
+    pump = next(row for row in table.rows if row[0] == "reflux_pump")
+    item = next(e for e in parts.sizing.equipment if e.tag == "reflux_pump")
+    assert pump[3:5] == (pytest.approx(item.size / 1e3, rel=1e-15), "kW")
+    assert pump[9] == pytest.approx(item.design_pressure / 1e3, rel=1e-15)
+    assert pump[10] == pytest.approx(item.design_temperature - 273.15, abs=1e-12)

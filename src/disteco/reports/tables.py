@@ -13,7 +13,9 @@ from dataclasses import dataclass
 
 from .._base.units import HOUR, to_degC
 from ..case import Case, EndSpec
+from ..costing import CostData, CostSummary
 from ..properties import BinaryDiagram, FeedState, MixtureSummary
+from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
 from .design_result import CAUTIONS
@@ -232,7 +234,7 @@ def stage_profile_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
     return Table("Stage profile", tuple(columns), tuple(rows))
 
 
-def _design_items(profile: StageProfile) -> list[tuple[str, Cell]]:
+def design_items(profile: StageProfile) -> list[tuple[str, Cell]]:
     return [
         ("Reflux ratio [-]", profile.reflux_ratio),
         ("Equilibrium stages, reboiler included [-]", profile.stages),
@@ -246,17 +248,9 @@ def _design_items(profile: StageProfile) -> list[tuple[str, Cell]]:
     ]
 
 
-def design_table(title: str, profile: StageProfile | None) -> Table:
-    """The chosen design in one table: the case title and the headline numbers present."""
-    items: list[tuple[str, Cell]] = [("Case title", title)]
-    if profile is not None:
-        items += _design_items(profile)
-    return quantity_table("Chosen design", items)
-
-
 def products_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
     """Distillate and bottoms: flows, compositions, duties and end temperatures."""
-    items = _design_items(profile)
+    items = design_items(profile)
     items += [(f"Distillate mole fraction {n} [-]", v) for n, v in zip(names, profile.distillate_composition)]
     items += [(f"Bottoms mole fraction {n} [-]", v) for n, v in zip(names, profile.bottoms_composition)]
     return quantity_table("Products", items)
@@ -328,12 +322,17 @@ class ReportParts:
     """The typed results the reports draw on; a part that is None leaves its sheet or chart out.
 
     ``profile`` is the converged stage profile of the chosen design; ``curve`` and
-    ``stepped`` the binary (key-pair) equilibrium curve and McCabe-Thiele construction.
+    ``stepped`` the binary (key-pair) equilibrium curve and McCabe-Thiele construction;
+    ``sizing`` and ``cost`` the sized and priced column; ``cost_data`` the data it was
+    priced with (for the provenance of every row used).
     """
 
     profile: StageProfile | None = None
     curve: EquilibriumCurve | BinaryDiagram | None = None
     stepped: SteppedColumn | None = None
+    sizing: ColumnSizing | None = None
+    cost: CostSummary | None = None
+    cost_data: CostData | None = None
 
 
 def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...]:

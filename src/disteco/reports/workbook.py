@@ -1,7 +1,7 @@
 """The workbook an estimator can use without disteco: tables with units, charts, cautions.
 
 Sheets (in this order, each only when its data exists): Summary, Inputs, Stages,
-Equipment, Capital, Utilities, Scenarios, Warnings, Chart data, Charts. Every table has a
+Equipment, Capital, Utilities, Warnings, Chart data, Charts. Every table has a
 title row and a header row with units; numbers are stored as numbers with a number
 format; header rows are frozen; column widths are set. Text from the user's files is
 written as text and never as a formula.
@@ -20,8 +20,9 @@ from openpyxl import Workbook
 from .design_result import DesignResult
 from .files import write_atomically
 from .tables import (Plot, ReportParts, Table, cautions_table, case_table, components_table, design_plots,
-                     design_table, feed_table, mixture_table, products_table, stage_profile_table,
-                     warnings_table)
+                     feed_table, mixture_table, products_table, stage_profile_table, warnings_table)
+from .tables_costs import (capital_table, column_table, equipment_table, exchangers_table, provenance_table,
+                           summary_table, tac_breakdown_table, tac_table, utilities_table)
 from .workbook_cells import write_tables
 from .workbook_charts import write_charts
 
@@ -49,14 +50,33 @@ class WorkbookContent:
 def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -> WorkbookContent:
     """Sheets and plots for ``result``; sheets whose data is absent are left out."""
     names = result.case.components
-    sheets = [Sheet("Summary", (design_table(result.case.title, parts.profile), cautions_table())),
-              Sheet("Inputs", (case_table(result.case), mixture_table(result.mixture),
-                               components_table(result.mixture), feed_table(result.feed, names)))]
+    summary = [summary_table(result.case.title, parts)]
+    if parts.cost is not None:
+        summary.append(tac_table(parts.cost))
+    inputs = [case_table(result.case), mixture_table(result.mixture), components_table(result.mixture),
+              feed_table(result.feed, names)]
+    if parts.cost is not None and parts.cost_data is not None:
+        inputs.append(provenance_table(parts.cost_data, parts.cost))
+    sheets = [Sheet("Summary", tuple(summary) + (cautions_table(),)), Sheet("Inputs", tuple(inputs))]
     if parts.profile is not None:
         sheets.append(Sheet("Stages", (stage_profile_table(parts.profile, names),
                                        products_table(parts.profile, names))))
-    sheets.append(Sheet("Warnings", (warnings_table(result.warnings), cautions_table())))
+    if parts.sizing is not None:
+        sheets.append(Sheet("Equipment", (equipment_table(parts.sizing), column_table(parts.sizing),
+                                          exchangers_table(parts.sizing))))
+    if parts.cost is not None:
+        sheets.append(Sheet("Capital", (capital_table(parts.cost), tac_breakdown_table(parts.cost))))
+        sheets.append(Sheet("Utilities", (utilities_table(parts.cost),)))
+    sheets.append(Sheet("Warnings", (warnings_table(_all_warnings(result, parts)), cautions_table())))
     return WorkbookContent(tuple(sheets), design_plots(result.mixture, parts))
+
+
+def _all_warnings(result: DesignResult, parts: ReportParts) -> tuple[str, ...]:
+    """The run's warnings, then those of sizing and costing not already listed."""
+    found = list(result.warnings)
+    for extra in (parts.sizing.warnings if parts.sizing else (), parts.cost.warnings if parts.cost else ()):
+        found += [w for w in extra if w not in found]
+    return tuple(found)
 
 
 def build_workbook(content: WorkbookContent) -> Workbook:

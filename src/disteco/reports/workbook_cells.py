@@ -7,7 +7,7 @@ from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.worksheet import Worksheet
 
-from .tables import Cell, Table, is_number
+from .tables import MIXED, Cell, Table, is_number
 
 # A spreadsheet treats text starting with one of these as the start of a formula when the
 # cell is edited or the data re-imported (formula injection).
@@ -35,8 +35,25 @@ def put_text(ws: Worksheet, row: int, column: int, value: str):
     return cell
 
 
+def number_format_of(value: float | int) -> str:
+    """A readable format for a labelled value of any size (columns of mixed quantities)."""
+    size = abs(value)
+    if isinstance(value, int):
+        return "0"
+    if size >= 1e4:
+        return "#,##0"
+    if size >= 1.0 or size == 0.0:
+        return "0.000"
+    if size >= 1e-3:
+        return "0.00000"
+    return "0.000E+00"
+
+
 def put_value(ws: Worksheet, row: int, column: int, value: Cell, number_format: str):
-    """Write a number with its format, text as text, None as an empty cell."""
+    """Write a number with its format, text as text, None as an empty cell.
+
+    ``number_format`` "General" (a column of mixed quantities) picks a format per value.
+    """
     if isinstance(value, str):
         return put_text(ws, row, column, value)
     cell = ws.cell(row=row, column=column)
@@ -45,8 +62,7 @@ def put_value(ws: Worksheet, row: int, column: int, value: Cell, number_format: 
     if not is_number(value):
         raise ValueError(f"cell {cell.coordinate}: {value!r} is not a finite number")
     cell.value = value
-    if number_format != "General":
-        cell.number_format = number_format
+    cell.number_format = number_format_of(value) if number_format == MIXED else number_format
     return cell
 
 

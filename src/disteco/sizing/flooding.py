@@ -14,9 +14,11 @@ are offered; both are kept so that their spread (about 10 %) stays visible:
 Measured over the chart (6-36 in, F_LV 0.02-1.0) the two fits differ by -13 % to +10 %
 (Lygeros-Magoulas lower near F_LV 0.05 at 24-36 in, higher near F_LV 0.5 at 9-18 in); at
 F_LV = 0.01 Lygeros-Magoulas is up to 15 % higher because the other fit turns over there.
-The diameter goes as C^-1/2, so the choice of fit moves it by about -5 % to +7 %, about
-one rounding increment of 0.05 m for a 1-2 m column. tests/test_sizing_flooding.py
-re-measures this spread.
+The diameter goes as C^-1/2, so the Lygeros-Magoulas diameter lies -5 % to +7 % from the
+other fit's (-7 % at F_LV = 0.01): up to 0.1 m, two rounding steps, on a 1.5 m column.
+No digitised chart is shipped: without the original figure at hand, points read "from
+memory" would be invented; the two published fits are checked against each other and
+against chart readings of a worked example (tests/test_sizing_flooding.py).
 """
 
 from __future__ import annotations

@@ -136,15 +136,18 @@ def _efficiency(profile: StageProfile, mixture: SizingProperties, options: Sizin
     return TrayEfficiency(value, "O'Connell (Lockett fit)", mu, alpha)
 
 
-def _condenser_liquid(profile: StageProfile, mixture: SizingProperties) -> tuple[float, float, float]:
-    """Liquid leaving the condenser to the drum: volume flow [m^3/s], mass flow [kg/s], density [kg/m^3]."""
+def _condenser_liquid(profile: StageProfile, mixture: SizingProperties) -> tuple[float, float]:
+    """Liquid from the condenser to the drum: volume flow [m^3/s] and density [kg/m^3].
+
+    Reflux and liquid distillate for a total condenser; reflux alone (taken at the top
+    tray's liquid composition) for a partial one.
+    """
     molar = profile.reflux_ratio * profile.distillate_flow
     x = profile.x[0] if profile.partial_condenser else profile.distillate_composition
     if not profile.partial_condenser:
         molar += profile.distillate_flow
     density = mixture.liquid_density(profile.condenser_temperature, profile.P[0], x)
-    mass = molar * mixture.molar_mass(x)
-    return mass / density, mass, density
+    return molar * mixture.molar_mass(x) / density, density
 
 
 def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Sequence[UtilityLevel],
@@ -195,7 +198,7 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
 
     top_design_p = design_pressure(profile.P[0], options.pressure_margin_fraction, options.pressure_margin_minimum)
     top_design_t = max(profile.T[0], profile.condenser_temperature) + options.temperature_margin
-    volume_flow, _, density = _condenser_liquid(profile, mixture)
+    volume_flow, density = _condenser_liquid(profile, mixture)
     drum = size_drum(volume_flow, options.drum_holdup_time, options.drum_fill_fraction,
                      options.drum_length_to_diameter, top_design_p, top_design_t)
     pump = size_pump(volume_flow, density, height.overall + options.pump_head_allowance, options.pump_efficiency,

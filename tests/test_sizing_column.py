@@ -139,3 +139,10 @@ def test_profile_feed_stage_checked(mixture):
     profile = dataclasses.replace(make_profile(mixture), feed_stage=N + 1)
     with pytest.raises(CaseError, match="profile.feed_stage"):
         size_column(profile, mixture, UTILITIES, 850.0, 1000.0)
+
+
+def test_partial_condenser_drum_holds_reflux_only(mixture, sized):
+    """Total condenser: reflux + distillate, (R + 1) D, to the drum; partial: reflux R D only."""
+    profile = dataclasses.replace(make_profile(mixture), partial_condenser=True)
+    partial = size_column(profile, mixture, UTILITIES, 850.0, 1000.0)
+    assert partial.reflux_drum.volume == pytest.approx(sized.reflux_drum.volume * R / (R + 1), rel=0.02)

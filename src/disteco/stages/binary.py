@@ -132,8 +132,9 @@ def minimum_reflux(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q:
     y_eq = curve.y_of(grid)
 
     def gap(reflux: float) -> float:
-        _, y_op = _operating_lines(x_d, x_b, z, q, reflux)
-        return float(np.min(y_eq - y_op(grid)))
+        x_int, y_op = _operating_lines(x_d, x_b, z, q, reflux)
+        at_feed = float(curve.y_of(x_int) - y_op(x_int))  # the feed pinch exactly, not only on the grid
+        return min(float(np.min(y_eq - y_op(grid))), at_feed)
 
     low, high = 1e-9, 1.0
     while gap(high) <= 0.0:

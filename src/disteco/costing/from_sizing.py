@@ -1,0 +1,27 @@
+"""The sizing layer's result as the costing layer's input."""
+
+from __future__ import annotations
+
+from ..sizing.column import ColumnSizing
+from .column import ColumnCostInput
+
+
+def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInput:
+    """Map a ``ColumnSizing`` onto ``ColumnCostInput`` (shell costed at its largest diameter)."""
+    return ColumnCostInput(
+        shell_diameter=sizing.diameter,
+        shell_height=sizing.height.tangent_length,
+        design_pressure_gauge=sizing.vessel.design_pressure,
+        trays=sizing.real_trays,
+        condenser_area=sizing.condenser.area,
+        condenser_duty=sizing.condenser.duty,
+        condenser_utility=sizing.condenser.utility.name,
+        reboiler_area=sizing.reboiler.area,
+        reboiler_duty=sizing.reboiler.duty,
+        reboiler_utility=sizing.reboiler.utility.name,
+        drum_volume=sizing.reflux_drum.volume,
+        drum_diameter=sizing.reflux_drum.diameter,
+        pump_shaft_power=sizing.reflux_pump.shaft_power,
+        tray_type=tray_type,
+        shell_material=sizing.vessel.material_class,
+    )

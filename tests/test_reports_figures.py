@@ -7,7 +7,7 @@ import pytest
 from matplotlib.image import imread
 
 from disteco.reports.figures import draw, write_figures
-from disteco.reports.tables import design_plots
+from disteco.reports.tables_design import design_plots
 
 from test_reports_tables import design_parts
 

@@ -19,11 +19,11 @@ from disteco.case import parse_case
 from disteco.costing import ColumnCostInput, cost_column, load_cost_data
 from disteco.properties import build_mixture, feed_state, summarise_mixture
 from disteco.reports.design_result import DesignResult
-from disteco.reports.tables import (Column, ReportParts, Series, Table, case_table, components_table,
-                                    design_plots, feed_table, operating_series, stage_profile_table, text)
+from disteco.reports.tables import (Column, Series, Table, case_table, components_table, feed_table,
+                                    operating_series, stage_profile_table, text)
 from disteco.reports.tables_costs import (capital_table, column_table, equipment_table, exchangers_table,
-                                          provenance_table, summary_table, tac_breakdown_table, tac_table,
-                                          utilities_table)
+                                          provenance_table, tac_breakdown_table, tac_table, utilities_table)
+from disteco.reports.tables_design import ReportParts, design_plots, summary_table
 from disteco.sizing import size_column
 from disteco.stages.binary import equilibrium_curve, step_stages
 from disteco.stages.results import StageProfile

@@ -10,7 +10,7 @@ import openpyxl
 import pytest
 
 from disteco.reports.json_result import result_json
-from disteco.reports.tables import ReportParts
+from disteco.reports.tables_design import ReportParts
 from disteco.reports.workbook import (CHART_SHEET, DATA_SHEET, save_workbook, workbook_content,
                                       write_workbook)
 from disteco.reports.workbook_cells import HEADER_FILL

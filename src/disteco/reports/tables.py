@@ -13,9 +13,7 @@ from dataclasses import dataclass
 
 from .._base.units import HOUR, to_degC
 from ..case import Case, EndSpec
-from ..costing import CostData, CostSummary
 from ..properties import BinaryDiagram, FeedState, MixtureSummary
-from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
 from .design_result import CAUTIONS
@@ -316,31 +314,3 @@ def xy_plot(curve: EquilibriumCurve | BinaryDiagram, light_name: str,
                 f"Liquid mole fraction {light_name} [-]", f"Vapour mole fraction {light_name} [-]",
                 series, (0.0, 1.0), (0.0, 1.0))
 
-
-@dataclass(frozen=True)
-class ReportParts:
-    """The typed results the reports draw on; a part that is None leaves its sheet or chart out.
-
-    ``profile`` is the converged stage profile of the chosen design; ``curve`` and
-    ``stepped`` the binary (key-pair) equilibrium curve and McCabe-Thiele construction;
-    ``sizing`` and ``cost`` the sized and priced column; ``cost_data`` the data it was
-    priced with (for the provenance of every row used).
-    """
-
-    profile: StageProfile | None = None
-    curve: EquilibriumCurve | BinaryDiagram | None = None
-    stepped: SteppedColumn | None = None
-    sizing: ColumnSizing | None = None
-    cost: CostSummary | None = None
-    cost_data: CostData | None = None
-
-
-def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...]:
-    """Every plot whose data is present, in a fixed order."""
-    names = tuple(c.name for c in mixture.components)
-    plots: list[Plot] = []
-    if parts.profile is not None:
-        plots += [temperature_profile_plot(parts.profile), composition_profile_plot(parts.profile, names)]
-    if parts.curve is not None:
-        plots.append(xy_plot(parts.curve, mixture.light_key, parts.stepped))
-    return tuple(plots)

@@ -11,7 +11,7 @@ from .._base.units import to_degC
 from ..costing import CostData, CostSummary, PressureFactorCurve
 from ..costing.validation import FILES
 from ..sizing import ColumnSizing, ExchangerSizing
-from .tables import KPA, KW, MIXED, Cell, Column, ReportParts, Table, design_items, quantity_table, text
+from .tables import KPA, KW, MIXED, Cell, Column, Table, quantity_table, text
 
 MM = 1e3  # mm per m
 MONEY = "#,##0"
@@ -201,20 +201,3 @@ def provenance_table(data: CostData, cost: CostSummary) -> Table:
     return Table(f"Cost data used ({data.folder})", columns, tuple(rows))
 
 
-
-def summary_table(title: str, parts: ReportParts) -> Table:
-    """The chosen design in one table: case title, then the headline numbers that are present."""
-    items: list[tuple[str, Cell]] = [("Case title", title)]
-    if parts.profile is not None:
-        items += design_items(parts.profile)[:7]
-    if parts.sizing is not None:
-        s = parts.sizing
-        items += [("Column diameter [m]", s.diameter), ("Real trays [-]", s.real_trays),
-                  ("Tangent-to-tangent length [m]", s.height.tangent_length),
-                  ("Condenser area [m^2]", s.condenser.area), ("Reboiler area [m^2]", s.reboiler.area)]
-    if parts.cost is not None:
-        c = parts.cost
-        items += [("Price scenario", c.scenario), (f"Installed capital [{c.currency}]", c.capital_installed),
-                  (f"Utilities [{c.currency}/year]", c.utilities_per_year),
-                  (f"Total annualised cost [{c.currency}/year]", c.tac_per_year)]
-    return quantity_table("Chosen design", items)

@@ -1,7 +1,7 @@
 """The workbook an estimator can use without disteco: tables with units, charts, cautions.
 
 Sheets (in this order, each only when its data exists): Summary, Inputs, Stages,
-Equipment, Capital, Utilities, Warnings, Chart data, Charts. Every table has a
+Equipment, Capital, Utilities, Optimiser, Scenarios, Warnings, Chart data, Charts. Every table has a
 title row and a header row with units; numbers are stored as numbers with a number
 format; header rows are frozen; column widths are set. Text from the user's files is
 written as text and never as a formula.
@@ -19,10 +19,12 @@ from openpyxl import Workbook
 
 from .design_result import DesignResult
 from .files import write_atomically
-from .tables import (Plot, ReportParts, Table, cautions_table, case_table, components_table, design_plots,
-                     feed_table, mixture_table, products_table, stage_profile_table, warnings_table)
+from .tables import (Plot, Table, cautions_table, case_table, components_table, feed_table, mixture_table,
+                     products_table, stage_profile_table, warnings_table)
 from .tables_costs import (capital_table, column_table, equipment_table, exchangers_table, provenance_table,
-                           summary_table, tac_breakdown_table, tac_table, utilities_table)
+                           tac_breakdown_table, tac_table, utilities_table)
+from .tables_design import ReportParts, design_plots, summary_table
+from .tables_scenarios import cross_tables, optimum_table, scenario_table, search_table, tac_curve_table
 from .workbook_cells import write_tables
 from .workbook_charts import write_charts
 
@@ -67,14 +69,30 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     if parts.cost is not None:
         sheets.append(Sheet("Capital", (capital_table(parts.cost), tac_breakdown_table(parts.cost))))
         sheets.append(Sheet("Utilities", (utilities_table(parts.cost),)))
+    if parts.optimum is not None:
+        sheets.append(Sheet("Optimiser", (optimum_table(parts.optimum), search_table(parts.optimum))))
+    scenarios = _scenario_tables(parts)
+    if scenarios:
+        sheets.append(Sheet("Scenarios", scenarios))
     sheets.append(Sheet("Warnings", (warnings_table(_all_warnings(result, parts)), cautions_table())))
     return WorkbookContent(tuple(sheets), design_plots(result.mixture, parts))
+
+
+def _scenario_tables(parts: ReportParts) -> tuple[Table, ...]:
+    tables: list[Table] = []
+    if parts.scenarios:
+        tables.append(scenario_table(parts.scenarios))
+    if parts.cross is not None:
+        tables += cross_tables(parts.cross)
+    tables += [tac_curve_table(designs, name) for name, designs in parts.tac_curves if designs]
+    return tuple(tables)
 
 
 def _all_warnings(result: DesignResult, parts: ReportParts) -> tuple[str, ...]:
     """The run's warnings, then those of sizing and costing not already listed."""
     found = list(result.warnings)
-    for extra in (parts.sizing.warnings if parts.sizing else (), parts.cost.warnings if parts.cost else ()):
+    for extra in (parts.sizing.warnings if parts.sizing else (), parts.cost.warnings if parts.cost else (),
+                  parts.optimum.warnings if parts.optimum else ()):
         found += [w for w in extra if w not in found]
     return tuple(found)
 

@@ -1,0 +1,90 @@
+"""The parts of one design run that the reports draw on, the summary table and the list of plots."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..costing import CostData, CostSummary
+from ..optimisation.results import DesignEvaluation, OptimumDesign
+from ..properties import BinaryDiagram, MixtureSummary
+from ..sizing import ColumnSizing
+from ..stages.binary import EquilibriumCurve, SteppedColumn
+from ..stages.results import StageProfile
+from .tables import (Cell, Plot, Table, composition_profile_plot, design_items, quantity_table,
+                     temperature_profile_plot, xy_plot)
+from .tables_scenarios import CrossTable, stages_duty_plot, tac_curve_plot
+
+
+@dataclass(frozen=True)
+class ReportParts:
+    """The typed results the reports draw on; a part that is None (or empty) leaves its sheet or chart out.
+
+    ``profile``: converged stage profile of the chosen design; ``curve``, ``stepped``: the
+    binary (key-pair) equilibrium curve and McCabe-Thiele construction; ``sizing``,
+    ``cost``: the sized and priced column, ``cost_data`` the data it was priced with;
+    ``optimum``: the optimiser's result; ``scenarios``: (name, optimum) per price scenario;
+    ``cross``: each scenario's design under every scenario's prices; ``tac_curves``:
+    (scenario, designs along the reflux ratio with stages and feed re-optimised).
+    """
+
+    profile: StageProfile | None = None
+    curve: EquilibriumCurve | BinaryDiagram | None = None
+    stepped: SteppedColumn | None = None
+    sizing: ColumnSizing | None = None
+    cost: CostSummary | None = None
+    cost_data: CostData | None = None
+    optimum: OptimumDesign | None = None
+    scenarios: tuple[tuple[str, OptimumDesign], ...] = ()
+    cross: CrossTable | None = None
+    tac_curves: tuple[tuple[str, tuple[DesignEvaluation, ...]], ...] = ()
+
+
+def summary_table(title: str, parts: ReportParts) -> Table:
+    """The chosen design in one table: case title, then the headline numbers that are present."""
+    items: list[tuple[str, Cell]] = [("Case title", title)]
+    if parts.profile is not None:
+        items += design_items(parts.profile)[:7]
+    if parts.optimum is not None:
+        o = parts.optimum
+        items += [("Minimum reflux ratio [-]", o.minimum_reflux_ratio),
+                  ("Reflux ratio / minimum [-]", o.best.reflux_ratio / o.minimum_reflux_ratio),
+                  ("Optimiser status", o.solver.status)]
+    if parts.sizing is not None:
+        s = parts.sizing
+        items += [("Column diameter [m]", s.diameter), ("Real trays [-]", s.real_trays),
+                  ("Tangent-to-tangent length [m]", s.height.tangent_length),
+                  ("Condenser area [m^2]", s.condenser.area), ("Reboiler area [m^2]", s.reboiler.area)]
+    if parts.cost is not None:
+        c = parts.cost
+        items += [("Price scenario", c.scenario), (f"Installed capital [{c.currency}]", c.capital_installed),
+                  (f"Utilities [{c.currency}/year]", c.utilities_per_year),
+                  (f"Total annualised cost [{c.currency}/year]", c.tac_per_year)]
+    return quantity_table("Chosen design", items)
+
+
+def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...]:
+    """Every plot whose data is present, in a fixed order, with distinct names."""
+    names = tuple(c.name for c in mixture.components)
+    plots: list[Plot] = []
+    if parts.profile is not None:
+        plots += [temperature_profile_plot(parts.profile), composition_profile_plot(parts.profile, names)]
+    if parts.curve is not None:
+        plots.append(xy_plot(parts.curve, mixture.light_key, parts.stepped))
+    for scenario, designs in parts.tac_curves:
+        if designs:
+            plots += [tac_curve_plot(designs, scenario), stages_duty_plot(designs, scenario)]
+    return _distinct(plots)
+
+
+def _distinct(plots: list[Plot]) -> tuple[Plot, ...]:
+    """Number repeated plot names (two scenario names can give one file name)."""
+    seen: dict[str, int] = {}
+    out = []
+    for plot in plots:
+        count = seen.get(plot.name, 0)
+        seen[plot.name] = count + 1
+        if count:
+            plot = Plot(f"{plot.name}_{count + 1}", plot.title, plot.x_label, plot.y_label, plot.series,
+                        plot.x_limits, plot.y_limits, plot.stage_axis)
+        out.append(plot)
+    return tuple(out)

@@ -1,0 +1,154 @@
+"""Tables and plots of the optimiser's results: the optimum, scenario comparison, cross table, curves.
+
+Inputs are the optimisation layer's :class:`OptimumDesign` and :class:`DesignEvaluation`,
+and :class:`CrossTable`, the TAC of each scenario's optimum design under every
+scenario's prices.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+from ..optimisation.results import DesignEvaluation, OptimumDesign
+from .tables import KW, Cell, Column, Plot, Series, Table, quantity_table, text
+
+MONEY = "#,##0"
+
+
+def _money(label: str, currency: str) -> Column:
+    return Column(label, f"{currency}/year", MONEY, 16.0)
+
+
+@dataclass(frozen=True)
+class CrossTable:
+    """TAC [currency/year] of the design optimal for scenario i (row) under the prices of scenario j (column)."""
+
+    scenarios: tuple[str, ...]
+    tac: tuple[tuple[float, ...], ...]
+    currency: str
+
+    def __post_init__(self):
+        n = len(self.scenarios)
+        if len(self.tac) != n or any(len(row) != n for row in self.tac):
+            raise ValueError(f"cross table: {n} scenarios need a {n} x {n} matrix of TAC values")
+
+    @property
+    def extra(self) -> tuple[tuple[float, ...], ...]:
+        """Extra TAC of building for scenario i when the prices of j apply: TAC[i][j] - TAC[j][j]."""
+        return tuple(tuple(row[j] - self.tac[j][j] for j in range(len(row))) for row in self.tac)
+
+
+def optimum_table(optimum: OptimumDesign) -> Table:
+    """The lowest-TAC design: decisions, shortcut bounds, sizes, duties, costs and the solver's report."""
+    best, s = optimum.best, optimum.solver
+    c = best.cost.currency
+    items: list[tuple[str, Cell]] = [
+        ("Reflux ratio [-]", best.reflux_ratio),
+        ("Minimum reflux ratio [-]", optimum.minimum_reflux_ratio),
+        ("Reflux ratio / minimum [-]", best.reflux_ratio / optimum.minimum_reflux_ratio),
+        ("Equilibrium stages, reboiler included [-]", best.stages),
+        ("Minimum stages, reboiler included [-]", optimum.minimum_stages),
+        ("Feed stage, from the top [-]", best.feed_stage),
+        ("Real trays [-]", best.sizes.real_trays),
+        ("Tray efficiency [-]", best.sizes.tray_efficiency),
+        ("Diameter [m]", best.sizes.diameter),
+        ("Height [m]", best.sizes.height),
+        ("Condenser duty [kW]", best.sizes.condenser_duty / KW),
+        ("Reboiler duty [kW]", best.sizes.reboiler_duty / KW),
+        ("Condenser area [m^2]", best.sizes.condenser_area),
+        ("Reboiler area [m^2]", best.sizes.reboiler_area),
+        (f"Installed capital [{c}]", best.cost.capital_installed),
+        (f"Annualised capital [{c}/year]", best.cost.annualised_capital_per_year),
+        (f"Utilities [{c}/year]", best.cost.utilities_per_year),
+        (f"Total annualised cost [{c}/year]", best.cost.tac_per_year),
+        ("Cost year [year]", best.cost.cost_year),
+        ("Solver", s.solver),
+        ("Solver status", s.status),
+        ("Termination condition", s.termination),
+        ("Relative optimality gap [-]", s.gap if s.gap is not None and math.isfinite(s.gap) else "no bound"),
+        ("Configurations solved [-]", s.configurations_solved),
+        ("Solution time [s]", s.wall_time),
+    ]
+    if s.message:
+        items.append(("Solver message", s.message))
+    return quantity_table("Optimum design", items)
+
+
+def search_table(optimum: OptimumDesign) -> Table:
+    """Every configuration the search visited, in order, with its TAC or why it had none."""
+    currency = optimum.best.cost.currency
+    columns = (Column("Step", "-", "0", 8.0), Column("Stages", "-", "0", 10.0), Column("Feed stage", "-", "0", 12.0),
+               _money("TAC", currency), text("Status", 24.0))
+    rows = tuple((i, v.stages, v.feed_stage, v.tac, v.status) for i, v in enumerate(optimum.visited, start=1))
+    return Table("Configurations visited", columns, rows)
+
+
+def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
+    """The optimum of every price scenario side by side (one row per scenario)."""
+    currency = optima[0][1].best.cost.currency
+    columns = (text("Scenario", 22.0), Column("Reflux ratio", "-", "0.000"), Column("R / R_min", "-", "0.000"),
+               Column("Stages", "-", "0", 9.0), Column("Feed stage", "-", "0", 10.0),
+               Column("Real trays", "-", "0", 10.0), Column("Diameter", "m", "0.00"), Column("Height", "m", "0.0"),
+               Column("Condenser duty", "kW", "#,##0"), Column("Reboiler duty", "kW", "#,##0"),
+               Column("Installed capital", currency, MONEY), _money("Annualised capital", currency),
+               _money("Condenser utility", currency), _money("Reboiler utility", currency),
+               _money("Utilities", currency), _money("TAC", currency), text("Solver status", 18.0))
+    rows = []
+    for name, opt in optima:
+        b = opt.best
+        rows.append((name, b.reflux_ratio, b.reflux_ratio / opt.minimum_reflux_ratio, b.stages, b.feed_stage,
+                     b.sizes.real_trays, b.sizes.diameter, b.sizes.height, b.sizes.condenser_duty / KW,
+                     b.sizes.reboiler_duty / KW, b.cost.capital_installed, b.cost.annualised_capital_per_year,
+                     b.cost.condenser_utility_per_year, b.cost.reboiler_utility_per_year, b.cost.utilities_per_year,
+                     b.cost.tac_per_year, opt.solver.status))
+    return Table("Optimum design of each price scenario", columns, tuple(rows))
+
+
+def cross_tables(cross: CrossTable) -> tuple[Table, Table]:
+    """The TAC matrix and the extra-TAC matrix (rows: design built for; columns: prices that apply)."""
+    columns = (text("Design optimal for", 24.0),) + tuple(
+        Column(f"Prices of {name}", f"{cross.currency}/year", MONEY, 18.0) for name in cross.scenarios)
+    tac = tuple((name,) + tuple(row) for name, row in zip(cross.scenarios, cross.tac))
+    extra = tuple((name,) + tuple(row) for name, row in zip(cross.scenarios, cross.extra))
+    return (Table("TAC of each scenario's design under each scenario's prices", columns, tac),
+            Table("Extra TAC of building for the wrong prices", columns, extra))
+
+
+def tac_curve_table(designs: Sequence[DesignEvaluation], scenario: str) -> Table:
+    """TAC against reflux ratio, stages and feed stage re-optimised at each reflux."""
+    currency = designs[0].cost.currency
+    columns = (Column("Reflux ratio", "-", "0.000"), Column("Stages", "-", "0", 9.0),
+               Column("Feed stage", "-", "0", 10.0), Column("Reboiler duty", "kW", "#,##0"),
+               _money("Annualised capital", currency), _money("Utilities", currency), _money("TAC", currency))
+    rows = tuple((d.reflux_ratio, d.stages, d.feed_stage, d.sizes.reboiler_duty / KW,
+                  d.cost.annualised_capital_per_year, d.cost.utilities_per_year, d.cost.tac_per_year)
+                 for d in sorted(designs, key=lambda d: d.reflux_ratio))
+    return Table(f"TAC against reflux ratio ({scenario})", columns, rows)
+
+
+def tac_curve_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
+    """Annualised capital, utilities and TAC against reflux ratio."""
+    ordered = sorted(designs, key=lambda d: d.reflux_ratio)
+    currency = ordered[0].cost.currency
+    R = tuple(d.reflux_ratio for d in ordered)
+    series = (Series("Annualised capital", R, tuple(d.cost.annualised_capital_per_year for d in ordered)),
+              Series("Utilities", R, tuple(d.cost.utilities_per_year for d in ordered)),
+              Series("Total annualised cost", R, tuple(d.cost.tac_per_year for d in ordered)))
+    return Plot(f"tac_vs_reflux_{_stem(scenario)}", f"Total annualised cost against reflux ratio ({scenario})",
+                "Reflux ratio [-]", f"Cost [{currency}/year]", series)
+
+
+def stages_duty_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
+    """Ideal stages against reboiler duty: where extra stages stop saving energy."""
+    ordered = sorted(designs, key=lambda d: d.stages)
+    series = (Series("Designs", tuple(d.sizes.reboiler_duty / KW for d in ordered),
+                     tuple(float(d.stages) for d in ordered), "markers"),)
+    return Plot(f"stages_vs_duty_{_stem(scenario)}", f"Ideal stages against reboiler duty ({scenario})",
+                "Reboiler duty [kW]", "Ideal stages, reboiler included [-]", series)
+
+
+def _stem(name: str) -> str:
+    """A file-name-safe form of a scenario name."""
+    return "".join(ch if ch.isalnum() else "_" for ch in name.lower()).strip("_") or "scenario"

@@ -1,0 +1,142 @@
+"""Scenario comparison, cross table, TAC-against-reflux and stages-against-duty reports.
+
+The designs are computed, not invented: the benzene-toluene column of ``design_parts`` is
+stepped, sized and priced on a grid of reflux ratios under each bundled price scenario;
+each scenario's optimum is the lowest TAC of the grid. Only the report is under test.
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+import openpyxl
+import pytest
+
+from disteco.costing import cost_column, load_cost_data
+from disteco.optimisation.results import (ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, OptimumDesign,
+                                          SearchStep, SolverReport)
+from disteco.properties import build_mixture
+from disteco.reports.figures import draw
+from disteco.reports.tables_design import ReportParts, design_plots
+from disteco.reports.tables_scenarios import (CrossTable, cross_tables, optimum_table, scenario_table,
+                                              search_table, tac_curve_plot, tac_curve_table)
+from disteco.reports.workbook import write_workbook
+from disteco.sizing import size_column
+from disteco.stages.binary import minimum_reflux, step_stages, total_reflux_stages
+
+from test_reports_tables import X_B, X_D, Z, cost_input, design_parts, profile_from_steps
+
+SCENARIOS = ("reference", "cheap-steam-demo")
+REFLUX_FACTORS = (1.01, 1.02, 1.03, 1.05, 1.08, 1.12, 1.2, 1.4)
+TOLERANCE = 1e-9  # relative; the grid's optimum is exact on the grid
+
+
+def _evaluation(sizing, cost, profile) -> DesignEvaluation:
+    """The sequential layers' results in the optimiser's result shape."""
+    sizes = ColumnSizes(sizing.diameter, sizing.height.overall, sizing.real_trays, sizing.efficiency.value,
+                        sizing.condenser.area, sizing.reboiler.area, sizing.condenser.duty, sizing.reboiler.duty,
+                        max(sizing.hydraulics, key=lambda t: t.diameter).stage)
+    by_item = {u.item: u.cost_per_year for u in cost.utilities}
+    breakdown = CostBreakdown(tuple(CostItem(e.item, e.size, e.size_unit, e.purchased_escalated, e.installed)
+                                    for e in cost.items), cost.capital_installed, by_item["condenser"],
+                              by_item["reboiler"], cost.utilities_per_year, cost.annualised_capital,
+                              cost.tac_per_year, cost.currency, cost.cost_year)
+    return DesignEvaluation(profile.stages, profile.feed_stage, profile.reflux_ratio, profile, sizes, breakdown,
+                            SolverReport("reflux grid", "optimal", "grid", None, 0.0))
+
+
+@lru_cache(maxsize=1)
+def scenario_study():
+    """(names, optima, cross table, curves) over the reflux grid for each scenario."""
+    result, parts = design_parts()
+    case = result.case
+    P = case.column.top_pressure
+    mixture = build_mixture(case.components, case.thermo, P)
+    data = load_cost_data()
+    r_min = minimum_reflux(parts.curve, X_D, X_B, Z, result.feed.q).reflux_ratio
+    n_min = total_reflux_stages(parts.curve, X_D, X_B).stages
+    inputs, profiles = [], []
+    for factor in REFLUX_FACTORS:
+        stepped = step_stages(parts.curve, X_D, X_B, Z, result.feed.q, factor * r_min)
+        profile = profile_from_steps(mixture, result.feed, stepped, P, case.column.pressure_drop_per_stage)
+        sizing = size_column(profile, mixture, data.levels, parts.sizing.condenser.overall_coefficient,
+                             parts.sizing.reboiler.overall_coefficient)
+        inputs.append(cost_input(sizing))
+        profiles.append((profile, sizing))
+    curves, optima, chosen = [], [], []
+    for name in SCENARIOS:
+        designs = tuple(_evaluation(s, cost_column(data, inp, name), p) for inp, (p, s) in zip(inputs, profiles))
+        best = min(range(len(designs)), key=lambda i: designs[i].tac)
+        visited = tuple(SearchStep(d.stages, d.feed_stage, d.tac, "optimal") for d in designs)
+        optima.append((name, OptimumDesign(designs[best], r_min, n_min, designs[best].solver, visited)))
+        curves.append((name, designs))
+        chosen.append(inputs[best])
+    tac = tuple(tuple(cost_column(data, inp, prices).tac_per_year for prices in SCENARIOS) for inp in chosen)
+    return tuple(optima), CrossTable(SCENARIOS, tac, "USD"), tuple(curves)
+
+
+def test_cross_table_diagonal_is_zero_and_no_entry_below_zero():
+    """The extra TAC of building for the wrong prices is zero on the diagonal and never negative."""
+    _, cross, _ = scenario_study()
+    extra = cross.extra
+    table = cross_tables(cross)[1]
+    for i, name in enumerate(SCENARIOS):
+        assert extra[i][i] == 0.0
+        assert table.rows[i][0] == name and table.rows[i][1 + i] == 0.0
+        for j in range(len(SCENARIOS)):
+            assert extra[i][j] >= -TOLERANCE * cross.tac[j][j]
+    assert any(value > 0.0 for row in extra for value in row)  # cheap steam favours another reflux
+
+
+def test_cross_table_must_be_square():
+    with pytest.raises(ValueError, match="2 scenarios need a 2 x 2 matrix"):
+        CrossTable(("a", "b"), ((1.0, 2.0),), "USD")
+
+
+def test_scenario_table_holds_each_optimum():
+    optima, _, _ = scenario_study()
+    table = scenario_table(optima)
+    assert table.column("Scenario") == SCENARIOS
+    for (name, opt), tac, ratio in zip(optima, table.column("TAC [USD/year]"), table.column("R / R_min [-]")):
+        assert tac == opt.best.tac
+        assert ratio == pytest.approx(opt.best.reflux_ratio / opt.minimum_reflux_ratio, rel=1e-15)
+    assert table.column("Reboiler duty [kW]")[0] == pytest.approx(optima[0][1].best.sizes.reboiler_duty / 1e3)
+
+
+def test_tac_curve_is_capital_plus_utilities():
+    _, _, curves = scenario_study()
+    name, designs = curves[0]
+    plot = tac_curve_plot(designs, name)
+    capital, utilities, total = plot.series
+    assert capital.x == tuple(sorted(d.reflux_ratio for d in designs))
+    assert [c + u for c, u in zip(capital.y, utilities.y)] == pytest.approx(total.y, rel=1e-12)
+    table = tac_curve_table(designs, name)
+    assert table.column("TAC [USD/year]") == total.y
+    lines = draw(plot).axes[0].get_lines()
+    assert tuple(lines[2].get_ydata()) == total.y
+
+
+def test_optimum_and_search_tables():
+    optima, _, _ = scenario_study()
+    opt = optima[0][1]
+    rows = dict(optimum_table(opt).rows)
+    assert rows["Total annualised cost [USD/year]"] == opt.best.tac
+    assert rows["Relative optimality gap [-]"] == "no bound"
+    assert search_table(opt).column("TAC [USD/year]") == tuple(v.tac for v in opt.visited)
+
+
+def test_workbook_and_plots_carry_the_scenarios(tmp_path):
+    result, parts = design_parts()
+    optima, cross, curves = scenario_study()
+    full = ReportParts(**{**parts.__dict__, "optimum": optima[0][1], "scenarios": optima, "cross": cross,
+                          "tac_curves": curves})
+    names = [plot.name for plot in design_plots(result.mixture, full)]
+    assert names[3:] == ["tac_vs_reflux_reference", "stages_vs_duty_reference",
+                         "tac_vs_reflux_cheap_steam_demo", "stages_vs_duty_cheap_steam_demo"]
+    book = openpyxl.load_workbook(write_workbook(result, tmp_path / "design.xlsx", full))
+    assert {"Optimiser", "Scenarios"} <= set(book.sheetnames)
+    ws = book["Scenarios"]
+    titles = [c.value for c in ws["A"] if isinstance(c.value, str) and c.font.bold and c.font.size == 12]
+    assert titles[:3] == ["Optimum design of each price scenario",
+                          "TAC of each scenario's design under each scenario's prices",
+                          "Extra TAC of building for the wrong prices"]

@@ -93,17 +93,30 @@ def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, refl
     raise ConvergenceError(f"no start profile for {stages} stages, feed stage {feed_stage}")
 
 
-def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
-                        options=None, start: Profile | None = None, fixed_reflux: float | None = None,
-                        time_limit: float | None = None) -> DesignEvaluation:
-    """Lowest-TAC design of one configuration (or the priced design at ``fixed_reflux``)."""
+def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int, options=None,
+                 start: Profile | None = None, fixed_reflux: float | None = None,
+                 time_limit: float | None = None) -> tuple[pyo.ConcreteModel, SolverReport]:
+    """Build, initialise and solve one configuration; return the solved model and its report."""
     config = model_options(options)
     model = build_column_model(problem, basis, stages, feed_stage, config)
     initialise(model, start or start_profile(problem, stages, feed_stage, fixed_reflux))
     if fixed_reflux is not None:
         model.R.fix(fixed_reflux)
-    report = run_solver(model, config, time_limit)
-    return read_design(model, report)
+    return model, run_solver(model, config, time_limit)
+
+
+def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
+                        options=None, start: Profile | None = None, fixed_reflux: float | None = None,
+                        time_limit: float | None = None) -> DesignEvaluation:
+    """Lowest-TAC design of one configuration (or the priced design at ``fixed_reflux``)."""
+    return read_design(*solved_model(problem, basis, stages, feed_stage, options, start, fixed_reflux, time_limit))
+
+
+def configuration_tac(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
+                      options=None, time_limit: float | None = None) -> tuple[float, float, SolverReport]:
+    """(TAC [currency/yr], reflux ratio [-], report) of one configuration, without the full read-back."""
+    model, report = solved_model(problem, basis, stages, feed_stage, options, time_limit=time_limit)
+    return pyo.value(model.tac), pyo.value(model.R), report
 
 
 def read_design(model, report: SolverReport) -> DesignEvaluation:
@@ -120,7 +133,10 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
         distillate_flow=D, bottoms_flow=B, distillate_composition=y[0], bottoms_composition=x[-1],
         condenser_duty=v(m.Qc) * KILO, reboiler_duty=v(m.Qr) * KILO, condenser_temperature=v(m.TD) - p.subcooling,
         partial_condenser=False, model="rigorous" if m.config.energy_balances else "cmo")
-    need = {j: v(flooding_terms(m, j)[1]) / v(flooding_terms(m, j)[0]) for j in m.TRAYS}
+    need = {}
+    for j in m.TRAYS:
+        per_d2, vapour_volume = flooding_terms(m, j)
+        need[j] = v(vapour_volume) / v(per_d2)
     sizes = ColumnSizes(diameter=v(m.diameter), height=m.height, real_trays=m.real_trays,
                         tray_efficiency=b.trays.efficiency, condenser_area=v(m.condenser_area),
                         reboiler_area=v(m.reboiler_area), condenser_duty=v(m.Qc) * KILO,

@@ -31,6 +31,7 @@ from .mixture import Mixture
 NRTL_ALPHA = 0.3  # non-randomness fixed at a common value for fitted forms (common practice, no source)
 RANGE_MARGIN = 5.0  # K added at both ends of the column range
 T_POINTS = 12
+K_SAMPLES = 12  # sampled liquids for the Peng-Robinson K fit
 X_GRID = (0.01, 0.05, 0.15, 0.3, 0.5, 0.7, 0.85, 0.95, 0.99)
 GAS_CONSTANT = 8.314462618  # J/(mol K)
 
@@ -163,7 +164,7 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     nrtl_a, nrtl_b, k_fit = zero, zero, ()
     if mixture.method == "peng-robinson":
         form = "k-fit"
-        k_fit = _fit_k(mixture, Ts, P_low, P_high, np.full(n, 1.0 / n) if z is None else np.asarray(z))
+        k_fit = _fit_k(mixture, P_low, P_high, np.full(n, 1.0 / n) if z is None else np.asarray(z))
     elif mixture.method == "ideal":
         form = "ideal"
     else:
@@ -172,37 +173,60 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     unit = np.eye(n)
     P_mid = 0.5 * (P_low + P_high)
 
-    def quad(values):
-        return tuple(float(c) for c in np.polynomial.polynomial.polyfit(Ts - T_low, values, 2))
+    def liquid_volume(T, i):
+        return mixture.molar_masses[i] / mixture.liquid_density(T, P_mid, unit[i])
 
-    def line(values):
-        return tuple(float(c) for c in np.polynomial.polynomial.polyfit(Ts - T_low, values, 1))
-
+    pure = range(n)
     return FittedMixture(
         names=mixture.names, form=form, T_low=float(T_low), T_high=float(T_high), P_low=P_low, P_high=P_high,
         antoine=antoine, nrtl_a=nrtl_a, nrtl_b=nrtl_b, k_fit=k_fit,
-        liquid_enthalpy=tuple(quad([mixture.liquid_enthalpy(T, P_mid, unit[i]) for T in Ts]) for i in range(n)),
-        vapour_enthalpy=tuple(quad([mixture.vapour_enthalpy(T, P_mid, unit[i]) for T in Ts]) for i in range(n)),
-        liquid_volume=tuple(line([mixture.molar_masses[i] / mixture.liquid_density(T, P_mid, unit[i]) for T in Ts])
-                            for i in range(n)),
-        surface_tension=tuple(line([mixture.surface_tension(T, unit[i]) for T in Ts]) for i in range(n)),
+        liquid_enthalpy=tuple(_fit_pure(lambda T: mixture.liquid_enthalpy(T, P_mid, unit[i]), Ts, 2) for i in pure),
+        vapour_enthalpy=tuple(_fit_pure(lambda T: mixture.vapour_enthalpy(T, P_mid, unit[i]), Ts, 2) for i in pure),
+        liquid_volume=tuple(_fit_pure(lambda T: liquid_volume(T, i), Ts, 1) for i in pure),
+        surface_tension=tuple(_fit_pure(lambda T: mixture.surface_tension(T, unit[i]), Ts, 1) for i in pure),
         molar_masses=tuple(float(m) for m in mixture.molar_masses))
 
 
-def _fit_k(mixture: Mixture, Ts, P_low: float, P_high: float, z) -> tuple[tuple[float, float, float], ...]:
+def _fit_pure(function, Ts, degree: int) -> tuple[float, ...]:
+    """Polynomial in (T - T_low) fitted where the pure-component property exists.
+
+    Above a component's critical temperature its liquid properties do not exist; the fit
+    over the points below it is then extrapolated, which only matters for that component's
+    trace amounts in the hottest stages.
+    """
+    points = []
+    for T in Ts:
+        try:
+            value = function(T)
+        except (TypeError, ValueError, PropertyError):
+            continue
+        if value is not None and math.isfinite(value):
+            points.append((T, value))
+    if len(points) <= degree:
+        raise PropertyError(f"a pure-component property exists at only {len(points)} of the fitting temperatures "
+                            f"{Ts[0]:.1f} to {Ts[-1]:.1f} K")
+    T, values = np.array(points).T
+    return tuple(float(c) for c in np.polynomial.polynomial.polyfit(T - Ts[0], values, degree))
+
+
+def _fit_k(mixture: Mixture, P_low: float, P_high: float, z) -> tuple[tuple[float, float, float], ...]:
+    """ln K_i = a + b/T + c ln P fitted on bubble points of the feed and of sampled liquids."""
+    n = mixture.size
+    liquids = [np.asarray(z, dtype=float)] + list(np.random.default_rng(0).dirichlet(np.ones(n), K_SAMPLES))
     Ps = np.linspace(P_low, P_high, 3) if P_high > P_low else np.array([P_low])
     rows, lnk = [], []
-    for T in Ts:
-        for P in Ps:
-            rows.append([1.0, 1.0 / T, math.log(P)])
-            lnk.append(np.log(mixture.k_values(T, P, z)))
+    for P in Ps:
+        for x in liquids:
+            point = mixture.bubble_point(float(P), x)
+            rows.append([1.0, 1.0 / point.T, math.log(P)])
+            lnk.append(np.log(np.maximum(point.y, 1e-300) / x))
     rows, lnk = np.array(rows), np.array(lnk)
-    if len(Ps) == 1:  # no pressure spread: fold ln P into the constant
+    if len(Ps) == 1:  # no pressure spread: fold ln P into the constant with a unit slope
         coef = np.linalg.lstsq(rows[:, :2], lnk, rcond=None)[0]
-        coef = np.vstack([coef[0] - math.log(P_low), coef[1], np.ones(mixture.size)])
+        coef = np.vstack([coef[0] - math.log(P_low), coef[1], np.ones(n)])
     else:
         coef = np.linalg.lstsq(rows, lnk, rcond=None)[0]
-    return tuple(tuple(float(v) for v in coef[:, i]) for i in range(mixture.size))
+    return tuple(tuple(float(v) for v in coef[:, i]) for i in range(n))
 
 
 def _fit_nrtl(mixture: Mixture, Ts, P: float):

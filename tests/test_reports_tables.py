@@ -16,7 +16,8 @@ import numpy as np
 import pytest
 
 from disteco.case import parse_case
-from disteco.costing import ColumnCostInput, cost_column, load_cost_data
+from disteco.costing import cost_column, load_cost_data
+from disteco.costing.from_sizing import cost_input
 from disteco.properties import build_mixture, feed_state, summarise_mixture
 from disteco.reports.design_result import DesignResult
 from disteco.reports.tables import (Column, Series, Table, case_table, components_table, feed_table,
@@ -86,17 +87,6 @@ def design_parts() -> tuple[DesignResult, ReportParts]:
     return result, ReportParts(profile=profile, curve=curve, stepped=stepped, sizing=sizing, cost=cost,
                                cost_data=data)
 
-
-def cost_input(sizing) -> ColumnCostInput:
-    """The sized column as the costing layer's input."""
-    return ColumnCostInput(
-        shell_diameter=sizing.diameter, shell_height=sizing.height.tangent_length,
-        design_pressure_gauge=sizing.vessel.design_pressure, trays=sizing.real_trays,
-        condenser_area=sizing.condenser.area, condenser_duty=sizing.condenser.duty,
-        condenser_utility=sizing.condenser.utility.name, reboiler_area=sizing.reboiler.area,
-        reboiler_duty=sizing.reboiler.duty, reboiler_utility=sizing.reboiler.utility.name,
-        drum_volume=sizing.reflux_drum.volume, drum_diameter=sizing.reflux_drum.diameter,
-        pump_shaft_power=sizing.reflux_pump.shaft_power)
 
 
 def _tables():

@@ -17,6 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+from scipy.linalg import solve_banded
 
 from .._base.errors import ConvergenceError, PropertyError
 from ..properties import Mixture
@@ -67,8 +68,13 @@ class Stages:
         self.scale_flow = problem.feed_flow
 
     # ------------------------------------------------------------ properties of one block
-    def block_properties(self, j: int, u: np.ndarray) -> np.ndarray:
-        """[K (C), h_L, h_V] of block j at its unknowns u (length 2C + 1)."""
+    def block_properties(self, j: int, u: np.ndarray, base: np.ndarray | None = None,
+                         moved: str = "all") -> np.ndarray:
+        """[K (C), h_L, h_V] of block j at its unknowns u (length 2C + 1).
+
+        With ``base`` (the properties before a change) and ``moved`` = "liquid" or
+        "vapour", the enthalpy of the phase that did not move is taken from ``base``.
+        """
         C, m, P = self.C, self.mixture, self.p.pressures[j]
         l, v, T = u[:C], u[C:2 * C], u[-1]
         x, y = _fractions(l), _fractions(v)
@@ -79,7 +85,9 @@ class Stages:
         k = m.k_values(T, P, x, y)
         if not self.p.energy and j > 0:
             return np.concatenate([k, [0.0, 0.0]])
-        return np.concatenate([k, [m.liquid_enthalpy(T, P, x), m.vapour_enthalpy(T, P, y)]])
+        h_l = base[C] if moved == "vapour" else m.liquid_enthalpy(T, P, x)
+        h_v = base[C + 1] if moved == "liquid" else m.vapour_enthalpy(T, P, y)
+        return np.concatenate([k, [h_l, h_v]])
 
     def all_properties(self, U: np.ndarray) -> np.ndarray:
         return np.array([self.block_properties(j, U[j]) for j in range(self.p.N + 1)])
@@ -117,24 +125,28 @@ class Stages:
 
     # ------------------------------------------------------------ Jacobian
     def jacobian(self, U: np.ndarray, props: np.ndarray, R0: np.ndarray) -> np.ndarray:
-        """Block-tridiagonal Jacobian by grouped forward differences."""
+        """Block-tridiagonal Jacobian by grouped forward differences, in banded storage."""
         n_blocks, w = self.p.N + 1, self.width
-        J = np.zeros((n_blocks * w, n_blocks * w))
+        bands = 2 * w - 1  # block tridiagonal: every block row reaches one block either side
+        J = np.zeros((2 * bands + 1, n_blocks * w))  # banded storage of scipy.linalg.solve_banded
         typical = np.concatenate([np.full(2 * self.C, 1e-3 * self.scale_flow), [100.0]])
         for group in range(3):
             blocks = range(group, n_blocks, 3)
             for k in range(w):
+                moved = "liquid" if k < self.C else "vapour" if k < 2 * self.C else "all"
                 Up, Pp = U.copy(), props.copy()
                 steps = {}
                 for j in blocks:
                     h = RELATIVE_STEP * max(abs(U[j, k]), typical[k])
                     Up[j, k] += h
                     steps[j] = h
-                    Pp[j] = self.block_properties(j, Up[j])
+                    Pp[j] = self.block_properties(j, Up[j], props[j], moved)
                 dR = self.residuals(Up, Pp) - R0
                 for j, h in steps.items():
                     lo, hi = max(j - 1, 0), min(j + 2, n_blocks)
-                    J[lo * w:hi * w, j * w + k] = dR[lo:hi].ravel() / h
+                    column = j * w + k
+                    rows = np.arange(lo * w, hi * w)
+                    J[bands + rows - column, column] = dR[lo:hi].ravel() / h
         return J
 
     # ------------------------------------------------------------ Newton
@@ -149,8 +161,9 @@ class Stages:
                 return U, props, iteration - 1
             J = self.jacobian(U, props, R)
             try:
-                step = np.linalg.solve(J, -R.ravel()).reshape(U.shape)
-            except np.linalg.LinAlgError:
+                bands = 2 * self.width - 1
+                step = solve_banded((bands, bands), J, -R.ravel()).reshape(U.shape)
+            except (np.linalg.LinAlgError, ValueError):
                 raise ConvergenceError("the stage equations became singular; check the feed stage and "
                                        "that the distillate flow is between zero and the feed flow") from None
             U, props, R, norm = self._damped_update(U, step, R)

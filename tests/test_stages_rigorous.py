@@ -1,0 +1,174 @@
+"""Stage-by-stage solutions (constant molar overflow and energy balances) checked against
+McCabe-Thiele stepping, Underwood's minimum reflux, and their own material and energy balances."""
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from disteco.case import Column, EndSpec, Feed, FeedFlow, Products, ThermalCondition, Thermo
+from disteco.properties import build_mixture, feed_state
+from disteco.stages.binary import equilibrium_curve, minimum_reflux, step_stages
+from disteco.stages.duties import duties
+from disteco.stages.rigorous import ColumnSpec, solve_cmo, solve_rigorous
+from disteco.stages.shortcut import shortcut_design
+from disteco.stages.specs import solve_to_specs, spec_residuals
+
+BALANCE = 1e-6  # relative closure asked of every solution
+P_ATM = 101325.0
+
+
+def feed_of(mixture, z, q=1.0, flow=1.0, pressure=P_ATM):
+    return feed_state(Feed(FeedFlow("molar", flow), tuple(z), ThermalCondition("q", q), None), mixture, pressure)
+
+
+def assert_balances(mixture, feed, profile):
+    """Component balances of every stage and of the column, stage energy balances (energy
+    model) and the overall energy balance, each to BALANCE relative to the feed."""
+    F, z = feed.molar_flow, np.asarray(feed.z)
+    L, V = np.asarray(profile.L), np.asarray(profile.V)
+    x, y = np.asarray(profile.x), np.asarray(profile.y)
+    D, B = profile.distillate_flow, profile.bottoms_flow
+    xd, xb = np.asarray(profile.distillate_composition), np.asarray(profile.bottoms_composition)
+    assert np.abs(F * z - D * xd - B * xb).max() <= BALANCE * F
+    assert x.sum(axis=1) == pytest.approx(1.0, abs=1e-9) and y.sum(axis=1) == pytest.approx(1.0, abs=1e-9)
+    reflux = profile.reflux_ratio * D
+    if profile.partial_condenser:
+        x0 = (V[0] * y[0] - D * xd) / reflux
+    else:
+        x0 = xd
+    liquid_in = np.vstack([reflux * x0, L[:-1, None] * x[:-1]])
+    vapour_in = np.vstack([V[1:, None] * y[1:], np.zeros((1, len(z)))])
+    f = np.zeros_like(x)
+    f[profile.feed_stage - 1] = F * z
+    stage_error = liquid_in + vapour_in + f - L[:, None] * x - V[:, None] * y
+    assert np.abs(stage_error).max() <= BALANCE * F
+    P0 = profile.P[0]
+    h_d = (mixture.vapour_enthalpy(profile.condenser_temperature, P0, xd) if profile.partial_condenser
+           else mixture.liquid_enthalpy(profile.condenser_temperature, P0, xd))
+    h_b = mixture.liquid_enthalpy(profile.T[-1], profile.P[-1], xb)
+    energy = F * feed.enthalpy + profile.reboiler_duty - D * h_d - B * h_b - profile.condenser_duty
+    assert abs(energy) <= BALANCE * profile.reboiler_duty
+    if profile.model == "rigorous":
+        hL = np.array([mixture.liquid_enthalpy(T, P, xi) for T, P, xi in zip(profile.T, profile.P, x)])
+        hV = np.array([mixture.vapour_enthalpy(T, P, yi) for T, P, yi in zip(profile.T, profile.P, y)])
+        h_reflux = h_d if not profile.partial_condenser else mixture.liquid_enthalpy(
+            profile.condenser_temperature, P0, x0 / x0.sum())
+        h_in = np.concatenate([[reflux * h_reflux], L[:-1] * hL[:-1]]) + np.append(V[1:] * hV[1:], 0.0)
+        h_in[profile.feed_stage - 1] += F * feed.enthalpy
+        h_in[-1] += profile.reboiler_duty
+        assert np.abs(h_in - L * hL - V * hV).max() <= BALANCE * profile.reboiler_duty
+
+
+def test_cmo_stage_count_matches_stepping(benzene_toluene):
+    """Benzene-toluene (ideal) under constant molar overflow: the fewest stages for which the
+    stage-by-stage model reaches x_D = 0.95 at R = 1.5 Rmin lies within one stage of
+    McCabe-Thiele stepping on the same equilibrium curve (both are the same model)."""
+    mixture = benzene_toluene
+    feed = feed_of(mixture, (0.45, 0.55))
+    curve = equilibrium_curve(mixture, P_ATM)
+    x_d, x_b, z = 0.95, 0.05, 0.45
+    R = 1.5 * minimum_reflux(curve, x_d, x_b, z, 1.0).reflux_ratio
+    stepped = step_stages(curve, x_d, x_b, z, 1.0, R)
+    D = (z - x_b) / (x_d - x_b)
+    needed = None
+    for N in range(math.floor(stepped.stages) - 2, math.ceil(stepped.stages) + 3):
+        best = max(solve_cmo(mixture, feed, ColumnSpec(N, f, R, D, P_ATM)).distillate_composition[0]
+                   for f in range(max(2, stepped.feed_stage - 1), min(N, stepped.feed_stage + 2)))
+        if best >= x_d:
+            needed = N
+            break
+    assert needed is not None and abs(needed - stepped.stages) <= 1.0
+
+
+def test_duties_rigorous_against_cmo(benzene_toluene):
+    """Benzene-toluene is near constant molar overflow: duties of the energy-balance model lie
+    within 2 % of the CMO model's; the condenser's latent-heat estimate V h_vap agrees too."""
+    mixture = benzene_toluene
+    feed = feed_of(mixture, (0.45, 0.55))
+    spec = ColumnSpec(14, 7, 1.9, 0.45, P_ATM, 500.0)
+    cmo = solve_cmo(mixture, feed, spec)
+    rigorous = solve_rigorous(mixture, feed, spec)
+    assert rigorous.condenser_duty == pytest.approx(cmo.condenser_duty, rel=0.02)
+    assert rigorous.reboiler_duty == pytest.approx(cmo.reboiler_duty, rel=0.02)
+    estimate = duties(mixture, feed, rigorous)
+    assert estimate.condenser_cmo == pytest.approx(rigorous.condenser_duty, rel=0.02)
+    for profile in (cmo, rigorous):
+        assert_balances(mixture, feed, profile)
+
+
+@pytest.fixture(scope="module")
+def alkanes():
+    mixture = build_mixture(("n-pentane", "n-hexane", "n-heptane"), Thermo("ideal"), P_ATM)
+    feed = feed_of(mixture, (0.3, 0.4, 0.3))
+    column = Column(P_ATM, 0.0, "total", 0.0)
+    products = Products(0, 1, EndSpec("recovery", 0.99), EndSpec("recovery", 0.99))
+    return mixture, feed, column, products, shortcut_design(mixture, feed, products, column)
+
+
+def test_underwood_against_many_stages(alkanes):
+    """Underwood's minimum reflux (Underwood 1948) against the stage model at 60 stages, where
+    the reflux needed is close to the minimum. Constant molar overflow: within 5 %. With energy
+    balances the latent heats of pentane to heptane differ by a quarter, so the top reflux
+    needed is higher; it must not fall below Underwood's value and stays within 25 %."""
+    mixture, feed, column, products, design = alkanes
+    N = 60
+    cmo = solve_to_specs(mixture, feed, products, column, design, N, design.feed_stage(N), energy=False)
+    assert cmo.reflux_ratio == pytest.approx(design.minimum_reflux, rel=0.05)
+    assert np.abs(spec_residuals(cmo, products, feed)).max() < 1e-6
+    rigorous = solve_rigorous(mixture, feed, ColumnSpec(N, design.feed_stage(N), 1.0 * cmo.reflux_ratio,
+                                                        cmo.distillate_flow, P_ATM))
+    assert rigorous.distillate_composition[1] > cmo.distillate_composition[1]  # the split is worse
+    energy = solve_to_specs(mixture, feed, products, column, design, N, design.feed_stage(N), energy=True)
+    assert design.minimum_reflux <= energy.reflux_ratio <= 1.25 * design.minimum_reflux
+    assert_balances(mixture, feed, energy)
+
+
+def test_partial_condenser_and_subcooling(benzene_toluene):
+    """Partial condenser: the vapour distillate is at its dew point. Subcooled total
+    condenser: products leave 10 K below the distillate's bubble point, and the condenser
+    removes the sensible heat on top of the latent heat."""
+    mixture = benzene_toluene
+    feed = feed_of(mixture, (0.45, 0.55))
+    partial = solve_rigorous(mixture, feed, ColumnSpec(14, 7, 1.9, 0.45, P_ATM, partial_condenser=True))
+    assert partial.partial_condenser
+    dew = mixture.dew_point(P_ATM, partial.distillate_composition)
+    assert partial.condenser_temperature == pytest.approx(dew.T, abs=1e-4)
+    assert_balances(mixture, feed, partial)
+    plain = solve_rigorous(mixture, feed, ColumnSpec(14, 7, 1.9, 0.45, P_ATM))
+    cold = solve_rigorous(mixture, feed, ColumnSpec(14, 7, 1.9, 0.45, P_ATM, subcooling=10.0))
+    bubble = mixture.bubble_point(P_ATM, cold.distillate_composition)
+    assert cold.condenser_temperature == pytest.approx(bubble.T - 10.0, abs=1e-4)
+    assert cold.condenser_duty > plain.condenser_duty
+    assert_balances(mixture, feed, cold)
+
+
+def test_five_component_pressure_profile():
+    """Regression pin (guards against change only): five alkanes, 30 stages, 0.7 kPa per stage."""
+    names = ("n-butane", "n-pentane", "n-hexane", "n-heptane", "n-octane")
+    mixture = build_mixture(names, Thermo("ideal"), 3e5)
+    feed = feed_of(mixture, (0.1, 0.3, 0.3, 0.2, 0.1), pressure=3e5)
+    profile = solve_rigorous(mixture, feed, ColumnSpec(30, 15, 1.5, 0.4, 3e5, 700.0))
+    assert profile.P[-1] == pytest.approx(3e5 + 29 * 700.0)
+    assert profile.T[-1] > profile.T[0]
+    assert profile.distillate_composition[2] == pytest.approx(5.3e-4, rel=0.02)
+    assert_balances(mixture, feed, profile)
+
+
+@settings(max_examples=6, deadline=None)
+@given(N=st.integers(6, 24), feed_share=st.floats(0.2, 0.8), reflux=st.floats(0.8, 5.0),
+       cut=st.floats(0.3, 0.6), q=st.floats(0.0, 1.3), z=st.floats(0.3, 0.6))
+def test_balances_close_on_random_specs(benzene_toluene, N, feed_share, reflux, cut, q, z):
+    """Property test: for random feasible specifications both models close their material
+    and energy balances to 1e-6 relative."""
+    mixture = benzene_toluene
+    feed = feed_of(mixture, (z, 1.0 - z), q=q)
+    D = cut * feed.molar_flow
+    if (reflux + 1.0) * D <= (1.0 - q) * feed.molar_flow * 1.05:
+        reflux = (1.05 * (1.0 - q) * feed.molar_flow) / D  # keep boil-up below the feed positive
+    f = min(max(round(feed_share * N), 2), N - 1)
+    spec = ColumnSpec(N, f, reflux, D, P_ATM, 300.0)
+    for profile in (solve_cmo(mixture, feed, spec), solve_rigorous(mixture, feed, spec)):
+        assert_balances(mixture, feed, profile)

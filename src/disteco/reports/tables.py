@@ -268,11 +268,30 @@ def warnings_table(warnings: tuple[str, ...] | list[str]) -> Table:
 # ------------------------------------------------------------------ plots
 
 
+def nice_limits(values) -> tuple[float, float]:
+    """Axis limits around ``values`` on round steps (a power of ten below their span).
+
+    A spreadsheet starts an automatic axis at zero when the data lie far from it; fixed
+    limits keep a profile readable.
+
+    >>> nice_limits([85.2, 118.7])
+    (80.0, 120.0)
+    """
+    span = max(values) - min(values)
+    power = math.floor(math.log10(span if span > 0.0 else max(abs(max(values)), 1.0)))
+    step, digits = 10.0 ** power, max(0, -power)
+    low = round(math.floor(min(values) / step) * step, digits)
+    high = round(math.ceil(max(values) / step) * step, digits)
+    return (low, high) if high > low else (low - step, high + step)
+
+
 def temperature_profile_plot(profile: StageProfile) -> Plot:
     """Stage temperature against stage number (stage 1 at the top)."""
     stages = tuple(float(n) for n in range(1, profile.stages + 1))
+    temperatures = tuple(to_degC(t) for t in profile.T)
     return Plot("temperature_profile", "Stage temperatures", "Temperature [degC]", "Stage [-]",
-                (Series("Temperature", tuple(to_degC(t) for t in profile.T), stages),), stage_axis=True)
+                (Series("Temperature", temperatures, stages),), x_limits=nice_limits(temperatures),
+                stage_axis=True)
 
 
 def composition_profile_plot(profile: StageProfile, names: tuple[str, ...]) -> Plot:

@@ -12,7 +12,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..optimisation.results import DesignEvaluation, OptimumDesign
-from .tables import KW, Cell, Column, Plot, Series, Table, quantity_table, text
+from .tables import KW, Cell, Column, Plot, Series, Table, nice_limits, quantity_table, text
 
 MONEY = "#,##0"
 
@@ -137,16 +137,17 @@ def tac_curve_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
               Series("Utilities", R, tuple(d.cost.utilities_per_year for d in ordered)),
               Series("Total annualised cost", R, tuple(d.cost.tac_per_year for d in ordered)))
     return Plot(f"tac_vs_reflux_{_stem(scenario)}", f"Total annualised cost against reflux ratio ({scenario})",
-                "Reflux ratio [-]", f"Cost [{currency}/year]", series)
+                "Reflux ratio [-]", f"Cost [{currency}/year]", series, x_limits=nice_limits(R))
 
 
 def stages_duty_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
     """Ideal stages against reboiler duty: where extra stages stop saving energy."""
     ordered = sorted(designs, key=lambda d: d.stages)
-    series = (Series("Designs", tuple(d.sizes.reboiler_duty / KW for d in ordered),
-                     tuple(float(d.stages) for d in ordered), "markers"),)
+    duties = tuple(d.sizes.reboiler_duty / KW for d in ordered)
+    series = (Series("Designs", duties, tuple(float(d.stages) for d in ordered), "markers"),)
     return Plot(f"stages_vs_duty_{_stem(scenario)}", f"Ideal stages against reboiler duty ({scenario})",
-                "Reboiler duty [kW]", "Ideal stages, reboiler included [-]", series)
+                "Reboiler duty [kW]", "Ideal stages, reboiler included [-]", series,
+                x_limits=nice_limits(duties))
 
 
 def _stem(name: str) -> str:

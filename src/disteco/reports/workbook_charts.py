@@ -59,6 +59,7 @@ def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> Scatte
     chart.x_axis.delete = False
     chart.y_axis.delete = False
     chart.x_axis.majorGridlines = None
+    chart.x_axis.axPos = "b"
     if plot.x_limits:
         chart.x_axis.scaling.min, chart.x_axis.scaling.max = plot.x_limits
     if plot.y_limits:
@@ -66,6 +67,7 @@ def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> Scatte
     if plot.stage_axis:
         chart.y_axis.scaling.orientation = "maxMin"  # stage 1 at the top, as in the column
         chart.y_axis.scaling.min = 1.0
+        chart.x_axis.crosses = "max"  # keep the horizontal axis at the bottom (the last stage)
     chart.legend.position = "b"
     chart.layout = Layout(manualLayout=ManualLayout(x=0.02, y=0.1, w=0.95, h=0.62))
     for k, (series, (x_ref, y_ref)) in enumerate(zip(plot.series, refs)):

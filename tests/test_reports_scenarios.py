@@ -107,9 +107,10 @@ def test_tac_curve_is_capital_plus_utilities():
     _, _, curves = scenario_study()
     name, designs = curves[0]
     plot = tac_curve_plot(designs, name)
-    capital, utilities, total = plot.series
+    capital, utilities, total, lowest = plot.series
     assert capital.x == tuple(sorted(d.reflux_ratio for d in designs))
     assert [c + u for c, u in zip(capital.y, utilities.y)] == pytest.approx(total.y, rel=1e-12)
+    assert lowest.y == (min(total.y),) and lowest.x == (total.x[total.y.index(min(total.y))],)
     table = tac_curve_table(designs, name)
     assert table.column("TAC [USD/year]") == total.y
     lines = draw(plot).axes[0].get_lines()

@@ -13,7 +13,7 @@ import matplotlib
 matplotlib.use("Agg")  # files only; never open a window
 
 from matplotlib.figure import Figure  # noqa: E402  (after the backend is chosen)
-from matplotlib.ticker import MaxNLocator  # noqa: E402
+from matplotlib.ticker import MaxNLocator, StrMethodFormatter  # noqa: E402
 
 from .files import write_atomically  # noqa: E402
 from .tables import PALETTE, Plot  # noqa: E402
@@ -33,8 +33,8 @@ def draw(plot: Plot) -> Figure:
         elif series.style == "dashed":
             axes.plot(series.x, series.y, linestyle="--", linewidth=1.0, color=colour, label=series.name)
         else:
-            marker = "o" if plot.stage_axis else ""  # a dot on each stage
-            axes.plot(series.x, series.y, linestyle="-", linewidth=1.6, marker=marker, markersize=3,
+            dots = series.style == "line_markers" or plot.stage_axis  # a dot on each stage or solved design
+            axes.plot(series.x, series.y, linestyle="-", linewidth=1.6, marker="o" if dots else "", markersize=3,
                       color=colour, label=series.name)
     axes.set_title(plot.title, fontsize=11)
     axes.set_xlabel(plot.x_label)
@@ -45,7 +45,12 @@ def draw(plot: Plot) -> Figure:
         axes.set_ylim(*plot.y_limits)
     if plot.stage_axis:
         axes.invert_yaxis()  # stage 1 at the top, as in the column
-        axes.yaxis.set_major_locator(MaxNLocator(integer=True))
+    for axis, values in ((axes.xaxis, [v for s in plot.series for v in s.x]),
+                         (axes.yaxis, [v for s in plot.series for v in s.y])):
+        if values and all(float(v).is_integer() for v in values):
+            axis.set_major_locator(MaxNLocator(integer=True))
+        if values and max(abs(v) for v in values) >= 1e4:
+            axis.set_major_formatter(StrMethodFormatter("{x:,.0f}"))  # money and duties with separators
     if plot.x_limits == (0.0, 1.0) and plot.y_limits == (0.0, 1.0):
         axes.set_aspect("equal")
     axes.grid(True, color="#DDDDDD", linewidth=0.6)

@@ -97,11 +97,12 @@ def _check_cell(title: str, number: int, column: Column, value: Cell) -> None:
 
 # Our own palette (hex RGB), used in turn by the series of a chart and of a PNG figure.
 PALETTE = ("1F5A7A", "D9822B", "3E8E41", "B23A48", "6C4F9C", "8C6D1F", "2A9D8F", "5C5C5C")
+STYLES = ("line", "markers", "line_markers", "dashed")
 
 
 @dataclass(frozen=True)
 class Series:
-    """One plotted series; ``style`` is "line", "markers" or "dashed"."""
+    """One plotted series; ``style`` is "line", "markers", "line_markers" or "dashed"."""
 
     name: str
     x: tuple[float, ...]
@@ -111,8 +112,8 @@ class Series:
     def __post_init__(self):
         if len(self.x) != len(self.y):
             raise ValueError(f"series '{self.name}': {len(self.x)} x values for {len(self.y)} y values")
-        if self.style not in ("line", "markers", "dashed"):
-            raise ValueError(f"series '{self.name}': style {self.style!r} is not line, markers or dashed")
+        if self.style not in STYLES:
+            raise ValueError(f"series '{self.name}': style {self.style!r} is not one of {', '.join(STYLES)}")
 
 
 @dataclass(frozen=True)

@@ -129,13 +129,16 @@ def tac_curve_table(designs: Sequence[DesignEvaluation], scenario: str) -> Table
 
 
 def tac_curve_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
-    """Annualised capital, utilities and TAC against reflux ratio."""
+    """Annualised capital, utilities and TAC against reflux ratio, and the lowest TAC marked."""
     ordered = sorted(designs, key=lambda d: d.reflux_ratio)
     currency = ordered[0].cost.currency
     R = tuple(d.reflux_ratio for d in ordered)
-    series = (Series("Annualised capital", R, tuple(d.cost.annualised_capital_per_year for d in ordered)),
-              Series("Utilities", R, tuple(d.cost.utilities_per_year for d in ordered)),
-              Series("Total annualised cost", R, tuple(d.cost.tac_per_year for d in ordered)))
+    series = (Series("Annualised capital", R, tuple(d.cost.annualised_capital_per_year for d in ordered),
+                     "line_markers"),
+              Series("Utilities", R, tuple(d.cost.utilities_per_year for d in ordered), "line_markers"),
+              Series("Total annualised cost", R, tuple(d.cost.tac_per_year for d in ordered), "line_markers"))
+    lowest = min(ordered, key=lambda d: d.cost.tac_per_year)
+    series += (Series("Lowest TAC", (lowest.reflux_ratio,), (lowest.cost.tac_per_year,), "markers"),)
     return Plot(f"tac_vs_reflux_{_stem(scenario)}", f"Total annualised cost against reflux ratio ({scenario})",
                 "Reflux ratio [-]", f"Cost [{currency}/year]", series, x_limits=nice_limits(R))
 

@@ -74,14 +74,16 @@ def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> Scatte
         line = ChartSeries(y_ref, x_ref, title=series.name)
         colour = PALETTE[k % len(PALETTE)]
         line.smooth = False
-        if series.style == "markers":
+        if series.style in ("markers", "line_markers"):
             line.marker.symbol = "circle"
-            line.marker.size = 6
+            line.marker.size = 6 if series.style == "markers" else 4
             line.marker.graphicalProperties.solidFill = colour
             line.marker.graphicalProperties.line.solidFill = colour
-            line.graphicalProperties.line.noFill = True
         else:
             line.marker.symbol = "none"
+        if series.style == "markers":
+            line.graphicalProperties.line.noFill = True
+        else:
             line.graphicalProperties.line.solidFill = colour
             line.graphicalProperties.line.width = 22000  # EMU, about 1.7 pt
             if series.style == "dashed":

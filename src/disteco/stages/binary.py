@@ -155,6 +155,28 @@ def minimum_reflux(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q:
     return MinimumReflux(float(r_min), float(grid[i]), float(y_eq[i]), kind)
 
 
+def _staircase(curve: EquilibriumCurve, x_d: float, x_b: float, next_y, what: str):
+    """Step from (x_D, x_D) down to x_B; ``next_y(n, x)`` gives the vapour under stage n.
+
+    Returns the stage count (last stage fractional) and the corner points.
+    """
+    steps = [(x_d, x_d)]
+    x_prev, y = x_d, x_d
+    for n in range(1, MAX_STEPS + 1):
+        x = curve.x_of(y)
+        steps.append((x, y))
+        if x <= x_b:
+            return n - 1 + (x_prev - x_b) / (x_prev - x), steps
+        if x >= x_prev:
+            raise InfeasibleSpecError(f"the steps stall at x = {x:.4g} (the operating line meets the equilibrium "
+                                      "curve, e.g. at an azeotrope) between the products; no number of stages "
+                                      "reaches them")
+        y = next_y(n, x)
+        steps.append((x, y))
+        x_prev = x
+    raise ConvergenceError(f"more than {MAX_STEPS} stages {what}; too close to the minimum")
+
+
 def step_stages(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q: float, reflux: float,
                 partial_condenser: bool = False) -> SteppedColumn:
     """Step off ideal stages from the top, switching to the stripping line at the optimum feed.
@@ -169,25 +191,15 @@ def step_stages(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q: fl
                                   "choose a larger reflux ratio")
     x_int, _ = _operating_lines(x_d, x_b, z, q, reflux)
     slope_s = ((reflux * x_int + x_d) / (reflux + 1.0) - x_b) / (x_int - x_b)
-    steps = [(x_d, x_d)]
-    x_prev, y = x_d, x_d
-    feed_stage, count = 0, 0.0
-    for n in range(1, MAX_STEPS + 1):
-        x = curve.x_of(y)
-        steps.append((x, y))
-        if x <= x_b:
-            count = n - 1 + (x_prev - x_b) / (x_prev - x)
-            break
-        if feed_stage == 0 and x <= x_int:
-            feed_stage = n
-        stripping = feed_stage != 0
-        y = x_b + slope_s * (x - x_b) if stripping else (reflux * x + x_d) / (reflux + 1.0)
-        steps.append((x, y))
-        x_prev = x
-    else:
-        raise ConvergenceError(f"more than {MAX_STEPS} stages at reflux {reflux:.4g}; too close to the minimum")
-    if feed_stage == 0:
-        feed_stage = math.ceil(count)
+    feed = []  # the first stage whose liquid lies below the intersection of the operating lines
+
+    def next_y(n: int, x: float) -> float:
+        if not feed and x <= x_int:
+            feed.append(n)
+        return x_b + slope_s * (x - x_b) if feed else (reflux * x + x_d) / (reflux + 1.0)
+
+    count, steps = _staircase(curve, x_d, x_b, next_y, f"at reflux {reflux:.4g}")
+    feed_stage = feed[0] if feed else math.ceil(count)
     if partial_condenser:
         count -= 1.0
         feed_stage = max(feed_stage - 1, 1)
@@ -197,19 +209,5 @@ def step_stages(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q: fl
 
 def total_reflux_stages(curve: EquilibriumCurve, x_d: float, x_b: float) -> SteppedColumn:
     """Minimum number of stages: steps between the curve and the diagonal (total reflux)."""
-    steps = [(x_d, x_d)]
-    x_prev, y, count = x_d, x_d, 0.0
-    for n in range(1, MAX_STEPS + 1):
-        x = curve.x_of(y)
-        steps.append((x, y))
-        if x <= x_b:
-            count = n - 1 + (x_prev - x_b) / (x_prev - x)
-            break
-        if x >= x_prev:
-            raise InfeasibleSpecError(f"the equilibrium curve meets the diagonal at x = {x:.4g} "
-                                      "(an azeotrope) between the products; no number of stages reaches them")
-        steps.append((x, x))
-        x_prev, y = x, x
-    else:
-        raise ConvergenceError(f"more than {MAX_STEPS} stages at total reflux")
+    count, steps = _staircase(curve, x_d, x_b, lambda n, x: x, "at total reflux")
     return SteppedColumn(math.inf, float(count), 0, tuple(steps), x_d, x_b, math.nan, math.nan, False)

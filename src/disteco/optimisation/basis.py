@@ -13,6 +13,7 @@ from dataclasses import dataclass
 from .._base.errors import CaseError
 from ..case import EndSpec
 from ..properties.fitted import FittedMixture
+from ..sizing.efficiency import real_trays
 
 
 @dataclass(frozen=True)
@@ -123,7 +124,7 @@ class TrayBasis:
 
     def real_trays(self, stages: int) -> int:
         """Real trays for ``stages`` equilibrium stages (the reboiler is not a tray) [-]."""
-        return max(1, math.ceil((stages - 1) / self.efficiency - 1e-9))
+        return real_trays(stages, self.efficiency)
 
     def height(self, stages: int) -> float:
         """Shell height (tangent to tangent) [m]."""
@@ -143,6 +144,11 @@ class CostBasis:
     operating_hours: float  # h/yr
     currency: str = "USD"
     cost_year: int = 0
+    tray_quantity: object | None = None  # has .factor(trays) -> F_q [-]; None means F_q = 1
+
+    def tray_quantity_factor(self, trays: int) -> float:
+        """Quantity factor of ``trays`` identical trays [-]."""
+        return 1.0 if self.tray_quantity is None else self.tray_quantity.factor(trays)
 
 
 def check_problem(problem: SeparationProblem) -> None:

@@ -16,7 +16,9 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from .basis import CostBasis, SeparationProblem
 from .options import model_options
 from .results import DesignEvaluation, SearchStep
+from .search import stage_floor
 from .solve import configuration_tac, solve_configuration
+from .start import shortcut
 
 
 @dataclass(frozen=True)
@@ -33,7 +35,7 @@ def enumerate_designs(problem: SeparationProblem, basis: CostBasis, options=None
                       stage_range: tuple[int, int] | None = None, reflux_points: int = 0) -> Enumeration:
     """Solve every configuration in ``stage_range`` (default: the options' min/max stages)."""
     config = model_options(options)
-    low, high = stage_range or (max(config.min_stages, 4), config.max_stages)
+    low, high = stage_range or (stage_floor(shortcut(problem), config), config.max_stages)
     start = time.perf_counter()
     visited, chosen, lowest = [], None, float("inf")
     for stages in range(low, high + 1):

@@ -154,20 +154,36 @@ def _add_duties(m) -> None:
 
 
 def _add_specs(m) -> None:
+    """Product specifications, each with a relative shortfall variable priced in the objective.
+
+    An exact penalty: at a configuration that can meet the specifications the shortfalls
+    are zero; at one that cannot, the solver ends quickly with a positive shortfall instead
+    of searching its whole time limit for a feasible point (measured: 9 s at the time
+    limit without the shortfalls for 8 stages of the benzene-toluene example).
+    """
     p = m.problem
     F, z = p.feed_flow, p.z
     lk, hk = p.light_key, p.heavy_key
     B = m.L[m.N]
+    m.shortfall = pyo.Var(["light key", "heavy key"], bounds=(0.0, 1.0), initialize=0.0,
+                          doc="relative shortfall of each product specification [-]")
     spec = p.light_key_spec
     if spec.kind == "recovery":
-        m.light_key_spec = pyo.Constraint(expr=m.D * m.y[1, lk] >= spec.value * F * z[lk])
+        m.light_key_spec = pyo.Constraint(
+            expr=m.D * m.y[1, lk] >= spec.value * F * z[lk] * (1.0 - m.shortfall["light key"]))
     else:
-        m.light_key_spec = pyo.Constraint(expr=m.x[m.N, lk] <= spec.value)
+        m.light_key_spec = pyo.Constraint(expr=m.x[m.N, lk] <= spec.value * (1.0 + m.shortfall["light key"]))
     spec = p.heavy_key_spec
     if spec.kind == "recovery":
-        m.heavy_key_spec = pyo.Constraint(expr=B * m.x[m.N, hk] >= spec.value * F * z[hk])
+        m.heavy_key_spec = pyo.Constraint(
+            expr=B * m.x[m.N, hk] >= spec.value * F * z[hk] * (1.0 - m.shortfall["heavy key"]))
     else:
-        m.heavy_key_spec = pyo.Constraint(expr=m.y[1, hk] <= spec.value)
+        m.heavy_key_spec = pyo.Constraint(expr=m.y[1, hk] <= spec.value * (1.0 + m.shortfall["heavy key"]))
+
+
+def shortfall(m) -> float:
+    """Largest relative shortfall of a product specification at the current point [-]."""
+    return max(pyo.value(m.shortfall[k]) for k in m.shortfall)
 
 
 # ------------------------------------------------------------------ sizing
@@ -235,15 +251,18 @@ def _add_costs(m) -> None:
     m.shell_volume = pyo.Expression(expr=math.pi / 4.0 * m.diameter ** 2 * m.height)
     m.tray_area = pyo.Expression(expr=math.pi / 4.0 * m.diameter ** 2)
     m.cost_shell = pyo.Expression(expr=cost_curve_expr(b.shell, m.shell_volume) * b.shell.installed_factor)
-    m.cost_trays = pyo.Expression(
-        expr=m.real_trays * cost_curve_expr(b.tray_cost, m.tray_area) * b.tray_cost.installed_factor)
+    m.tray_quantity_factor = b.tray_quantity_factor(m.real_trays)
+    m.cost_trays = pyo.Expression(expr=m.real_trays * m.tray_quantity_factor * cost_curve_expr(b.tray_cost, m.tray_area)
+                                  * b.tray_cost.installed_factor)
     m.cost_condenser = pyo.Expression(expr=cost_curve_expr(cond.curve, m.condenser_area) * cond.curve.installed_factor)
     m.cost_reboiler = pyo.Expression(expr=cost_curve_expr(reb.curve, m.reboiler_area) * reb.curve.installed_factor)
     m.capital = pyo.Expression(expr=m.cost_shell + m.cost_trays + m.cost_condenser + m.cost_reboiler)
     seconds = b.operating_hours * SECONDS_PER_HOUR
     m.utilities = pyo.Expression(expr=(m.Qc * cond.price + m.Qr * reb.price) * KILO * seconds)
     m.tac = pyo.Expression(expr=b.annualisation * m.capital + m.utilities)
-    m.objective = pyo.Objective(expr=m.tac / TAC_SCALE, sense=pyo.minimize)
+    m.objective = pyo.Objective(
+        expr=m.tac / TAC_SCALE + m.config.shortfall_penalty * sum(m.shortfall[k] for k in m.shortfall),
+        sense=pyo.minimize)
 
 
 # ------------------------------------------------------------------ initialisation

@@ -23,8 +23,18 @@ def _options() -> ConfigDict:
                                              description="fewest equilibrium stages, reboiler included"))
     config.declare("max_stages", ConfigValue(default=60, domain=PositiveInt,
                                              description="most equilibrium stages, reboiler included"))
-    config.declare("max_iterations", ConfigValue(default=3000, domain=PositiveInt,
+    config.declare("configuration_time_limit", ConfigValue(
+        default=5.0, domain=PositiveFloat,
+        description="wall-clock limit of one configuration's NLP [s]; a configuration that hits it counts as "
+                    "infeasible (measured: feasible ones take 0.05-0.6 s)"))
+    config.declare("max_iterations", ConfigValue(default=300, domain=PositiveInt,
                                                  description="iteration limit of each NLP solve"))
+    config.declare("shortfall_penalty", ConfigValue(
+        default=1e5, domain=PositiveFloat,
+        description="objective penalty per unit relative shortfall of a product specification "
+                    "[thousand currency/yr]; must exceed the TAC's sensitivity to the specification"))
+    config.declare("shortfall_tolerance", ConfigValue(
+        default=1e-6, domain=PositiveFloat, description="relative shortfall accepted as meeting a specification [-]"))
     config.declare("certify", ConfigValue(default=False, domain=Bool,
                                           description="certify the best configuration with a global solver"))
     config.declare("certify_solver", ConfigValue(default="scip_direct", domain=str))

@@ -18,6 +18,7 @@ References
 
 from __future__ import annotations
 
+import math
 import time
 from dataclasses import dataclass, field
 
@@ -44,8 +45,10 @@ class Evaluator:
     designs: dict = field(default_factory=dict)
     steps: list = field(default_factory=list)
 
+    low: int = 3
+
     def allowed(self, stages: int, feed_stage: int) -> bool:
-        return self.config.min_stages <= stages <= self.config.max_stages and 2 <= feed_stage <= stages - 1
+        return self.low <= stages <= self.config.max_stages and 2 <= feed_stage <= stages - 1
 
     def tac(self, stages: int, feed_stage: int) -> float:
         """TAC of a configuration [currency/yr]; infinity when it has no feasible design."""
@@ -60,7 +63,7 @@ class Evaluator:
             raise TimeoutError
         try:
             tac, _, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
-                                               time_limit=remaining)
+                                               time_limit=min(remaining, self.config.configuration_time_limit))
         except (InfeasibleSpecError, SolverError, ConvergenceError) as exc:
             self.steps.append(SearchStep(stages, feed_stage, None, f"{type(exc).__name__}: {exc}"))
             return float("inf")
@@ -73,9 +76,18 @@ class Evaluator:
         return min(feasible, key=feasible.get) if feasible else None
 
 
+def stage_floor(estimate: Shortcut, config) -> int:
+    """Fewest stages worth solving: the options' minimum, raised to the Fenske minimum (rounded down).
+
+    Below the minimum stages no reflux meets the specification; the solver would spend its
+    whole time limit proving that.
+    """
+    return max(config.min_stages, math.floor(estimate.minimum_stages), 3)
+
+
 def starting_configuration(problem: SeparationProblem, estimate: Shortcut, config) -> tuple[int, int]:
     """Twice the Fenske minimum (a common rule, no source) and Kirkbride's feed stage."""
-    stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, config.min_stages, 4), config.max_stages))
+    stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, stage_floor(estimate, config) + 1), config.max_stages))
     F, z = problem.feed_flow, problem.z
     lk, hk = problem.light_key, problem.heavy_key
     d = estimate.distillate
@@ -124,7 +136,7 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     check_problem(problem)
     estimate = shortcut(problem)
     clock = time.perf_counter()
-    evaluator = Evaluator(problem, basis, config, clock + config.time_limit)
+    evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
     status = "locally optimal (discrete neighbourhood)"
     try:
         descend(evaluator, starting_configuration(problem, estimate, config))

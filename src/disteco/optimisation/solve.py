@@ -17,7 +17,7 @@ from pyomo.opt import SolverStatus, TerminationCondition as TC
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
-from .model import KILO, SECONDS_PER_HOUR, build_column_model, flooding_terms, initialise
+from .model import KILO, SECONDS_PER_HOUR, build_column_model, flooding_terms, initialise, shortfall
 from .options import model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
 from .start import Profile, cmo_profile, gilliland_reflux, shortcut
@@ -45,7 +45,7 @@ def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap:
 def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None) -> SolverReport:
     """Solve ``model``; return the report or raise our errors (never pass a failure on silently)."""
     name = solver_name or config.solver
-    limit = config.time_limit if time_limit is None else time_limit
+    limit = config.configuration_time_limit if time_limit is None else time_limit
     solver = make_solver(name, limit, config.max_iterations, config.relative_gap)
     start = time.perf_counter()
     try:
@@ -102,7 +102,14 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
     initialise(model, start or start_profile(problem, stages, feed_stage, fixed_reflux))
     if fixed_reflux is not None:
         model.R.fix(fixed_reflux)
-    return model, run_solver(model, config, time_limit)
+    report = run_solver(model, config, time_limit)
+    missed = shortfall(model)
+    if missed > config.shortfall_tolerance:
+        at = f"reflux ratio {fixed_reflux:.4g}, " if fixed_reflux is not None else ""
+        raise InfeasibleSpecError(
+            f"{at}{stages} stages with the feed on stage {feed_stage}: the product specifications cannot be met "
+            f"(best reachable falls {100 * missed:.3g} % short); more stages or more reflux are needed")
+    return model, report
 
 
 def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
@@ -158,7 +165,9 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
 
 
 def _item(curve, size: float, installed: float, count: int) -> CostItem:
-    return CostItem(curve.name, size, curve.size_unit, installed / curve.installed_factor, installed)
+    """Cost item; ``size`` is per piece (one tray's area) when ``count`` pieces are costed together."""
+    return CostItem(curve.name if count == 1 else f"{curve.name} ({count})", size, curve.size_unit,
+                    installed / curve.installed_factor, installed)
 
 
 def _range_warnings(items, basis: CostBasis) -> list[str]:

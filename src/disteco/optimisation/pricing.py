@@ -1,0 +1,148 @@
+"""The model's cost basis from the sizing and costing layers, and the sequential price of a design.
+
+``cost_basis_from_data`` sizes a reference design with the sizing layer and freezes what
+the equation model treats as constants: the utility levels and their prices, overall
+coefficients, tray efficiency (O'Connell), downcomer fraction, the height allowances, the
+material and pressure factors, the cost-index ratio and the capital charge. Everything
+that moves with the decisions (diameter from flooding at every tray, exchanger areas
+from duties, shell volume, cost curves, utilities) stays in the model.
+
+``price_design`` runs the sequential path (sizing layer, then costing layer) on a solved
+design, so the reported breakdown is the one the rest of disteco produces.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .._base.units import ATMOSPHERE
+from ..costing.column import CostSummary, cost_column, resolve_cost_year
+from ..costing.data import CostData
+from ..costing.from_sizing import cost_input
+from ..sizing.column import ColumnSizing, size_column
+from ..sizing.exchangers import choose_utility
+from ..sizing.flooding import lygeros_magoulas_constants
+from ..sizing.options import SizingOptions
+from ..stages.results import StageProfile
+from .basis import CostBasis, CostCurve, ExchangerBasis, SeparationProblem, TrayBasis
+from .results import DesignEvaluation
+from .start import Profile
+
+SHELL, TRAYS = "vertical_vessel", "sieve_tray"
+CONDENSER, REBOILER = "fixed_tube_sheet_exchanger", "kettle_reboiler"
+EXCHANGER_MATERIAL = "CS/CS"
+
+
+@dataclass(frozen=True)
+class SequentialPrice:
+    """A design sized and costed by the sizing and costing layers."""
+
+    sizing: ColumnSizing
+    cost: CostSummary
+
+
+def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int) -> StageProfile:
+    """A :class:`StageProfile` of a start profile, duties from the fitted enthalpies."""
+    f = problem.fitted
+    N = len(profile.T)
+    T_d = f.bubble_temperature(problem.top_pressure, profile.y[0])
+    h_reflux = f.liquid_enthalpy_of(T_d - problem.subcooling, profile.y[0])
+    q_c = profile.V[0] * (f.vapour_enthalpy_of(profile.T[0], profile.y[0]) - h_reflux)
+    q_r = profile.V[-1] * (f.vapour_enthalpy_of(profile.T[-1], profile.y[-1])
+                           - f.liquid_enthalpy_of(profile.T[-1], profile.x[-1]))
+    return StageProfile(
+        T=tuple(map(float, profile.T)), P=tuple(problem.pressure(j) for j in range(1, N + 1)),
+        L=tuple(map(float, profile.L)), V=tuple(map(float, profile.V)),
+        x=tuple(tuple(map(float, r)) for r in profile.x), y=tuple(tuple(map(float, r)) for r in profile.y),
+        feed_stage=feed_stage, reflux_ratio=profile.reflux_ratio, distillate_flow=profile.distillate_flow,
+        bottoms_flow=float(profile.L[-1]), distillate_composition=tuple(map(float, profile.y[0])),
+        bottoms_composition=tuple(map(float, profile.x[-1])), condenser_duty=float(q_c), reboiler_duty=float(q_r),
+        condenser_temperature=T_d - problem.subcooling, model="cmo")
+
+
+def _levels_and_coefficients(data: CostData, profile: StageProfile, options: SizingOptions):
+    n = profile.stages
+    condenser = choose_utility(data.levels, "cooling", profile.T[0], profile.condenser_temperature,
+                               options.min_approach, "condenser")
+    reboiler = choose_utility(data.levels, "heating", profile.T[n - 2], profile.T[n - 1],
+                              options.min_approach, "reboiler")
+    u_c = data.heat_transfer_coefficient("condenser", condenser.kind).u_typical
+    u_r = data.heat_transfer_coefficient("reboiler", reboiler.kind).u_typical
+    return condenser, reboiler, u_c, u_r
+
+
+def size_reference(mixture, data: CostData, profile: StageProfile, options: SizingOptions) -> ColumnSizing:
+    """Size ``profile`` with the utilities the cost data offers (sizing layer)."""
+    _, _, u_c, u_r = _levels_and_coefficients(data, profile, options)
+    return size_column(profile, mixture, data.levels, u_c, u_r, options)
+
+
+def _curve(data: CostData, item: str, name: str, index: float, installed_factor: float) -> CostCurve:
+    c = data.curve(item)
+    return CostCurve(name, c.k1, c.k2, c.k3, c.size_unit.replace("m3", "m^3").replace("m2", "m^2"), c.size_min,
+                     c.size_max, index / c.base_index, installed_factor, c.source)
+
+
+def _exchanger_factor(data: CostData, item: str, pressure_gauge: float, warnings: list[str]) -> float:
+    c = data.curve(item)
+    record = data.pressure_curve(c.pressure_group)
+    f_p = record.factor(pressure_gauge, warnings) if record is not None else 1.0
+    bare = data.bare_module(c.bare_module_group)
+    f_m = data.material_factor(c.material_group, EXCHANGER_MATERIAL).factor
+    return bare.b1 + bare.b2 * f_m * f_p
+
+
+def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options: SizingOptions = SizingOptions(),
+                         scenario: str | None = None, cost_year: int | None = None) -> tuple[CostBasis, list[str]]:
+    """The model's cost basis, with constants frozen at the reference design ``profile``.
+
+    Returns the basis and the warnings of sizing the reference design.
+    """
+    warnings: list[str] = []
+    scenario = data.settings.default_scenario if scenario is None else data.scenario(scenario).name
+    year, index = resolve_cost_year(data, cost_year)
+    condenser, reboiler, u_c, u_r = _levels_and_coefficients(data, profile, options)
+    ref = size_column(profile, mixture, data.levels, u_c, u_r, options)
+    warnings.extend(ref.warnings)
+    vessel = ref.vessel
+    shell_curve = data.curve(SHELL)
+    f_p = data.pressure_curve(shell_curve.pressure_group).factor(vessel.design_pressure, ref.diameter, warnings)
+    f_m = data.material_factor(shell_curve.material_group, vessel.material_class).factor
+    bare = data.bare_module(shell_curve.bare_module_group)
+    tray_curve = data.curve(TRAYS)
+    tray_bare = data.bare_module(tray_curve.bare_module_group)
+    tray_f_m = data.material_factor(tray_curve.material_group, vessel.material_class).factor
+    height = ref.height
+    trays = TrayBasis(
+        tray_spacing=options.tray_spacing, flooding_fraction=options.flood_fraction,
+        downcomer_fraction=max(t.downcomer_fraction for t in ref.hydraulics),
+        efficiency=ref.efficiency.value, extra_height=height.top_space + height.bottom_space + height.sump_liquid,
+        capacity=tuple(c * options.system_factor if k < 2 else c
+                       for k, c in enumerate(lygeros_magoulas_constants(options.tray_spacing))))
+    top_gauge = max(profile.P[0] - ATMOSPHERE, 0.0)
+    cond_gauge = max(top_gauge, (condenser.pressure or ATMOSPHERE) - ATMOSPHERE)
+    reb_gauge = max(vessel.design_pressure, (reboiler.pressure or ATMOSPHERE) - ATMOSPHERE)
+    basis = CostBasis(
+        trays=trays,
+        shell=_curve(data, SHELL, "column shell", index, bare.b1 + bare.b2 * f_m * f_p),
+        tray_cost=_curve(data, TRAYS, "trays", index, tray_bare.b1 + tray_bare.b2 * tray_f_m),
+        condenser=ExchangerBasis(u_c, condenser.supply_temperature, condenser.return_temperature,
+                                 options.min_approach, data.price_per_joule(scenario, condenser.name),
+                                 _curve(data, CONDENSER, "condenser", index,
+                                        _exchanger_factor(data, CONDENSER, cond_gauge, warnings))),
+        reboiler=ExchangerBasis(u_r, reboiler.supply_temperature, reboiler.return_temperature,
+                                options.min_approach, data.price_per_joule(scenario, reboiler.name),
+                                _curve(data, REBOILER, "reboiler", index,
+                                       _exchanger_factor(data, REBOILER, reb_gauge, warnings))),
+        annualisation=data.settings.capital_charge_factor(),
+        operating_hours=data.settings.operating_hours_per_year,
+        currency=data.settings.currency, cost_year=year, tray_quantity=data.tray_quantity)
+    return basis, warnings
+
+
+def price_design(design: DesignEvaluation, mixture, data: CostData, options: SizingOptions = SizingOptions(),
+                 scenario: str | None = None, cost_year: int | None = None) -> SequentialPrice:
+    """Size and cost a solved design with the sizing and costing layers (drum and pump included)."""
+    sizing = size_reference(mixture, data, design.profile, options)
+    return SequentialPrice(sizing, cost_column(data, cost_input(sizing), scenario, cost_year))
+

@@ -154,7 +154,7 @@ def underwood_roots(alpha: np.ndarray, z: np.ndarray, q: float, low: float, high
     1. Underwood, A.J.V. Fractional distillation of multicomponent mixtures. Chem. Eng.
        Prog. 44 (1948) 603-614.
     """
-    poles = sorted(a for a in set(alpha.tolist()) if low <= a <= high)
+    poles = sorted({float(a) for a, zi in zip(alpha, z) if low <= a <= high and zi > 0.0})  # absent: no pole
     roots = []
     for a, b in zip(poles[:-1], poles[1:]):
         gap = ROOT_GAP * (b - a)
@@ -163,7 +163,8 @@ def underwood_roots(alpha: np.ndarray, z: np.ndarray, q: float, low: float, high
     return roots
 
 
-def underwood_minimum_vapour(alpha: np.ndarray, z: np.ndarray, q: float, distillate: np.ndarray, light: int, heavy: int) -> tuple[float, np.ndarray, tuple]:
+def underwood_minimum_vapour(alpha: np.ndarray, z: np.ndarray, q: float, distillate: np.ndarray,
+                             light: int, heavy: int) -> tuple[float, np.ndarray, tuple]:
     """Minimum vapour flow from the top section, Underwood's second equation.
 
     .. math:: V_{min} = \\sum_i \\frac{\\alpha_i d_i}{\\alpha_i - \\phi_k}\\quad\\text{for every root } \\phi_k
@@ -196,7 +197,7 @@ def underwood_minimum_vapour(alpha: np.ndarray, z: np.ndarray, q: float, distill
        Prog. 44 (1948) 603-614.
     """
     roots = underwood_roots(alpha, z, q, alpha[heavy], alpha[light])
-    between = [i for i in range(len(alpha)) if alpha[heavy] < alpha[i] < alpha[light]]
+    between = [i for i in range(len(alpha)) if alpha[heavy] < alpha[i] < alpha[light] and z[i] > 0.0]
     fixed = np.array(distillate, dtype=float)
     fixed[between] = 0.0
     # unknowns: V_min and d of the in-between components; one equation per root

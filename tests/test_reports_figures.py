@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 from matplotlib.image import imread
 
-from disteco.reports.figures import draw, write_figures
+from disteco.reports.figures import draw, write_design_figures, write_figures
 from disteco.reports.tables_design import design_plots
 
 from test_reports_tables import design_parts
@@ -45,3 +45,9 @@ def test_plotted_lines_equal_result_data(plots):
     steps = xy.get_lines()[-1]
     assert list(zip(steps.get_xdata(), steps.get_ydata())) == list(parts.stepped.steps)
     assert tuple(xy.get_lines()[0].get_ydata()) == parts.curve.y
+
+
+def test_design_figures_follow_the_parts(tmp_path):
+    result, parts = design_parts()
+    paths = write_design_figures(result.mixture, parts, tmp_path)
+    assert [p.stem for p in paths] == [plot.name for plot in design_plots(result.mixture, parts)]

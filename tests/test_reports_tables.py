@@ -80,12 +80,12 @@ def design_parts() -> tuple[DesignResult, ReportParts]:
     stepped = step_stages(curve, X_D, X_B, Z, feed.q, REFLUX)
     profile = profile_from_steps(mixture, feed, stepped, P, case.column.pressure_drop_per_stage)
     data = load_cost_data()
-    sizing = size_column(profile, mixture, data.levels,
-                         data.heat_transfer_coefficient("condenser", "cooling_water").u_typical,
-                         data.heat_transfer_coefficient("reboiler", "steam").u_typical)
+    coefficients = (data.heat_transfer_coefficient("condenser", "cooling_water", "organic vapours"),
+                    data.heat_transfer_coefficient("reboiler", "steam", "light organics"))
+    sizing = size_column(profile, mixture, data.levels, coefficients[0].u_typical, coefficients[1].u_typical)
     cost = cost_column(data, cost_input(sizing), "reference")
     return result, ReportParts(profile=profile, curve=curve, stepped=stepped, sizing=sizing, cost=cost,
-                               cost_data=data)
+                               cost_data=data, coefficients=coefficients)
 
 
 
@@ -97,7 +97,7 @@ def _tables():
             stage_profile_table(parts.profile, names), summary_table(result.case.title, parts),
             column_table(parts.sizing), equipment_table(parts.sizing), exchangers_table(parts.sizing),
             capital_table(cost), utilities_table(cost), tac_table(cost), tac_breakdown_table(cost),
-            provenance_table(parts.cost_data, cost)]
+            provenance_table(parts.cost_data, cost, parts.coefficients)]
 
 
 def test_every_number_column_names_its_unit():
@@ -192,8 +192,10 @@ def test_cost_tables_add_up_to_the_cost_summary():
 
 def test_provenance_lists_every_cost_curve_and_price_used():
     _, parts = design_parts()
-    table = provenance_table(parts.cost_data, parts.cost)
+    table = provenance_table(parts.cost_data, parts.cost, parts.coefficients)
     keys = " | ".join(table.column("Row"))
+    assert "condenser / organic vapours / cooling_water: typical U [W/(m^2 K)]" in keys
+    assert "reboiler / light organics / steam: typical U [W/(m^2 K)]" in keys
     for item in parts.cost.items:
         assert f"{item.equipment}: k1, k2, k3" in keys
     for utility in parts.cost.utilities:

@@ -9,11 +9,17 @@ from xml.etree import ElementTree
 import openpyxl
 import pytest
 
+from disteco.case import load_case
+from disteco.properties import build_mixture, feed_state, summarise_mixture
+from disteco.reports.design_result import DesignResult
 from disteco.reports.json_result import result_json
 from disteco.reports.tables_design import ReportParts
 from disteco.reports.workbook import (CHART_SHEET, DATA_SHEET, save_workbook, workbook_content,
                                       write_workbook)
 from disteco.reports.workbook_cells import HEADER_FILL
+from disteco.stages.rigorous import ColumnSpec, solve_cmo
+
+from conftest import EXAMPLES
 
 from test_reports_tables import HOSTILE_TITLE, HOSTILE_WARNINGS, design_parts
 
@@ -82,12 +88,25 @@ def test_units_in_headers_and_numbers_stored_as_numbers(book):
     assert all(isinstance(c.value, float) for c in temperatures)
 
 
-def test_frozen_headers_and_column_widths(book):
+def test_frozen_headers_column_widths_and_page_setup(book):
     for ws in book.worksheets:
         if ws.title == CHART_SHEET:
             continue
         assert ws.freeze_panes in ("A3", "A4"), ws.title
         assert (ws.column_dimensions["A"].width or 0) >= 6.0, ws.title
+    stages = book["Stages"]
+    assert stages.print_title_rows == "$2:$2"
+    assert stages.page_setup.orientation == "landscape" and stages.sheet_properties.pageSetUpPr.fitToPage
+
+
+def test_text_too_long_for_a_cell_is_cut_and_marked(tmp_path):
+    from openpyxl import Workbook
+
+    from disteco.reports.workbook_cells import MAX_TEXT, put_text
+
+    ws = Workbook().active
+    cell = put_text(ws, 1, 1, "=" + "x" * (2 * MAX_TEXT) + "\x07")
+    assert len(cell.value) == MAX_TEXT and cell.value.endswith("[truncated]") and cell.data_type == "s"
 
 
 def test_chart_parts_present(workbook_path):
@@ -220,3 +239,25 @@ def test_failed_write_keeps_the_old_file(tmp_path, monkeypatch):
         save_workbook(workbook_content(result, parts), path)
     assert path.read_bytes() == b"previous run"
     assert [p.name for p in tmp_path.iterdir()] == ["design.xlsx"]
+
+
+def test_five_component_column_has_a_column_per_component_and_no_xy_chart(tmp_path):
+    """A depentaniser (example file) solved by constant molar overflow: only the report is checked."""
+    case = load_case(EXAMPLES / "depentaniser.toml")
+    P = case.column.top_pressure
+    mixture = build_mixture(case.components, case.thermo, P)
+    feed = feed_state(case.feed, mixture, P)
+    z = feed.z
+    distillate = feed.molar_flow * (z[0] + z[1] + 0.98 * z[2] + 0.02 * z[3])
+    profile = solve_cmo(mixture, feed, ColumnSpec.from_column(case.column, 24, 12, 2.5, distillate))
+    summary = summarise_mixture(mixture, case.feed.composition, P, case.products.light_key, case.products.heavy_key)
+    result = DesignResult(case=case, mixture=summary, feed=feed)
+    path = write_workbook(result, tmp_path / "design.xlsx", ReportParts(profile=profile))
+    book = openpyxl.load_workbook(path)
+    headers = [c.value for c in book["Stages"][2]]
+    for name in case.components:
+        assert f"x {name} [-]" in headers and f"y {name} [-]" in headers
+    with zipfile.ZipFile(path) as archive:
+        charts = [ElementTree.fromstring(archive.read(n)) for n in sorted(archive.namelist())
+                  if re.fullmatch(r"xl/charts/chart\d+\.xml", n)]
+    assert [len(tree.findall(f".//{CHART}ser")) for tree in charts] == [1, 5]

@@ -16,7 +16,9 @@ from matplotlib.figure import Figure  # noqa: E402  (after the backend is chosen
 from matplotlib.ticker import MaxNLocator, StrMethodFormatter  # noqa: E402
 
 from .files import write_atomically  # noqa: E402
+from ..properties import MixtureSummary  # noqa: E402
 from .tables import PALETTE, Plot  # noqa: E402
+from .tables_design import ReportParts, design_plots  # noqa: E402
 
 FIGURE_SIZE = (6.4, 4.6)  # inch
 DPI = 150
@@ -72,3 +74,8 @@ def write_figure(plot: Plot, folder: str | Path) -> Path:
 def write_figures(plots: tuple[Plot, ...] | list[Plot], folder: str | Path) -> list[Path]:
     """Write one PNG per plot into ``folder``; return the paths in the plots' order."""
     return [write_figure(plot, folder) for plot in plots]
+
+
+def write_design_figures(mixture: MixtureSummary, parts: ReportParts, folder: str | Path) -> list[Path]:
+    """Write every plot whose data ``parts`` holds into ``folder``; return the paths."""
+    return write_figures(design_plots(mixture, parts), folder)

@@ -8,7 +8,7 @@ Money is in the cost data's currency, named in every header.
 from __future__ import annotations
 
 from .._base.units import to_degC
-from ..costing import CostData, CostSummary, PressureFactorCurve
+from ..costing import CostData, CostSummary, HeatTransferCoefficient, PressureFactorCurve
 from ..costing.validation import FILES
 from ..sizing import ColumnSizing, ExchangerSizing
 from .tables import KPA, KW, MIXED, Cell, Column, Table, quantity_table, text
@@ -161,8 +161,13 @@ def tac_breakdown_table(cost: CostSummary) -> Table:
     return Table("TAC by item", columns, rows)
 
 
-def provenance_table(data: CostData, cost: CostSummary) -> Table:
-    """Every cost-data row the estimate used: file, row key, value and source."""
+def provenance_table(data: CostData, cost: CostSummary,
+                     coefficients: tuple[HeatTransferCoefficient, ...] = ()) -> Table:
+    """Every cost-data row the estimate used: file, row key, value and source.
+
+    ``coefficients`` are the heat-transfer coefficient rows the condenser and reboiler
+    were sized with (the sizing result holds the value, not the row).
+    """
     columns = (text("File", 32.0), text("Row", 36.0), Column("Value", "unit as in Row", MIXED, 14.0), text("Source", 100.0))
     rows: list[tuple[Cell, ...]] = []
     seen: set[tuple[str, str]] = set()
@@ -192,6 +197,9 @@ def provenance_table(data: CostData, cost: CostSummary) -> Table:
                     pressure.source)
         if e.count > 1:
             add(FILES["tray_factor"], "tray quantity factor F_q [-]", e.quantity_factor, data.tray_quantity.source)
+    for row in coefficients:
+        add(FILES["heat_transfer"], f"{row.service} / {row.process_side} / {row.utility_kind}: typical U "
+            "[W/(m^2 K)]", row.u_typical, row.source)
     add(FILES["index"], f"{cost.index_name} {cost.cost_year} [-]", cost.cost_index, data.cost_index.file)
     for u in cost.utilities:
         add(FILES["prices"], f"{cost.scenario} / {u.utility} [{u.price_unit}]", u.price, u.source)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..costing import CostData, CostSummary
+from ..costing import CostData, CostSummary, HeatTransferCoefficient
 from ..optimisation.results import DesignEvaluation, OptimumDesign
 from ..properties import BinaryDiagram, MixtureSummary
 from ..sizing import ColumnSizing
@@ -21,7 +21,8 @@ class ReportParts:
 
     ``profile``: converged stage profile of the chosen design; ``curve``, ``stepped``: the
     binary (key-pair) equilibrium curve and McCabe-Thiele construction; ``sizing``,
-    ``cost``: the sized and priced column, ``cost_data`` the data it was priced with;
+    ``cost``: the sized and priced column, ``cost_data`` the data it was priced with and
+    ``coefficients`` the heat-transfer coefficient rows the exchangers were sized with;
     ``optimum``: the optimiser's result; ``scenarios``: (name, optimum) per price scenario;
     ``cross``: each scenario's design under every scenario's prices; ``tac_curves``:
     (scenario, designs along the reflux ratio with stages and feed re-optimised).
@@ -33,6 +34,7 @@ class ReportParts:
     sizing: ColumnSizing | None = None
     cost: CostSummary | None = None
     cost_data: CostData | None = None
+    coefficients: tuple[HeatTransferCoefficient, ...] = ()
     optimum: OptimumDesign | None = None
     scenarios: tuple[tuple[str, OptimumDesign], ...] = ()
     cross: CrossTable | None = None

@@ -58,7 +58,7 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     inputs = [case_table(result.case), mixture_table(result.mixture), components_table(result.mixture),
               feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:
-        inputs.append(provenance_table(parts.cost_data, parts.cost))
+        inputs.append(provenance_table(parts.cost_data, parts.cost, parts.coefficients))
     sheets = [Sheet("Summary", tuple(summary) + (cautions_table(),)), Sheet("Inputs", tuple(inputs))]
     if parts.profile is not None:
         sheets.append(Sheet("Stages", (stage_profile_table(parts.profile, names),

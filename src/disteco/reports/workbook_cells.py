@@ -12,6 +12,7 @@ from .tables import MIXED, Cell, Table, is_number
 # A spreadsheet treats text starting with one of these as the start of a formula when the
 # cell is edited or the data re-imported (formula injection).
 FORMULA_LEADS = ("=", "+", "-", "@", "\t", "\r")
+MAX_TEXT = 32767  # characters a spreadsheet cell holds
 TITLE_FONT = Font(bold=True, size=12, color="1F3B57")
 HEADER_FONT = Font(bold=True, color="FFFFFF")
 HEADER_FILL = PatternFill("solid", fgColor="2E6A80")
@@ -24,9 +25,12 @@ def put_text(ws: Worksheet, row: int, column: int, value: str):
     openpyxl turns a string starting with "=" into a formula; the data type is forced back
     to text here, and a quote prefix is set on text that a spreadsheet would read as a
     formula when the cell is edited, so the text shows exactly as written and never runs.
-    Control characters that the file format cannot hold are dropped.
+    Control characters that the file format cannot hold are dropped; text longer than a
+    cell holds is cut and marked.
     """
     clean = ILLEGAL_CHARACTERS_RE.sub("", value)
+    if len(clean) > MAX_TEXT:
+        clean = clean[:MAX_TEXT - 12] + " [truncated]"
     cell = ws.cell(row=row, column=column)
     cell.value = clean
     cell.data_type = "s"
@@ -98,4 +102,9 @@ def write_tables(ws: Worksheet, tables: tuple[Table, ...] | list[Table]) -> list
         row = write_table(ws, table, row) + 1
     if tables:
         ws.freeze_panes = ws.cell(row=tops[0] + 2, column=1)
+        ws.print_title_rows = f"{tops[0] + 1}:{tops[0] + 1}"
+    ws.page_setup.orientation = "landscape"
+    ws.page_setup.fitToWidth = 1
+    ws.page_setup.fitToHeight = 0  # as many pages down as needed
+    ws.sheet_properties.pageSetUpPr.fitToPage = True
     return tops

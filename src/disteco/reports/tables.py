@@ -255,9 +255,10 @@ def products_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
     return quantity_table("Products", items)
 
 
-def cautions_table() -> Table:
-    """The standing cautions of every estimate."""
-    return Table("Cautions", (text("Caution", 120.0),), tuple((c,) for c in CAUTIONS))
+def cautions_table(extra: tuple[str, ...] = ()) -> Table:
+    """The standing cautions of every estimate, then ``extra`` ones (e.g. from the cost data)."""
+    cautions = CAUTIONS + tuple(c for c in extra if c not in CAUTIONS)
+    return Table("Cautions", (text("Caution", 120.0),), tuple((c,) for c in cautions))
 
 
 def warnings_table(warnings: tuple[str, ...] | list[str]) -> Table:

@@ -1,10 +1,10 @@
 """The workbook an estimator can use without disteco: tables with units, charts, cautions.
 
 Sheets (in this order, each only when its data exists): Summary, Inputs, Stages,
-Equipment, Capital, Utilities, Optimiser, Scenarios, Warnings, Chart data, Charts. Every table has a
-title row and a header row with units; numbers are stored as numbers with a number
-format; header rows are frozen; column widths are set. Text from the user's files is
-written as text and never as a formula.
+Equipment, Capital, Utilities, Optimiser, Scenarios, Warnings, Chart data, Charts. Every
+table has a title row and a header row with units; numbers are stored as numbers with a
+number format; header rows are frozen; column widths are set. Text from the user's files
+is written as text and never as a formula.
 
 The file is written through :func:`write_atomically`: a failed run leaves no partial
 workbook, and an existing file is replaced only when the new one is complete.
@@ -59,7 +59,8 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
               feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:
         inputs.append(provenance_table(parts.cost_data, parts.cost, parts.coefficients))
-    sheets = [Sheet("Summary", tuple(summary) + (cautions_table(),)), Sheet("Inputs", tuple(inputs))]
+    cautions = cautions_table(parts.cost.accuracy_band.cautions if parts.cost is not None else ())
+    sheets = [Sheet("Summary", tuple(summary) + (cautions,)), Sheet("Inputs", tuple(inputs))]
     if parts.profile is not None:
         sheets.append(Sheet("Stages", (stage_profile_table(parts.profile, names),
                                        products_table(parts.profile, names))))
@@ -74,7 +75,7 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     scenarios = _scenario_tables(parts)
     if scenarios:
         sheets.append(Sheet("Scenarios", scenarios))
-    sheets.append(Sheet("Warnings", (warnings_table(_all_warnings(result, parts)), cautions_table())))
+    sheets.append(Sheet("Warnings", (warnings_table(_all_warnings(result, parts)), cautions)))
     return WorkbookContent(tuple(sheets), design_plots(result.mixture, parts))
 
 

@@ -85,7 +85,16 @@ def test_cross_table_diagonal_is_zero_and_no_entry_below_zero():
         assert table.rows[i][0] == name and table.rows[i][1 + i] == 0.0
         for j in range(len(SCENARIOS)):
             assert extra[i][j] >= -TOLERANCE * cross.tac[j][j]
+    assert cross.below_zero() == ()
     assert any(value > 0.0 for row in extra for value in row)  # cheap steam favours another reflux
+
+
+def test_cross_entry_below_zero_is_reported():
+    cross = CrossTable(("low", "high"), ((100.0, 210.0), (99.0, 200.0)), "USD")
+    warnings = cross.below_zero()
+    assert len(warnings) == 1
+    assert "'high' costs 1 USD/year less under the prices of 'low'" in warnings[0]
+    assert CrossTable(("a",), ((5.0,),), "USD").below_zero() == ()
 
 
 def test_cross_table_must_be_square():

@@ -15,6 +15,7 @@ from ..optimisation.results import DesignEvaluation, OptimumDesign
 from .tables import KW, Cell, Column, Plot, Series, Table, nice_limits, quantity_table, text
 
 MONEY = "#,##0"
+CROSS_TOLERANCE = 1e-6  # relative; below the solvers' usual tolerance on the TAC (common practice, no source)
 
 
 def _money(label: str, currency: str) -> Column:
@@ -38,6 +39,22 @@ class CrossTable:
     def extra(self) -> tuple[tuple[float, ...], ...]:
         """Extra TAC of building for scenario i when the prices of j apply: TAC[i][j] - TAC[j][j]."""
         return tuple(tuple(row[j] - self.tac[j][j] for j in range(len(row))) for row in self.tac)
+
+    def below_zero(self, tolerance: float = CROSS_TOLERANCE) -> tuple[str, ...]:
+        """Warnings for every extra TAC below -``tolerance`` x the column's own optimum.
+
+        A design built for other prices cannot beat a scenario's own optimum; if it does,
+        that optimum was not the lowest (a local optimum or a loose solver tolerance).
+        """
+        found = []
+        for i, row in enumerate(self.extra):
+            for j, value in enumerate(row):
+                if value < -tolerance * abs(self.tac[j][j]):
+                    found.append(f"cross table: the design optimal for '{self.scenarios[i]}' costs "
+                                 f"{-value:,.0f} {self.currency}/year less under the prices of "
+                                 f"'{self.scenarios[j]}' than that scenario's own optimum; the optimum of "
+                                 f"'{self.scenarios[j]}' is not the lowest TAC (rerun with a tighter tolerance)")
+        return tuple(found)
 
 
 def optimum_table(optimum: OptimumDesign) -> Table:

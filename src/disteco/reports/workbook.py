@@ -90,10 +90,10 @@ def _scenario_tables(parts: ReportParts) -> tuple[Table, ...]:
 
 
 def _all_warnings(result: DesignResult, parts: ReportParts) -> tuple[str, ...]:
-    """The run's warnings, then those of sizing and costing not already listed."""
+    """The run's warnings, then those of sizing, costing, the optimiser and the cross table not yet listed."""
     found = list(result.warnings)
     for extra in (parts.sizing.warnings if parts.sizing else (), parts.cost.warnings if parts.cost else (),
-                  parts.optimum.warnings if parts.optimum else ()):
+                  parts.optimum.warnings if parts.optimum else (), parts.cross.below_zero() if parts.cross else ()):
         found += [w for w in extra if w not in found]
     return tuple(found)
 

@@ -53,6 +53,8 @@ def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> Scatte
     chart.style = 2
     chart.scatterStyle = "lineMarker"
     chart.width, chart.height = CHART_WIDTH, CHART_HEIGHT
+    if plot.x_limits == (0.0, 1.0) and plot.y_limits == (0.0, 1.0):
+        chart.width = CHART_HEIGHT * 1.15  # about square plot area for an x-y diagram
     chart.x_axis.title = plot.x_label
     chart.y_axis.title = plot.y_label
     # Recent spreadsheet versions hide axes that are not explicitly kept.

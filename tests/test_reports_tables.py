@@ -21,7 +21,7 @@ from disteco.costing.from_sizing import cost_input
 from disteco.properties import build_mixture, feed_state, summarise_mixture
 from disteco.reports.design_result import DesignResult
 from disteco.reports.tables import (Column, Series, Table, case_table, components_table, feed_table,
-                                    operating_series, stage_profile_table, text)
+                                    mixture_table, operating_series, stage_profile_table, text)
 from disteco.reports.tables_costs import (capital_table, column_table, equipment_table, exchangers_table,
                                           provenance_table, tac_breakdown_table, tac_table, utilities_table)
 from disteco.reports.tables_design import ReportParts, design_plots, summary_table
@@ -212,3 +212,14 @@ def test_equipment_table_in_display_units():
     assert pump[3:5] == (pytest.approx(item.size / 1e3, rel=1e-15), "kW")
     assert pump[9] == pytest.approx(item.design_pressure / 1e3, rel=1e-15)
     assert pump[10] == pytest.approx(item.design_temperature - 273.15, abs=1e-12)
+
+
+def test_mixture_table_names_the_azeotrope(ethanol_water):
+    """Ethanol-water (UNIFAC Dortmund) forms a minimum-boiling azeotrope near 0.89 mole fraction
+    ethanol at 1 atm (J. Gmehling et al., Azeotropic Data, 2nd ed., 2004; from memory): the
+    report gives its composition and temperature as numbers with units (loose bounds: only the
+    report is under test)."""
+    summary = summarise_mixture(ethanol_water, (0.2, 0.8), 101325.0, 0, 1)
+    rows = dict(mixture_table(summary).rows)
+    assert 0.85 < rows["Azeotrope ethanol/water (minimum-boiling): mole fraction ethanol [-]"] < 0.92
+    assert 77.5 < rows["Azeotrope ethanol/water (minimum-boiling): temperature [degC]"] < 79.0

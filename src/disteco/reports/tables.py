@@ -210,8 +210,8 @@ def mixture_table(mixture: MixtureSummary) -> Table:
         ("Feed dew point at top pressure [degC]", to_degC(mixture.feed_dew_T)),
     ]
     for a in mixture.azeotropes:
-        items.append((f"Azeotrope {a.first}/{a.second} ({a.kind})",
-                      f"{a.x_first:.4f} mole fraction {a.first} at {to_degC(a.T):.2f} degC"))
+        items += [(f"Azeotrope {a.first}/{a.second} ({a.kind}): mole fraction {a.first} [-]", a.x_first),
+                  (f"Azeotrope {a.first}/{a.second} ({a.kind}): temperature [degC]", to_degC(a.T))]
     if not mixture.azeotropes:
         items.append(("Azeotropes", "none found between any pair at top pressure"))
     return quantity_table("Mixture", items)

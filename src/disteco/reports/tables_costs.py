@@ -168,7 +168,8 @@ def provenance_table(data: CostData, cost: CostSummary,
     ``coefficients`` are the heat-transfer coefficient rows the condenser and reboiler
     were sized with (the sizing result holds the value, not the row).
     """
-    columns = (text("File", 32.0), text("Row", 36.0), Column("Value", "unit as in Row", MIXED, 14.0), text("Source", 100.0))
+    columns = (text("File", 32.0), text("Row", 36.0), Column("Value", "unit as in Row", MIXED, 14.0),
+               text("Source", 100.0))
     rows: list[tuple[Cell, ...]] = []
     seen: set[tuple[str, str]] = set()
 
@@ -204,7 +205,8 @@ def provenance_table(data: CostData, cost: CostSummary,
     for u in cost.utilities:
         add(FILES["prices"], f"{cost.scenario} / {u.utility} [{u.price_unit}]", u.price, u.source)
     add(FILES["scenarios"], cost.scenario, None, data.scenario(cost.scenario).source)
-    add(FILES["annualisation"], f"{cost.annualisation}: capital charge factor [1/year]", cost.capital_charge_factor, data.settings.source)
+    add(FILES["annualisation"], f"{cost.annualisation}: capital charge factor [1/year]",
+        cost.capital_charge_factor, data.settings.source)
     add(FILES["accuracy"], f"AACE class {cost.accuracy_band.estimate_class}", None, cost.accuracy_band.source)
     return Table(f"Cost data used ({data.folder})", columns, tuple(rows))
 

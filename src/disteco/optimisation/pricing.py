@@ -13,10 +13,8 @@ design, so the reported breakdown is the one the rest of disteco produces.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 from .._base.units import ATMOSPHERE
-from ..costing.column import CostSummary, cost_column, resolve_cost_year
+from ..costing.column import cost_column, resolve_cost_year
 from ..costing.data import CostData
 from ..costing.from_sizing import cost_input
 from ..sizing.column import ColumnSizing, size_column
@@ -25,20 +23,12 @@ from ..sizing.flooding import lygeros_magoulas_constants
 from ..sizing.options import SizingOptions
 from ..stages.results import StageProfile
 from .basis import CostBasis, CostCurve, ExchangerBasis, SeparationProblem, TrayBasis
-from .results import DesignEvaluation
+from .results import DesignEvaluation, SequentialPrice
 from .start import Profile
 
 SHELL, TRAYS = "vertical_vessel", "sieve_tray"
 CONDENSER, REBOILER = "fixed_tube_sheet_exchanger", "kettle_reboiler"
 EXCHANGER_MATERIAL = "CS/CS"
-
-
-@dataclass(frozen=True)
-class SequentialPrice:
-    """A design sized and costed by the sizing and costing layers."""
-
-    sizing: ColumnSizing
-    cost: CostSummary
 
 
 def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int) -> StageProfile:

@@ -4,7 +4,17 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from ..costing.column import CostSummary
+from ..sizing.column import ColumnSizing
 from ..stages.results import StageProfile
+
+
+@dataclass(frozen=True)
+class SequentialPrice:
+    """A design sized and costed again by the sizing and costing layers (drum and pump included)."""
+
+    sizing: ColumnSizing
+    cost: CostSummary
 
 
 @dataclass(frozen=True)
@@ -73,6 +83,7 @@ class DesignEvaluation:
     cost: CostBreakdown
     solver: SolverReport
     warnings: tuple[str, ...] = ()
+    sequential: SequentialPrice | None = None  # filled by the case-level functions
 
     @property
     def tac(self) -> float:
@@ -100,3 +111,4 @@ class OptimumDesign:
     solver: SolverReport
     visited: tuple[SearchStep, ...]
     warnings: tuple[str, ...] = ()
+    sequential: SequentialPrice | None = None  # the best design priced by the sizing and costing layers

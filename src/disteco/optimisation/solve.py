@@ -55,9 +55,12 @@ def run_solver(model, config, time_limit: float | None = None, solver_name: str 
     wall = time.perf_counter() - start
     tc = results.solver.termination_condition
     if tc in OK or (tc in STOPPED and name.startswith("scip") and len(results.solution) > 0):
+        status = OK.get(tc, STOPPED.get(tc, str(tc)))
+        if results.solver.status == SolverStatus.warning and tc in OK:
+            status += " (acceptable level)"  # the solver's looser tolerances; recorded, not logged
+            results.solver.status = SolverStatus.ok
         model.solutions.load_from(results)
         gap = _gap(results)
-        status = OK.get(tc, STOPPED.get(tc, str(tc)))
         return SolverReport(name, status, str(tc), gap, wall)
     if tc in INFEASIBLE:
         raise InfeasibleSpecError(f"{model.name}: no design meets the product specifications "

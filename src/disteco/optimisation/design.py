@@ -1,0 +1,89 @@
+"""Case-level entry points: optimise a column, or price a given design, from a case.
+
+Both build the separation problem (fitted forms over the column's range), the cost basis
+(from the sizing and costing layers at a reference design), solve with the one equation
+model, and price the result again through the sequential sizing and costing path.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+from .._base.errors import InfeasibleSpecError
+from ..case import Case
+from ..costing.data import CostData
+from ..properties import FeedState, Mixture
+from ..properties.fitted import fit_mixture
+from ..sizing.options import SizingOptions
+from .basis import CostBasis, SeparationProblem, check_problem
+from .options import model_options
+from .pricing import cost_basis_from_data, price_design, stage_profile
+from .results import DesignEvaluation, OptimumDesign
+from .search import optimise, starting_configuration
+from .solve import solve_configuration, start_profile
+from .start import shortcut
+
+
+def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int) -> SeparationProblem:
+    """The process side of ``case``, with forms fitted from the top pressure to ``max_stages`` stages down."""
+    column = case.column
+    P_top = column.top_pressure
+    P_bottom = P_top + max_stages * column.pressure_drop_per_stage
+    problem = SeparationProblem(
+        fit_mixture(mixture, P_top, P_bottom, z=feed.z), feed.molar_flow, tuple(feed.z), feed.q, P_top,
+        column.pressure_drop_per_stage, case.products.light_key, case.products.heavy_key,
+        case.products.light_key_spec, case.products.heavy_key_spec, column.subcooling)
+    check_problem(problem)
+    return problem
+
+
+def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostData, sizing: SizingOptions,
+                     scenario: str | None, cost_year: int | None, config) -> tuple[CostBasis, list[str]]:
+    """Cost basis frozen at the search's starting configuration (Gilliland reflux, CMO profile)."""
+    stages, feed_stage = starting_configuration(problem, shortcut(problem), config)
+    reference = stage_profile(problem, start_profile(problem, stages, feed_stage), feed_stage)
+    options = replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
+    return cost_basis_from_data(data, mixture, reference, options, scenario, cost_year)
+
+
+def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
+                    sizing: SizingOptions = SizingOptions(), scenario: str | None = None) -> OptimumDesign:
+    """Lowest-TAC reflux ratio, stages and feed stage of ``case`` and its sequential price.
+
+    ``options``: optimiser options (see :mod:`disteco.optimisation.options`); ``scenario``:
+    utility-price scenario of the cost data (None: the data's default).
+    """
+    config = model_options(options)
+    problem = separation_problem(case, mixture, feed, config.max_stages)
+    basis, warnings = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
+    result = optimise(problem, basis, config)
+    priced = price_design(result.best, mixture, data, replace(sizing, light_key=problem.light_key,
+                                                               heavy_key=problem.heavy_key),
+                          scenario, case.economics.cost_year)
+    return replace(result, sequential=priced, warnings=tuple(warnings) + result.warnings)
+
+
+def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,
+                    stages: int, feed_stage: int, options=None, sizing: SizingOptions = SizingOptions(),
+                    scenario: str | None = None) -> DesignEvaluation:
+    """Sizes and costs of a given design (reflux ratio [-], stages incl. reboiler, feed stage from the top).
+
+    The distillate flow is chosen by the model to meet the specifications at least cost.
+    Raises :class:`InfeasibleSpecError` when the reflux is at or below the minimum or the
+    design cannot meet the specifications.
+    """
+    config = model_options(options)
+    if stages > config.max_stages:
+        config.max_stages = stages
+    problem = separation_problem(case, mixture, feed, config.max_stages)
+    r_min = shortcut(problem).minimum_reflux
+    if reflux_ratio <= r_min:
+        raise InfeasibleSpecError(
+            f"reflux ratio {reflux_ratio:.4g} is at or below the minimum reflux ratio {r_min:.4g} "
+            "(Underwood): no number of stages meets the product specifications")
+    basis, warnings = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
+    design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
+    priced = price_design(design, mixture, data, replace(sizing, light_key=problem.light_key,
+                                                         heavy_key=problem.heavy_key),
+                          scenario, case.economics.cost_year)
+    return replace(design, sequential=priced, warnings=tuple(warnings) + design.warnings)

@@ -1,0 +1,99 @@
+"""The discrete search against exhaustive enumeration, economic trends, and pricing a given design.
+
+The enumeration (``disteco.optimisation.enumerate``) solves every configuration with the
+same model, solver and start, so equal TACs show that the search found the best
+configuration of the same physics and costs.
+"""
+
+from dataclasses import replace
+
+import pytest
+
+from disteco._base.errors import InfeasibleSpecError, SolverError
+from disteco.costing.data import load_cost_data
+from disteco.optimisation.design import evaluate_design, optimise_design
+from disteco.optimisation.enumerate import enumerate_designs
+from disteco.optimisation.search import optimise
+from test_optimisation_support import EASY_SPLIT, example, example_basis, example_problem
+
+MAX = 22
+OPTIONS = {"max_stages": MAX}
+
+
+@pytest.fixture(scope="module")
+def problem():
+    return example_problem("aromatics_binary", MAX, *EASY_SPLIT)
+
+
+@pytest.fixture(scope="module")
+def cheap_steam():
+    return example_basis("aromatics_binary", MAX, *EASY_SPLIT, scenario="cheap-steam-demo")
+
+
+@pytest.fixture(scope="module")
+def optimum(problem, cheap_steam):
+    return optimise(problem, cheap_steam, OPTIONS)
+
+
+def test_search_equals_enumeration(problem, cheap_steam, optimum):
+    """Benzene-toluene, 95 %/5 % split, up to 22 stages: the search's TAC equals the best of all
+    configurations and of a fine reflux grid at the best one within 0.1 % (the acceptance
+    criterion of the optimiser), with far fewer configurations solved."""
+    enumeration = enumerate_designs(problem, cheap_steam, OPTIONS, reflux_points=9)
+    assert optimum.best.tac == pytest.approx(enumeration.best.tac, rel=1e-3)
+    assert (optimum.best.stages, optimum.best.feed_stage) == (enumeration.best.stages, enumeration.best.feed_stage)
+    assert min(tac for _, tac in enumeration.reflux_grid) >= optimum.best.tac * (1 - 1e-3)
+    assert optimum.solver.configurations_solved < len(enumeration.visited) / 4
+
+
+def test_optimum_is_interior_and_above_minimum_reflux(optimum):
+    """The optimum lies inside the stage range, above Underwood's minimum reflux and Fenske's minimum stages."""
+    best = optimum.best
+    assert best.stages < MAX
+    assert best.reflux_ratio > optimum.minimum_reflux_ratio
+    assert best.stages > optimum.minimum_stages
+
+
+def test_dearer_steam_never_raises_the_optimum_reflux(problem, cheap_steam, optimum):
+    """Raising the steam price never raises the optimum reflux ratio (economic trend)."""
+    dear = replace(cheap_steam, reboiler=replace(cheap_steam.reboiler, price=3.0 * cheap_steam.reboiler.price))
+    assert optimise(problem, dear, OPTIONS).best.reflux_ratio <= optimum.best.reflux_ratio * (1 + 1e-6)
+
+
+def test_dearer_capital_never_lowers_the_optimum_reflux(problem, cheap_steam, optimum):
+    """Raising the capital cost level never lowers the optimum reflux ratio (economic trend)."""
+    def dearer(curve):
+        return replace(curve, multiplier=2.0 * curve.multiplier)
+
+    dear = replace(cheap_steam, shell=dearer(cheap_steam.shell), tray_cost=dearer(cheap_steam.tray_cost),
+                   condenser=replace(cheap_steam.condenser, curve=dearer(cheap_steam.condenser.curve)),
+                   reboiler=replace(cheap_steam.reboiler, curve=dearer(cheap_steam.reboiler.curve)))
+    assert optimise(problem, dear, OPTIONS).best.reflux_ratio >= optimum.best.reflux_ratio * (1 - 1e-6)
+
+
+def test_time_limit_without_a_design_is_a_solver_error(problem, cheap_steam):
+    """A time limit too short for any configuration gives a clear SolverError, never silence."""
+    with pytest.raises(SolverError, match="time limit"):
+        optimise(problem, cheap_steam, {"max_stages": MAX, "time_limit": 1e-6})
+
+
+def test_case_level_optimum_and_evaluation_agree():
+    """optimise_design on the benzene-toluene example, then evaluate_design at its R, N, NF, gives
+    the same TAC (the same model with the decisions fixed) and a sequential price from the
+    sizing and costing layers within 5 % of the model's TAC (drum, pump and diameter rounding)."""
+    case, mixture, feed = example("aromatics_binary")
+    data = load_cost_data()
+    options = {"max_stages": 40}
+    found = optimise_design(case, mixture, feed, data, options)
+    best = found.best
+    priced = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages, best.feed_stage, options)
+    assert priced.tac == pytest.approx(best.tac, rel=1e-4)
+    assert found.sequential.cost.tac_per_year == pytest.approx(best.tac, rel=0.05)
+    assert priced.sizes.real_trays == found.sequential.sizing.real_trays
+
+
+def test_reflux_at_minimum_is_infeasible_in_words():
+    """A design at or below the minimum reflux ratio is reported infeasible, naming the minimum."""
+    case, mixture, feed = example("aromatics_binary")
+    with pytest.raises(InfeasibleSpecError, match="at or below the minimum reflux ratio"):
+        evaluate_design(case, mixture, feed, load_cost_data(), 1.0, 30, 15)

@@ -7,7 +7,7 @@ from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.worksheet import Worksheet
 
-from .tables import MIXED, Cell, Table, is_number
+from .tables import MIXED, TEXT, Cell, Table, is_number
 
 # A spreadsheet treats text starting with one of these as the start of a formula when the
 # cell is edited or the data re-imported (formula injection).
@@ -86,8 +86,10 @@ def write_table(ws: Worksheet, table: Table, top: int, left: int = 1) -> int:
     for i, row in enumerate(table.rows):
         for j, (column, value) in enumerate(zip(table.columns, row)):
             cell = put_value(ws, top + 2 + i, left + j, value, column.number_format)
-            if column.is_text and column.width >= 60.0:
-                cell.alignment = WRAP
+            if column.is_text:
+                cell.number_format = TEXT  # an edit of the cell stays text too
+                if column.width >= 60.0:
+                    cell.alignment = WRAP
     return top + 2 + len(table.rows)
 
 

@@ -14,10 +14,10 @@ import pytest
 
 from disteco.costing import cost_column, load_cost_data
 from disteco.optimisation.results import (ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, OptimumDesign,
-                                          SearchStep, SolverReport)
+                                          SearchStep, SequentialPrice, SolverReport)
 from disteco.properties import build_mixture
 from disteco.reports.figures import draw
-from disteco.reports.tables_design import ReportParts, design_plots
+from disteco.reports.tables_design import design_plots, optimum_parts
 from disteco.reports.tables_scenarios import (CrossTable, cross_tables, optimum_table, scenario_table,
                                               search_table, tac_curve_plot, tac_curve_table)
 from disteco.reports.workbook import write_workbook
@@ -42,7 +42,8 @@ def _evaluation(sizing, cost, profile) -> DesignEvaluation:
                               by_item["reboiler"], cost.utilities_per_year, cost.annualised_capital,
                               cost.tac_per_year, cost.currency, cost.cost_year)
     return DesignEvaluation(profile.stages, profile.feed_stage, profile.reflux_ratio, profile, sizes, breakdown,
-                            SolverReport("reflux grid", "optimal", "grid", None, 0.0))
+                            SolverReport("reflux grid", "optimal", "grid", None, 0.0),
+                            sequential=SequentialPrice(sizing, cost))
 
 
 @lru_cache(maxsize=1)
@@ -68,7 +69,8 @@ def scenario_study():
         designs = tuple(_evaluation(s, cost_column(data, inp, name), p) for inp, (p, s) in zip(inputs, profiles))
         best = min(range(len(designs)), key=lambda i: designs[i].tac)
         visited = tuple(SearchStep(d.stages, d.feed_stage, d.tac, "optimal") for d in designs)
-        optima.append((name, OptimumDesign(designs[best], r_min, n_min, designs[best].solver, visited)))
+        optima.append((name, OptimumDesign(designs[best], r_min, n_min, designs[best].solver, visited,
+                                           sequential=designs[best].sequential)))
         curves.append((name, designs))
         chosen.append(inputs[best])
     tac = tuple(tuple(cost_column(data, inp, prices).tac_per_year for prices in SCENARIOS) for inp in chosen)
@@ -110,6 +112,8 @@ def test_scenario_table_holds_each_optimum():
         assert tac == opt.best.tac
         assert ratio == pytest.approx(opt.best.reflux_ratio / opt.minimum_reflux_ratio, rel=1e-15)
     assert table.column("Reboiler duty [kW]")[0] == pytest.approx(optima[0][1].best.sizes.reboiler_duty / 1e3)
+    steam = optima[0][1].sequential.cost.utilities[1]
+    assert table.rows[0][-3:] == (steam.utility, steam.amount_per_year, steam.amount_unit)
 
 
 def test_tac_curve_is_capital_plus_utilities():
@@ -138,8 +142,9 @@ def test_optimum_and_search_tables():
 def test_workbook_and_plots_carry_the_scenarios(tmp_path):
     result, parts = design_parts()
     optima, cross, curves = scenario_study()
-    full = ReportParts(**{**parts.__dict__, "optimum": optima[0][1], "scenarios": optima, "cross": cross,
-                          "tac_curves": curves})
+    full = optimum_parts(optima[0][1], curve=parts.curve, cost_data=parts.cost_data, scenarios=optima,
+                         cross=cross, tac_curves=curves)
+    assert full.cost is optima[0][1].sequential.cost and full.profile is optima[0][1].best.profile
     names = [plot.name for plot in design_plots(result.mixture, full)]
     assert names[3:] == ["tac_vs_reflux_reference", "stages_vs_duty_reference",
                          "tac_vs_reflux_cheap_steam_demo", "stages_vs_duty_cheap_steam_demo"]

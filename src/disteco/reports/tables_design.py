@@ -41,6 +41,14 @@ class ReportParts:
     tac_curves: tuple[tuple[str, tuple[DesignEvaluation, ...]], ...] = ()
 
 
+def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:
+    """ReportParts of an optimiser result: the best design's profile and, where the optimum was
+    priced by the sizing and costing layers, its sizing and cost; ``others`` fill the other fields."""
+    sequential = optimum.sequential
+    return ReportParts(profile=optimum.best.profile, sizing=sequential.sizing if sequential else None,
+                       cost=sequential.cost if sequential else None, optimum=optimum, **others)
+
+
 def summary_table(title: str, parts: ReportParts) -> Table:
     """The chosen design in one table: case title, then the headline numbers that are present."""
     items: list[tuple[str, Cell]] = [("Case title", title)]

@@ -134,7 +134,7 @@ def test_optimum_and_search_tables():
     optima, _, _ = scenario_study()
     opt = optima[0][1]
     rows = dict(optimum_table(opt).rows)
-    assert rows["Total annualised cost [USD/year]"] == opt.best.tac
+    assert rows["Total annualised cost, optimisation model [USD/year]"] == opt.best.tac
     assert rows["Relative optimality gap [-]"] == "no bound"
     assert search_table(opt).column("TAC [USD/year]") == tuple(v.tac for v in opt.visited)
 

@@ -58,7 +58,11 @@ class CrossTable:
 
 
 def optimum_table(optimum: OptimumDesign) -> Table:
-    """The lowest-TAC design: decisions, shortcut bounds, sizes, duties, costs and the solver's report."""
+    """The lowest-TAC design: decisions, shortcut bounds, sizes, duties, costs and the solver's report.
+
+    Costs here are the optimisation model's (column, trays and exchangers); the cost sheets
+    hold the same design priced by the sizing and costing layers (drum and pump included).
+    """
     best, s = optimum.best, optimum.solver
     c = best.cost.currency
     items: list[tuple[str, Cell]] = [
@@ -76,10 +80,10 @@ def optimum_table(optimum: OptimumDesign) -> Table:
         ("Reboiler duty [kW]", best.sizes.reboiler_duty / KW),
         ("Condenser area [m^2]", best.sizes.condenser_area),
         ("Reboiler area [m^2]", best.sizes.reboiler_area),
-        (f"Installed capital [{c}]", best.cost.capital_installed),
-        (f"Annualised capital [{c}/year]", best.cost.annualised_capital_per_year),
-        (f"Utilities [{c}/year]", best.cost.utilities_per_year),
-        (f"Total annualised cost [{c}/year]", best.cost.tac_per_year),
+        (f"Installed capital, optimisation model [{c}]", best.cost.capital_installed),
+        (f"Annualised capital, optimisation model [{c}/year]", best.cost.annualised_capital_per_year),
+        (f"Utilities, optimisation model [{c}/year]", best.cost.utilities_per_year),
+        (f"Total annualised cost, optimisation model [{c}/year]", best.cost.tac_per_year),
         ("Cost year [year]", best.cost.cost_year),
         ("Solver", s.solver),
         ("Solver status", s.status),

@@ -27,7 +27,6 @@ MAX_ITERATIONS = 40
 HANDOVER = 5.0  # log residual below which the full stage equations take over (measured: stalls end below 2)
 MAX_STEP = 10.0  # K per Newton step
 DT = 1e-3  # K, step of the dK/dT difference
-SWEEPS = 4  # bubble-point sweeps before Newton
 
 
 class TemperatureNewton:
@@ -93,10 +92,6 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         Ts = T.copy()
     else:
         Ts = T[1:].copy()
-    for _ in range(SWEEPS):  # bubble-point method: brings a poor start near the solution
-        l, _ = newton.liquid_flows(newton.k_values(Ts, x))
-        x = l / l.sum(axis=1, keepdims=True)
-        Ts = np.array([bubble_temperature(mixture, newton.P[j], x[j], Ts[j]) for j in range(len(Ts))])
     g, J, K, l = newton.residual_and_jacobian(Ts, x)
     for _ in range(MAX_ITERATIONS):
         step = np.linalg.solve(J, -g)

@@ -19,7 +19,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .._base.errors import CaseError, InfeasibleSpecError
+from .._base.errors import CaseError, ConvergenceError, InfeasibleSpecError
 from ..case import Column
 from ..properties import FeedState, Mixture
 from .cmo import cmo_unknowns
@@ -116,17 +116,36 @@ def _profile(stages: Stages, U: np.ndarray, props: np.ndarray, feed: FeedState) 
         partial_condenser=p.partial_condenser, model="rigorous" if p.energy else "cmo")
 
 
+def _resampled(U: np.ndarray, old_feed: int, spec: ColumnSpec) -> np.ndarray:
+    """Stage rows of U stretched section by section onto spec's stage count and feed stage."""
+    old_N = U.shape[0] - 1
+    anchors_new, anchors_old = [1.0], [1.0]
+    if 1 < spec.feed_stage < spec.stages and 1 < old_feed < old_N:
+        anchors_new.append(float(spec.feed_stage))
+        anchors_old.append(float(old_feed))
+    anchors_new.append(float(spec.stages))
+    anchors_old.append(float(old_N))
+    where = np.interp(np.arange(1, spec.stages + 1), anchors_new, anchors_old)
+    rows = np.array([np.interp(where, np.arange(1, old_N + 1), U[1:, k]) for k in range(U.shape[1])]).T
+    return np.vstack([U[:1], rows])
+
+
 def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
            guess: StageProfile | None) -> StageProfile:
     _check(spec, feed)
     stages = Stages(mixture, _problem(spec, feed, energy))
-    if guess is not None and guess.stages == spec.stages and len(guess.x[0]) == len(feed.z):
+    if guess is not None and len(guess.x[0]) == len(feed.z) and guess.partial_condenser == spec.partial_condenser:
         U0 = _unknowns_from_profile(guess)
         if not guess.partial_condenser:
             U0[0, -1] += spec.subcooling
-    else:
-        U0 = cmo_unknowns(mixture, _problem(spec, feed, energy=False))
-    U, props, _ = stages.solve(U0)
+        if guess.stages != spec.stages or guess.feed_stage != spec.feed_stage:
+            U0 = _resampled(U0, guess.feed_stage, spec)
+        try:
+            U, props, _ = stages.solve(U0)
+            return _profile(stages, U, props, feed)
+        except ConvergenceError:
+            pass  # a start too far from this spec: begin again from the CMO column
+    U, props, _ = stages.solve(cmo_unknowns(mixture, _problem(spec, feed, energy=False)))
     return _profile(stages, U, props, feed)
 
 
@@ -135,7 +154,9 @@ def solve_cmo(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
     """Stage profile under constant molar overflow (no stage energy balances).
 
     Duties: condenser from its energy balance on the converged vapour, reboiler from the
-    overall energy balance. ``guess`` (a profile with the same N) warm-starts Newton.
+    overall energy balance. ``guess`` (any earlier profile of the same mixture and
+    condenser type; stretched onto this N and feed stage) warm-starts Newton, with a cold
+    start if that fails.
     """
     return _solve(mixture, feed, spec, False, guess)
 
@@ -144,7 +165,7 @@ def solve_rigorous(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
                    guess: StageProfile | None = None) -> StageProfile:
     """Stage profile with energy balances on every stage (MESH equations).
 
-    Starts from ``guess`` when given (same N), else from the constant-molar-overflow
-    solution of the same spec.
+    Starts from ``guess`` when given (as in :func:`solve_cmo`), else from the
+    constant-molar-overflow solution of the same spec.
     """
     return _solve(mixture, feed, spec, True, guess)

@@ -9,8 +9,21 @@ Stage j (1..N) sits at P_top + (j - 1) dP; the condenser at P_top. A total conde
 returns reflux and distillate at their bubble point less the subcooling; a partial
 condenser is an equilibrium contact giving a vapour distillate.
 
-The energy-balance solution starts from the constant-molar-overflow one, which starts
-from Newton's method on the temperatures of the CMO column (see ``cmo``).
+The feed (both phases of a partly vaporised feed) enters the feed stage with its
+enthalpy from the properties layer, so q acts through the energy balances; under
+constant molar overflow q splits it between the sections.
+
+Solution method, and why: Newton's method on all stage equations at once with
+component flows as unknowns (``mesh``), because it converges quadratically and a
+warm start from a nearby design (what an optimiser asks for) needs two to four steps.
+From a cold start it is not robust alone: from a linear profile the five-alkane column
+of the tests failed to converge in 60 steps, and a 40-stage benzene-toluene column
+took 30. So the start is the constant-molar-overflow column solved by Newton's method
+on the stage temperatures only (``cmo``), from which the full equations converge in
+three to five steps. Measured on two cores (ideal method): benzene-toluene 20 stages,
+CMO 13 ms and energy balances 33 ms; 40 stages, 29 and 64 ms; five alkanes, 30 stages,
+30 and 144 ms; ethanol-water (UNIFAC) 25 stages, 208 and 260 ms. A warm start after a
+1 % change of reflux: 18, 33 and 71 ms.
 """
 
 from __future__ import annotations
@@ -74,7 +87,8 @@ def _problem(spec: ColumnSpec, feed: FeedState, energy: bool) -> ColumnProblem:
 def _unknowns_from_profile(profile: StageProfile) -> np.ndarray:
     D, R = profile.distillate_flow, profile.reflux_ratio
     d = D * np.asarray(profile.distillate_composition)
-    top = np.concatenate([R * d, d, [profile.condenser_temperature]])
+    reflux = profile.V[0] * np.asarray(profile.y[0]) - d if profile.partial_condenser else R * d
+    top = np.concatenate([reflux, d, [profile.condenser_temperature]])
     rows = [np.concatenate([L * np.asarray(x), V * np.asarray(y), [T]])
             for L, V, x, y, T in zip(profile.L, profile.V, profile.x, profile.y, profile.T)]
     return np.vstack([top] + rows)

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 from .._base.errors import CaseError
 from ..case import EndSpec
@@ -42,12 +43,17 @@ class SeparationProblem:
 
     def feed_enthalpy(self) -> float:
         """Feed molar enthalpy from the fitted forms and q [J/mol]."""
-        P = self.pressure(1)
-        f = self.fitted
-        T_bubble = f.bubble_temperature(P, self.z)
-        h_liquid = f.liquid_enthalpy_of(T_bubble, self.z)
-        h_vapour = f.vapour_enthalpy_of(_dew_temperature(f, P, self.z), self.z)
-        return h_vapour - self.q * (h_vapour - h_liquid)
+        return _feed_enthalpy(self)
+
+
+@lru_cache(maxsize=32)
+def _feed_enthalpy(problem: SeparationProblem) -> float:
+    """Cached: a dew point by successive substitution costs a model build about 20 ms."""
+    P = problem.pressure(1)
+    f = problem.fitted
+    h_liquid = f.liquid_enthalpy_of(f.bubble_temperature(P, problem.z), problem.z)
+    h_vapour = f.vapour_enthalpy_of(_dew_temperature(f, P, problem.z), problem.z)
+    return h_vapour - problem.q * (h_vapour - h_liquid)
 
 
 def _dew_temperature(fitted: FittedMixture, P: float, y) -> float:

@@ -85,9 +85,8 @@ def stage_floor(estimate: Shortcut, config) -> int:
     return max(config.min_stages, math.floor(estimate.minimum_stages), 3)
 
 
-def starting_configuration(problem: SeparationProblem, estimate: Shortcut, config) -> tuple[int, int]:
-    """Twice the Fenske minimum (a common rule, no source) and Kirkbride's feed stage."""
-    stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, stage_floor(estimate, config) + 1), config.max_stages))
+def kirkbride(problem: SeparationProblem, estimate: Shortcut) -> float:
+    """Kirkbride's ratio of stages above to stages below the feed for the shortcut split [-]."""
     F, z = problem.feed_flow, problem.z
     lk, hk = problem.light_key, problem.heavy_key
     d = estimate.distillate
@@ -95,8 +94,62 @@ def starting_configuration(problem: SeparationProblem, estimate: Shortcut, confi
     B = F - D
     x_lk_b = (F * z[lk] - d[lk]) / B
     x_hk_d = d[hk] / D
-    ratio = kirkbride_ratio(z[lk], z[hk], x_lk_b, x_hk_d, B, D)
-    return stages, min(max(kirkbride_feed_stage(stages, ratio), 2), stages - 1)
+    return kirkbride_ratio(z[lk], z[hk], x_lk_b, x_hk_d, B, D)
+
+
+def feed_stage_of(stages: int, ratio: float) -> int:
+    """Kirkbride's feed stage for ``stages``, kept off the condenser side and the reboiler."""
+    return min(max(kirkbride_feed_stage(stages, ratio), 2), stages - 1)
+
+
+def starting_configuration(problem: SeparationProblem, estimate: Shortcut, config) -> tuple[int, int]:
+    """Twice the Fenske minimum (a common rule, no source) and Kirkbride's feed stage."""
+    stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, stage_floor(estimate, config) + 1),
+                     config.max_stages))
+    return stages, feed_stage_of(stages, kirkbride(problem, estimate))
+
+
+def stage_search(evaluator: Evaluator, stages: int, feed_of) -> tuple[int, int]:
+    """Coarse search over the stage count with the feed stage tied to it by ``feed_of``.
+
+    Steps double in the downhill direction until the TAC rises, then a ternary search on
+    integers narrows the bracket. The TAC is close to unimodal along this line; the
+    neighbourhood descent that follows corrects small departures.
+    """
+    def value(n: int) -> float:
+        feed = feed_of(n)
+        return evaluator.tac(n, feed) if evaluator.allowed(n, feed) else float("inf")
+
+    here = value(stages)
+    direction = 1 if here == float("inf") or value(stages + 1) < here else -1
+    if direction == -1 and value(stages - 1) >= here:
+        return stages, feed_of(stages)
+    low, step, best = stages, 1, stages
+    while True:
+        ahead = best + direction * step
+        if not evaluator.low <= ahead <= evaluator.config.max_stages:
+            ahead = evaluator.low if direction < 0 else evaluator.config.max_stages
+        if ahead == best or value(ahead) >= value(best):
+            high = ahead
+            break
+        low, best, step = best, ahead, 2 * step
+    low, high = sorted((low, high))
+    while high - low > 2:
+        one, two = low + (high - low) // 3, high - (high - low) // 3
+        if value(one) <= value(two):
+            high = two
+        else:
+            low = one
+    best = min(range(low, high + 1), key=value)
+    return best, feed_of(best)
+
+
+def feed_search(evaluator: Evaluator, stages: int, feed: int) -> int:
+    """Best feed stage for ``stages`` by walking downhill from ``feed`` one stage at a time."""
+    for step in (1, -1):
+        while evaluator.allowed(stages, feed + step) and evaluator.tac(stages, feed + step) < evaluator.tac(stages, feed):
+            feed += step
+    return feed
 
 
 def descend(evaluator: Evaluator, start: tuple[int, int]) -> tuple[int, int]:
@@ -139,7 +192,10 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
     status = "locally optimal (discrete neighbourhood)"
     try:
-        descend(evaluator, starting_configuration(problem, estimate, config))
+        stages, feed = starting_configuration(problem, estimate, config)
+        feed = feed_search(evaluator, stages, feed)
+        ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
+        descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
     except TimeoutError:
         status = "time limit"
     chosen = evaluator.best()

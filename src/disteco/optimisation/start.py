@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 from scipy.linalg import solve_banded
@@ -74,8 +75,9 @@ def _split(problem: SeparationProblem, alpha: np.ndarray) -> np.ndarray:
     return d
 
 
+@lru_cache(maxsize=32)
 def shortcut(problem: SeparationProblem) -> Shortcut:
-    """Fenske minimum stages and Underwood minimum reflux on the fitted forms."""
+    """Fenske minimum stages and Underwood minimum reflux on the fitted forms (cached per problem)."""
     f = problem.fitted
     z = np.asarray(problem.z)
     P = problem.pressure(1)

@@ -1,0 +1,97 @@
+"""Optimiser against exhaustive enumeration of the same model, in one run.
+
+Both solve configurations with the same model, solver, options and start, so the time
+ratio is honest. Prints, per case: the optimiser's and the enumeration's best
+configuration, TAC difference, wall times, their ratio and configurations solved.
+
+    python bench/bench_optimiser.py            # all cases (about 15-20 min on 2 cores)
+    python bench/bench_optimiser.py --quick    # binary at 20 and 40 stages only
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import platform
+import sys
+import time
+
+import pyomo
+import pyomo.environ as pyo
+
+from disteco.case import load_case, parse_case
+from disteco.costing.data import load_cost_data
+from disteco.optimisation.design import model_cost_basis, separation_problem
+from disteco.optimisation.enumerate import enumerate_designs
+from disteco.optimisation.options import model_options
+from disteco.optimisation.search import optimise
+from disteco.properties import build_mixture, feed_state
+from disteco.sizing.options import SizingOptions
+
+EXAMPLES = os.path.join(os.path.dirname(__file__), "..", "examples")
+
+# Invented demo feed: a three-component aromatics cut, benzene/toluene split.
+THREE_COMPONENTS = {
+    "title": "bench: benzene-toluene-o-xylene",
+    "mixture": {"components": ["benzene", "toluene", "o-xylene"], "method": "ideal"},
+    "feed": {"flow": "150 kmol/h", "composition": [0.35, 0.40, 0.25], "q": 1.0},
+    "column": {"top_pressure": "1.2 bar", "pressure_drop_per_stage": "0.7 kPa"},
+    "products": {"light_key": "benzene", "heavy_key": "toluene",
+                 "light_key_recovery": 0.98, "heavy_key_recovery": 0.98},
+}
+
+
+def machine() -> str:
+    cpu = "unknown"
+    try:
+        with open("/proc/cpuinfo", encoding="utf-8") as info:
+            cpu = next(line.split(":", 1)[1].strip() for line in info if line.startswith("model name"))
+    except (OSError, StopIteration):
+        pass
+    return (f"nproc {os.cpu_count()}, CPU {cpu}, Python {platform.python_version()}, Pyomo {pyomo.version.version}, "
+            f"solver ripopt available: {pyo.SolverFactory('ripopt').available(exception_flag=False)}")
+
+
+def run(label: str, case, max_stages: int, options: dict) -> None:
+    mixture = build_mixture(case.components, case.thermo, case.column.top_pressure)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    config = model_options({**options, "max_stages": max_stages})
+    problem = separation_problem(case, mixture, feed, max_stages)
+    basis, _ = model_cost_basis(problem, mixture, load_cost_data(), SizingOptions(), None,
+                                case.economics.cost_year, config)
+    start = time.perf_counter()
+    found = optimise(problem, basis, config)
+    t_opt = time.perf_counter() - start
+    start = time.perf_counter()
+    full = enumerate_designs(problem, basis, config, reflux_points=7)
+    t_enum = time.perf_counter() - start
+    grid_best = min([tac for _, tac in full.reflux_grid] + [full.best.tac])
+    diff = 100.0 * (found.best.tac - grid_best) / grid_best
+    b, e = found.best, full.best
+    print(f"{label:<34} opt N={b.stages:3d} NF={b.feed_stage:3d} R={b.reflux_ratio:7.4f} "
+          f"(R/Rmin {b.reflux_ratio / found.minimum_reflux_ratio:5.3f}) TAC={b.tac:12.1f} {t_opt:7.2f} s "
+          f"{found.solver.configurations_solved:4d} cfg | enum N={e.stages:3d} NF={e.feed_stage:3d} "
+          f"TAC={e.tac:12.1f} {t_enum:8.2f} s {len(full.visited):5d} cfg | dTAC {diff:+.4f} % "
+          f"ratio {t_enum / t_opt:6.1f}x", flush=True)
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--quick", action="store_true")
+    parser.add_argument("--energy", action="store_true", help="stage energy balances instead of CMO")
+    args = parser.parse_args()
+    options = {"energy_balances": args.energy}
+    print(machine())
+    print(f"model: {'stage energy balances' if args.energy else 'constant molar overflow'}; "
+          "TAC in the cost data's currency per year; reference price scenario")
+    binary = load_case(os.path.join(EXAMPLES, "aromatics_binary.toml"))
+    for max_stages in ((20, 40) if args.quick else (20, 40, 60, 100)):
+        run(f"binary benzene-toluene, {max_stages} max", binary, max_stages, options)
+    if args.quick:
+        return
+    run("3 components (aromatics), 40 max", parse_case(THREE_COMPONENTS), 40, options)
+    run("5 components (depentaniser), 40 max", load_case(os.path.join(EXAMPLES, "depentaniser.toml")), 40, options)
+
+
+if __name__ == "__main__":
+    sys.exit(main())

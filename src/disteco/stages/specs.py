@@ -57,10 +57,12 @@ def gilliland_reflux(design: ShortcutDesign, stages: int) -> float:
 
 
 def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column: Column,
-                   design: ShortcutDesign, stages: int, feed_stage: int, energy: bool = True) -> StageProfile:
+                   design: ShortcutDesign, stages: int, feed_stage: int, energy: bool = True,
+                   start_reflux: float | None = None) -> StageProfile:
     """Profile of a column with ``stages`` and ``feed_stage`` that meets both key specifications.
 
-    ``energy`` chooses the stage model (energy balances, or constant molar overflow).
+    ``energy`` chooses the stage model (energy balances, or constant molar overflow);
+    ``start_reflux`` replaces the Gilliland estimate of R as the starting point.
     Raises InfeasibleSpecError when the stages are too few, ConvergenceError when Newton
     fails (usually: too close to the minimum number of stages).
     """
@@ -72,7 +74,8 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
         profile = solve(mixture, feed, spec, guess)
         return profile, spec_residuals(profile, products, feed)
 
-    u = np.array([math.log(gilliland_reflux(design, stages)), design.distillate_flow])
+    reflux = start_reflux if start_reflux is not None else gilliland_reflux(design, stages)
+    u = np.array([math.log(reflux), design.distillate_flow])
     profile, r = run(u[0], u[1], None)
     for _ in range(MAX_ITERATIONS):
         if np.abs(r).max() < TOLERANCE:

@@ -111,8 +111,9 @@ def test_doctests_run():
         assert failures == 0
 
 
-PUBLIC_CORRELATIONS = [f for name, f in inspect.getmembers(correlations, inspect.isfunction)
-                       if f.__module__ == correlations.__name__ and not name.startswith("_")
+PUBLIC_CORRELATIONS = [f for module in (correlations, importlib.import_module("disteco.stages.duties"))
+                       for name, f in inspect.getmembers(module, inspect.isfunction)
+                       if f.__module__ == module.__name__ and not name.startswith("_")
                        and "Parameters" in (f.__doc__ or "")]
 
 

@@ -28,7 +28,8 @@ BTC_Z = np.array([0.40, 0.30, 0.30])
 
 
 def test_fenske_benzene_toluene_cumene():
-    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-1 (values from memory):
+    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-1 (7-1 in the 2nd ed.;
+    example number and values from memory):
     Nmin = 3.77 and fractional recovery of benzene in the distillate 0.9975."""
     alpha = BTC_ALPHA / BTC_ALPHA[2]
     n_min = fenske_minimum_stages(28.5, 1.5, 1.5, 28.5, alpha[1])
@@ -38,7 +39,8 @@ def test_fenske_benzene_toluene_cumene():
 
 
 def test_underwood_root_saturated_vapour_feed():
-    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-2 (from memory): the
+    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-2 (7-2 in the 2nd ed.;
+    from memory): the
     Underwood root between the keys is 0.5454 for the saturated-vapour feed (q = 0)."""
     roots = underwood_roots(BTC_ALPHA, BTC_Z, 0.0, 0.21, 1.0)
     assert roots == [pytest.approx(0.5454, abs=2e-4)]

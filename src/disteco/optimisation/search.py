@@ -22,13 +22,15 @@ import math
 import time
 from dataclasses import dataclass, field
 
+import pyomo.environ as pyo
+
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Shortcut, shortcut
-from .solve import configuration_tac, solve_configuration
+from .solve import certify, configuration_tac, read_design, solved_model
 
 DIRECTIONS = tuple((dn, df) for dn in (-1, 0, 1) for df in (-1, 0, 1) if (dn, df) != (0, 0))
 IMPROVEMENT = 1e-7  # relative TAC drop that counts as a move
@@ -144,6 +146,19 @@ def stage_search(evaluator: Evaluator, stages: int, feed_of) -> tuple[int, int]:
     return best, feed_of(best)
 
 
+def first_feasible(evaluator: Evaluator, stages: int, feed_of) -> int:
+    """The start's stage count, or more (steps doubling) until a configuration meets the specifications.
+
+    Fenske's minimum from the feed's volatility can be far too low for a non-ideal mixture
+    whose volatility collapses towards an azeotrope; more stages are then tried.
+    """
+    step = 1
+    while evaluator.tac(stages, feed_of(stages)) == float("inf") and stages < evaluator.config.max_stages:
+        stages = min(stages + step, evaluator.config.max_stages)
+        step *= 2
+    return stages
+
+
 def feed_search(evaluator: Evaluator, stages: int, feed: int) -> int:
     """Best feed stage for ``stages`` by walking downhill from ``feed`` one stage at a time."""
     for step in (1, -1):
@@ -193,7 +208,9 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     status = "locally optimal (discrete neighbourhood)"
     try:
         stages, feed = starting_configuration(problem, estimate, config)
-        feed = feed_search(evaluator, stages, feed)
+        ratio = kirkbride(problem, estimate)
+        stages = first_feasible(evaluator, stages, lambda n: feed_stage_of(n, ratio))
+        feed = feed_search(evaluator, stages, feed_stage_of(stages, ratio))
         ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
         descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
     except TimeoutError:
@@ -206,9 +223,16 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
         raise InfeasibleSpecError(
             f"no column with {config.min_stages} to {config.max_stages} stages meets the product specifications "
             f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}); tried {tried}")
-    best = solve_configuration(problem, basis, *chosen, config)
+    model, local = solved_model(problem, basis, *chosen, config)
+    best = read_design(model, local)
+    gap, message = None, ""
+    if config.certify:
+        bound = certify(model, config, pyo.value(model.objective))
+        gap = bound.gap
+        message = (f"{bound.solver} on the best configuration: {bound.status}, gap "
+                   f"{'unknown' if gap is None else f'{100 * gap:.3g} %'} after {bound.wall_time:.1f} s")
     wall = time.perf_counter() - clock
-    report = SolverReport(config.solver, status, best.solver.termination, None, wall, len(evaluator.designs))
+    report = SolverReport(config.solver, status, best.solver.termination, gap, wall, len(evaluator.designs), message)
     warnings = best.warnings
     if best.stages == config.max_stages:
         warnings += (f"the optimum lies at the largest stage count allowed ({config.max_stages}); "

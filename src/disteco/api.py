@@ -5,15 +5,49 @@ Engineers use this from notebooks and scripts; the command line is a thin layer 
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from pathlib import Path
+from typing import Callable
 
+from ._base.errors import CaseError
 from .case import Case, load_case
+from .costing import CostData, load_cost_data, resolve_scenarios
+from .optimisation.design import evaluate_design, optimise_design
+from .optimisation.results import DesignEvaluation, OptimumDesign
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
 from .reports.design_result import DesignResult
+from .reports.figures import write_design_figures
 from .reports.files import write_json
 from .reports.json_result import result_json
+from .reports.tables_design import ReportParts, optimum_parts
+from .reports.tables_scenarios import CrossTable
+from .reports.workbook import write_workbook
+from .sizing.options import SizingOptions
+from .stages import StageDesign, design_stages, step_stages
 
 RESULT_FILE = "result.json"
+WORKBOOK_FILE = "design.xlsx"
+FIGURE_FOLDER = "figures"
+
+Progress = Callable[[str, int, int], None]  # (what is being done, steps done, steps in all)
+
+
+@dataclass(frozen=True)
+class GivenDesign:
+    """A design to price instead of optimising: reflux ratio [-], stages (reboiler included), feed stage."""
+
+    reflux_ratio: float
+    stages: int
+    feed_stage: int
+
+    def __post_init__(self):
+        if not self.reflux_ratio > 0.0:
+            raise CaseError("reflux ratio", f"{self.reflux_ratio}", "a positive number")
+        if self.stages < 2:
+            raise CaseError("stages", f"{self.stages}", "at least 2 (one tray and the reboiler)")
+        if not 1 <= self.feed_stage <= self.stages:
+            raise CaseError("feed stage", f"{self.feed_stage} with {self.stages} stages",
+                            f"1 to {self.stages}, counted from the top")
 
 
 def mixture_of(case: Case) -> Mixture:
@@ -28,19 +62,105 @@ def check(case: Case) -> MixtureSummary:
                              case.products.light_key, case.products.heavy_key)
 
 
-def design(case: Case) -> DesignResult:
-    """Run the design of ``case``."""
+def cost_data_of(case: Case) -> CostData:
+    """The case's cost data: its own folder if it names one, else the bundled data."""
+    return load_cost_data(case.economics.cost_data)
+
+
+def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
+           options: dict | None = None, progress: Progress | None = None) -> DesignResult:
+    """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
+
+    ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
+    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
+    """
+    report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
+    data = cost_data_of(case)
+    names = resolve_scenarios(data, scenarios or case.economics.scenarios)
     summary = check(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
-    return DesignResult(case=case, mixture=summary, feed=feed)
+    total = 1 + len(names) + (len(names) * (len(names) - 1) if given is None else 0)
+    report("shortcut design and stage profile", 0, total)
+    stages = design_stages(mixture, feed, case.products, case.column)
+    sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
+    if given is not None:
+        report(f"pricing the given design under '{names[0]}'", 1, total)
+        evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
+                                     given.feed_stage, options, sizing, names[0])
+        parts = _evaluation_parts(evaluation, stages, data)
+        return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
+                            warnings=_warnings(stages, evaluation.warnings, parts))
+    optima = []
+    for k, name in enumerate(names):
+        report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + k, total)
+        optima.append((name, optimise_design(case, mixture, feed, data, options, sizing, name)))
+    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + len(names), total)
+    best = optima[0][1]
+    parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross,
+                          **_binary_parts(stages, best.best.reflux_ratio, case))
+    extra = cross.below_zero() if cross is not None else ()
+    return DesignResult(case, summary, feed, stages=stages, parts=parts,
+                        warnings=_warnings(stages, best.warnings + tuple(extra), parts))
 
 
-def write_results(result: DesignResult, folder: str | Path) -> Path:
-    """Write result.json into ``folder``; return its path."""
-    path = Path(folder) / RESULT_FILE
+def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
+    """The McCabe-Thiele construction at the chosen reflux, for the diagrams of a binary."""
+    if stages.binary is None:
+        return {}
+    column = stages.binary.column
+    stepped = step_stages(stages.binary.curve, column.x_distillate, column.x_bottoms, column.z, column.q,
+                          reflux_ratio, case.column.condenser == "partial")
+    return {"curve": stages.binary.curve, "stepped": stepped}
+
+
+def _evaluation_parts(evaluation: DesignEvaluation, stages: StageDesign, data: CostData) -> ReportParts:
+    sequential = evaluation.sequential
+    return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
+                       cost=sequential.cost if sequential else None, cost_data=data)
+
+
+def _cross_table(case, mixture, feed, data, options, sizing, optima, report, done, total) -> CrossTable | None:
+    """Each scenario's optimum priced by the model under every other scenario's prices."""
+    if len(optima) < 2:
+        return None
+    names = tuple(name for name, _ in optima)
+    rows = []
+    for i, (name_i, optimum_i) in enumerate(optima):
+        row = []
+        best = optimum_i.best
+        for j, name_j in enumerate(names):
+            if i == j:
+                row.append(best.tac)
+                continue
+            report(f"pricing the '{name_i}' design under '{name_j}'", done, total)
+            done += 1
+            evaluation = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages,
+                                         best.feed_stage, options, sizing, name_j)
+            row.append(evaluation.tac)
+        rows.append(tuple(row))
+    return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)
+
+
+def _warnings(stages: StageDesign, own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:
+    found = list(own)
+    if parts.sizing is not None:
+        found += parts.sizing.warnings
+    if parts.cost is not None:
+        found += parts.cost.warnings
+    return tuple(dict.fromkeys(found))  # in order, without repeats
+
+
+def write_results(result: DesignResult, folder: str | Path, figures: bool = True) -> list[Path]:
+    """Write result.json, the workbook and (optionally) the figures into ``folder``; return the paths."""
+    folder = Path(folder)
+    path = folder / RESULT_FILE
+    written = [write_workbook(result, folder / WORKBOOK_FILE, result.parts)]
+    if figures:
+        written += write_design_figures(result.mixture, result.parts, folder / FIGURE_FOLDER)
     write_json(path, result_json(result))
-    return path
+    return [path] + written
 
 
-__all__ = ["check", "design", "load_case", "mixture_of", "write_results"]
+__all__ = ["GivenDesign", "OptimumDesign", "check", "cost_data_of", "design", "load_case", "mixture_of",
+           "write_results"]

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+import time
 import traceback
 from pathlib import Path
 
@@ -23,18 +24,68 @@ def _parser() -> argparse.ArgumentParser:
     commands = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
     check = commands.add_parser("check", help="validate a case file and print a mixture report")
     check.add_argument("case", type=Path, help="case file (TOML)")
-    design = commands.add_parser("design", help="design the column and write result.json")
+    design = commands.add_parser(
+        "design", help="find the lowest-TAC design (or price a given one) and write result.json, "
+                       "design.xlsx and figures")
     design.add_argument("case", type=Path, help="case file (TOML)")
     design.add_argument("-o", "--out", type=Path, default=Path("disteco-out"),
                         help="output folder (default: ./disteco-out)")
+    design.add_argument("--scenario", action="append", default=[], metavar="NAME",
+                        help="utility-price scenario to design for; repeat to compare several "
+                             "(default: the case's [economics] scenarios)")
+    given = design.add_argument_group("price a given design instead of optimising (all three together)")
+    given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
+    given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")
+    given.add_argument("--feed-stage", type=int, metavar="F", help="feed stage counted from the top [-]")
+    design.add_argument("--max-stages", type=int, metavar="N", help="most equilibrium stages searched (default 60)")
+    design.add_argument("--time-limit", type=float, metavar="S", help="wall-clock limit of each search [s]")
+    design.add_argument("--gap", type=float, metavar="G", help="relative optimality gap asked of a certifying solver [-]")
+    design.add_argument("--no-figures", action="store_true", help="skip the PNG figures")
+    design.add_argument("-q", "--quiet", action="store_true", help="no progress messages")
     for sub in (check, design):
         sub.add_argument("--debug", action="store_true", help="show a traceback on internal failures")
     return parser
 
 
+class ProgressLine:
+    """Prints which step a run is on, how far it is and an estimate of the time left (to stderr)."""
+
+    def __init__(self):
+        self.start = time.monotonic()
+
+    def __call__(self, what: str, done: int, total: int) -> None:
+        elapsed = time.monotonic() - self.start
+        left = f", about {elapsed / done * (total - done):.0f} s left" if done else ""
+        print(f"[{done}/{total}] {what} (elapsed {elapsed:.0f} s{left})", file=sys.stderr, flush=True)
+
+
+def _given(args):
+    from ._base.errors import CaseError
+    from .api import GivenDesign
+
+    values = (args.reflux, args.stages, args.feed_stage)
+    if all(v is None for v in values):
+        return None
+    if any(v is None for v in values):
+        raise CaseError("--reflux/--stages/--feed-stage", "only some of the three were given",
+                        "all three to price a given design, or none to optimise")
+    return GivenDesign(args.reflux, args.stages, args.feed_stage)
+
+
+def _options(args) -> dict:
+    options = {}
+    if args.max_stages is not None:
+        options["max_stages"] = args.max_stages
+    if args.time_limit is not None:
+        options["time_limit"] = args.time_limit
+    if args.gap is not None:
+        options["relative_gap"] = args.gap
+    return options
+
+
 def _run(args) -> int:
     from . import api
-    from .reports.text import cautions_text, mixture_text
+    from .reports.text import cautions_text, design_text, mixture_text
 
     case = api.load_case(args.case)
     if args.command == "check":
@@ -42,13 +93,18 @@ def _run(args) -> int:
         print(mixture_text(api.check(case)))
         print("Case file is valid.")
         return EXIT_OK
-    result = api.design(case)
+    given = _given(args)
+    progress = None if args.quiet else ProgressLine()
+    result = api.design(case, given=given, scenarios=tuple(args.scenario), options=_options(args),
+                        progress=progress)
     print(f"Case: {case.title}")
     print(mixture_text(result.mixture))
+    print()
+    print(design_text(result))
     for warning in result.warnings:
         print(f"Warning: {warning}")
-    path = api.write_results(result, args.out)
-    print(f"Wrote {path}")
+    for path in api.write_results(result, args.out, figures=not args.no_figures):
+        print(f"Wrote {path}")
     print(cautions_text())
     return EXIT_OK
 
@@ -59,14 +115,10 @@ def main(argv: list[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     try:
         return _run(args)
-    except ValueError as exc:
-        # DistecoError subclasses of ValueError are user mistakes or infeasible requests.
-        if not isinstance(exc, DistecoError):
-            raise
-        print(f"error: {exc}", file=sys.stderr)
-        return EXIT_BAD_INPUT
     except DistecoError as exc:
         print(f"error: {exc}", file=sys.stderr)
+        if isinstance(exc, ValueError):  # a user mistake or an infeasible request
+            return EXIT_BAD_INPUT
         if getattr(args, "debug", False):
             traceback.print_exc()
         return EXIT_FAILURE

@@ -5,17 +5,14 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from ..case import Case
+from ..optimisation.results import DesignEvaluation
 from ..properties import FeedState, MixtureSummary
+from ..stages import StageDesign
+from .cautions import CAUTIONS
+from .tables_design import ReportParts
 
 SCHEMA_VERSION = 1
 
-CAUTIONS = (
-    "Screening estimate (AACE class 4-5): expect the installed cost to lie within about -30 % / +50 % "
-    "to -50 % / +100 % of the figures given.",
-    "Vessel and exchanger mechanical design must follow the applicable code (for example ASME "
-    "Section VIII) and be checked by a qualified, licensed engineer.",
-    "Flammable or toxic service, pressure relief and plant layout are out of scope.",
-)
 
 
 @dataclass(frozen=True)
@@ -25,4 +22,7 @@ class DesignResult:
     case: Case
     mixture: MixtureSummary
     feed: FeedState
+    stages: StageDesign | None = None
+    parts: ReportParts = field(default_factory=ReportParts)  # optimum or evaluated design, sizes, costs
+    evaluation: DesignEvaluation | None = None  # set when a given design was priced, not optimised
     warnings: tuple[str, ...] = field(default_factory=tuple)

@@ -1,11 +1,26 @@
-"""result.json: a stable, documented shape with the unit of every quantity in its key."""
+"""result.json: a stable, documented shape with the unit of every quantity in its key.
+
+Top-level keys (schema_version 1): ``schema_version``, ``disteco_version``, ``case_title``,
+``case_file``, ``mode`` ("optimise" or "evaluate"), ``minimum_reflux_ratio``,
+``minimum_stages``, ``design``, ``cost``, ``solver``, ``equipment``, ``stage_profile``,
+``shortcut_table``, ``scenarios``, ``cross_table``, ``mixture``, ``feed``, ``warnings``,
+``cautions``. A part that was not computed is ``null``. Money is in ``cost.currency`` of
+``cost.cost_year``; ``_per_year`` means per operating year.
+"""
 
 from __future__ import annotations
 
 from .. import __version__
 from .._base.units import to_degC
+from ..costing import CostSummary
+from ..optimisation.results import DesignEvaluation, OptimumDesign, SolverReport
 from ..properties import FeedState, MixtureSummary
-from .design_result import CAUTIONS, SCHEMA_VERSION, DesignResult
+from ..sizing import ColumnSizing
+from ..stages import StageDesign, StageProfile
+from .cautions import CAUTIONS
+from .design_result import SCHEMA_VERSION, DesignResult
+
+KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
 
 
 def mixture_json(summary: MixtureSummary) -> dict:
@@ -33,7 +48,7 @@ def mixture_json(summary: MixtureSummary) -> dict:
 
 def feed_json(feed: FeedState) -> dict:
     return {
-        "molar_flow_kmol_per_h": feed.molar_flow * 3.6,
+        "molar_flow_kmol_per_h": feed.molar_flow * KMOL_PER_H,
         "mole_fractions": list(feed.z),
         "pressure_kPa": feed.pressure / 1e3,
         "temperature_degC": to_degC(feed.temperature),
@@ -41,13 +56,159 @@ def feed_json(feed: FeedState) -> dict:
     }
 
 
+def profile_json(profile: StageProfile) -> dict:
+    """Per-stage arrays, stage 1 at the top, the reboiler last."""
+    return {
+        "model": profile.model,
+        "stage": list(range(1, profile.stages + 1)),
+        "temperature_degC": [to_degC(t) for t in profile.T],
+        "pressure_kPa": [p / 1e3 for p in profile.P],
+        "liquid_flow_kmol_per_h": [v * KMOL_PER_H for v in profile.L],
+        "vapour_flow_kmol_per_h": [v * KMOL_PER_H for v in profile.V],
+        "x": [list(row) for row in profile.x],
+        "y": [list(row) for row in profile.y],
+        "distillate_kmol_per_h": profile.distillate_flow * KMOL_PER_H,
+        "bottoms_kmol_per_h": profile.bottoms_flow * KMOL_PER_H,
+        "distillate_mole_fractions": list(profile.distillate_composition),
+        "bottoms_mole_fractions": list(profile.bottoms_composition),
+    }
+
+
+def design_json(profile: StageProfile, minimum_reflux: float | None, sizing: ColumnSizing | None) -> dict:
+    data = {
+        "reflux_ratio": profile.reflux_ratio,
+        "reflux_ratio_over_minimum": profile.reflux_ratio / minimum_reflux if minimum_reflux else None,
+        "stages": profile.stages,
+        "feed_stage": profile.feed_stage,
+        "condenser_duty_kW": profile.condenser_duty / 1e3,
+        "reboiler_duty_kW": profile.reboiler_duty / 1e3,
+        "distillate_kmol_per_h": profile.distillate_flow * KMOL_PER_H,
+        "bottoms_kmol_per_h": profile.bottoms_flow * KMOL_PER_H,
+        "top_temperature_degC": to_degC(profile.T[0]),
+        "reboiler_temperature_degC": to_degC(profile.reboiler_temperature),
+        "real_trays": None, "tray_efficiency": None, "diameter_m": None, "height_m": None,
+        "shell_thickness_mm": None, "condenser_area_m2": None, "reboiler_area_m2": None,
+        "condenser_utility": None, "reboiler_utility": None,
+    }
+    if sizing is not None:
+        data.update({
+            "real_trays": sizing.real_trays,
+            "tray_efficiency": sizing.efficiency.value,
+            "diameter_m": sizing.diameter,
+            "height_m": sizing.height.tangent_length,
+            "shell_thickness_mm": sizing.vessel.shell_thickness * 1e3,
+            "condenser_area_m2": sizing.condenser.area,
+            "reboiler_area_m2": sizing.reboiler.area,
+            "condenser_utility": sizing.condenser.utility.name,
+            "reboiler_utility": sizing.reboiler.utility.name,
+        })
+    return data
+
+
+def cost_json(cost: CostSummary) -> dict:
+    band = cost.accuracy_band
+    return {
+        "currency": cost.currency,
+        "cost_year": cost.cost_year,
+        "scenario": cost.scenario,
+        "capital_installed": cost.capital_installed,
+        "annualised_capital_per_year": cost.annualised_capital,
+        "capital_charge_factor_per_year": cost.capital_charge_factor,
+        "utilities_per_year": cost.utilities_per_year,
+        "tac_per_year": cost.tac_per_year,
+        "operating_hours_per_year": cost.operating_hours_per_year,
+        "accuracy": {"estimate_class": band.estimate_class, "low_best": band.low_best,
+                     "low_worst": band.low_worst, "high_best": band.high_best, "high_worst": band.high_worst,
+                     "source": band.source},
+        "items": [
+            {"item": i.item, "size": i.size, "size_unit": i.size_unit, "purchased_base": i.purchased_base,
+             "purchased_escalated": i.purchased_escalated, "material": i.material,
+             "material_factor": i.material_factor, "pressure_factor": i.pressure_factor,
+             "bare_module_factor": i.bare_module_factor, "installed": i.installed, "source": i.source}
+            for i in cost.items],
+        "utilities": [
+            {"item": u.item, "utility": u.utility, "duty_kW": u.duty / 1e3, "amount_per_year": u.amount_per_year,
+             "amount_unit": u.amount_unit, "price": u.price, "price_unit": u.price_unit,
+             "cost_per_year": u.cost_per_year, "source": u.source}
+            for u in cost.utilities],
+    }
+
+
+def equipment_json(sizing: ColumnSizing) -> list[dict]:
+    return [
+        {"tag": e.tag, "kind": e.kind, "size": e.size, "size_unit": e.size_unit, "size_basis": e.size_basis,
+         "material": e.material, "quantity": e.quantity,
+         "design_pressure_kPa_gauge": e.design_pressure / 1e3,
+         "design_temperature_degC": to_degC(e.design_temperature)}
+        for e in sizing.equipment]
+
+
+def solver_json(report: SolverReport, model_tac: float | None) -> dict:
+    return {"solver": report.solver, "status": report.status, "termination": report.termination,
+            "gap": report.gap, "wall_time_s": report.wall_time,
+            "configurations_solved": report.configurations_solved, "message": report.message,
+            "model_tac_per_year": model_tac}
+
+
+def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None) -> dict:
+    best = optimum.best
+    sequential = optimum.sequential
+    return {
+        "scenario": name,
+        "reflux_ratio": best.reflux_ratio,
+        "reflux_ratio_over_minimum": best.reflux_ratio / minimum_reflux if minimum_reflux else None,
+        "stages": best.stages,
+        "feed_stage": best.feed_stage,
+        "condenser_duty_kW": best.sizes.condenser_duty / 1e3,
+        "reboiler_duty_kW": best.sizes.reboiler_duty / 1e3,
+        "model_tac_per_year": best.tac,
+        "cost": cost_json(sequential.cost) if sequential else None,
+        "diameter_m": sequential.sizing.diameter if sequential else best.sizes.diameter,
+        "height_m": sequential.sizing.height.tangent_length if sequential else best.sizes.height,
+    }
+
+
+def stages_json(stages: StageDesign) -> dict:
+    return {
+        "basis": stages.basis,
+        "table": [{"reflux_ratio": p.reflux_ratio, "reflux_ratio_over_minimum": p.reflux_factor,
+                   "stages": p.stages, "whole_stages": p.whole_stages, "feed_stage": p.feed_stage}
+                  for p in stages.table],
+    }
+
+
 def result_json(result: DesignResult) -> dict:
     """The whole result as a JSON-ready dict."""
+    parts = result.parts
+    stages = result.stages
+    r_min = stages.minimum_reflux if stages else None
+    chosen: DesignEvaluation | None = parts.optimum.best if parts.optimum else result.evaluation
+    profile = parts.profile or (stages.profile if stages else None)
+    solver = None
+    if parts.optimum is not None:
+        solver = solver_json(parts.optimum.solver, parts.optimum.best.tac)
+    elif chosen is not None:
+        solver = solver_json(chosen.solver, chosen.tac)
+    cross = parts.cross
     return {
         "schema_version": SCHEMA_VERSION,
         "disteco_version": __version__,
         "case_title": result.case.title,
         "case_file": str(result.case.source) if result.case.source else None,
+        "mode": "evaluate" if result.evaluation is not None else "optimise",
+        "minimum_reflux_ratio": r_min,
+        "minimum_stages": stages.minimum_stages if stages else None,
+        "design": design_json(profile, r_min, parts.sizing) if profile else None,
+        "cost": cost_json(parts.cost) if parts.cost else None,
+        "solver": solver,
+        "equipment": equipment_json(parts.sizing) if parts.sizing else None,
+        "stage_profile": profile_json(profile) if profile else None,
+        "shortcut_table": stages_json(stages) if stages else None,
+        "scenarios": [scenario_json(name, optimum, r_min) for name, optimum in parts.scenarios],
+        "cross_table": None if cross is None else {
+            "scenarios": list(cross.scenarios), "currency": cross.currency,
+            "tac_per_year": [list(row) for row in cross.tac],
+            "extra_tac_per_year": [list(row) for row in cross.extra]},
         "mixture": mixture_json(result.mixture),
         "feed": feed_json(result.feed),
         "warnings": list(result.warnings),

@@ -16,7 +16,7 @@ from ..case import Case, EndSpec
 from ..properties import BinaryDiagram, FeedState, MixtureSummary
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
-from .design_result import CAUTIONS
+from .cautions import CAUTIONS
 
 TEXT = "@"  # Excel's number format for text
 MIXED = "General"  # a column of labelled values: numbers stay numbers, text stays text

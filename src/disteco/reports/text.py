@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from .._base.units import to_degC
 from ..properties import MixtureSummary
-from .design_result import CAUTIONS
+from .cautions import CAUTIONS
+from .design_result import DesignResult
 
 
 def mixture_text(summary: MixtureSummary) -> str:
@@ -32,3 +33,42 @@ def mixture_text(summary: MixtureSummary) -> str:
 
 def cautions_text() -> str:
     return "\n".join(f"Caution: {c}" for c in CAUTIONS)
+
+
+def design_text(result: DesignResult) -> str:
+    """The chosen (or priced) design in a few lines, units on every number."""
+    lines = []
+    stages = result.stages
+    if stages is not None:
+        lines.append(f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   "
+                     f"minimum stages: {stages.minimum_stages:.2f} [-] ({stages.basis})")
+    parts = result.parts
+    profile = parts.profile
+    if profile is None:
+        return "\n".join(lines)
+    heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
+    factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x minimum)" if stages else ""
+    lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
+              f"(reboiler included), feed on stage {profile.feed_stage} from the top",
+              f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
+    if parts.sizing is not None:
+        s = parts.sizing
+        lines.append(f"Column: {s.diameter:.2f} m diameter, {s.real_trays} real trays "
+                     f"(efficiency {s.efficiency.value:.2f}), {s.height.tangent_length:.1f} m tangent to tangent; "
+                     f"condenser {s.condenser.area:,.0f} m2 on {s.condenser.utility.name}, "
+                     f"reboiler {s.reboiler.area:,.0f} m2 on {s.reboiler.utility.name}")
+    if parts.cost is not None:
+        c = parts.cost
+        lines.append(f"Cost ({c.currency} {c.cost_year}, scenario '{c.scenario}'): installed capital "
+                     f"{c.capital_installed:,.0f}, utilities {c.utilities_per_year:,.0f} per year, "
+                     f"TAC {c.tac_per_year:,.0f} per year")
+    optimum = parts.optimum
+    if optimum is not None:
+        gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
+        lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
+                     f"configurations solved in {optimum.solver.wall_time:.1f} s")
+    if len(parts.scenarios) > 1:
+        lines.append("Scenario optima: " + "; ".join(
+            f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC {o.best.tac:,.0f} per year"
+            for name, o in parts.scenarios))
+    return "\n".join(lines)

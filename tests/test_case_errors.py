@@ -1,7 +1,5 @@
 """Bad case files: each error names the field, says what is wrong, and exits with code 2."""
 
-import json
-
 import pytest
 
 from disteco._base.errors import CaseError
@@ -83,13 +81,3 @@ def test_units_to_si(text, kind, expected):
     """Unit conversions against the defining values (1 psi = 6894.757 Pa, NIST SP 811 appendix B)."""
     value, _ = parse_quantity(text, kind, "field")
     assert value == pytest.approx(expected, rel=1e-5)
-
-
-def test_design_writes_result_json(tmp_path, capsys):
-    """The design command writes result.json with units in the keys."""
-    code, _ = run_cli(tmp_path, BASE, capsys, command="design")
-    assert code == 0
-    data = json.loads((tmp_path / "out" / "result.json").read_text())
-    assert data["schema_version"] == 1
-    assert data["feed"]["molar_flow_kmol_per_h"] == pytest.approx(180.0)
-    assert data["mixture"]["components"][0]["normal_boiling_point_degC"] == pytest.approx(80.1, abs=0.1)

@@ -1,0 +1,80 @@
+"""The design command end to end on the bundled benzene column: result.json shape and consistency."""
+
+import json
+
+import pytest
+from openpyxl import load_workbook
+
+from disteco.cli import main
+
+from conftest import EXAMPLES
+
+CASE = str(EXAMPLES / "aromatics_binary.toml")
+
+
+@pytest.fixture(scope="module")
+def result(tmp_path_factory):
+    out = tmp_path_factory.mktemp("design")
+    code = main(["design", CASE, "-o", str(out), "-q", "--scenario", "reference", "--scenario", "cheap-steam-demo"])
+    assert code == 0
+    return out, json.loads((out / "result.json").read_text())
+
+
+def test_result_has_the_documented_keys(result):
+    _, data = result
+    for key in ("schema_version", "minimum_reflux_ratio", "minimum_stages", "design", "cost", "solver",
+                "equipment", "stage_profile", "shortcut_table", "scenarios", "cross_table", "warnings",
+                "cautions"):
+        assert key in data, key
+    for key in ("reflux_ratio", "stages", "feed_stage", "real_trays", "diameter_m", "height_m",
+                "condenser_duty_kW", "reboiler_duty_kW"):
+        assert data["design"][key] is not None, key
+    for key in ("capital_installed", "utilities_per_year", "tac_per_year", "currency", "cost_year", "items"):
+        assert key in data["cost"], key
+    assert data["solver"]["status"]
+    assert data["feed"]["molar_flow_kmol_per_h"] == pytest.approx(180.0)
+    assert data["mixture"]["components"][0]["normal_boiling_point_degC"] == pytest.approx(80.1, abs=0.1)
+
+
+def test_design_is_consistent(result):
+    """Internal consistency: the optimum lies above minimum reflux and stages, TAC adds up,
+    the profile has one entry per stage, the cross table's diagonal is zero."""
+    _, data = result
+    design, cost = data["design"], data["cost"]
+    assert design["reflux_ratio"] > data["minimum_reflux_ratio"]
+    assert design["stages"] > data["minimum_stages"]
+    assert 1 <= design["feed_stage"] <= design["stages"]
+    assert len(data["stage_profile"]["temperature_degC"]) == design["stages"]
+    assert cost["tac_per_year"] == pytest.approx(cost["annualised_capital_per_year"] + cost["utilities_per_year"])
+    assert cost["capital_installed"] == pytest.approx(sum(i["installed"] for i in cost["items"]))
+    extra = data["cross_table"]["extra_tac_per_year"]
+    assert extra[0][0] == 0.0 and extra[1][1] == 0.0
+    # Building for the wrong prices never pays, within solver tolerance (0.1 % of TAC).
+    for i, row in enumerate(extra):
+        for j, value in enumerate(row):
+            assert value >= -1e-3 * data["cross_table"]["tac_per_year"][j][j]
+
+
+def test_dearer_steam_scenario_does_not_raise_the_reflux(result):
+    """The reference prices steam above the cheap-steam scenario: its optimum reflux is not higher."""
+    _, data = result
+    by_name = {s["scenario"]: s for s in data["scenarios"]}
+    assert by_name["reference"]["reflux_ratio"] <= by_name["cheap-steam-demo"]["reflux_ratio"] * 1.001
+
+
+def test_workbook_numbers_equal_result_json(result):
+    out, data = result
+    book = load_workbook(out / "design.xlsx")
+    assert "Summary" in book.sheetnames
+    values = {row[0]: row[1] for row in book["Summary"].iter_rows(values_only=True) if row and row[0]}
+    tac_label = next(k for k in values if str(k).startswith("Total annualised cost, sizing and costing"))
+    assert values[tac_label] == pytest.approx(data["cost"]["tac_per_year"])
+    assert values["Column diameter [m]"] == pytest.approx(data["design"]["diameter_m"])
+
+
+def test_given_design_below_minimum_reflux_is_refused(tmp_path, capsys):
+    code = main(["design", CASE, "-o", str(tmp_path), "-q", "--reflux", "1.0", "--stages", "30",
+                 "--feed-stage", "15"])
+    assert code == 2
+    assert "at or below the minimum reflux ratio" in capsys.readouterr().err
+    assert not (tmp_path / "result.json").exists()

@@ -111,60 +111,69 @@ def starting_configuration(problem: SeparationProblem, estimate: Shortcut, confi
     return stages, feed_stage_of(stages, kirkbride(problem, estimate))
 
 
-def stage_search(evaluator: Evaluator, stages: int, feed_of) -> tuple[int, int]:
-    """Coarse search over the stage count with the feed stage tied to it by ``feed_of``.
+def line_minimum(value, start: int, low: int, high: int) -> int:
+    """Integer minimiser of ``value`` on [low, high] near ``start``: doubling steps downhill, then ternary.
 
-    Steps double in the downhill direction until the TAC rises, then a ternary search on
-    integers narrows the bracket. The TAC is close to unimodal along this line; the
-    neighbourhood descent that follows corrects small departures.
+    ``value`` may return infinity (no feasible design). Along the lines searched here the
+    TAC is close to unimodal; the neighbourhood descent that follows corrects small departures.
     """
-    def value(n: int) -> float:
-        feed = feed_of(n)
-        return evaluator.tac(n, feed) if evaluator.allowed(n, feed) else float("inf")
-
-    here = value(stages)
-    direction = 1 if here == float("inf") or value(stages + 1) < here else -1
-    if direction == -1 and value(stages - 1) >= here:
-        return stages, feed_of(stages)
-    low, step, best = stages, 1, stages
+    here = value(start)
+    if start < high and value(start + 1) < here:
+        direction = 1
+    elif start > low and value(start - 1) < here:
+        direction = -1
+    else:
+        return start
+    behind, best, step = start, start, 1
     while True:
-        ahead = best + direction * step
-        if not evaluator.low <= ahead <= evaluator.config.max_stages:
-            ahead = evaluator.low if direction < 0 else evaluator.config.max_stages
+        ahead = min(max(best + direction * step, low), high)
         if ahead == best or value(ahead) >= value(best):
-            high = ahead
             break
-        low, best, step = best, ahead, 2 * step
-    low, high = sorted((low, high))
-    while high - low > 2:
-        one, two = low + (high - low) // 3, high - (high - low) // 3
+        behind, best, step = best, ahead, 2 * step
+    left, right = sorted((behind, ahead))
+    while right - left > 2:
+        one, two = left + (right - left) // 3, right - (right - left) // 3
         if value(one) <= value(two):
-            high = two
+            right = two
         else:
-            low = one
-    best = min(range(low, high + 1), key=value)
+            left = one
+    return min(range(left, right + 1), key=value)
+
+
+def stage_search(evaluator: Evaluator, stages: int, feed_of) -> tuple[int, int]:
+    """Best stage count with the feed stage tied to it by ``feed_of``."""
+    def value(n: int) -> float:
+        return evaluator.tac(n, feed_of(n))
+
+    best = line_minimum(value, stages, evaluator.low, evaluator.config.max_stages)
     return best, feed_of(best)
 
 
-def first_feasible(evaluator: Evaluator, stages: int, feed_of) -> int:
-    """The start's stage count, or more (steps doubling) until a configuration meets the specifications.
+def feed_search(evaluator: Evaluator, stages: int, feed: int) -> int:
+    """Best feed stage for ``stages``, starting from ``feed``."""
+    return line_minimum(lambda f: evaluator.tac(stages, f), feed, 2, stages - 1)
 
-    Fenske's minimum from the feed's volatility can be far too low for a non-ideal mixture
-    whose volatility collapses towards an azeotrope; more stages are then tried.
+
+FEED_TRIALS = (0.25, 0.5, 0.75)  # fractions of the column tried when Kirkbride's feed stage fails
+
+
+def first_feasible(evaluator: Evaluator, stages: int, kirkbride_feed: int) -> tuple[int, int]:
+    """A feasible configuration from the start: Kirkbride's feed stage, else a few others, else more stages.
+
+    Fenske's minimum and Kirkbride's ratio from the feed's volatility can be far off for a
+    non-ideal mixture whose volatility collapses towards an azeotrope (ethanol-water: the
+    best feed stage lies near the bottom, Kirkbride puts it near the top).
     """
     step = 1
-    while evaluator.tac(stages, feed_of(stages)) == float("inf") and stages < evaluator.config.max_stages:
+    while True:
+        feeds = [kirkbride_feed] + [min(max(round(f * stages), 2), stages - 1) for f in FEED_TRIALS]
+        values = {feed: evaluator.tac(stages, feed) for feed in dict.fromkeys(feeds) if evaluator.allowed(stages, feed)}
+        feasible = {feed: v for feed, v in values.items() if v < float("inf")}
+        if feasible or stages >= evaluator.config.max_stages:
+            return stages, min(feasible, key=feasible.get) if feasible else kirkbride_feed
         stages = min(stages + step, evaluator.config.max_stages)
+        kirkbride_feed = min(kirkbride_feed, stages - 1)
         step *= 2
-    return stages
-
-
-def feed_search(evaluator: Evaluator, stages: int, feed: int) -> int:
-    """Best feed stage for ``stages`` by walking downhill from ``feed`` one stage at a time."""
-    for step in (1, -1):
-        while evaluator.allowed(stages, feed + step) and evaluator.tac(stages, feed + step) < evaluator.tac(stages, feed):
-            feed += step
-    return feed
 
 
 def descend(evaluator: Evaluator, start: tuple[int, int]) -> tuple[int, int]:
@@ -207,10 +216,8 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
     status = "locally optimal (discrete neighbourhood)"
     try:
-        stages, feed = starting_configuration(problem, estimate, config)
-        ratio = kirkbride(problem, estimate)
-        stages = first_feasible(evaluator, stages, lambda n: feed_stage_of(n, ratio))
-        feed = feed_search(evaluator, stages, feed_stage_of(stages, ratio))
+        stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
+        feed = feed_search(evaluator, stages, feed)
         ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
         descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
     except TimeoutError:

@@ -22,6 +22,7 @@ from .options import model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
 from .start import Profile, cmo_profile, gilliland_reflux, shortcut
 
+RETRY_REFLUX_FACTOR = 2.0
 OK = {TC.optimal: "optimal", TC.locallyOptimal: "locally optimal"}
 INFEASIBLE = (TC.infeasible, TC.invalidProblem, TC.infeasibleOrUnbounded)
 STOPPED = {TC.maxIterations: "iteration limit", TC.maxTimeLimit: "time limit",
@@ -109,10 +110,10 @@ def _gap(results) -> float | None:
 
 
 def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float | None = None,
-                  distillate: float | None = None) -> Profile:
-    """Constant-molar-overflow profile at the shortcut's distillate and Gilliland's reflux."""
+                  distillate: float | None = None, factor: float = 1.0) -> Profile:
+    """Constant-molar-overflow profile at the shortcut's distillate and ``factor`` times Gilliland's reflux."""
     estimate = shortcut(problem)
-    R = reflux if reflux is not None else gilliland_reflux(stages, estimate)
+    R = reflux if reflux is not None else factor * gilliland_reflux(stages, estimate)
     D = distillate if distillate is not None else float(sum(estimate.distillate))
     for factor in (1.0, 1.5, 3.0):
         try:
@@ -125,13 +126,26 @@ def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, refl
 def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int, options=None,
                  start: Profile | None = None, fixed_reflux: float | None = None,
                  time_limit: float | None = None) -> tuple[pyo.ConcreteModel, SolverReport]:
-    """Build, initialise and solve one configuration; return the solved model and its report."""
+    """Build, initialise and solve one configuration; return the solved model and its report.
+
+    Without a given start, a solver stop (iteration or time limit) is retried once from a
+    profile at twice the start reflux: a start pinched near the minimum reflux can stall
+    the solver (measured: ethanol-water, 39 stages, feed on 20: 300 iterations in 7 s from
+    the Gilliland reflux, 0.8 s from twice it).
+    """
     config = model_options(options)
-    model = build_column_model(problem, basis, stages, feed_stage, config)
-    initialise(model, start or start_profile(problem, stages, feed_stage, fixed_reflux))
-    if fixed_reflux is not None:
-        model.R.fix(fixed_reflux)
-    report = run_solver(model, config, time_limit)
+    factors = (1.0,) if start is not None or fixed_reflux is not None else (1.0, RETRY_REFLUX_FACTOR)
+    for attempt, factor in enumerate(factors):
+        model = build_column_model(problem, basis, stages, feed_stage, config)
+        initialise(model, start or start_profile(problem, stages, feed_stage, fixed_reflux, factor=factor))
+        if fixed_reflux is not None:
+            model.R.fix(fixed_reflux)
+        try:
+            report = run_solver(model, config, time_limit)
+            break
+        except SolverError:
+            if attempt == len(factors) - 1:
+                raise
     missed = shortfall(model)
     if missed > config.shortfall_tolerance:
         at = f"reflux ratio {fixed_reflux:.4g}, " if fixed_reflux is not None else ""

@@ -137,7 +137,11 @@ def _bubble_temperatures(problem: SeparationProblem, P: np.ndarray, x: np.ndarra
 
 
 def cmo_profile(problem: SeparationProblem, stages: int, feed_stage: int, R: float, D: float) -> Profile:
-    """Stage temperatures and compositions for fixed R [-] and D [mol/s] (bubble-point method)."""
+    """Stage temperatures and compositions for fixed R [-] and D [mol/s] (bubble-point method).
+
+    Near a pinch the passes creep; after ``PROFILE_ITERATIONS`` the last pass is returned,
+    since a start only has to be close, not converged.
+    """
     f = problem.fitted
     nc = f.size
     F, z = problem.feed_flow, np.asarray(problem.z)
@@ -166,9 +170,8 @@ def cmo_profile(problem: SeparationProblem, stages: int, feed_stage: int, R: flo
         x, T = x_new, T_new
         if change < PROFILE_TOLERANCE:
             break
-    else:
-        raise ConvergenceError(f"start profile did not converge in {PROFILE_ITERATIONS} iterations "
-                               f"({stages} stages, feed stage {feed_stage}, R = {R:.4g})")
+    if not np.all(np.isfinite(T)):
+        raise ConvergenceError(f"start profile diverged ({stages} stages, feed stage {feed_stage}, R = {R:.4g})")
     lnk = f.ln_k(T, P, [x[:, i] for i in range(nc)], exp=np.exp, log=np.log)
     y = np.exp(np.array(lnk)).T * x
     y /= y.sum(axis=1, keepdims=True)

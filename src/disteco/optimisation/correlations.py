@@ -1,7 +1,7 @@
-"""Pyomo forms of the sizing and costing correlations, each beside the float form it must equal.
+"""Pyomo forms of the sizing and costing correlations the model needs.
 
-Each pair is checked by a twin test at design points. The float forms stand in for the
-sizing and costing layers' functions until the model takes its constants from them.
+Each is checked by a twin test at design points against the float function of the sizing
+or costing layer (or thermo) that it mirrors.
 """
 
 from __future__ import annotations
@@ -16,27 +16,11 @@ from .basis import CostCurve
 LN10 = math.log(10.0)
 
 
-def capacity_factor(flow_parameter: float, capacity: tuple[float, float, float, float]) -> float:
-    """Flooding capacity factor C_sb = c0 + c1 exp(-c2 F_LV^c3) [m/s] (smooth form of Fair's chart).
-
-    Parameters
-    ----------
-    flow_parameter : float
-        F_LV = (L/V) sqrt(rho_V/rho_L) on a mass basis [-]
-    capacity : tuple
-        c0 [m/s], c1 [m/s], c2 [-], c3 [-] at the chosen tray spacing
-
-    Examples
-    --------
-    >>> round(capacity_factor(0.1, (0.0105, 0.1, 1.463, 0.842)), 4)
-    0.0911
-    """
-    c0, c1, c2, c3 = capacity
-    return c0 + c1 * math.exp(-c2 * flow_parameter ** c3)
-
-
 def capacity_factor_expr(flow_parameter, capacity):
-    """Pyomo twin of :func:`capacity_factor`."""
+    """Pyomo twin of the sizing layer's Lygeros-Magoulas capacity factor C_F = c0 + c1 exp(-c2 F_LV^c3) [m/s].
+
+    ``capacity`` is ``disteco.sizing.flooding.lygeros_magoulas_constants(tray_spacing)``.
+    """
     c0, c1, c2, c3 = capacity
     return c0 + c1 * pyo.exp(-c2 * flow_parameter ** c3)
 
@@ -47,28 +31,40 @@ def cost_curve_expr(curve: CostCurve, size):
     return curve.multiplier * pyo.exp(LN10 * (curve.k1 + curve.k2 * s + curve.k3 * s * s))
 
 
-def mean_temperature_difference(dt_one: float, dt_two: float) -> float:
-    """Log-mean temperature difference [K]; equal ends give that difference.
+def mean_temperature_difference(dt_one, dt_two):
+    """Underwood's cube-root mean of two end temperature differences, an approximation of the LMTD [K].
+
+    .. math:: \Delta T_m \approx \left(\frac{\Delta T_1^{1/3} + \Delta T_2^{1/3}}{2}\right)^3
+
+    Parameters
+    ----------
+    dt_one : float
+        Temperature difference at one end [K]
+    dt_two : float
+        Temperature difference at the other end [K]
+
+    Notes
+    -----
+    Smooth and exact when the ends are equal, where the log mean is 0/0; an equation model
+    needs that, since the process-side ends (top vapour and reflux, last tray and reboiler)
+    can coincide. Measured against the log mean: within 0.03 % for end ratios up to 3 and
+    0.4 % up to 10 (tests/test_optimisation_model.py).
 
     Examples
     --------
     >>> round(mean_temperature_difference(30.0, 20.0), 3)
     24.663
+
+    References
+    ----------
+    1. Underwood, A.J.V., Chemical Engineering 77(12), 192 (1970), from memory.
     """
-    if abs(dt_one - dt_two) < 1e-12:
-        return dt_one
-    return (dt_one - dt_two) / math.log(dt_one / dt_two)
+    return ((dt_one ** (1.0 / 3.0) + dt_two ** (1.0 / 3.0)) / 2.0) ** 3
 
 
-def lmtd_expr(dt_one, dt_two, equal_ends: bool = False):
-    """Pyomo twin of :func:`mean_temperature_difference`.
-
-    ``equal_ends`` comes from the utility data (a condensing or evaporating utility has
-    equal supply and return temperatures), so the branch is never taken on a variable.
-    """
-    if equal_ends:
-        return dt_one
-    return (dt_one - dt_two) / pyo.log(dt_one / dt_two)
+def lmtd_expr(dt_one, dt_two):
+    """Pyomo form of :func:`mean_temperature_difference` (the same algebra)."""
+    return mean_temperature_difference(dt_one, dt_two)
 
 
 def vapour_density(pressure: float, temperature: float, molar_mass: float) -> float:

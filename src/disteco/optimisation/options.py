@@ -30,9 +30,9 @@ def _options() -> ConfigDict:
     config.declare("max_iterations", ConfigValue(default=300, domain=PositiveInt,
                                                  description="iteration limit of each NLP solve"))
     config.declare("shortfall_penalty", ConfigValue(
-        default=1e5, domain=PositiveFloat,
-        description="objective penalty per unit relative shortfall of a product specification "
-                    "[thousand currency/yr]; must exceed the TAC's sensitivity to the specification"))
+        default=10.0, domain=PositiveFloat,
+        description="objective charge per unit relative shortfall of a product specification, in multiples "
+                    "of the start's TAC [-]; must exceed the relative TAC saved per relative shortfall"))
     config.declare("shortfall_tolerance", ConfigValue(
         default=1e-6, domain=PositiveFloat, description="relative shortfall accepted as meeting a specification [-]"))
     config.declare("certify", ConfigValue(default=False, domain=Bool,

@@ -28,6 +28,7 @@ from .basis import SeparationProblem
 
 PROFILE_TOLERANCE = 1e-6  # K, largest stage temperature change at convergence
 PROFILE_ITERATIONS = 1000
+MAX_START_REFLUX_FACTOR = 20.0  # near the minimum stages Gilliland's reflux runs away; a start needs less
 DAMPING = 0.5  # share of the new compositions taken each pass; undamped passes cycle on non-ideal liquids
 
 
@@ -104,7 +105,7 @@ def gilliland_reflux(stages: int, estimate: Shortcut) -> float:
     if Y <= 0.0:
         return 10.0 * estimate.minimum_reflux + 1.0
     X = (1.0 - min(Y, 0.74) / 0.75) ** (1.0 / 0.5668)
-    return (X + estimate.minimum_reflux) / (1.0 - X)
+    return min((X + estimate.minimum_reflux) / (1.0 - X), MAX_START_REFLUX_FACTOR * estimate.minimum_reflux + 1.0)
 
 
 def cmo_flows(problem: SeparationProblem, stages: int, feed_stage: int, R: float, D: float):

@@ -61,6 +61,9 @@ def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> Scatte
     chart.x_axis.delete = False
     chart.y_axis.delete = False
     chart.x_axis.majorGridlines = None
+    # Axis labels in a general format, not the four decimals of the data cells.
+    chart.x_axis.number_format = "General"
+    chart.y_axis.number_format = "General"
     chart.x_axis.axPos = "b"
     if plot.x_limits:
         chart.x_axis.scaling.min, chart.x_axis.scaling.max = plot.x_limits

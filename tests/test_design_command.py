@@ -78,3 +78,18 @@ def test_given_design_below_minimum_reflux_is_refused(tmp_path, capsys):
     assert code == 2
     assert "at or below the minimum reflux ratio" in capsys.readouterr().err
     assert not (tmp_path / "result.json").exists()
+
+
+def test_tac_curve_has_its_minimum_at_the_optimum(result):
+    """The TAC-against-reflux curve (stages and feed stage re-optimised at each reflux) is
+    nowhere below the optimiser's design: the chart and the optimum tell one story."""
+    out, data = result
+    for curve, scenario in zip(data["tac_curves"], data["scenarios"]):
+        assert curve["scenario"] == scenario["scenario"]
+        tacs = [p["model_tac_per_year"] for p in curve["points"]]
+        assert len(tacs) >= 4
+        assert min(tacs) >= scenario["model_tac_per_year"] * (1 - 1e-3)
+        # Fewer stages are needed as the reflux rises.
+        stages = [p["stages"] for p in curve["points"]]
+        assert stages == sorted(stages, reverse=True)
+    assert (out / "figures" / "tac_vs_reflux_reference.png").stat().st_size > 10_000

@@ -12,6 +12,7 @@ from typing import Callable
 from ._base.errors import CaseError
 from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_scenarios
+from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.results import DesignEvaluation, OptimumDesign
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
@@ -80,7 +81,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     names = resolve_scenarios(data, scenarios or case.economics.scenarios)
     summary = check(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
-    total = 1 + len(names) + (len(names) * (len(names) - 1) if given is None else 0)
+    total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
     report("shortcut design and stage profile", 0, total)
     stages = design_stages(mixture, feed, case.products, case.column)
     sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
@@ -91,13 +92,16 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         parts = _evaluation_parts(evaluation, stages, data)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages, evaluation.warnings, parts))
-    optima = []
+    optima, curves = [], []
     for k, name in enumerate(names):
-        report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + k, total)
-        optima.append((name, optimise_design(case, mixture, feed, data, options, sizing, name)))
-    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + len(names), total)
+        report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
+        optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
+        optima.append((name, optimum))
+        report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
+        curves.append((name, reflux_curve(case, mixture, feed, data, optimum, options, sizing, name)))
+    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
     best = optima[0][1]
-    parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross,
+    parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           **_binary_parts(stages, best.best.reflux_ratio, case))
     extra = cross.below_zero() if cross is not None else ()
     return DesignResult(case, summary, feed, stages=stages, parts=parts,

@@ -3,7 +3,7 @@
 Top-level keys (schema_version 1): ``schema_version``, ``disteco_version``, ``case_title``,
 ``case_file``, ``mode`` ("optimise" or "evaluate"), ``minimum_reflux_ratio``,
 ``minimum_stages``, ``design``, ``cost``, ``solver``, ``equipment``, ``stage_profile``,
-``shortcut_table``, ``scenarios``, ``cross_table``, ``mixture``, ``feed``, ``warnings``,
+``shortcut_table``, ``scenarios``, ``cross_table``, ``tac_curves``, ``mixture``, ``feed``, ``warnings``,
 ``cautions``. A part that was not computed is ``null``. Money is in ``cost.currency`` of
 ``cost.cost_year``; ``_per_year`` means per operating year.
 """
@@ -209,6 +209,14 @@ def result_json(result: DesignResult) -> dict:
             "scenarios": list(cross.scenarios), "currency": cross.currency,
             "tac_per_year": [list(row) for row in cross.tac],
             "extra_tac_per_year": [list(row) for row in cross.extra]},
+        "tac_curves": [
+            {"scenario": name, "points": [
+                {"reflux_ratio": d.reflux_ratio, "stages": d.stages, "feed_stage": d.feed_stage,
+                 "reboiler_duty_kW": d.sizes.reboiler_duty / 1e3, "capital_installed": d.cost.capital_installed,
+                 "annualised_capital_per_year": d.cost.annualised_capital_per_year,
+                 "utilities_per_year": d.cost.utilities_per_year, "model_tac_per_year": d.tac}
+                for d in designs]}
+            for name, designs in parts.tac_curves],
         "mixture": mixture_json(result.mixture),
         "feed": feed_json(result.feed),
         "warnings": list(result.warnings),

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from .._base.errors import InfeasibleSpecError
+from .._base.errors import CaseError, InfeasibleSpecError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
@@ -27,6 +27,9 @@ from .start import shortcut
 def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int) -> SeparationProblem:
     """The process side of ``case``, with forms fitted from the top pressure to ``max_stages`` stages down."""
     column = case.column
+    if column.condenser != "total":
+        raise CaseError("column.condenser", f"{column.condenser!r}: the optimiser models a total condenser only",
+                        "total (or evaluate a partial-condenser design with the stages layer)")
     P_top = column.top_pressure
     P_bottom = P_top + max_stages * column.pressure_drop_per_stage
     problem = SeparationProblem(

@@ -97,3 +97,13 @@ def test_reflux_at_minimum_is_infeasible_in_words():
     case, mixture, feed = example("aromatics_binary")
     with pytest.raises(InfeasibleSpecError, match="at or below the minimum reflux ratio"):
         evaluate_design(case, mixture, feed, load_cost_data(), 1.0, 30, 15)
+
+
+def test_partial_condenser_is_refused_by_field():
+    """The model has a total condenser; a partial-condenser case is refused naming the field."""
+    from disteco._base.errors import CaseError
+
+    case, mixture, feed = example("aromatics_binary")
+    partial = replace(case, column=replace(case.column, condenser="partial"))
+    with pytest.raises(CaseError, match="column.condenser"):
+        optimise_design(partial, mixture, feed, load_cost_data())

@@ -98,7 +98,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
         optima.append((name, optimum))
         report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
-        curves.append((name, reflux_curve(case, mixture, feed, data, optimum, options, sizing, name)))
+        curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
+                                                 sizing, name)))
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
     best = optima[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),

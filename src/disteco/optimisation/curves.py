@@ -9,7 +9,7 @@ the reflux ratio fixed, so the curve and the optimum share one set of equations.
 
 from __future__ import annotations
 
-import math
+from collections.abc import Sequence
 from dataclasses import replace
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
@@ -17,50 +17,53 @@ from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
-from ..stages.correlations import stages_from_gilliland
+from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, separation_problem
 from .options import model_options
 from .results import DesignEvaluation, OptimumDesign
-from .search import feed_stage_of, kirkbride
 from .solve import solve_configuration
-from .start import shortcut
 
-REFLUX_FACTORS = (1.1, 1.25, 1.5, 2.0)  # R / Rmin along the curve
-MAX_EXTRA_STAGES = 12  # stages added above the Gilliland estimate before a reflux is given up
+CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows used as curve points
+MAX_STAGES_TRIED = 4  # stage counts tried upwards from the first guess before a reflux is given up
 
 
 def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,
-                 options=None, sizing: SizingOptions = SizingOptions(), scenario: str | None = None,
-                 factors: tuple[float, ...] = REFLUX_FACTORS) -> tuple[DesignEvaluation, ...]:
-    """Designs along the reflux ratio (``factors`` x the model's minimum), plus the optimum itself.
+                 table: Sequence[ShortcutPoint], options=None, sizing: SizingOptions = SizingOptions(),
+                 scenario: str | None = None, factors: tuple[float, ...] = CURVE_FACTORS
+                 ) -> tuple[DesignEvaluation, ...]:
+    """Designs along the reflux ratio, plus the optimum itself, sorted by reflux ratio.
 
+    ``table`` is the stages layer's reflux-stages trade-off (McCabe-Thiele on the real
+    curve for a binary, Gilliland and Kirkbride otherwise); its rows at ``factors`` x the
+    minimum reflux give each point's reflux and the first guess of stages and feed stage.
     Points where no column within the stage limit meets the specifications are left out.
-    The result is sorted by reflux ratio.
     """
     config = model_options(options)
     problem = separation_problem(case, mixture, feed, config.max_stages)
     basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
                                                                 heavy_key=problem.heavy_key),
                                 scenario, case.economics.cost_year, config)
-    estimate = shortcut(problem)
-    ratio = kirkbride(problem, estimate)
     points = [optimum.best]
-    for factor in factors:
-        reflux = factor * estimate.minimum_reflux
-        if abs(reflux - optimum.best.reflux_ratio) < 1e-3 * reflux:
+    for row in table:
+        if not any(abs(row.reflux_factor - f) < 1e-9 for f in factors):
             continue
-        design = _best_at_reflux(problem, basis, config, reflux, estimate, ratio)
+        if abs(row.reflux_ratio - optimum.best.reflux_ratio) < 1e-3 * row.reflux_ratio:
+            continue
+        design = _best_at_reflux(problem, basis, config, row.reflux_ratio, row.whole_stages,
+                                 row.feed_stage / row.whole_stages)
         if design is not None:
             points.append(design)
     return tuple(sorted(points, key=lambda d: d.reflux_ratio))
 
 
-def _best_at_reflux(problem, basis, config, reflux: float, estimate, ratio: float) -> DesignEvaluation | None:
-    """Fewest feasible stages at ``reflux``, then the feed stage with the lowest TAC."""
-    guess = stages_from_gilliland(estimate.minimum_stages, estimate.minimum_reflux, reflux)
-    if not math.isfinite(guess):
-        return None
-    stages = min(max(math.ceil(guess), 3), config.max_stages)
+def _best_at_reflux(problem, basis, config, reflux: float, stages: int, feed_ratio: float
+                    ) -> DesignEvaluation | None:
+    """Fewest feasible stages at ``reflux`` from a first guess, then the feed stage with the lowest TAC.
+
+    Near a pinch only feed stages close to the best one work, so each stage count is tried
+    with the guess's feed position and its two neighbours.
+    """
+    stages = min(max(stages, 3), config.max_stages)
 
     def solve(n: int, f: int) -> DesignEvaluation | None:
         if not (3 <= n <= config.max_stages and 2 <= f <= n - 1):
@@ -72,15 +75,14 @@ def _best_at_reflux(problem, basis, config, reflux: float, estimate, ratio: floa
             return None
 
     def feasible(n: int) -> DesignEvaluation | None:
-        # Near a pinch only feed stages close to the best one work: try a few around Kirkbride's.
-        middle = feed_stage_of(n, ratio)
+        middle = min(max(round(feed_ratio * n), 2), n - 1)
         for f in (middle, middle - 1, middle + 1):
             if (found := solve(n, f)) is not None:
                 return found
         return None
 
     design = None
-    for n in range(stages, min(stages + MAX_EXTRA_STAGES, config.max_stages) + 1):
+    for n in range(stages, min(stages + MAX_STAGES_TRIED, config.max_stages + 1)):
         if (design := feasible(n)) is not None:
             break
     if design is None:

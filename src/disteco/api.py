@@ -89,9 +89,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         report(f"pricing the given design under '{names[0]}'", 1, total)
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
                                      given.feed_stage, options, sizing, names[0])
-        parts = _evaluation_parts(evaluation, stages, data)
+        parts = _evaluation_parts(evaluation, data)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
-                            warnings=_warnings(stages, evaluation.warnings, parts))
+                            warnings=_warnings(evaluation.warnings, parts))
     optima, curves = [], []
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
@@ -106,7 +106,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                           **_binary_parts(stages, best.best.reflux_ratio, case))
     extra = cross.below_zero() if cross is not None else ()
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
-                        warnings=_warnings(stages, best.warnings + tuple(extra), parts))
+                        warnings=_warnings(best.warnings + tuple(extra), parts))
 
 
 def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
@@ -119,7 +119,7 @@ def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
     return {"curve": stages.binary.curve, "stepped": stepped}
 
 
-def _evaluation_parts(evaluation: DesignEvaluation, stages: StageDesign, data: CostData) -> ReportParts:
+def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportParts:
     sequential = evaluation.sequential
     return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
                        cost=sequential.cost if sequential else None, cost_data=data)
@@ -147,7 +147,7 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, report, don
     return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)
 
 
-def _warnings(stages: StageDesign, own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:
+def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:
     found = list(own)
     if parts.sizing is not None:
         found += parts.sizing.warnings

@@ -43,17 +43,22 @@ def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap:
     return solver
 
 
-def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None) -> SolverReport:
-    """Solve ``model``; return the report or raise our errors (never pass a failure on silently)."""
-    name = solver_name or config.solver
-    limit = config.configuration_time_limit if time_limit is None else time_limit
-    solver = make_solver(name, limit, config.max_iterations, config.relative_gap)
+def _timed_solve(model, config, name: str, time_limit: float, failure: str):
+    """Solve without loading; return (results, wall time [s]); a solver crash becomes a SolverError."""
+    solver = make_solver(name, time_limit, config.max_iterations, config.relative_gap)
     start = time.perf_counter()
     try:
         results = solver.solve(model, tee=config.tee, load_solutions=False)
     except (ValueError, RuntimeError, OSError) as exc:
-        raise SolverError(f"{name} failed on {model.name}: {exc}") from exc
-    wall = time.perf_counter() - start
+        raise SolverError(f"{name} {failure} {model.name}: {exc}") from exc
+    return results, time.perf_counter() - start
+
+
+def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None) -> SolverReport:
+    """Solve ``model``; return the report or raise our errors (never pass a failure on silently)."""
+    name = solver_name or config.solver
+    limit = config.configuration_time_limit if time_limit is None else time_limit
+    results, wall = _timed_solve(model, config, name, limit, "failed on")
     tc = results.solver.termination_condition
     if tc in OK or (tc in STOPPED and name.startswith("scip") and len(results.solution) > 0):
         status = OK.get(tc, STOPPED.get(tc, str(tc)))
@@ -80,13 +85,7 @@ def certify(model, config, incumbent: float) -> SolverReport:
     when that gap is within ``config.relative_gap``.
     """
     name = config.certify_solver
-    solver = make_solver(name, config.certify_time_limit, config.max_iterations, config.relative_gap)
-    start = time.perf_counter()
-    try:
-        results = solver.solve(model, tee=config.tee, load_solutions=False)
-    except (ValueError, RuntimeError, OSError) as exc:
-        raise SolverError(f"{name} failed to bound {model.name}: {exc}") from exc
-    wall = time.perf_counter() - start
+    results, wall = _timed_solve(model, config, name, config.certify_time_limit, "failed to bound")
     tc = results.solver.termination_condition
     try:
         lower = float(results.problem.lower_bound)

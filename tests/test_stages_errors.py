@@ -5,8 +5,9 @@ import dataclasses
 import pytest
 
 from disteco._base.errors import CaseError, InfeasibleSpecError
-from disteco.case import Column, EndSpec, Feed, FeedFlow, Products, ThermalCondition
-from disteco.properties import feed_state
+from disteco.case import Column, EndSpec, Feed, FeedFlow, Products, ThermalCondition, Thermo
+from disteco.properties import build_mixture, feed_state
+from disteco.stages.design import design_stages
 from disteco.stages.rigorous import ColumnSpec, solve_cmo
 from disteco.stages.shortcut import minimum_reflux_underwood, shortcut_design
 from disteco.stages.specs import gilliland_reflux
@@ -48,6 +49,34 @@ def test_purity_beyond_azeotrope(ethanol_water):
         shortcut_design(ethanol_water, feed, binary(0.95, 0.01), COLUMN)
     below = shortcut_design(ethanol_water, feed, binary(0.80, 0.01), COLUMN)
     assert below.minimum_reflux > 0.0
+
+
+@pytest.fixture(scope="module")
+def methanol_ethanol_water():
+    return build_mixture(("methanol", "ethanol", "water"), Thermo("unifac-dortmund"), P_ATM)
+
+
+def test_multicomponent_key_pair_beyond_azeotrope(methanol_ethanol_water):
+    """Methanol-ethanol-water with ethanol/water as keys: 99 % of the ethanol up and 99.5 % of
+    the water down puts the distillate's ethanol/(ethanol + water) at 0.994, beyond the binary
+    azeotrope (0.89 to 0.90 at 1 atm, widely tabulated; from memory). The shortcut warns, and
+    the stage design, which cannot reach the specification, explains it by the azeotrope."""
+    feed = feed_of(methanol_ethanol_water, (0.1, 0.4, 0.5))
+    products = Products(1, 2, EndSpec("recovery", 0.99), EndSpec("recovery", 0.995))
+    shortcut = shortcut_design(methanol_ethanol_water, feed, products, COLUMN)
+    (warning,) = shortcut.warnings
+    assert "distillate light-key fraction of the key pair 0.99" in warning
+    assert "minimum-boiling azeotrope of ethanol and water at 0.89" in warning
+    with pytest.raises(InfeasibleSpecError, match="azeotrope bounds the product"):
+        design_stages(methanol_ethanol_water, feed, products, COLUMN, energy=False)
+
+
+def test_multicomponent_key_pair_on_the_feed_side_has_no_warning(methanol_ethanol_water):
+    """The same feed with 80 % of the ethanol up and 90 % of the water down: distillate
+    key-pair fraction about 0.8, below the azeotrope."""
+    feed = feed_of(methanol_ethanol_water, (0.1, 0.4, 0.5))
+    products = Products(1, 2, EndSpec("recovery", 0.80), EndSpec("recovery", 0.90))
+    assert shortcut_design(methanol_ethanol_water, feed, products, COLUMN).warnings == ()
 
 
 @pytest.mark.parametrize("field, spec", [

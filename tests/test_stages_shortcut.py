@@ -80,6 +80,36 @@ def test_underwood_with_distributing_middle_component():
         assert np.sum(alpha * d_out / (alpha - phi)) == pytest.approx(v_min, rel=1e-9)
 
 
+def liddle_gilliland(X):
+    """Liddle's (1968) three-part fit of Gilliland's chart, the curve drawn in Wankat's
+    Figure 9-3 (7-3 in the 2nd ed.); middle part, 0.01 < X < 0.9 (from memory)."""
+    return 0.545827 - 0.591422 * X + 0.002743 / X
+
+
+def test_gilliland_on_the_benzene_toluene_cumene_example():
+    """Wankat, Separation Process Engineering, 3rd ed. (2012), Example 9-3 (7-3 in the 2nd ed.;
+    statement from memory): stages at L/D = 1.2 (L/D)min for the column of Examples 9-1 and
+    9-2 (saturated-vapour feed, toluene/cumene keys). The chain runs on our own Fenske and
+    Underwood results: Nmin = 3.77, (L/D)min = Vmin/D - 1 = 0.637. The book reads Liddle's
+    curve; Molokanov's form (ours) sits 1.0 stage above it here, inside the scatter of
+    Gilliland's stage-by-stage points about the curve (Wankat's Figure 9-3 shows them)."""
+    alpha = BTC_ALPHA / BTC_ALPHA[2]
+    n_min = fenske_minimum_stages(28.5, 1.5, 1.5, 28.5, alpha[1])
+    d = np.array([39.90, 28.5, 1.5])
+    v_min, _, _ = underwood_minimum_vapour(BTC_ALPHA, BTC_Z, 0.0, d, 1, 2)
+    r_min = v_min / d.sum() - 1.0
+    assert r_min == pytest.approx(0.637, abs=0.001)
+    reflux = 1.2 * r_min
+    n = stages_from_gilliland(n_min, r_min, reflux)
+    X = (reflux - r_min) / (reflux + 1.0)
+    y_liddle = liddle_gilliland(X)
+    n_liddle = (n_min + y_liddle) / (1.0 - y_liddle)
+    assert X == pytest.approx(0.0722, abs=1e-4)
+    assert n == pytest.approx(10.44, abs=0.01)
+    assert n_liddle == pytest.approx(9.40, abs=0.01)
+    assert abs(n - n_liddle) < 1.1
+
+
 @pytest.mark.parametrize("X", [0.01, 0.05, 0.1, 0.3, 0.5, 0.9])
 def test_gilliland_forms_agree(X):
     """Molokanov et al. (1972) and Eduljee (1975) fit the same chart of Gilliland (1940);

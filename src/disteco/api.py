@@ -91,7 +91,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                                      given.feed_stage, options, sizing, names[0])
         parts = _evaluation_parts(evaluation, data)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
-                            warnings=_warnings(evaluation.warnings, parts))
+                            warnings=_warnings(stages.shortcut.warnings + evaluation.warnings, parts))
     optima, curves = [], []
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
@@ -106,7 +106,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                           **_binary_parts(stages, best.best.reflux_ratio, case))
     extra = cross.below_zero() if cross is not None else ()
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
-                        warnings=_warnings(best.warnings + tuple(extra), parts))
+                        warnings=_warnings(stages.shortcut.warnings + best.warnings + tuple(extra), parts))
 
 
 def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:

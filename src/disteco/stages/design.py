@@ -9,6 +9,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from .._base.errors import ConvergenceError, InfeasibleSpecError
 from ..case import Column, Products
 from ..properties import FeedState, Mixture
 from .binary import (EquilibriumCurve, MinimumReflux, SteppedColumn, equilibrium_curve, minimum_reflux,
@@ -100,8 +101,16 @@ def design_stages(mixture: Mixture, feed: FeedState, products: Products, column:
         table = shortcut.table(REFLUX_FACTORS)
         point = shortcut.point(reflux_factor)
     if meet_specs:
-        profile = solve_to_specs(mixture, feed, products, column, shortcut, point.whole_stages,
-                                 point.feed_stage, energy, start_reflux=point.reflux_ratio)
+        try:
+            profile = solve_to_specs(mixture, feed, products, column, shortcut, point.whole_stages,
+                                     point.feed_stage, energy, start_reflux=point.reflux_ratio)
+        except ConvergenceError as failure:
+            if not shortcut.azeotrope_crossings:
+                raise
+            raise InfeasibleSpecError(
+                f"{shortcut.azeotrope_crossings[0]}, and no stage profile reaches the key specifications: "
+                "the azeotrope bounds the product; ask for a key-pair purity on the feed's side of it or "
+                "add a component that breaks it") from failure
     else:
         spec = ColumnSpec.from_column(column, point.whole_stages, point.feed_stage, point.reflux_ratio,
                                       shortcut.distillate_flow)

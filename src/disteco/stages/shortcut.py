@@ -18,7 +18,7 @@ from ..case import Column, Products
 from ..properties import FeedState, Mixture, find_azeotropes
 from .correlations import (fenske_minimum_stages, kirkbride_feed_stage, kirkbride_ratio,
                            stages_from_gilliland, underwood_minimum_vapour)
-from .splits import ProductSplit, check_binary_azeotropes, product_split
+from .splits import ProductSplit, check_binary_azeotropes, key_azeotrope_crossings, product_split
 
 STAGE_ESTIMATE = 2.0  # N ~ 2 Nmin for the bottom pressure estimate (common practice, no source)
 ALPHA_PASSES = 3  # volatility <-> product composition passes; the split changes < 1e-4 after 3
@@ -56,6 +56,14 @@ class ShortcutDesign:
     minimum_stages: float  # Fenske, reboiler included
     minimum_reflux: float  # Underwood
     underwood_roots: tuple[float, ...]
+    azeotrope_crossings: tuple[str, ...] = ()  # products beyond a key-pair azeotrope (multicomponent)
+
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        """What the engineer should know about the shortcut's specification."""
+        return tuple(f"{crossing}: the binary azeotrope of the keys is likely to pinch the column unless the "
+                     "other components move it; confirm with the stage profile"
+                     for crossing in self.azeotrope_crossings)
 
     @property
     def alpha_mean(self) -> tuple[float, ...]:
@@ -121,8 +129,9 @@ def minimum_reflux_underwood(alpha, z, q: float, split: ProductSplit) -> tuple[f
 def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, column: Column) -> ShortcutDesign:
     """Fenske minimum stages, Underwood minimum reflux and the product split for the case.
 
-    For a binary the products are checked against the azeotropes of the pair at the top
-    pressure.
+    The products are checked against the azeotropes of the key pair at the top pressure:
+    for a binary a product beyond one is refused; with more components it is a warning,
+    since a third component can move the azeotrope (extractive distillation).
     """
     z = np.asarray(feed.z, dtype=float)
     light, heavy = products.light_key, products.heavy_key
@@ -132,8 +141,9 @@ def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, colum
     P_bottom = P_top
     T_top = T_bottom = math.nan
     split = product_split(products, z, feed.molar_flow, alpha_feed)
-    if mixture.size == 2 and mixture.method != "ideal":
-        check_binary_azeotropes(split, z, find_azeotropes(mixture, P_top, light, heavy))
+    key_azeotropes = find_azeotropes(mixture, P_top, light, heavy) if mixture.method != "ideal" else []
+    if mixture.size == 2:
+        check_binary_azeotropes(split, z, key_azeotropes)
     for _ in range(ALPHA_PASSES):
         alpha_top, T_top = _alpha_at_bubble(mixture, P_top, split.distillate_composition, heavy)
         n_min = fenske_minimum_stages(split.distillate[light], split.bottoms[light], split.distillate[heavy],
@@ -148,4 +158,5 @@ def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, colum
     return ShortcutDesign(light, heavy, feed.molar_flow, feed.q, tuple(map(float, z)), split,
                           tuple(map(float, alpha_top)), tuple(map(float, alpha_bottom)),
                           tuple(map(float, alpha_feed)), float(T_top), float(T_bottom), P_top, P_bottom,
-                          float(n_min), r_min, roots)
+                          float(n_min), r_min, roots,
+                          key_azeotrope_crossings(split, z, key_azeotropes))

@@ -153,21 +153,38 @@ def product_split(products: Products, z, feed_flow: float, alpha) -> ProductSpli
     return ProductSplit(light, heavy, tuple(map(float, d)), tuple(map(float, f - d)))
 
 
-def check_binary_azeotropes(split: ProductSplit, z, azeotropes) -> None:
-    """Raise when a binary product lies across an azeotrope from the feed.
+def key_azeotrope_crossings(split: ProductSplit, z, azeotropes) -> tuple[str, ...]:
+    """Say which product lies across an azeotrope of the key pair from the feed.
 
     ``azeotropes`` are the properties layer's ``Azeotrope`` records of the key pair, with
-    ``x_first`` the light key's mole fraction. Ordinary distillation keeps both products
-    on the feed's side of every azeotrope.
+    ``x_first`` the light key's mole fraction in the binary. Products and feed are compared
+    on the key-pair basis, x_LK / (x_LK + x_HK): for a binary that is the mole fraction and
+    ordinary distillation keeps both products on the feed's side of every azeotrope. With
+    other components present the binary azeotrope only marks where the column is likely to
+    pinch (a heavy third component can move it, as in extractive distillation).
     """
-    light = split.light_key
-    z_light = z[light]
-    ends = {"distillate": split.distillate_composition[light], "bottoms": split.bottoms_composition[light]}
+    light, heavy = split.light_key, split.heavy_key
+
+    def key_basis(x) -> float:
+        return x[light] / (x[light] + x[heavy])
+
+    z_key = key_basis(z)
+    ends = {"distillate": key_basis(split.distillate), "bottoms": key_basis(split.bottoms)}
+    found = []
     for az in azeotropes:
         for name, x in ends.items():
-            if (x - az.x_first) * (z_light - az.x_first) <= 0.0:
-                raise InfeasibleSpecError(
-                    f"{name} light-key mole fraction {x:.6g} lies beyond the {az.kind} azeotrope of "
-                    f"{az.first} and {az.second} at {az.x_first:.4g} ({az.T - 273.15:.1f} degC, "
-                    f"{az.pressure / 1e5:.4g} bar) while the feed has {z_light:.4g}: ordinary distillation "
-                    "cannot cross an azeotrope; ask for a purity on the feed's side of it")
+            if (x - az.x_first) * (z_key - az.x_first) <= 0.0:
+                found.append(
+                    f"{name} light-key fraction of the key pair {x:.6g} lies beyond the {az.kind} azeotrope "
+                    f"of {az.first} and {az.second} at {az.x_first:.4g} ({az.T - 273.15:.1f} degC, "
+                    f"{az.pressure / 1e5:.4g} bar) while the feed has {z_key:.4g}")
+    return tuple(found)
+
+
+def check_binary_azeotropes(split: ProductSplit, z, azeotropes) -> None:
+    """Raise when a product of a two-component feed lies across an azeotrope from the feed."""
+    crossings = key_azeotrope_crossings(split, z, azeotropes)
+    if crossings:
+        raise InfeasibleSpecError(
+            f"{crossings[0]}: ordinary distillation cannot cross an azeotrope; ask for a purity on the "
+            "feed's side of it")

@@ -14,7 +14,7 @@ from disteco.costing.data import load_cost_data
 from disteco.optimisation.correlations import (capacity_factor_expr, cost_curve_expr, lmtd_expr,
                                                 mean_temperature_difference, vapour_density_expr)
 from disteco.optimisation.model import build_column_model, flooding_terms, initialise
-from disteco.optimisation.solve import run_solver, solve_configuration, solved_model, start_profile
+from disteco.optimisation.solve import attempts, run_solver, solve_configuration, solved_model, start_profile
 from disteco.optimisation.options import model_options
 from disteco.sizing.exchangers import log_mean_temperature_difference
 from disteco.sizing.flooding import (capacity_factor_lygeros_magoulas, flooding_diameter_smooth,
@@ -158,3 +158,26 @@ def test_iteration_limit_is_a_solver_error(problem, basis):
     initialise(m, start_profile(problem, 12, 6))
     with pytest.raises(SolverError, match="iteration"):
         run_solver(m, config)
+
+
+def test_attempt_plan_orders_strategies_and_caps_all_but_the_last():
+    """Each barrier strategy from the Gilliland start (quick cap), then the last one from the retry starts."""
+    config = model_options({"quick_iterations": 40, "max_iterations": 300})
+    assert attempts(config, None, retries=True) == [
+        (1.0, "monotone", 40), (1.0, "adaptive", 40), (1.5, "adaptive", 40), (3.0, "adaptive", 300)]
+    assert attempts(config, ("adaptive", "monotone"), retries=False) == [(1.0, "adaptive", 40), (1.0, "monotone", 300)]
+    assert attempts(model_options({"solver": "scip_direct"}), None, retries=False) == [(1.0, None, 300)]
+
+
+def test_unknown_barrier_strategy_is_refused_by_name():
+    with pytest.raises(ValueError, match="barrier_strategies: \\['fast'\\] not among"):
+        model_options({"barrier_strategies": ("monotone", "fast")})
+
+
+@pytest.mark.parametrize("strategy", ["monotone", "adaptive"])
+def test_both_barrier_strategies_reach_the_same_optimum(problem, basis, solved, strategy):
+    """The optimum of one configuration does not depend on the barrier strategy that found it."""
+    model, report = solved_model(problem, basis, 18, 9, {"max_stages": MAX, "barrier_strategies": (strategy,)})
+    assert report.barrier == strategy
+    assert pyo.value(model.tac) == pytest.approx(pyo.value(solved.tac), rel=1e-6)
+    assert pyo.value(model.R) == pytest.approx(pyo.value(solved.R), rel=1e-4)

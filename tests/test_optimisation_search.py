@@ -80,7 +80,9 @@ def test_time_limit_without_a_design_is_a_solver_error(problem, cheap_steam):
 def test_case_level_optimum_and_evaluation_agree():
     """optimise_design on the benzene-toluene example, then evaluate_design at its R, N, NF, gives
     the same TAC (the same model with the decisions fixed) and a sequential price from the
-    sizing and costing layers within 5 % of the model's TAC (drum, pump and diameter rounding)."""
+    sizing and costing layers within 1 % of the model's TAC (measured 0.41 %: the sizing layer
+    rounds the diameter up to its increment). The model's reflux drum and pump cost within 2 %
+    of the costing layer's, and its pump electricity within 5 % (pump efficiency frozen)."""
     case, mixture, feed = example("aromatics_binary")
     data = load_cost_data()
     options = {"max_stages": 40}
@@ -88,8 +90,14 @@ def test_case_level_optimum_and_evaluation_agree():
     best = found.best
     priced = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages, best.feed_stage, options)
     assert priced.tac == pytest.approx(best.tac, rel=1e-4)
-    assert found.sequential.cost.tac_per_year == pytest.approx(best.tac, rel=0.05)
+    assert found.sequential.cost.tac_per_year == pytest.approx(best.tac, rel=0.01)
     assert priced.sizes.real_trays == found.sequential.sizing.real_trays
+    model_items = {item.name: item.installed for item in best.cost.items}
+    layer_items = {item.item: item.installed for item in found.sequential.cost.items}
+    for name in ("reflux drum", "reflux pump"):
+        assert model_items[name] == pytest.approx(layer_items[name], rel=0.02)
+    (electricity,) = [u.cost_per_year for u in found.sequential.cost.utilities if u.item == "reflux pump"]
+    assert best.cost.pump_electricity_per_year == pytest.approx(electricity, rel=0.05)
 
 
 def test_reflux_at_minimum_is_infeasible_in_words():

@@ -72,7 +72,7 @@ def cost_equipment(data: CostData, item: str, equipment: str, size: float, cost_
     warnings = [w if w.startswith(item) else f"{item}: {w}" for w in warnings]
     purchased = units * count * quantity_factor * unit_cost
     material_row = data.material_factor(curve.material_group, material)
-    pressure_factor = _pressure_factor(data, curve.pressure_group, pressure_gauge, diameter, item, warnings)
+    pressure_factor = pressure_factor_of(data, curve.pressure_group, pressure_gauge, diameter, item, warnings)
     bare = data.bare_module(curve.bare_module_group)
     f_bm = bare_module_factor(bare.b1, bare.b2, material_row.factor, pressure_factor)
     escalated = escalate(purchased, curve.base_index, cost_index)
@@ -91,8 +91,9 @@ def cost_trays(data: CostData, item: str, equipment: str, tray_area: float, tray
                           quantity_factor=data.tray_quantity.factor(trays), policy=policy)
 
 
-def _pressure_factor(data: CostData, group: str, pressure_gauge: float, diameter: float | None, item: str,
-                     warnings: list[str]) -> float:
+def pressure_factor_of(data: CostData, group: str, pressure_gauge: float, diameter: float | None, item: str,
+                       warnings: list[str]) -> float:
+    """F_P [-] of a pressure group; vessels need their ``diameter`` [m]; warnings are prefixed by ``item``."""
     record = data.pressure_curve(group)
     if record is None:
         return 1.0

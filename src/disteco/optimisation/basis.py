@@ -138,6 +138,26 @@ class TrayBasis:
 
 
 @dataclass(frozen=True)
+class CondensateBasis:
+    """Reflux drum and reflux pump on the condensate (reflux plus liquid distillate).
+
+    The condensate's molar volume, the pump's efficiency and the head beyond the shell's
+    tangent length are frozen at the reference design; the flow moves with the decisions.
+    Drum volume = Q t_hold / fill; pump shaft power = rho g Q H / eta, drawn as electricity.
+    """
+
+    liquid_molar_volume: float  # m^3/mol
+    liquid_density: float  # kg/m^3
+    holdup_time: float  # s
+    fill_fraction: float  # [-]
+    pump_efficiency: float  # [-]
+    head_beyond_shell: float  # m, pump head minus the shell's tangent length
+    drum: CostCurve  # size: m^3
+    pump: CostCurve  # size: kW of shaft power
+    electricity_price: float  # currency/J
+
+
+@dataclass(frozen=True)
 class CostBasis:
     """Everything the TAC needs beyond the stages: sizing numbers, curves, prices, annualisation."""
 
@@ -151,6 +171,7 @@ class CostBasis:
     currency: str = "USD"
     cost_year: int = 0
     tray_quantity: object | None = None  # has .factor(trays) -> F_q [-]; None means F_q = 1
+    condensate: CondensateBasis | None = None  # reflux drum and pump; None leaves them out of the TAC
 
     def tray_quantity_factor(self, trays: int) -> float:
         """Quantity factor of ``trays`` identical trays [-]."""

@@ -15,6 +15,7 @@ from __future__ import annotations
 import math
 
 import pyomo.environ as pyo
+from scipy.constants import g as GRAVITY
 
 from .basis import CostBasis, SeparationProblem
 from .correlations import (capacity_factor_expr, cost_curve_expr, lmtd_expr, vapour_density_expr)
@@ -256,14 +257,33 @@ def _add_costs(m) -> None:
                                   * b.tray_cost.installed_factor)
     m.cost_condenser = pyo.Expression(expr=cost_curve_expr(cond.curve, m.condenser_area) * cond.curve.installed_factor)
     m.cost_reboiler = pyo.Expression(expr=cost_curve_expr(reb.curve, m.reboiler_area) * reb.curve.installed_factor)
-    m.capital = pyo.Expression(expr=m.cost_shell + m.cost_trays + m.cost_condenser + m.cost_reboiler)
+    _add_condensate(m)
+    m.capital = pyo.Expression(expr=m.cost_shell + m.cost_trays + m.cost_condenser + m.cost_reboiler
+                               + m.cost_drum + m.cost_pump)
     seconds = b.operating_hours * SECONDS_PER_HOUR
-    m.utilities = pyo.Expression(expr=(m.Qc * cond.price + m.Qr * reb.price) * KILO * seconds)
+    m.utilities = pyo.Expression(expr=(m.Qc * cond.price + m.Qr * reb.price) * KILO * seconds
+                                 + m.pump_power * m.electricity_price * seconds)
     m.tac = pyo.Expression(expr=b.annualisation * m.capital + m.utilities)
     m.penalty = pyo.Param(mutable=True, initialize=m.config.shortfall_penalty,
                           doc="objective charge per unit relative shortfall [thousand currency/yr]")
     m.objective = pyo.Objective(
         expr=m.tac / TAC_SCALE + m.penalty * sum(m.shortfall[k] for k in m.shortfall), sense=pyo.minimize)
+
+
+def _add_condensate(m) -> None:
+    """Reflux drum and pump on the condensate V_1 = (R + 1) D of the total condenser (zero without a basis)."""
+    c = m.basis.condensate
+    if c is None:
+        m.drum_volume = m.pump_power = m.cost_drum = m.cost_pump = m.electricity_price = 0.0
+        return
+    volume_flow = m.V[1] * c.liquid_molar_volume
+    m.drum_volume = pyo.Expression(expr=volume_flow * c.holdup_time / c.fill_fraction, doc="[m^3]")
+    m.pump_power = pyo.Expression(
+        expr=c.liquid_density * GRAVITY * volume_flow * (m.height + c.head_beyond_shell) / c.pump_efficiency,
+        doc="shaft power [W]")
+    m.cost_drum = pyo.Expression(expr=cost_curve_expr(c.drum, m.drum_volume) * c.drum.installed_factor)
+    m.cost_pump = pyo.Expression(expr=cost_curve_expr(c.pump, m.pump_power / KILO) * c.pump.installed_factor)
+    m.electricity_price = c.electricity_price
 
 
 # ------------------------------------------------------------------ initialisation

@@ -15,18 +15,21 @@ from __future__ import annotations
 
 from .._base.units import ATMOSPHERE
 from ..costing.column import cost_column, resolve_cost_year
+from ..costing.curves import bare_module_factor
 from ..costing.data import CostData
+from ..costing.equipment import pressure_factor_of
+from ..costing.operating import ELECTRICITY
 from ..costing.from_sizing import cost_input
 from ..sizing.column import ColumnSizing, size_column
 from ..sizing.exchangers import choose_utility
 from ..sizing.flooding import lygeros_magoulas_constants
 from ..sizing.options import SizingOptions
 from ..stages.results import StageProfile
-from .basis import CostBasis, CostCurve, ExchangerBasis, SeparationProblem, TrayBasis
+from .basis import CondensateBasis, CostBasis, CostCurve, ExchangerBasis, SeparationProblem, TrayBasis
 from .results import DesignEvaluation, SequentialPrice
 from .start import Profile
 
-SHELL, TRAYS = "vertical_vessel", "sieve_tray"
+SHELL, TRAYS, DRUM, PUMP = "vertical_vessel", "sieve_tray", "horizontal_vessel", "centrifugal_pump"
 CONDENSER, REBOILER = "fixed_tube_sheet_exchanger", "kettle_reboiler"
 EXCHANGER_MATERIAL = "CS/CS"
 
@@ -73,13 +76,31 @@ def _curve(data: CostData, item: str, name: str, index: float, installed_factor:
                      c.size_max, index / c.base_index, installed_factor, c.source)
 
 
-def _exchanger_factor(data: CostData, item: str, pressure_gauge: float, warnings: list[str]) -> float:
+def _installed_factor(data: CostData, item: str, material: str, pressure_gauge: float, warnings: list[str],
+                      diameter: float | None = None, label: str | None = None) -> float:
+    """Bare-module factor F_BM = B1 + B2 F_M F_P of ``item`` as the costing layer computes it [-]."""
     c = data.curve(item)
-    record = data.pressure_curve(c.pressure_group)
-    f_p = record.factor(pressure_gauge, warnings) if record is not None else 1.0
+    f_p = pressure_factor_of(data, c.pressure_group, pressure_gauge, diameter, label or item, warnings)
     bare = data.bare_module(c.bare_module_group)
-    f_m = data.material_factor(c.material_group, EXCHANGER_MATERIAL).factor
-    return bare.b1 + bare.b2 * f_m * f_p
+    return bare_module_factor(bare.b1, bare.b2, data.material_factor(c.material_group, material).factor, f_p)
+
+
+def condensate_basis(data: CostData, ref: ColumnSizing, profile: StageProfile, scenario: str, index: float,
+                     warnings: list[str]) -> CondensateBasis:
+    """Reflux drum and pump numbers frozen at the reference sizing ``ref`` of ``profile`` (total condenser)."""
+    drum, pump = ref.reflux_drum, ref.reflux_pump
+    gauge = ref.vessel.design_pressure
+    inputs = cost_input(ref)
+    molar_flow = (profile.reflux_ratio + 1.0) * profile.distillate_flow  # reflux and liquid distillate
+    return CondensateBasis(
+        liquid_molar_volume=drum.liquid_volume_flow / molar_flow, liquid_density=pump.density,
+        holdup_time=drum.holdup_time, fill_fraction=drum.fill_fraction, pump_efficiency=pump.efficiency,
+        head_beyond_shell=pump.head - ref.height.tangent_length,
+        drum=_curve(data, DRUM, "reflux drum", index,
+                    _installed_factor(data, DRUM, inputs.drum_material, gauge, warnings, drum.diameter, "reflux drum")),
+        pump=_curve(data, PUMP, "reflux pump", index,
+                    _installed_factor(data, PUMP, inputs.pump_material, gauge, warnings, label="reflux pump")),
+        electricity_price=data.price_per_joule(scenario, ELECTRICITY))
 
 
 def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options: SizingOptions = SizingOptions(),
@@ -95,13 +116,6 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
     ref = size_column(profile, mixture, data.levels, u_c, u_r, options)
     warnings.extend(ref.warnings)
     vessel = ref.vessel
-    shell_curve = data.curve(SHELL)
-    f_p = data.pressure_curve(shell_curve.pressure_group).factor(vessel.design_pressure, ref.diameter, warnings)
-    f_m = data.material_factor(shell_curve.material_group, vessel.material_class).factor
-    bare = data.bare_module(shell_curve.bare_module_group)
-    tray_curve = data.curve(TRAYS)
-    tray_bare = data.bare_module(tray_curve.bare_module_group)
-    tray_f_m = data.material_factor(tray_curve.material_group, vessel.material_class).factor
     height = ref.height
     trays = TrayBasis(
         tray_spacing=options.tray_spacing, flooding_fraction=options.flood_fraction,
@@ -112,21 +126,27 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
     top_gauge = max(profile.P[0] - ATMOSPHERE, 0.0)
     cond_gauge = max(top_gauge, (condenser.pressure or ATMOSPHERE) - ATMOSPHERE)
     reb_gauge = max(vessel.design_pressure, (reboiler.pressure or ATMOSPHERE) - ATMOSPHERE)
+    tray_curve = data.curve(TRAYS)
+    tray_bare = data.bare_module(tray_curve.bare_module_group)
+    tray_f_m = data.material_factor(tray_curve.material_group, vessel.material_class).factor
     basis = CostBasis(
         trays=trays,
-        shell=_curve(data, SHELL, "column shell", index, bare.b1 + bare.b2 * f_m * f_p),
+        shell=_curve(data, SHELL, "column shell", index,
+                     _installed_factor(data, SHELL, vessel.material_class, vessel.design_pressure, warnings,
+                                       ref.diameter, "column shell")),
         tray_cost=_curve(data, TRAYS, "trays", index, tray_bare.b1 + tray_bare.b2 * tray_f_m),
         condenser=ExchangerBasis(u_c, condenser.supply_temperature, condenser.return_temperature,
                                  options.min_approach, data.price_per_joule(scenario, condenser.name),
                                  _curve(data, CONDENSER, "condenser", index,
-                                        _exchanger_factor(data, CONDENSER, cond_gauge, warnings))),
+                                        _installed_factor(data, CONDENSER, EXCHANGER_MATERIAL, cond_gauge, warnings))),
         reboiler=ExchangerBasis(u_r, reboiler.supply_temperature, reboiler.return_temperature,
                                 options.min_approach, data.price_per_joule(scenario, reboiler.name),
                                 _curve(data, REBOILER, "reboiler", index,
-                                       _exchanger_factor(data, REBOILER, reb_gauge, warnings))),
+                                       _installed_factor(data, REBOILER, EXCHANGER_MATERIAL, reb_gauge, warnings))),
         annualisation=data.settings.capital_charge_factor(),
         operating_hours=data.settings.operating_hours_per_year,
-        currency=data.settings.currency, cost_year=year, tray_quantity=data.tray_quantity)
+        currency=data.settings.currency, cost_year=year, tray_quantity=data.tray_quantity,
+        condensate=condensate_basis(data, ref, profile, scenario, index, warnings))
     return basis, warnings
 
 

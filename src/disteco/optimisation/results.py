@@ -41,6 +41,7 @@ class CostBreakdown:
     tac_per_year: float
     currency: str
     cost_year: int
+    pump_electricity_per_year: float = 0.0
 
 
 @dataclass(frozen=True)
@@ -69,6 +70,7 @@ class SolverReport:
     wall_time: float  # s
     configurations_solved: int = 1
     message: str = ""
+    barrier: str = ""  # interior-point barrier strategy of the successful try ("" for other solvers)
 
 
 @dataclass(frozen=True)

@@ -46,6 +46,7 @@ class Evaluator:
     deadline: float
     designs: dict = field(default_factory=dict)
     steps: list = field(default_factory=list)
+    strategies: tuple = ()  # barrier strategies, the one that last worked first
 
     low: int = 3
 
@@ -65,11 +66,15 @@ class Evaluator:
             raise TimeoutError
         try:
             tac, _, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
-                                               time_limit=min(remaining, self.config.configuration_time_limit))
+                                               time_limit=min(remaining, self.config.configuration_time_limit),
+                                               strategies=self.strategies or None)
         except (InfeasibleSpecError, SolverError, ConvergenceError) as exc:
             self.steps.append(SearchStep(stages, feed_stage, None, f"{type(exc).__name__}: {exc}"))
             return float("inf")
         self.steps.append(SearchStep(stages, feed_stage, tac, report.status))
+        if report.barrier:
+            order = self.strategies or tuple(self.config.barrier_strategies)
+            self.strategies = (report.barrier,) + tuple(b for b in order if b != report.barrier)
         return tac
 
     def best(self) -> tuple[int, int] | None:
@@ -230,7 +235,7 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
         raise InfeasibleSpecError(
             f"no column with {config.min_stages} to {config.max_stages} stages meets the product specifications "
             f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}); tried {tried}")
-    model, local = solved_model(problem, basis, *chosen, config)
+    model, local = solved_model(problem, basis, *chosen, config, strategies=evaluator.strategies or None)
     best = read_design(model, local)
     gap, message = None, ""
     if config.certify:

@@ -29,23 +29,27 @@ STOPPED = {TC.maxIterations: "iteration limit", TC.maxTimeLimit: "time limit",
            TC.maxEvaluations: "evaluation limit"}
 
 
-def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap: float):
-    """A Pyomo solver with the limits set in its own option names."""
+def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap: float,
+                barrier: str | None = None):
+    """A Pyomo solver with the limits (and an interior-point ``barrier`` strategy) in its own option names."""
     solver = pyo.SolverFactory(name)
     if not solver.available(exception_flag=False):
         raise SolverError(f"solver {name!r} is not available; the default 'ripopt' installs with pyomo-ripopt")
     if name in ("ripopt", "ipopt"):
         solver.options["max_iter"] = max_iterations
         solver.options["max_wall_time" if name == "ripopt" else "max_cpu_time"] = max(time_limit, 1.0)
+        if barrier:
+            solver.options["mu_strategy"] = barrier
     elif name.startswith("scip"):
         solver.options["limits/time"] = max(time_limit, 1.0)
         solver.options["limits/gap"] = relative_gap
     return solver
 
 
-def _timed_solve(model, config, name: str, time_limit: float, failure: str):
+def _timed_solve(model, config, name: str, time_limit: float, failure: str, barrier: str | None = None,
+                 iterations: int | None = None):
     """Solve without loading; return (results, wall time [s]); a solver crash becomes a SolverError."""
-    solver = make_solver(name, time_limit, config.max_iterations, config.relative_gap)
+    solver = make_solver(name, time_limit, iterations or config.max_iterations, config.relative_gap, barrier)
     start = time.perf_counter()
     try:
         results = solver.solve(model, tee=config.tee, load_solutions=False)
@@ -54,11 +58,12 @@ def _timed_solve(model, config, name: str, time_limit: float, failure: str):
     return results, time.perf_counter() - start
 
 
-def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None) -> SolverReport:
+def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None,
+               barrier: str | None = None, iterations: int | None = None) -> SolverReport:
     """Solve ``model``; return the report or raise our errors (never pass a failure on silently)."""
     name = solver_name or config.solver
     limit = config.configuration_time_limit if time_limit is None else time_limit
-    results, wall = _timed_solve(model, config, name, limit, "failed on")
+    results, wall = _timed_solve(model, config, name, limit, "failed on", barrier, iterations)
     tc = results.solver.termination_condition
     if tc in OK or (tc in STOPPED and name.startswith("scip") and len(results.solution) > 0):
         status = OK.get(tc, STOPPED.get(tc, str(tc)))
@@ -67,7 +72,7 @@ def run_solver(model, config, time_limit: float | None = None, solver_name: str 
             results.solver.status = SolverStatus.ok
         model.solutions.load_from(results)
         gap = _gap(results)
-        return SolverReport(name, status, str(tc), gap, wall)
+        return SolverReport(name, status, str(tc), gap, wall, barrier=barrier or "")
     if tc in INFEASIBLE:
         raise InfeasibleSpecError(f"{model.name}: no design meets the product specifications "
                                   f"within the reflux range ({name}: {tc})")
@@ -122,29 +127,53 @@ def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, refl
     raise ConvergenceError(f"no start profile for {stages} stages, feed stage {feed_stage}")
 
 
+def attempts(config, strategies: tuple[str, ...] | None, retries: bool) -> list[tuple[float, str | None, int]]:
+    """(start reflux factor, barrier strategy, iteration limit) of each try on one configuration.
+
+    Each strategy in turn from the Gilliland start, then the last one from the retry
+    starts. Every try but the last stops at ``quick_iterations``: a strategy that is
+    going to converge does so quickly (measured, see DEVELOPERS.md), one that is not only
+    burns time. Barrier strategies apply to interior-point solvers only.
+    """
+    if config.solver not in ("ripopt", "ipopt"):
+        strategies = (None,)
+    order = tuple(strategies or config.barrier_strategies)
+    plan = [(1.0, strategy) for strategy in order]
+    if retries:
+        plan += [(factor, order[-1]) for factor in RETRY_REFLUX_FACTORS]
+    quick = min(config.quick_iterations, config.max_iterations)
+    return [(factor, strategy, quick if k < len(plan) - 1 else config.max_iterations)
+            for k, (factor, strategy) in enumerate(plan)]
+
+
 def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int, options=None,
                  start: Profile | None = None, fixed_reflux: float | None = None,
-                 time_limit: float | None = None) -> tuple[pyo.ConcreteModel, SolverReport]:
+                 time_limit: float | None = None,
+                 strategies: tuple[str, ...] | None = None) -> tuple[pyo.ConcreteModel, SolverReport]:
     """Build, initialise and solve one configuration; return the solved model and its report.
 
-    Without a given start, a solver stop (iteration or time limit) is retried from profiles
-    at 1.5 and 3 times the start reflux: which start lets ripopt converge is erratic
-    (measured: ethanol-water, 39 stages, feed on 20: stalled from the Gilliland reflux,
-    0.8 s from twice it; three components, 31 stages, feed on 13: converged from 0.8, 1.5,
-    3 and 4 times, stalled from 1 and 2 times).
+    The tries are listed by :func:`attempts`; ``strategies`` orders the barrier strategies
+    (the search passes the one that last worked first). Without a given start, a stalled
+    solve is also retried from profiles at 1.5 and 3 times the start reflux: which start
+    lets ripopt converge is erratic (measured: ethanol-water, 39 stages, feed on 20:
+    stalled from the Gilliland reflux, 0.8 s from twice it; three components, 31 stages,
+    feed on 13: converged from 0.8, 1.5, 3 and 4 times, stalled from 1 and 2 times).
     """
     config = model_options(options)
-    factors = (1.0,) if start is not None or fixed_reflux is not None else (1.0,) + RETRY_REFLUX_FACTORS
-    for attempt, factor in enumerate(factors):
+    plan = attempts(config, strategies, retries=start is None and fixed_reflux is None)
+    profiles = {}
+    for attempt, (factor, barrier, iterations) in enumerate(plan):
         model = build_column_model(problem, basis, stages, feed_stage, config)
-        initialise(model, start or start_profile(problem, stages, feed_stage, fixed_reflux, factor=factor))
+        if factor not in profiles:
+            profiles[factor] = start or start_profile(problem, stages, feed_stage, fixed_reflux, factor=factor)
+        initialise(model, profiles[factor])
         if fixed_reflux is not None:
             model.R.fix(fixed_reflux)
         try:
-            report = run_solver(model, config, time_limit)
+            report = run_solver(model, config, time_limit, barrier=barrier, iterations=iterations)
             break
         except SolverError:
-            if attempt == len(factors) - 1:
+            if attempt == len(plan) - 1:
                 raise
     missed = shortfall(model)
     if missed > config.shortfall_tolerance:
@@ -157,15 +186,18 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
 
 def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
                         options=None, start: Profile | None = None, fixed_reflux: float | None = None,
-                        time_limit: float | None = None) -> DesignEvaluation:
+                        time_limit: float | None = None, strategies: tuple[str, ...] | None = None) -> DesignEvaluation:
     """Lowest-TAC design of one configuration (or the priced design at ``fixed_reflux``)."""
-    return read_design(*solved_model(problem, basis, stages, feed_stage, options, start, fixed_reflux, time_limit))
+    return read_design(*solved_model(problem, basis, stages, feed_stage, options, start, fixed_reflux, time_limit,
+                                     strategies))
 
 
 def configuration_tac(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
-                      options=None, time_limit: float | None = None) -> tuple[float, float, SolverReport]:
+                      options=None, time_limit: float | None = None,
+                      strategies: tuple[str, ...] | None = None) -> tuple[float, float, SolverReport]:
     """(TAC [currency/yr], reflux ratio [-], report) of one configuration, without the full read-back."""
-    model, report = solved_model(problem, basis, stages, feed_stage, options, time_limit=time_limit)
+    model, report = solved_model(problem, basis, stages, feed_stage, options, time_limit=time_limit,
+                                 strategies=strategies)
     return pyo.value(model.tac), pyo.value(model.R), report
 
 
@@ -197,13 +229,19 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
         _item(b.condenser.curve, sizes.condenser_area, v(m.cost_condenser), 1),
         _item(b.reboiler.curve, sizes.reboiler_area, v(m.cost_reboiler), 1),
     )
+    curves = (b.shell, b.tray_cost, b.condenser.curve, b.reboiler.curve)
+    if b.condensate is not None:
+        items += (_item(b.condensate.drum, v(m.drum_volume), v(m.cost_drum), 1),
+                  _item(b.condensate.pump, v(m.pump_power) / KILO, v(m.cost_pump), 1))
+        curves += (b.condensate.drum, b.condensate.pump)
     seconds = b.operating_hours * SECONDS_PER_HOUR
     capital = v(m.capital)
     cond_utility = sizes.condenser_duty * b.condenser.price * seconds
     reb_utility = sizes.reboiler_duty * b.reboiler.price * seconds
-    cost = CostBreakdown(items, capital, cond_utility, reb_utility, cond_utility + reb_utility,
-                         b.annualisation * capital, v(m.tac), b.currency, b.cost_year)
-    warnings = tuple(_range_warnings(items, b))
+    pump_utility = v(m.pump_power) * v(m.electricity_price) * seconds
+    cost = CostBreakdown(items, capital, cond_utility, reb_utility, cond_utility + reb_utility + pump_utility,
+                         b.annualisation * capital, v(m.tac), b.currency, b.cost_year, pump_utility)
+    warnings = tuple(_range_warnings(items, curves))
     return DesignEvaluation(m.N, m.NF, v(m.R), profile, sizes, cost, report, warnings)
 
 
@@ -213,8 +251,7 @@ def _item(curve, size: float, installed: float, count: int) -> CostItem:
                     installed / curve.installed_factor, installed)
 
 
-def _range_warnings(items, basis: CostBasis) -> list[str]:
-    curves = (basis.shell, basis.tray_cost, basis.condenser.curve, basis.reboiler.curve)
+def _range_warnings(items, curves) -> list[str]:
     notes = []
     for item, curve in zip(items, curves):
         if not curve.size_min <= item.size <= curve.size_max:

@@ -27,7 +27,7 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError
 from .basis import SeparationProblem
 
 PROFILE_TOLERANCE = 1e-6  # K, largest stage temperature change at convergence
-PROFILE_ITERATIONS = 1000
+PROFILE_ITERATIONS = 300
 MAX_START_REFLUX_FACTOR = 20.0  # near the minimum stages Gilliland's reflux runs away; a start needs less
 DAMPING = 0.5  # share of the new compositions taken each pass; undamped passes cycle on non-ideal liquids
 

@@ -115,7 +115,7 @@ def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
                Column("Condenser duty", "kW", "#,##0"), Column("Reboiler duty", "kW", "#,##0"),
                Column("Installed capital", currency, MONEY), _money("Annualised capital", currency),
                _money("Condenser utility", currency), _money("Reboiler utility", currency),
-               _money("Utilities", currency), _money("TAC", currency), text("Solver status", 18.0),
+               _money("Pump electricity", currency), _money("Utilities", currency), _money("TAC", currency), text("Solver status", 18.0),
                text("Condenser utility", 18.0), Column("Condenser utility amount", "per year, unit in next column",
                                                         MONEY, 18.0), text("Unit", 8.0),
                text("Reboiler utility", 18.0), Column("Reboiler utility amount", "per year, unit in next column",
@@ -126,7 +126,8 @@ def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
         rows.append((name, b.reflux_ratio, b.reflux_ratio / opt.minimum_reflux_ratio, b.stages, b.feed_stage,
                      b.sizes.real_trays, b.sizes.diameter, b.sizes.height, b.sizes.condenser_duty / KW,
                      b.sizes.reboiler_duty / KW, b.cost.capital_installed, b.cost.annualised_capital_per_year,
-                     b.cost.condenser_utility_per_year, b.cost.reboiler_utility_per_year, b.cost.utilities_per_year,
+                     b.cost.condenser_utility_per_year, b.cost.reboiler_utility_per_year,
+                     b.cost.pump_electricity_per_year, b.cost.utilities_per_year,
                      b.cost.tac_per_year, opt.solver.status)
                     + _utility_amount(opt, "condenser") + _utility_amount(opt, "reboiler"))
     return Table("Optimum design of each price scenario", columns, tuple(rows))

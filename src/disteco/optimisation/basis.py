@@ -36,6 +36,7 @@ class SeparationProblem:
     light_key_spec: EndSpec  # recovery to the distillate, or mole fraction in the bottoms
     heavy_key_spec: EndSpec  # recovery to the bottoms, or mole fraction in the distillate
     subcooling: float = 0.0  # K below the distillate bubble point
+    partial_condenser: bool = False  # vapour distillate; the condenser is one more equilibrium contact
 
     def pressure(self, stage: int) -> float:
         """Pressure of ``stage`` [Pa]."""

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from .._base.errors import CaseError, InfeasibleSpecError
+from .._base.errors import InfeasibleSpecError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
@@ -27,15 +27,13 @@ from .start import shortcut
 def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int) -> SeparationProblem:
     """The process side of ``case``, with forms fitted from the top pressure to ``max_stages`` stages down."""
     column = case.column
-    if column.condenser != "total":
-        raise CaseError("column.condenser", f"{column.condenser!r}: the optimiser models a total condenser only",
-                        "total (or evaluate a partial-condenser design with the stages layer)")
     P_top = column.top_pressure
     P_bottom = P_top + max_stages * column.pressure_drop_per_stage
     problem = SeparationProblem(
         fit_mixture(mixture, P_top, P_bottom, z=feed.z), feed.molar_flow, tuple(feed.z), feed.q, P_top,
         column.pressure_drop_per_stage, case.products.light_key, case.products.heavy_key,
-        case.products.light_key_spec, case.products.heavy_key_spec, column.subcooling)
+        case.products.light_key_spec, case.products.heavy_key_spec, column.subcooling,
+        column.condenser == "partial")
     check_problem(problem)
     return problem
 

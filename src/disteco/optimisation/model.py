@@ -20,7 +20,7 @@ from scipy.constants import g as GRAVITY
 from .basis import CostBasis, SeparationProblem
 from .correlations import (capacity_factor_expr, cost_curve_expr, lmtd_expr, vapour_density_expr)
 from .options import model_options
-from .start import Profile
+from .start import Profile, partial_condenser_split
 
 KILO = 1e3
 TAC_SCALE = 1e3  # objective in thousands of currency per year
@@ -65,6 +65,8 @@ def _add_stages(m) -> None:
     m.V = pyo.Var(m.J, bounds=(FLOW_FLOOR * F, flow_max), initialize=F, doc="vapour leaving [mol/s]")
     m.P = {j: p.pressure(j) for j in m.J}
     m.reflux = pyo.Expression(expr=m.R * m.D)
+    if p.partial_condenser:
+        _add_partial_condenser(m)
 
     def ln_k(j):
         return f.ln_k(m.T[j], m.P[j], [m.x[j, i] for i in m.C], exp=pyo.exp, log=pyo.log)
@@ -74,12 +76,16 @@ def _add_stages(m) -> None:
     m.summation = pyo.Constraint(m.J, rule=summation_rule)
     m.component_balance = pyo.Constraint(m.J, m.C, rule=component_balance_rule)
     m.condenser_balance = pyo.Constraint(expr=m.V[1] == (m.R + 1.0) * m.D)
-    lnk_d = f.ln_k(m.TD, p.top_pressure, [m.y[1, i] for i in m.C], exp=pyo.exp, log=pyo.log)
-    m.distillate_bubble = pyo.Constraint(expr=sum(m.y[1, i] * pyo.exp(lnk_d[i]) for i in m.C) == 1.0)
+    if not p.partial_condenser:
+        lnk_d = f.ln_k(m.TD, p.top_pressure, [m.y[1, i] for i in m.C], exp=pyo.exp, log=pyo.log)
+        m.distillate_bubble = pyo.Constraint(expr=sum(m.y[1, i] * pyo.exp(lnk_d[i]) for i in m.C) == 1.0)
     m.hL = pyo.Expression(m.J, rule=lambda m, j: f.liquid_enthalpy_of(m.T[j], [m.x[j, i] for i in m.C]) / KILO)
     m.hV = pyo.Expression(m.J, rule=lambda m, j: f.vapour_enthalpy_of(m.T[j], [m.y[j, i] for i in m.C]) / KILO)
     m.h_reflux = pyo.Expression(
-        expr=f.liquid_enthalpy_of(m.TD - p.subcooling, [m.y[1, i] for i in m.C]) / KILO)
+        expr=f.liquid_enthalpy_of(m.TD - p.subcooling, [reflux_x(m, i) for i in m.C]) / KILO)
+    m.h_distillate = pyo.Expression(
+        expr=f.vapour_enthalpy_of(m.TD, [distillate_y(m, i) for i in m.C]) / KILO if p.partial_condenser
+        else m.h_reflux)
     m.h_feed = p.feed_enthalpy() / KILO
     m.Qr = pyo.Var(bounds=(0.0, flow_max * _latent_bound(f)), initialize=1.0, doc="reboiler duty [kW]")
     m.Qc = pyo.Var(bounds=(0.0, flow_max * _latent_bound(f)), initialize=1.0, doc="condenser duty [kW]")
@@ -89,6 +95,29 @@ def _add_stages(m) -> None:
     else:
         m.cmo_balance = pyo.Constraint(m.J, rule=cmo_balance_rule)
         m.reboiler_duty = pyo.Constraint(expr=m.Qr == m.V[m.N] * (m.hV[m.N] - m.hL[m.N]))
+
+
+def _add_partial_condenser(m) -> None:
+    """The condenser as an equilibrium contact at TD: vapour distillate yD over liquid reflux xD."""
+    p, f = m.problem, m.problem.fitted
+    m.xD = pyo.Var(m.C, bounds=(0.0, 1.0), initialize=1.0 / f.size, doc="reflux liquid [-]")
+    m.yD = pyo.Var(m.C, bounds=(0.0, 1.0), initialize=1.0 / f.size, doc="distillate vapour [-]")
+    lnk = f.ln_k(m.TD, p.top_pressure, [m.xD[i] for i in m.C], exp=pyo.exp, log=pyo.log)
+    m.condenser_equilibrium = pyo.Constraint(m.C, rule=lambda m, i: m.yD[i] == pyo.exp(lnk[i]) * m.xD[i])
+    m.condenser_sum_x = pyo.Constraint(expr=sum(m.xD[i] for i in m.C) == 1.0)
+    m.condenser_summation = pyo.Constraint(expr=sum(m.yD[i] - m.xD[i] for i in m.C) == 0.0)
+    m.condenser_component = pyo.Constraint(
+        m.C, rule=lambda m, i: m.V[1] * m.y[1, i] == m.D * m.yD[i] + m.reflux * m.xD[i])
+
+
+def reflux_x(m, i):
+    """Reflux composition: the condenser liquid (partial) or the top vapour condensed (total)."""
+    return m.xD[i] if m.problem.partial_condenser else m.y[1, i]
+
+
+def distillate_y(m, i):
+    """Distillate composition: the condenser vapour (partial) or the top vapour condensed (total)."""
+    return m.yD[i] if m.problem.partial_condenser else m.y[1, i]
 
 
 def _latent_bound(fitted) -> float:
@@ -111,11 +140,11 @@ def summation_rule(m, j):
 
 
 def _liquid_in(m, j, i):
-    return m.reflux * m.y[1, i] if j == 1 else m.L[j - 1] * m.x[j - 1, i]
+    return m.reflux * reflux_x(m, i) if j == 1 else m.L[j - 1] * m.x[j - 1, i]
 
 
 def component_balance_rule(m, j, i):
-    """In = out for component i on stage j (reflux has the distillate's composition y_1)."""
+    """In = out for component i on stage j (the reflux enters stage 1)."""
     vapour_in = m.V[j + 1] * m.y[j + 1, i] if j < m.N else 0.0
     feed = m.problem.feed_flow * m.problem.z[i] if j == m.NF else 0.0
     return _liquid_in(m, j, i) + vapour_in + feed == m.L[j] * m.x[j, i] + m.V[j] * m.y[j, i]
@@ -147,7 +176,8 @@ def cmo_balance_rule(m, j):
 
 
 def _add_duties(m) -> None:
-    m.condenser_duty = pyo.Constraint(expr=m.Qc == m.V[1] * (m.hV[1] - m.h_reflux))
+    m.condenser_duty = pyo.Constraint(
+        expr=m.Qc == m.V[1] * m.hV[1] - m.reflux * m.h_reflux - m.D * m.h_distillate)
 
 
 # ------------------------------------------------------------------ product specifications
@@ -170,7 +200,7 @@ def _add_specs(m) -> None:
     spec = p.light_key_spec
     if spec.kind == "recovery":
         m.light_key_spec = pyo.Constraint(
-            expr=m.D * m.y[1, lk] >= spec.value * F * z[lk] * (1.0 - m.shortfall["light key"]))
+            expr=m.D * distillate_y(m, lk) >= spec.value * F * z[lk] * (1.0 - m.shortfall["light key"]))
     else:
         m.light_key_spec = pyo.Constraint(expr=m.x[m.N, lk] <= spec.value * (1.0 + m.shortfall["light key"]))
     spec = p.heavy_key_spec
@@ -178,7 +208,7 @@ def _add_specs(m) -> None:
         m.heavy_key_spec = pyo.Constraint(
             expr=B * m.x[m.N, hk] >= spec.value * F * z[hk] * (1.0 - m.shortfall["heavy key"]))
     else:
-        m.heavy_key_spec = pyo.Constraint(expr=m.y[1, hk] <= spec.value * (1.0 + m.shortfall["heavy key"]))
+        m.heavy_key_spec = pyo.Constraint(expr=distillate_y(m, hk) <= spec.value * (1.0 + m.shortfall["heavy key"]))
 
 
 def shortfall(m) -> float:
@@ -271,12 +301,16 @@ def _add_costs(m) -> None:
 
 
 def _add_condensate(m) -> None:
-    """Reflux drum and pump on the condensate V_1 = (R + 1) D of the total condenser (zero without a basis)."""
+    """Reflux drum and pump on the condensate (zero without a basis).
+
+    The condensate is reflux plus liquid distillate, V_1 = (R + 1) D, for a total condenser
+    and the reflux R D alone for a partial one.
+    """
     c = m.basis.condensate
     if c is None:
         m.drum_volume = m.pump_power = m.cost_drum = m.cost_pump = m.electricity_price = 0.0
         return
-    volume_flow = m.V[1] * c.liquid_molar_volume
+    volume_flow = (m.reflux if m.problem.partial_condenser else m.V[1]) * c.liquid_molar_volume
     m.drum_volume = pyo.Expression(expr=volume_flow * c.holdup_time / c.fill_fraction, doc="[m^3]")
     m.pump_power = pyo.Expression(
         expr=c.liquid_density * GRAVITY * volume_flow * (m.height + c.head_beyond_shell) / c.pump_efficiency,
@@ -302,11 +336,18 @@ def initialise(m, start: Profile) -> None:
         for i in m.C:
             m.x[j, i].set_value(float(start.x[k, i]))
             m.y[j, i].set_value(float(start.y[k, i]))
-    m.TD.set_value(_inside(f.bubble_temperature(m.problem.top_pressure, start.y[0]), m.TD))
-    m.Qc.set_value(_inside(pyo.value(m.V[1] * (m.hV[1] - m.h_reflux)), m.Qc))
+    if m.problem.partial_condenser:
+        T_d, x_d, y_d = partial_condenser_split(m.problem, start.y[0], start.reflux_ratio)
+        for i in m.C:
+            m.xD[i].set_value(float(x_d[i]))
+            m.yD[i].set_value(float(y_d[i]))
+    else:
+        T_d = f.bubble_temperature(m.problem.top_pressure, start.y[0])
+    m.TD.set_value(_inside(T_d, m.TD))
+    m.Qc.set_value(_inside(pyo.value(m.V[1] * m.hV[1] - m.reflux * m.h_reflux - m.D * m.h_distillate), m.Qc))
     m.Qr.set_value(_inside(pyo.value(m.V[m.N] * (m.hV[m.N] - m.hL[m.N])), m.Qr))
     if m.config.energy_balances:
-        m.Qr.set_value(_inside(pyo.value(m.Qc + m.L[m.N] * m.hL[m.N] + m.D * m.h_reflux
+        m.Qr.set_value(_inside(pyo.value(m.Qc + m.L[m.N] * m.hL[m.N] + m.D * m.h_distillate
                                          - m.problem.feed_flow * m.h_feed), m.Qr))
     m.diameter.set_value(_inside(_required_diameter(m), m.diameter))
     # The shortfall charge scales with the start's TAC: large enough to be exact, small

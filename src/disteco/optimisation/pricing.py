@@ -27,7 +27,7 @@ from ..sizing.options import SizingOptions
 from ..stages.results import StageProfile
 from .basis import CondensateBasis, CostBasis, CostCurve, ExchangerBasis, SeparationProblem, TrayBasis
 from .results import DesignEvaluation, SequentialPrice
-from .start import Profile
+from .start import Profile, partial_condenser_split
 
 SHELL, TRAYS, DRUM, PUMP = "vertical_vessel", "sieve_tray", "horizontal_vessel", "centrifugal_pump"
 CONDENSER, REBOILER = "fixed_tube_sheet_exchanger", "kettle_reboiler"
@@ -38,19 +38,24 @@ def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int)
     """A :class:`StageProfile` of a start profile, duties from the fitted enthalpies."""
     f = problem.fitted
     N = len(profile.T)
-    T_d = f.bubble_temperature(problem.top_pressure, profile.y[0])
-    h_reflux = f.liquid_enthalpy_of(T_d - problem.subcooling, profile.y[0])
-    q_c = profile.V[0] * (f.vapour_enthalpy_of(profile.T[0], profile.y[0]) - h_reflux)
+    R, D = profile.reflux_ratio, profile.distillate_flow
+    if problem.partial_condenser:
+        T_d, x_d, y_d = partial_condenser_split(problem, profile.y[0], R)
+        h_reflux, h_distillate = f.liquid_enthalpy_of(T_d, x_d), f.vapour_enthalpy_of(T_d, y_d)
+    else:
+        T_d, y_d = f.bubble_temperature(problem.top_pressure, profile.y[0]) - problem.subcooling, profile.y[0]
+        h_reflux = h_distillate = f.liquid_enthalpy_of(T_d, profile.y[0])
+    q_c = profile.V[0] * f.vapour_enthalpy_of(profile.T[0], profile.y[0]) - R * D * h_reflux - D * h_distillate
     q_r = profile.V[-1] * (f.vapour_enthalpy_of(profile.T[-1], profile.y[-1])
                            - f.liquid_enthalpy_of(profile.T[-1], profile.x[-1]))
     return StageProfile(
         T=tuple(map(float, profile.T)), P=tuple(problem.pressure(j) for j in range(1, N + 1)),
         L=tuple(map(float, profile.L)), V=tuple(map(float, profile.V)),
         x=tuple(tuple(map(float, r)) for r in profile.x), y=tuple(tuple(map(float, r)) for r in profile.y),
-        feed_stage=feed_stage, reflux_ratio=profile.reflux_ratio, distillate_flow=profile.distillate_flow,
-        bottoms_flow=float(profile.L[-1]), distillate_composition=tuple(map(float, profile.y[0])),
+        feed_stage=feed_stage, reflux_ratio=R, distillate_flow=D,
+        bottoms_flow=float(profile.L[-1]), distillate_composition=tuple(map(float, y_d)),
         bottoms_composition=tuple(map(float, profile.x[-1])), condenser_duty=float(q_c), reboiler_duty=float(q_r),
-        condenser_temperature=T_d - problem.subcooling, model="cmo")
+        condenser_temperature=float(T_d), partial_condenser=problem.partial_condenser, model="cmo")
 
 
 def _levels_and_coefficients(data: CostData, profile: StageProfile, options: SizingOptions):
@@ -87,11 +92,12 @@ def _installed_factor(data: CostData, item: str, material: str, pressure_gauge: 
 
 def condensate_basis(data: CostData, ref: ColumnSizing, profile: StageProfile, scenario: str, index: float,
                      warnings: list[str]) -> CondensateBasis:
-    """Reflux drum and pump numbers frozen at the reference sizing ``ref`` of ``profile`` (total condenser)."""
+    """Reflux drum and pump numbers frozen at the reference sizing ``ref`` of ``profile``."""
     drum, pump = ref.reflux_drum, ref.reflux_pump
     gauge = ref.vessel.design_pressure
     inputs = cost_input(ref)
-    molar_flow = (profile.reflux_ratio + 1.0) * profile.distillate_flow  # reflux and liquid distillate
+    # the condensate: reflux and liquid distillate, or the reflux alone after a partial condenser
+    molar_flow = (profile.reflux_ratio + (0.0 if profile.partial_condenser else 1.0)) * profile.distillate_flow
     return CondensateBasis(
         liquid_molar_volume=drum.liquid_volume_flow / molar_flow, liquid_density=pump.density,
         holdup_time=drum.holdup_time, fill_fraction=drum.fill_fraction, pump_efficiency=pump.efficiency,

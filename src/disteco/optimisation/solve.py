@@ -131,9 +131,9 @@ def attempts(config, strategies: tuple[str, ...] | None, retries: bool) -> list[
     """(start reflux factor, barrier strategy, iteration limit) of each try on one configuration.
 
     Each strategy in turn from the Gilliland start, then the last one from the retry
-    starts. Every try but the last stops at ``quick_iterations``: a strategy that is
-    going to converge does so quickly (measured, see DEVELOPERS.md), one that is not only
-    burns time. Barrier strategies apply to interior-point solvers only.
+    starts. Every try but the last stops at ``quick_iterations`` (and ``quick_time_limit``):
+    a strategy that is going to converge does so quickly (measured, see DEVELOPERS.md), one
+    that is not only burns time. Barrier strategies apply to interior-point solvers only.
     """
     if config.solver not in ("ripopt", "ipopt"):
         strategies = (None,)
@@ -169,8 +169,11 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
         initialise(model, profiles[factor])
         if fixed_reflux is not None:
             model.R.fix(fixed_reflux)
+        limit = config.configuration_time_limit if time_limit is None else time_limit
+        if attempt < len(plan) - 1:
+            limit = min(limit, config.quick_time_limit)
         try:
-            report = run_solver(model, config, time_limit, barrier=barrier, iterations=iterations)
+            report = run_solver(model, config, limit, barrier=barrier, iterations=iterations)
             break
         except SolverError:
             if attempt == len(plan) - 1:
@@ -209,12 +212,14 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
     x = tuple(tuple(v(m.x[j, i]) for i in C) for j in J)
     y = tuple(tuple(v(m.y[j, i]) for i in C) for j in J)
     D, B = v(m.D), v(m.L[m.N])
+    partial = p.partial_condenser
+    distillate = tuple(v(m.yD[i]) for i in C) if partial else y[0]
     profile = StageProfile(
         T=tuple(v(m.T[j]) for j in J), P=tuple(m.P[j] for j in J), L=tuple(v(m.L[j]) for j in J),
         V=tuple(v(m.V[j]) for j in J), x=x, y=y, feed_stage=m.NF, reflux_ratio=v(m.R),
-        distillate_flow=D, bottoms_flow=B, distillate_composition=y[0], bottoms_composition=x[-1],
+        distillate_flow=D, bottoms_flow=B, distillate_composition=distillate, bottoms_composition=x[-1],
         condenser_duty=v(m.Qc) * KILO, reboiler_duty=v(m.Qr) * KILO, condenser_temperature=v(m.TD) - p.subcooling,
-        partial_condenser=False, model="rigorous" if m.config.energy_balances else "cmo")
+        partial_condenser=partial, model="rigorous" if m.config.energy_balances else "cmo")
     need = {}
     for j in m.TRAYS:
         per_d2, vapour_volume = flooding_terms(m, j)

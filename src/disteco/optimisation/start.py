@@ -137,6 +137,30 @@ def _bubble_temperatures(problem: SeparationProblem, P: np.ndarray, x: np.ndarra
     return T
 
 
+def partial_condenser_split(problem: SeparationProblem, y_top, R: float) -> tuple[float, np.ndarray, np.ndarray]:
+    """(T [K], reflux x [-], distillate y [-]) of a partial condenser fed the top vapour ``y_top``.
+
+    Per mole of distillate the condenser takes in R + 1 of vapour and returns R of liquid:
+    x_i = (R + 1) y_top,i / (R + K_i), with T such that sum x = 1 (K at the current x).
+    """
+    f, P = problem.fitted, problem.top_pressure
+    y_top = np.asarray(y_top, dtype=float)
+    x = y_top.copy()
+    T = f.bubble_temperature(P, x)
+    for _ in range(100):
+        def excess(T):
+            return float(np.sum((R + 1.0) * y_top / (R + f.k_values(T, P, x)))) - 1.0
+
+        T = brentq(excess, f.T_low, f.T_high) if excess(f.T_low) * excess(f.T_high) < 0.0 else T
+        x_new = (R + 1.0) * y_top / (R + f.k_values(T, P, x))
+        x_new /= x_new.sum()
+        if np.max(np.abs(x_new - x)) < 1e-10:
+            break
+        x = x_new
+    y = f.k_values(T, P, x) * x
+    return T, x, y / y.sum()
+
+
 def cmo_profile(problem: SeparationProblem, stages: int, feed_stage: int, R: float, D: float) -> Profile:
     """Stage temperatures and compositions for fixed R [-] and D [mol/s] (bubble-point method).
 
@@ -155,11 +179,18 @@ def cmo_profile(problem: SeparationProblem, stages: int, feed_stage: int, R: flo
     for _ in range(PROFILE_ITERATIONS):
         lnk = f.ln_k(T, P, [x[:, i] for i in range(nc)], exp=np.exp, log=np.log)
         K = np.exp(np.array(lnk)).T  # (N, C)
+        # Reflux per unit of the top vapour's component flow: 1 - D/V1 for a total condenser
+        # (reflux of composition y_1); R/(R + K_c) for a partial one at its current split.
+        kept = np.full(nc, R / (R + 1.0))
+        if problem.partial_condenser:
+            y_top = K[0] * x[0] / np.sum(K[0] * x[0])
+            T_c, x_c, y_c = partial_condenser_split(problem, y_top, R)
+            kept = R / (R + f.k_values(T_c, P[0], x_c))
         x_new = np.empty_like(x)
         for i in range(nc):
             band = np.zeros((3, stages))
             band[1] = -(L + V * K[:, i])
-            band[1, 0] = -(L[0] + D * K[0, i])  # total condenser: the reflux has the composition y_1
+            band[1, 0] = -(L[0] + V[0] * K[0, i] * (1.0 - kept[i]))  # the reflux returns to stage 1
             band[0, 1:] = V[1:] * K[1:, i]
             band[2, :-1] = L[:-1]
             rhs = np.zeros(stages)

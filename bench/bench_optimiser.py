@@ -79,14 +79,14 @@ def run(label: str, case, max_stages: int, options: dict) -> None:
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--quick", action="store_true")
-    parser.add_argument("--energy", action="store_true", help="stage energy balances instead of CMO")
+    parser.add_argument("--cmo", action="store_true", help="constant molar overflow instead of stage energy balances")
     parser.add_argument("--only", choices=("binary", "binary100", "multi", "three", "five"),
                         help="binary: 20-60 stages; binary100: 100 stages; multi: 3 and 5 components; "
                              "three or five: one of them")
     args = parser.parse_args()
-    options = {"energy_balances": args.energy}
+    options = {"energy_balances": not args.cmo}
     print(machine())
-    print(f"model: {'stage energy balances' if args.energy else 'constant molar overflow'}; "
+    print(f"model: {'constant molar overflow' if args.cmo else 'stage energy balances'}; "
           "TAC in the cost data's currency per year; reference price scenario")
     binary = load_case(os.path.join(EXAMPLES, "aromatics_binary.toml"))
     if args.quick:

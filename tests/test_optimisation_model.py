@@ -126,8 +126,8 @@ def test_every_variable_bounded(problem, basis):
 def test_energy_balances_close_to_constant_molar_overflow(problem, basis):
     """Benzene-toluene has near-equal latent heats, so the two forms agree on TAC within 5 %
     (measured: 1.3 %); a regression pin that both forms solve, not a validation."""
-    cmo = solve_configuration(problem, basis, 18, 9, {"max_stages": MAX})
-    rigorous = solve_configuration(problem, basis, 18, 9, {"max_stages": MAX, "energy_balances": True})
+    cmo = solve_configuration(problem, basis, 18, 9, {"max_stages": MAX, "energy_balances": False})
+    rigorous = solve_configuration(problem, basis, 18, 9, {"max_stages": MAX})
     assert rigorous.tac == pytest.approx(cmo.tac, rel=0.05)
     assert rigorous.profile.model == "rigorous" and cmo.profile.model == "cmo"
 

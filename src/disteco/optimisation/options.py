@@ -27,8 +27,9 @@ def _options() -> ConfigDict:
                                              description="wall-clock limit of the whole search [s]"))
     config.declare("relative_gap", ConfigValue(default=1e-4, domain=NonNegativeFloat,
                                                description="relative optimality gap asked of a certifying solver [-]"))
-    config.declare("energy_balances", ConfigValue(default=False, domain=Bool,
-                                                  description="stage energy balances; False: constant molar overflow"))
+    config.declare("energy_balances", ConfigValue(
+        default=True, domain=Bool,
+        description="stage energy balances; False: constant molar overflow (measured: no faster with ripopt)"))
     config.declare("reflux_min", ConfigValue(default=0.01, domain=PositiveFloat, description="lowest reflux ratio [-]"))
     config.declare("reflux_max", ConfigValue(default=50.0, domain=PositiveFloat, description="highest reflux ratio [-]"))
     config.declare("min_stages", ConfigValue(default=3, domain=PositiveInt,

@@ -56,12 +56,14 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     """
     config = model_options(options)
     problem = separation_problem(case, mixture, feed, config.max_stages)
-    basis, warnings = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
+    # The reference design only freezes the model's constants; its sizing warnings would describe
+    # a column nobody asked about, and the sequential price repeats those that hold for the result.
+    basis, _ = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
     result = optimise(problem, basis, config)
     priced = price_design(result.best, mixture, data, replace(sizing, light_key=problem.light_key,
                                                                heavy_key=problem.heavy_key),
                           scenario, case.economics.cost_year)
-    return replace(result, sequential=priced, warnings=tuple(warnings) + result.warnings)
+    return replace(result, sequential=priced)
 
 
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,
@@ -82,9 +84,10 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         raise InfeasibleSpecError(
             f"reflux ratio {reflux_ratio:.4g} is at or below the minimum reflux ratio {r_min:.4g} "
             "(Underwood): no number of stages meets the product specifications")
-    basis, warnings = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
+    # reference-design warnings dropped as in optimise_design
+    basis, _ = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
     design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
     priced = price_design(design, mixture, data, replace(sizing, light_key=problem.light_key,
                                                          heavy_key=problem.heavy_key),
                           scenario, case.economics.cost_year)
-    return replace(design, sequential=priced, warnings=tuple(warnings) + design.warnings)
+    return replace(design, sequential=priced)

@@ -82,13 +82,18 @@ def test_given_design_below_minimum_reflux_is_refused(tmp_path, capsys):
 
 def test_tac_curve_has_its_minimum_at_the_optimum(result):
     """The TAC-against-reflux curve (stages and feed stage re-optimised at each reflux) is
-    nowhere below the optimiser's design: the chart and the optimum tell one story."""
+    nowhere below the optimiser's design, and has points on both sides of it, where the TAC
+    rises: the chart and the optimum tell one story."""
     out, data = result
     for curve, scenario in zip(data["tac_curves"], data["scenarios"]):
         assert curve["scenario"] == scenario["scenario"]
         tacs = [p["model_tac_per_year"] for p in curve["points"]]
         assert len(tacs) >= 4
         assert min(tacs) >= scenario["model_tac_per_year"] * (1 - 1e-3)
+        refluxes = [p["reflux_ratio"] for p in curve["points"]]
+        optimum = scenario["reflux_ratio"]
+        assert min(refluxes) < optimum * 0.999 and max(refluxes) > optimum * 1.001
+        assert tacs[0] > scenario["model_tac_per_year"] * (1 + 1e-4)
         # Fewer stages are needed as the reflux rises.
         stages = [p["stages"] for p in curve["points"]]
         assert stages == sorted(stages, reverse=True)

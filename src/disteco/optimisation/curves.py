@@ -24,6 +24,10 @@ from .results import DesignEvaluation, OptimumDesign
 from .solve import solve_configuration
 
 CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows used as curve points
+# Relative steps below the optimum's reflux. The table's minimum reflux assumes constant molar
+# overflow; under energy balances the true minimum can lie above its 1.1 x row (benzene-toluene:
+# optimum 1.763, energy-balance minimum about 1.74), so the left branch is spaced from the optimum.
+BELOW_OPTIMUM = (0.005, 0.01, 0.02)
 MAX_STAGES_TRIED = 4  # stage counts tried upwards from the first guess before a reflux is given up
 
 
@@ -33,22 +37,34 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
                  ) -> tuple[DesignEvaluation, ...]:
     """Designs along the reflux ratio, plus the optimum itself, sorted by reflux ratio.
 
-    ``table`` is the stages layer's reflux-stages trade-off (McCabe-Thiele on the real
-    curve for a binary, Gilliland and Kirkbride otherwise); its rows at ``factors`` x the
-    minimum reflux give each point's reflux and the first guess of stages and feed stage.
-    Points where no column within the stage limit meets the specifications are left out.
+    Below the optimum: refluxes ``BELOW_OPTIMUM`` (relative) under it. Above: ``table`` is
+    the stages layer's reflux-stages trade-off (McCabe-Thiele on the real curve for a
+    binary, Gilliland and Kirkbride otherwise); its rows at ``factors`` x the minimum
+    reflux give each point's reflux and the first guess of stages and feed stage. Points
+    where no column within the stage limit meets the specifications are left out.
     """
     config = model_options(options)
     problem = separation_problem(case, mixture, feed, config.max_stages)
     basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
                                                                 heavy_key=problem.heavy_key),
                                 scenario, case.economics.cost_year, config)
-    points = [optimum.best]
+    best = optimum.best
+    if best.solver.barrier:  # try first the barrier strategy that solved the optimum
+        config.barrier_strategies = (best.solver.barrier,) + tuple(
+            b for b in config.barrier_strategies if b != best.solver.barrier)
+    points = [best]
+    for step in BELOW_OPTIMUM:
+        left = points[-1]  # each step down needs at least the stages of the one before
+        design = _best_at_reflux(problem, basis, config, best.reflux_ratio * (1.0 - step), left.stages + 1,
+                                 left.feed_stage / left.stages)
+        if design is None:
+            break  # no column within a few more stages; lower refluxes need still more
+        points.append(design)
     for row in table:
         if not any(abs(row.reflux_factor - f) < 1e-9 for f in factors):
             continue
-        if abs(row.reflux_ratio - optimum.best.reflux_ratio) < 1e-3 * row.reflux_ratio:
-            continue
+        if row.reflux_ratio <= best.reflux_ratio * (1.0 + 1e-3):
+            continue  # the branch below the optimum is covered above; such rows may lie under the true minimum
         design = _best_at_reflux(problem, basis, config, row.reflux_ratio, row.whole_stages,
                                  row.feed_stage / row.whole_stages)
         if design is not None:

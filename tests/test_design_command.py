@@ -98,3 +98,16 @@ def test_tac_curve_has_its_minimum_at_the_optimum(result):
         stages = [p["stages"] for p in curve["points"]]
         assert stages == sorted(stages, reverse=True)
     assert (out / "figures" / "tac_vs_reflux_reference.png").stat().st_size > 10_000
+
+
+def test_energy_balance_pinch_is_pointed_out(result):
+    """The minimum reflux assumes constant molar overflow; when the TAC curve shows the column
+    failing below a higher reflux under energy balances, a warning gives that reflux and the
+    optimum's margin over it (numbers from the same result.json)."""
+    _, data = result
+    lowest = min(data["tac_curves"][0]["points"], key=lambda p: p["reflux_ratio"])
+    assert lowest["reflux_ratio"] > data["minimum_reflux_ratio"]
+    (note,) = [w for w in data["warnings"] if "assumes constant molar overflow" in w]
+    assert f"{lowest['reflux_ratio']:.4g} ({lowest['stages']} stages)" in note
+    margin = 100 * (data["design"]["reflux_ratio"] / lowest["reflux_ratio"] - 1)
+    assert f"lies {margin:.2g} % above it" in note

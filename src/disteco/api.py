@@ -104,9 +104,29 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     best = optima[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           **_binary_parts(stages, best.best.reflux_ratio, case))
-    extra = cross.below_zero() if cross is not None else ()
+    extra = tuple(cross.below_zero()) if cross is not None else ()
+    extra += _pinch_note(stages.minimum_reflux, best.best, curves[0][1])
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
-                        warnings=_warnings(stages.shortcut.warnings + best.warnings + tuple(extra), parts))
+                        warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts))
+
+
+def _pinch_note(minimum_reflux: float, best: DesignEvaluation, curve) -> tuple[str, ...]:
+    """Say so when the curve shows the energy-balance pinch above the constant-molar-overflow minimum.
+
+    The reported minimum reflux assumes constant molar overflow; with stage energy balances
+    the lowest reflux on the TAC curve that still meets the specifications bounds the true
+    minimum from above, so R over it is a lower bound on the optimum's true R/Rmin.
+    """
+    if best.profile.model != "rigorous":
+        return ()
+    lowest = min(curve, key=lambda d: d.reflux_ratio)
+    if lowest.reflux_ratio <= minimum_reflux:
+        return ()
+    return (f"minimum reflux {minimum_reflux:.4g} assumes constant molar overflow; with stage energy balances "
+            f"the lowest reflux found to meet the specifications is {lowest.reflux_ratio:.4g} ({lowest.stages} "
+            f"stages), and the optimum {best.reflux_ratio:.4g} lies {100 * (best.reflux_ratio / lowest.reflux_ratio - 1):.2g} % "
+            f"above it: closer to the pinch than {best.reflux_ratio / minimum_reflux:.3g} x the minimum suggests; "
+            "keep a control margin",)
 
 
 def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:

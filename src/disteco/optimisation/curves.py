@@ -19,7 +19,7 @@ from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, separation_problem
-from .options import model_options
+from .options import first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
 from .solve import solve_configuration
 
@@ -50,8 +50,7 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
                                 scenario, case.economics.cost_year, config)
     best = optimum.best
     if best.solver.barrier:  # try first the barrier strategy that solved the optimum
-        config.barrier_strategies = (best.solver.barrier,) + tuple(
-            b for b in config.barrier_strategies if b != best.solver.barrier)
+        config.barrier_strategies = first_strategy(best.solver.barrier, config.barrier_strategies)
     points = [best]
     for step in BELOW_OPTIMUM:
         left = points[-1]  # each step down needs at least the stages of the one before

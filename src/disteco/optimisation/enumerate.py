@@ -1,7 +1,8 @@
 """Exhaustive enumeration of configurations: the checking tool for the optimiser.
 
 Solves every (stages, feed stage) in range with the same model, solver, start and
-evaluator (including its memory of the barrier strategy that last worked) as the search, and optionally a fine reflux grid at the best configuration, so that the
+evaluator (including its memory of the barrier strategy that last worked) as the search,
+and optionally a fine reflux grid at the best configuration, so that the
 optimiser's TAC can be compared with the true best of the same physics and costs.
 """
 

@@ -19,6 +19,11 @@ def _strategies(value) -> tuple[str, ...]:
     return names
 
 
+def first_strategy(strategy: str, order) -> tuple[str, ...]:
+    """``order`` of barrier strategies with ``strategy`` moved to the front."""
+    return (strategy,) + tuple(b for b in order if b != strategy)
+
+
 def _options() -> ConfigDict:
     config = ConfigDict("disteco optimiser options")
     config.declare("solver", ConfigValue(default="ripopt", domain=str,
@@ -79,4 +84,4 @@ def model_options(options=None) -> ConfigDict:
     return config
 
 
-__all__ = ["OPTIONS", "SOLVERS", "model_options"]
+__all__ = ["OPTIONS", "SOLVERS", "first_strategy", "model_options"]

@@ -132,15 +132,13 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
     top_gauge = max(profile.P[0] - ATMOSPHERE, 0.0)
     cond_gauge = max(top_gauge, (condenser.pressure or ATMOSPHERE) - ATMOSPHERE)
     reb_gauge = max(vessel.design_pressure, (reboiler.pressure or ATMOSPHERE) - ATMOSPHERE)
-    tray_curve = data.curve(TRAYS)
-    tray_bare = data.bare_module(tray_curve.bare_module_group)
-    tray_f_m = data.material_factor(tray_curve.material_group, vessel.material_class).factor
     basis = CostBasis(
         trays=trays,
         shell=_curve(data, SHELL, "column shell", index,
                      _installed_factor(data, SHELL, vessel.material_class, vessel.design_pressure, warnings,
                                        ref.diameter, "column shell")),
-        tray_cost=_curve(data, TRAYS, "trays", index, tray_bare.b1 + tray_bare.b2 * tray_f_m),
+        tray_cost=_curve(data, TRAYS, "trays", index,
+                         _installed_factor(data, TRAYS, vessel.material_class, 0.0, warnings, label="trays")),
         condenser=ExchangerBasis(u_c, condenser.supply_temperature, condenser.return_temperature,
                                  options.min_approach, data.price_per_joule(scenario, condenser.name),
                                  _curve(data, CONDENSER, "condenser", index,

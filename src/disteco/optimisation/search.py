@@ -27,7 +27,7 @@ import pyomo.environ as pyo
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
 from .basis import CostBasis, SeparationProblem, check_problem
-from .options import model_options
+from .options import first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Shortcut, shortcut
 from .solve import certify, configuration_tac, read_design, solved_model
@@ -73,8 +73,7 @@ class Evaluator:
             return float("inf")
         self.steps.append(SearchStep(stages, feed_stage, tac, report.status))
         if report.barrier:
-            order = self.strategies or tuple(self.config.barrier_strategies)
-            self.strategies = (report.barrier,) + tuple(b for b in order if b != report.barrier)
+            self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
         return tac
 
     def best(self) -> tuple[int, int] | None:

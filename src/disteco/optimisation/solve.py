@@ -162,6 +162,7 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
     config = model_options(options)
     plan = attempts(config, strategies, retries=start is None and fixed_reflux is None)
     profiles = {}
+    full_limit = config.configuration_time_limit if time_limit is None else time_limit
     for attempt, (factor, barrier, iterations) in enumerate(plan):
         model = build_column_model(problem, basis, stages, feed_stage, config)
         if factor not in profiles:
@@ -169,9 +170,7 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
         initialise(model, profiles[factor])
         if fixed_reflux is not None:
             model.R.fix(fixed_reflux)
-        limit = config.configuration_time_limit if time_limit is None else time_limit
-        if attempt < len(plan) - 1:
-            limit = min(limit, config.quick_time_limit)
+        limit = full_limit if attempt == len(plan) - 1 else min(full_limit, config.quick_time_limit)
         try:
             report = run_solver(model, config, limit, barrier=barrier, iterations=iterations)
             break

@@ -82,3 +82,17 @@ def test_enthalpy_and_volume_fits_follow_thermo(benzene_toluene, fitted_benzene_
             assert f.vapour_enthalpy_of(T, x) == pytest.approx(benzene_toluene.vapour_enthalpy(T, ATM, x), abs=100.0)
             density = f.molar_mass(x) / f.liquid_molar_volume(T, x)
             assert density == pytest.approx(benzene_toluene.liquid_density(T, ATM, x), rel=0.01)
+
+
+def test_peng_robinson_fit_follows_the_liquid_near_the_critical_region():
+    """Ethane / propane / n-butane at 25 bar (thermo's Peng-Robinson as reference): the fitted bubble
+    temperature within 0.6 K over random liquids and the near-pure ends, top to a 60-stage bottom
+    (measured: 0.34 K; without the composition terms of the K fit 7.6 K, the distillate end 7 K low)."""
+    P_top = 25e5
+    mixture = build_mixture(("ethane", "propane", "n-butane"), Thermo("peng-robinson"), P_top)
+    f = fit_mixture(mixture, P_top, P_top + 60 * 700.0, z=(0.3, 0.4, 0.3))
+    liquids = [np.array(x) for x in ((0.973, 0.027, 0.0), (0.0, 0.05, 0.95), (0.5, 0.5, 0.0))]
+    liquids += list(np.random.default_rng(7).dirichlet(np.full(3, 0.8), 12))
+    for P in (P_top, P_top + 30 * 700.0):
+        for x in liquids:
+            assert f.bubble_temperature(P, x) == pytest.approx(mixture.bubble_point(P, x).T, abs=0.6)

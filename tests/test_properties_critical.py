@@ -121,3 +121,17 @@ def test_pressure_above_the_critical_region_is_infeasible():
     mixture = build_mixture(("n-pentane", "n-hexane"), Thermo("peng-robinson"), 40e5)
     with pytest.raises(InfeasibleSpecError, match=r"40 bar.*critical region.*n-hexane 30.\d+ bar"):
         mixture.bubble_point(40e5, [0.01, 0.99])
+
+
+@pytest.mark.parametrize("T", [300.0, 317.0, 330.0])
+def test_isothermal_second_route_against_thermo_flash(c3_splitter, T):
+    """Isothermal split of propylene/propane at 17 bar below, inside and above the two-phase range:
+    the second route against thermo's flash (same equation of state): 1e-6 in vapour fraction and x."""
+    from disteco.properties.vle_fallback import isothermal_split, wilson_k
+
+    constants = c3_splitter._constants
+    reference = c3_splitter.flash_tp(T, 17e5, [0.5, 0.5])
+    beta, x, _ = isothermal_split(lambda T, x, y: c3_splitter.k_values(T, 17e5, x, y), T, np.array([0.5, 0.5]),
+                                  wilson_k(T, 17e5, constants.Tcs, constants.Pcs, constants.omegas))
+    assert beta == pytest.approx(reference.vapour_fraction, abs=1e-6)
+    assert np.allclose(x, reference.x, atol=1e-6)

@@ -21,7 +21,7 @@ from thermo.unifac import DOUFIP2016, DOUFSG
 from .._base.errors import CaseError, InfeasibleSpecError, PropertyError
 from ..case import Thermo
 from .components import ComponentId, resolve_components
-from .vle_fallback import NoSplit, saturation_point, wilson_start
+from .vle_fallback import NoSplit, isothermal_split, saturation_point, wilson_k, wilson_start
 from .critical import (extrapolated_surface_tension, log_mixing, supercritical_liquid_density,
                        supercritical_liquid_viscosity, supercritical_surface_tension)
 
@@ -179,8 +179,19 @@ class Mixture:
         return self.flash_pvf(P, 1.0, y)
 
     def flash_tp(self, T: float, P: float, z) -> PhasePoint:
-        """Isothermal flash at ``T`` [K] and ``P`` [Pa]."""
-        return self._point(self._flash(T=T, P=P, zs=z), P)
+        """Isothermal flash at ``T`` [K] and ``P`` [Pa] (second route as for :meth:`flash_pvf`)."""
+        try:
+            return self._point(self._flash(T=T, P=P, zs=z), P)
+        except PropertyError as failure:
+            c = self._constants
+            z = np.asarray(z, dtype=float)
+            try:
+                beta, x, y = isothermal_split(lambda T, x, y: self.k_values(T, P, x, y), T, z,
+                                              wilson_k(T, P, c.Tcs, c.Pcs, c.omegas))
+            except NoSplit:
+                self._no_split(P, z, failure)
+            self._note_fallback()
+            return PhasePoint(float(T), P, float(beta), tuple(map(float, x)), tuple(map(float, y)))
 
     def flash_pvf(self, P: float, vapour_fraction: float, z) -> PhasePoint:
         """Flash at ``P`` [Pa] and a molar vapour fraction [-].
@@ -202,9 +213,12 @@ class Mixture:
             T, x, y = saturation_point(lambda T, x, y: self.k_values(T, P, x, y), z, vapour_fraction, T0, k0)
         except (NoSplit, ValueError):
             self._no_split(P, z, failure)
+        self._note_fallback()
+        return PhasePoint(T, P, float(vapour_fraction), tuple(map(float, x)), tuple(map(float, y)))
+
+    def _note_fallback(self) -> None:
         self._note("fallback-flash", "thermo's flash failed on some states; they were solved by disteco's own "
                    "successive-substitution route on the same equation of state (see DEVELOPERS.md)")
-        return PhasePoint(T, P, float(vapour_fraction), tuple(map(float, x)), tuple(map(float, y)))
 
     def _no_split(self, P: float, z, failure: PropertyError):
         """Raise: no vapour-liquid split at ``P``; infeasible above a present component's critical pressure."""

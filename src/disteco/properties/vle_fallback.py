@@ -124,3 +124,38 @@ def wilson_start(P: float, z, beta: float, Tcs, Pcs, omegas) -> tuple[float, np.
     with np.errstate(all="ignore"):
         T = brentq(f, 20.0, 3000.0, xtol=1e-6)
     return T, wilson_k(T, P, Tcs, Pcs, omegas)
+
+
+def rachford_rice(z: np.ndarray, k: np.ndarray) -> float:
+    """Vapour fraction beta [-] solving sum z (K - 1)/(1 + beta (K - 1)) = 0, limited to 0..1."""
+    def f(beta):
+        return float(np.sum(z * (k - 1.0) / (1.0 + beta * (k - 1.0))))
+
+    if f(0.0) <= 0.0:
+        return 0.0  # below the bubble point
+    if f(1.0) >= 0.0:
+        return 1.0  # above the dew point
+    return brentq(f, 0.0, 1.0, xtol=1e-13)
+
+
+def isothermal_split(k_values: KFunction, T: float, z, k_start: np.ndarray
+                     ) -> tuple[float, np.ndarray, np.ndarray]:
+    """Vapour fraction [-], x and y [-] of ``z`` at ``T`` [K]: Rachford-Rice with successive substitution."""
+    z = np.asarray(z, dtype=float)
+    k = np.asarray(k_start, dtype=float)
+    with np.errstate(all="ignore"):
+        for _ in range(INNER_ITERATIONS):
+            beta = rachford_rice(z, k)
+            x, y = _phases(k, z, beta)
+            k_new = k_values(T, x, y)
+            if not np.all(np.isfinite(k_new)) or np.any(k_new <= 0.0):
+                raise NoSplit
+            done = np.max(np.abs(np.log(k_new / k))) < INNER_TOLERANCE
+            k = k_new
+            if done:
+                break
+        if np.max(np.abs(np.log(k))) < TRIVIAL_LN_K:
+            raise NoSplit
+        beta = rachford_rice(z, k)
+        x, y = _phases(k, z, beta) if 0.0 < beta < 1.0 else (z, z)  # one phase: both read as the feed
+    return beta, x, y

@@ -82,3 +82,16 @@ def test_enthalpy_and_volume_fits_follow_thermo(benzene_toluene, fitted_benzene_
             assert f.vapour_enthalpy_of(T, x) == pytest.approx(benzene_toluene.vapour_enthalpy(T, ATM, x), abs=100.0)
             density = f.molar_mass(x) / f.liquid_molar_volume(T, x)
             assert density == pytest.approx(benzene_toluene.liquid_density(T, ATM, x), rel=0.01)
+
+
+def test_peng_robinson_liquid_enthalpy_of_a_depropaniser_above_propane_saturation():
+    """Bubble-point liquids of propane/isobutane/n-butane at 17.2 bar (reboiler above propane's Tc):
+    the fitted liquid enthalpy within 1000 J/mol of thermo's Peng-Robinson (about 6 % of the latent
+    heat; measured 473 J/mol). Pure propane has no liquid root over most of this range; before
+    those points were left out of the fit the error was 3100 J/mol."""
+    mixture = build_mixture(("propane", "isobutane", "n-butane"), Thermo("peng-robinson"), 17e5)
+    fitted = fit_mixture(mixture, 17.0e5, 17.4e5, z=[0.4, 0.25, 0.35])
+    for x_propane in np.linspace(0.01, 0.99, 8):
+        x = np.array([x_propane, 0.42 * (1 - x_propane), 0.58 * (1 - x_propane)])
+        T = mixture.bubble_point(17.2e5, x).T
+        assert fitted.liquid_enthalpy_of(T, x) == pytest.approx(mixture.liquid_enthalpy(T, 17.2e5, x), abs=1000.0)

@@ -135,3 +135,17 @@ def test_isothermal_second_route_against_thermo_flash(c3_splitter, T):
                                   wilson_k(T, 17e5, constants.Tcs, constants.Pcs, constants.omegas))
     assert beta == pytest.approx(reference.vapour_fraction, abs=1e-6)
     assert np.allclose(x, reference.x, atol=1e-6)
+
+
+def test_depentaniser_above_the_critical_pressures_exits_2(tmp_path, capsys):
+    """The depentaniser example at 40 bar (automatic method: Peng-Robinson) is above the critical
+    pressures of its key components: exit 2 with the pressure and critical pressures named."""
+    from conftest import EXAMPLES
+    from disteco.cli import main
+
+    case = tmp_path / "case.toml"
+    case.write_text((EXAMPLES / "depentaniser.toml").read_text().replace('"2.5 bar"', '"40 bar"'))
+    assert main(["check", str(case)]) == 2
+    err = capsys.readouterr().err
+    assert "no vapour-liquid split exists at 40 bar" in err and "n-hexane 30.44 bar" in err
+    assert "Traceback" not in err

@@ -224,10 +224,11 @@ class Mixture:
         """Raise: no vapour-liquid split at ``P``; infeasible above a present component's critical pressure."""
         present = [i for i, zi in enumerate(z) if zi > 1e-9]
         critical = ", ".join(f"{self.names[i]} {self.critical_pressures[i] / 1e5:.4g} bar" for i in present)
+        fluid = ", ".join(f"{self.names[i]} {z[i]:.4g}" for i in present)
         if P >= min(self.critical_pressures[i] for i in present):
             raise InfeasibleSpecError(
-                f"no vapour-liquid split exists at {P / 1e5:.4g} bar for the mole fractions "
-                f"{np.round(z, 4).tolist()}: the pressure is at or above the mixture's critical region "
+                f"no vapour-liquid split exists at {P / 1e5:.4g} bar for a fluid of mole fractions {fluid}: "
+                "the pressure is at or above the mixture's critical region "
                 f"(critical pressures: {critical}), where liquid and vapour become one fluid; "
                 "lower the column pressure") from None
         raise failure

@@ -176,9 +176,15 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     def liquid_volume(T, i):
         return mixture.molar_masses[i] / mixture.liquid_density(T, P_mid, unit[i])
 
+    heaviest = int(np.argmax(mixture.normal_boiling_points))
+
     def liquid_enthalpy(T, i):
-        # where the equation of state has no liquid root the pure "liquid" is its vapour: skipped
-        return mixture.liquid_enthalpy(T, P_mid, unit[i]) if mixture.liquid_root_exists(T, P_mid, unit[i]) else None
+        # Where the equation of state has no pure liquid root, thermo's "liquid" is the vapour (a jump
+        # by the latent heat); the component is then taken as dissolved, at infinite dilution in the
+        # heaviest component's liquid, which is how it occurs in the hot liquids of a column.
+        if mixture.liquid_root_exists(T, P_mid, unit[i]):
+            return mixture.liquid_enthalpy(T, P_mid, unit[i])
+        return mixture.dilute_liquid_enthalpy(T, P_mid, i, heaviest)
 
     pure = range(n)
     with mixture.quiet():

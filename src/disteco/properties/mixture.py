@@ -251,16 +251,25 @@ class Mixture:
         return float(self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).H())
 
     def liquid_root_exists(self, T: float, P: float, x) -> bool:
-        """False where the equation of state has only one root at (T, P, x), so its "liquid" is the vapour.
+        """False where the equation of state has no liquid-like root at (T, P, x): thermo's "liquid" is then the vapour.
 
         Activity-coefficient and ideal liquids always exist.
         """
         if self.method != "peng-robinson":
             return True
-        zs = [float(v) for v in x]
-        liquid = self._flasher.liquid.to(T=T, P=P, zs=zs).V()
-        gas = self._flasher.gas.to(T=T, P=P, zs=zs).V()
-        return abs(liquid - gas) > 1e-9 * gas
+        return "l" in self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).eos_mix.phase
+
+    def dilute_liquid_enthalpy(self, T: float, P: float, i: int, solvent: int) -> float | None:
+        """Partial molar enthalpy of component ``i`` at infinite dilution in liquid ``solvent`` [J/mol].
+
+        H + dH/dn_i of the pure solvent liquid; None where the solvent has no liquid root.
+        """
+        zs = [0.0] * self.size
+        zs[solvent] = 1.0
+        liquid = self._flasher.liquid.to(T=T, P=P, zs=zs)
+        if not self.liquid_root_exists(T, P, zs):
+            return None
+        return float(liquid.H() + liquid.dH_dns()[i])
 
     def vapour_enthalpy(self, T: float, P: float, y) -> float:
         """Molar enthalpy of vapour ``y`` [J/mol]."""

@@ -68,7 +68,7 @@ def extrapolated_surface_tension(T: float, sigma_end: float, T_end: float, Tc: f
     Examples
     --------
     >>> round(extrapolated_surface_tension(366.0, 1.5e-3, 364.0, 369.89) * 1e3, 4)
-    0.9808
+    0.9034
 
     References
     ----------

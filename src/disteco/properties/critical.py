@@ -94,13 +94,79 @@ def _check_below_pseudo_critical(T: float, x, Tcs) -> None:
 
 
 def supercritical_surface_tension(T: float, x, sigmas_Tb, Tbs, Tcs) -> float:
-    """Mixture surface tension by the Diguilio-Teja rule [N/m] (liquid below its pseudo-critical T)."""
+    """Mixture surface tension by the Diguilio-Teja corresponding-states rule [N/m].
+
+    sigma = 1.002855 T*^1.118091 (T / Tb_m) sigma_r, T* = (Tc_m/T - 1)/(Tc_m/Tb_m - 1), with Tc_m,
+    Tb_m and sigma_r mole-fraction means of Tc, Tb and the surface tensions at Tb.
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    x : sequence of float
+        Liquid mole fractions [-]
+    sigmas_Tb : sequence of float
+        Pure-component surface tensions at their normal boiling points [N/m]
+    Tbs : sequence of float
+        Normal boiling points [K]
+    Tcs : sequence of float
+        Critical temperatures [K]
+
+    Notes
+    -----
+    Needs only constants, so it holds for components above their Tc while the liquid is below
+    its pseudo-critical temperature; at or above it :class:`InfeasibleSpecError`. Source error
+    about 2 % over 21 binary and 4 ternary non-aqueous systems [1]_.
+
+    Examples
+    --------
+    >>> round(supercritical_surface_tension(298.15, [0.1606, 0.8394], [0.01424, 0.02530],
+    ...                                     [309.21, 312.95], [469.7, 508.0]) * 1e3, 3)
+    25.717
+
+    References
+    ----------
+    .. [1] Diguilio, R. M., Teja, A. S., Chemical Engineering Journal 38 (1988) 205-208.
+    """
     _check_below_pseudo_critical(T, x, Tcs)
     return float(Diguilio_Teja(T, list(x), list(sigmas_Tb), list(Tbs), list(Tcs)))
 
 
 def supercritical_liquid_density(T: float, x, molar_masses, Tcs, Vcs, omegas) -> float:
-    """Liquid mass density by the Hankinson-Thomson (COSTALD) mixture rule [kg/m^3]."""
+    """Saturated liquid mass density by the Hankinson-Thomson (COSTALD) mixture rule [kg/m^3].
+
+    V = V*_m V_R0 (1 - omega_m V_Rdelta) at Tr = T / Tc_m, with the mixture's characteristic
+    volume, critical temperature and acentric factor from the published mixing rules.
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    x : sequence of float
+        Liquid mole fractions [-]
+    molar_masses : sequence of float
+        Molar masses [kg/mol]
+    Tcs : sequence of float
+        Critical temperatures [K]
+    Vcs : sequence of float
+        Critical volumes, standing in for the characteristic volumes [m^3/mol]
+    omegas : sequence of float
+        Acentric factors [-]
+
+    Notes
+    -----
+    Source range 0.25 < Tr < 0.95 on the mixture's Tc (often used to 1.0) [1]_; at or above
+    the pseudo-critical temperature :class:`InfeasibleSpecError`.
+
+    Examples
+    --------
+    >>> round(supercritical_liquid_density(330.0, [1.0], [0.0441], [369.89], [2.0e-4], [0.1521]), 1)
+    435.3
+
+    References
+    ----------
+    .. [1] Hankinson, R. W., Thomson, G. H., AIChE Journal 25 (1979) 653-663.
+    """
     _check_below_pseudo_critical(T, x, Tcs)
     volume = COSTALD_mixture(list(x), T, list(Tcs), list(Vcs), list(omegas))
     return float(np.dot(molar_masses, x)) / volume
@@ -108,9 +174,39 @@ def supercritical_liquid_density(T: float, x, molar_masses, Tcs, Vcs, omegas) ->
 
 def supercritical_liquid_viscosity(T: float, Tc: float, Pc: float, omega: float, molar_mass: float,
                                    gas_viscosity: float) -> float:
-    """Liquid viscosity of a component above its Tc: Letsou-Stiel, not below its gas viscosity [Pa s].
+    """Liquid viscosity of a component near or above its Tc by Letsou-Stiel [Pa s].
 
-    ``molar_mass`` in [kg/mol]; Letsou-Stiel is fitted for 0.76 < Tr < 0.98 and is extrapolated here.
+    mu xi = (1.5174 - 2.135 Tr + 0.75 Tr^2) 1e-5 + omega (4.2552 - 7.674 Tr + 3.4 Tr^2) 1e-5,
+    xi = 2173.424 Tc^(1/6) M^(-1/2) Pc^(-2/3); never below ``gas_viscosity``.
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    Tc : float
+        Critical temperature [K]
+    Pc : float
+        Critical pressure [Pa]
+    omega : float
+        Acentric factor [-]
+    molar_mass : float
+        Molar mass [kg/mol]
+    gas_viscosity : float
+        The component's gas viscosity at the same state, the floor [Pa s]
+
+    Notes
+    -----
+    Fitted for 0.76 < Tr < 0.98 [1]_ and extrapolated above; the quadratics turn down past
+    Tr of about 1.1, hence the floor at the gas viscosity.
+
+    Examples
+    --------
+    >>> round(supercritical_liquid_viscosity(355.0, 369.89, 4.2512e6, 0.1521, 0.0441, 0.0) * 1e6, 1)
+    48.6
+
+    References
+    ----------
+    .. [1] Letsou, A., Stiel, L. I., AIChE Journal 19 (1973) 409-411.
     """
     return max(Letsou_Stiel(T, molar_mass * 1e3, Tc, Pc, omega), gas_viscosity)
 

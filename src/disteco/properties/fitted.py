@@ -177,15 +177,26 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     def liquid_volume(T, i):
         return mixture.molar_masses[i] / mixture.liquid_density(T, P_mid, unit[i])
 
+    heaviest = int(np.argmax(mixture.normal_boiling_points))
+
+    def liquid_enthalpy(T, i):
+        # Where the equation of state has no pure liquid root, thermo's "liquid" is the vapour (a jump
+        # by the latent heat); the component is then taken as dissolved, at infinite dilution in the
+        # heaviest component's liquid, which is how it occurs in the hot liquids of a column.
+        if mixture.liquid_root_exists(T, P_mid, unit[i]):
+            return mixture.liquid_enthalpy(T, P_mid, unit[i])
+        return mixture.dilute_liquid_enthalpy(T, P_mid, i, heaviest)
+
     pure = range(n)
-    return FittedMixture(
-        names=mixture.names, form=form, T_low=float(T_low), T_high=float(T_high), P_low=P_low, P_high=P_high,
-        antoine=antoine, nrtl_a=nrtl_a, nrtl_b=nrtl_b, k_fit=k_fit,
-        liquid_enthalpy=tuple(_fit_pure(lambda T: mixture.liquid_enthalpy(T, P_mid, unit[i]), Ts, 2) for i in pure),
-        vapour_enthalpy=tuple(_fit_pure(lambda T: mixture.vapour_enthalpy(T, P_mid, unit[i]), Ts, 2) for i in pure),
-        liquid_volume=tuple(_fit_pure(lambda T: liquid_volume(T, i), Ts, 1) for i in pure),
-        surface_tension=tuple(_fit_pure(lambda T: mixture.surface_tension(T, unit[i]), Ts, 1) for i in pure),
-        molar_masses=tuple(float(m) for m in mixture.molar_masses))
+    with mixture.quiet():
+        return FittedMixture(
+            names=mixture.names, form=form, T_low=float(T_low), T_high=float(T_high), P_low=P_low, P_high=P_high,
+            antoine=antoine, nrtl_a=nrtl_a, nrtl_b=nrtl_b, k_fit=k_fit,
+            liquid_enthalpy=tuple(_fit_pure(lambda T: liquid_enthalpy(T, i), Ts, 2) for i in pure),
+            vapour_enthalpy=tuple(_fit_pure(lambda T: mixture.vapour_enthalpy(T, P_mid, unit[i]), Ts, 2) for i in pure),
+            liquid_volume=tuple(_fit_pure(lambda T: liquid_volume(T, i), Ts, 1) for i in pure),
+            surface_tension=tuple(_fit_pure(lambda T: mixture.surface_tension(T, unit[i]), Ts, 1) for i in pure),
+            molar_masses=tuple(float(m) for m in mixture.molar_masses))
 
 
 def _fit_pure(function, Ts, degree: int) -> tuple[float, ...]:

@@ -40,6 +40,31 @@ class PhasePoint:
     y: tuple[float, ...]
 
 
+# Pure-component correlations, in order of preference, for the properties sizing uses. thermo's
+# own default for many components is a fit labelled with the name of an existing program; data
+# so labelled is not used here, so a published correlation or data compilation is chosen instead.
+PUBLISHED_METHODS = {
+    "SurfaceTensions": ("SOMAYAJULU2", "SOMAYAJULU", "JASPER", "VDI_PPDS", "MIQUEU", "BROCK_BIRD", "PITZER_SIGMA",
+                        "SASTRI_RAO", "ZUO_STENBY", "Aleem"),
+    "ViscosityLiquids": ("DIPPR_PERRY_8E", "VDI_PPDS", "DUTT_PRASAD", "VISWANATH_NATARAJAN_3",
+                         "VISWANATH_NATARAJAN_2", "LETSOU_STIEL", "PRZEDZIECKI_SRIDHAR", "JOBACK"),
+    "ViscosityGases": ("DIPPR_PERRY_8E", "VDI_PPDS", "LUCAS_GAS", "STIEL_THODOS", "YOON_THODOS", "GHARAGHEIZI"),
+    "ThermalConductivityLiquids": ("DIPPR_PERRY_8E", "VDI_PPDS", "SATO_RIEDEL", "LAKSHMI_PRASAD", "GHARAGHEIZI_L"),
+    "ThermalConductivityGases": ("DIPPR_PERRY_8E", "VDI_PPDS", "CHUNG", "EUCKEN_MOD", "EUCKEN"),
+}
+
+
+def choose_published_methods(correlations) -> None:
+    """Set each pure-component correlation named in :data:`PUBLISHED_METHODS` to the first listed
+    method thermo has data for (a component with none of them keeps thermo's choice)."""
+    for group, preferred in PUBLISHED_METHODS.items():
+        for correlation in getattr(correlations, group, None) or ():
+            available = correlation.all_methods
+            chosen = next((m for m in preferred if m in available), None)
+            if chosen is not None:
+                correlation.method = chosen
+
+
 class Mixture:
     """Phase equilibrium and physical properties of one mixture over thermo.
 
@@ -52,6 +77,7 @@ class Mixture:
         self.method = method
         ids = [c.cas for c in components]
         self._constants, self._correlations = ChemicalConstantsPackage.from_IDs(ids)
+        choose_published_methods(self._correlations)
         self._flasher = self._make_flasher(thermo_spec)
         self._notes: dict[str, str] = {}
         self._quiet = False

@@ -26,11 +26,19 @@ import pyomo.environ as pyo
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
+from .given import check_stage_bound
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Shortcut, shortcut
 from .solve import certify, configuration_tac, read_design, solved_model
+
+# The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
+# Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
+# source); never below the 60 stages that were the fixed bound before, so small columns keep
+# the room they had.
+STAGE_BOUND_FACTOR = 4.5
+STAGE_BOUND_FLOOR = 60
 
 DIRECTIONS = tuple((dn, df) for dn in (-1, 0, 1) for df in (-1, 0, 1) if (dn, df) != (0, 0))
 IMPROVEMENT = 1e-7  # relative TAC drop that counts as a move
@@ -80,6 +88,11 @@ class Evaluator:
         """The cheapest feasible configuration seen."""
         feasible = {k: v for k, v in self.designs.items() if v < float("inf")}
         return min(feasible, key=feasible.get) if feasible else None
+
+
+def default_max_stages(minimum_stages: float) -> int:
+    """Largest stage count searched when the options give none [-]: ``STAGE_BOUND_FACTOR`` x Fenske's minimum."""
+    return max(STAGE_BOUND_FLOOR, math.ceil(STAGE_BOUND_FACTOR * minimum_stages))
 
 
 def stage_floor(estimate: Shortcut, config) -> int:
@@ -216,6 +229,9 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     config = model_options(options)
     check_problem(problem)
     estimate = shortcut(problem)
+    if config.max_stages is None:
+        config.max_stages = default_max_stages(estimate.minimum_stages)
+    check_stage_bound(estimate, config.max_stages)
     clock = time.perf_counter()
     evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
     status = "locally optimal (discrete neighbourhood)"

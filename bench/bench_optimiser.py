@@ -29,11 +29,10 @@ import pyomo.environ as pyo
 
 from disteco.case import load_case, parse_case
 from disteco.costing.data import load_cost_data
-from disteco.optimisation.design import model_cost_basis, separation_problem
+from disteco.optimisation.design import model_cost_basis, resolved_problem
 from disteco.optimisation.enumerate import enumerate_designs
 from disteco.optimisation.options import model_options
-from disteco.optimisation.search import Evaluator, default_max_stages, optimise
-from disteco.optimisation.start import shortcut
+from disteco.optimisation.search import Evaluator, optimise
 from disteco.properties import build_mixture, feed_state
 from disteco.sizing.options import SizingOptions
 
@@ -61,16 +60,21 @@ def machine() -> str:
             f"solver ripopt available: {pyo.SolverFactory('ripopt').available(exception_flag=False)}")
 
 
-def run(label: str, case, max_stages: int, options: dict) -> None:
+def optimised(case, options: dict, max_stages: int | None):
+    """(problem, basis, options, optimum, optimiser time [s]) at ``max_stages`` (None: the Fenske-based default)."""
     mixture = build_mixture(case.components, case.thermo, case.column.top_pressure)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     config = model_options({**options, "max_stages": max_stages})
-    problem = separation_problem(case, mixture, feed, max_stages)
+    problem = resolved_problem(case, mixture, feed, config)
     basis, _ = model_cost_basis(problem, mixture, load_cost_data(), SizingOptions(), None,
                                 case.economics.cost_year, config)
     start = time.perf_counter()
     found = optimise(problem, basis, config)
-    t_opt = time.perf_counter() - start
+    return problem, basis, config, found, time.perf_counter() - start
+
+
+def run(label: str, case, max_stages: int, options: dict) -> None:
+    problem, basis, config, found, t_opt = optimised(case, options, max_stages)
     start = time.perf_counter()
     full = enumerate_designs(problem, basis, config, reflux_points=7)
     t_enum = time.perf_counter() - start
@@ -89,17 +93,8 @@ WINDOW_STAGES, WINDOW_FEED = 5, 6
 
 def run_window(label: str, case, options: dict) -> None:
     """Optimiser at the default (Fenske-based) stage bound against a window enumeration around its answer."""
-    mixture = build_mixture(case.components, case.thermo, case.column.top_pressure)
-    feed = feed_state(case.feed, mixture, case.column.top_pressure)
-    probe = separation_problem(case, mixture, feed, 60)
-    max_stages = default_max_stages(shortcut(probe).minimum_stages)
-    config = model_options({**options, "max_stages": max_stages})
-    problem = separation_problem(case, mixture, feed, max_stages)
-    basis, _ = model_cost_basis(problem, mixture, load_cost_data(), SizingOptions(), None,
-                                case.economics.cost_year, config)
-    start = time.perf_counter()
-    found = optimise(problem, basis, config)
-    t_opt = time.perf_counter() - start
+    problem, basis, config, found, t_opt = optimised(case, options, None)
+    max_stages = config.max_stages
     b = found.best
     evaluator = Evaluator(problem, basis, config, deadline=float("inf"), low=3)
     start = time.perf_counter()

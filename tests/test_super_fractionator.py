@@ -40,7 +40,7 @@ def test_default_stage_bound_is_a_multiple_of_fenske():
 
 
 def test_super_fractionator_optimum_beyond_the_old_fixed_bound(reduced):
-    """Isobutane/n-butane at 7 bar (relative volatility about 1.36 by Raoult's law), 97 %/3 %: the
+    """Isobutane/n-butane at 8 bar (relative volatility about 1.35 by Raoult's law), 97 %/3 %: the
     optimum lies beyond the 60 stages that used to be the fixed bound, inside the Fenske-based bound,
     as a local optimum of the discrete neighbourhood, at a reflux a few per cent above the minimum
     (R/Rmin of 1.05-1.2 is usual for super-fractionators: common practice, no source)."""

@@ -73,6 +73,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """
     report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
+    mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
     data = cost_data_of(case)
     names = resolve_scenarios(data, scenarios or case.economics.scenarios)
     summary = check(case)
@@ -87,7 +88,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                                      given.feed_stage, options, sizing, names[0])
         parts = _evaluation_parts(evaluation, data)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
-                            warnings=_warnings(stages.shortcut.warnings + evaluation.warnings, parts))
+                            warnings=_warnings(stages.shortcut.warnings + evaluation.warnings + mixture.warnings,
+                                               parts))
     optima, curves = [], []
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
@@ -101,7 +103,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           **_binary_parts(stages, best.best.reflux_ratio, case))
     extra = tuple(cross.below_zero()) if cross is not None else ()
-    extra += _pinch_note(stages.minimum_reflux, best.best, curves[0][1])
+    extra += _pinch_note(stages.minimum_reflux, best.best, curves[0][1]) + mixture.warnings
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
                         warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts))
 

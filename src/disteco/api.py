@@ -14,6 +14,7 @@ from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_scenarios
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
+from .optimisation.given import check_decisions
 from .optimisation.results import DesignEvaluation, OptimumDesign
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
 from .reports.design_result import DesignResult
@@ -42,13 +43,8 @@ class GivenDesign:
     feed_stage: int
 
     def __post_init__(self):
-        if not self.reflux_ratio > 0.0:
-            raise CaseError("reflux ratio", f"{self.reflux_ratio}", "a positive number")
-        if self.stages < 2:
-            raise CaseError("stages", f"{self.stages}", "at least 2 (one tray and the reboiler)")
-        if not 1 <= self.feed_stage <= self.stages:
-            raise CaseError("feed stage", f"{self.feed_stage} with {self.stages} stages",
-                            f"1 to {self.stages}, counted from the top")
+        # What needs no mixture is checked here; the minima when the design is priced (before any solve).
+        check_decisions(self.reflux_ratio, self.stages, self.feed_stage)
 
 
 def mixture_of(case: Case) -> Mixture:

@@ -55,6 +55,7 @@ class Evaluator:
     designs: dict = field(default_factory=dict)
     steps: list = field(default_factory=list)
     failures: dict = field(default_factory=dict)  # (N, NF) -> why the solve failed (not infeasibility)
+    profiles: dict = field(default_factory=dict)  # (N, NF) -> its solved profile, to restart it from
     strategies: tuple = ()  # barrier strategies, the one that last worked first
 
     low: int = 3
@@ -74,7 +75,7 @@ class Evaluator:
         if remaining <= 0.0:
             raise TimeoutError
         try:
-            tac, _, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
+            tac, profile, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
                                                time_limit=min(remaining, self.config.configuration_time_limit),
                                                strategies=self.strategies or None)
         except InfeasibleSpecError as exc:
@@ -88,6 +89,7 @@ class Evaluator:
             self.steps.append(SearchStep(stages, feed_stage, None, reason))
             return float("inf")
         self.steps.append(SearchStep(stages, feed_stage, tac, report.status))
+        self.profiles[(stages, feed_stage)] = profile
         if report.barrier:
             self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
         return tac
@@ -276,6 +278,24 @@ def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: 
         f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}){failed}; tried {tried}")
 
 
+def final_solve(evaluator: Evaluator, chosen: tuple[int, int]):
+    """Solve the chosen configuration again for the full read-back, from its own solved profile.
+
+    Restarting from the solution takes a few iterations; a cold re-solve can stall where the
+    search's solve did not (measured: a 25-bar deethaniser with a partial condenser, whose
+    chosen configuration needed the constant-molar-overflow homotopy).
+    """
+    problem, basis, config = evaluator.problem, evaluator.basis, evaluator.config
+    strategies = evaluator.strategies or None
+    start = evaluator.profiles.get(chosen)
+    if start is not None:
+        try:
+            return solved_model(problem, basis, *chosen, config, start=start, strategies=strategies)
+        except (SolverError, InfeasibleSpecError):
+            pass
+    return solved_model(problem, basis, *chosen, config, strategies=strategies)
+
+
 def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> OptimumDesign:
     """Lowest-TAC design: discrete descent over (N, NF), NLP in (R, D) for each configuration.
 
@@ -302,7 +322,7 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     chosen = evaluator.best()
     if chosen is None:
         raise _nothing_found(evaluator, estimate, config, timed_out)
-    model, local = solved_model(problem, basis, *chosen, config, strategies=evaluator.strategies or None)
+    model, local = final_solve(evaluator, chosen)
     best = read_design(model, local)
     gap, message = None, ""
     if config.certify:

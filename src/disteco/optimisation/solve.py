@@ -228,11 +228,14 @@ def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: in
 
 def configuration_tac(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
                       options=None, time_limit: float | None = None,
-                      strategies: tuple[str, ...] | None = None) -> tuple[float, float, SolverReport]:
-    """(TAC [currency/yr], reflux ratio [-], report) of one configuration, without the full read-back."""
+                      strategies: tuple[str, ...] | None = None) -> tuple[float, Profile, SolverReport]:
+    """(TAC [currency/yr], solved profile, report) of one configuration, without the full read-back.
+
+    The profile restarts the configuration later (the search's final read-back) in a few iterations.
+    """
     model, report = solved_model(problem, basis, stages, feed_stage, options, time_limit=time_limit,
                                  strategies=strategies)
-    return pyo.value(model.tac), pyo.value(model.R), report
+    return pyo.value(model.tac), profile_of(model), report
 
 
 def read_design(model, report: SolverReport) -> DesignEvaluation:

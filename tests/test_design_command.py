@@ -70,6 +70,10 @@ def test_workbook_numbers_equal_result_json(result):
     tac_label = next(k for k in values if str(k).startswith("Total annualised cost, sizing and costing"))
     assert values[tac_label] == pytest.approx(data["cost"]["tac_per_year"])
     assert values["Column diameter [m]"] == pytest.approx(data["design"]["diameter_m"])
+    assert values["Specifications met on thermo"] == "yes"
+    assert values["Minimum reflux ratio, energy balances on thermo [-]"] == pytest.approx(
+        data["minimum_reflux_energy_balance"]["reflux_ratio"])
+    assert values["Reboiler duty, thermo [kW]"] == pytest.approx(data["verification"]["reboiler_duty_kW"])
 
 
 def test_given_design_below_minimum_reflux_is_refused(tmp_path, capsys):

@@ -10,7 +10,7 @@ def checks_lines(checks: ThermoChecks | None, reflux_ratio: float, cmo_minimum: 
     if checks is None:
         return []
     v, k = checks.verification, checks.verification.keys
-    state = "specifications met" if v.specifications_met else "SPECIFICATIONS MISSED"
+    state = "specifications met" if v.specifications_met else "SPECIFICATIONS MISSED by the model's design"
     lines = [f"Verified on thermo (energy balances, {v.profile.stages} stages): {state} (tolerance "
              f"{100 * v.tolerance:g} %); light key {k.distillate_light_key_fraction:.5f} in the distillate, "
              f"{k.bottoms_light_key_fraction:.5f} in the bottoms; recoveries {k.light_key_recovery:.4f} / "

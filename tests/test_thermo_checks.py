@@ -153,3 +153,15 @@ def test_reflux_below_either_minimum_is_loudly_warned():
     assert "constant-molar-overflow minimum 1.7 (Underwood)" in cmo
     (missing,) = minimum_warnings(1.6, 1.4, "Underwood", replace(m, reflux_ratio=None, failure="no convergence"))
     assert "not found" in missing
+
+
+def test_verification_costs_one_rigorous_solve(benzene, monkeypatch):
+    """A design that meets its specifications is checked with exactly one energy-balance solve."""
+    import disteco.optimisation.verification as verification
+
+    calls = []
+    solve = verification.solve_rigorous
+    monkeypatch.setattr(verification, "solve_rigorous", lambda *a, **k: calls.append(1) or solve(*a, **k))
+    case, mixture, feed, data, _, design = benzene
+    v = verify_design(case, mixture, feed, design, shortcut_design(mixture, feed, case.products, case.column), data)
+    assert v.specifications_met and len(calls) == 1

@@ -54,8 +54,10 @@ def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortc
                                  energy=True, start=verified, pressure_drop_per_stage=(bottom - top) / (stages - 1),
                                  max_log_reflux_step=REFLUX_STEP, time_limit=time_limit)
     except (ConvergenceError, InfeasibleSpecError) as failure:
-        return EnergyBalanceMinimum(None, stages, feed_stage, top, bottom, time.monotonic() - began, basis,
-                                    str(failure))
+        spent = time.monotonic() - began
+        why = (f"stopped after {spent:.0f} s (limit {time_limit:g} s) before both specifications were met"
+               if spent > time_limit else str(failure))
+        return EnergyBalanceMinimum(None, stages, feed_stage, top, bottom, spent, basis, why)
     return EnergyBalanceMinimum(profile.reflux_ratio, stages, feed_stage, top, bottom, time.monotonic() - began,
                                 basis)
 

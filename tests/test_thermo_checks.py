@@ -165,3 +165,23 @@ def test_verification_costs_one_rigorous_solve(benzene, monkeypatch):
     case, mixture, feed, data, _, design = benzene
     v = verify_design(case, mixture, feed, design, shortcut_design(mixture, feed, case.products, case.column), data)
     assert v.specifications_met and len(calls) == 1
+
+
+def test_given_design_is_verified_on_thermo(tmp_path):
+    """A given design (--reflux/--stages/--feed-stage) gets the same checks in result.json: R 1.9
+    lies above both minima of the benzene column, so nothing below a minimum is warned."""
+    import json
+
+    from disteco.cli import main
+
+    code = main(["design", str(EXAMPLES / "aromatics_binary.toml"), "-o", str(tmp_path), "-q", "--no-figures",
+                 "--reflux", "1.9", "--stages", "30", "--feed-stage", "15"])
+    assert code == 0
+    data = json.loads((tmp_path / "result.json").read_text())
+    assert data["mode"] == "evaluate"
+    assert data["verification"]["specifications_met"] is True
+    m = data["minimum_reflux_energy_balance"]
+    assert data["minimum_reflux_ratio"] < m["reflux_ratio"] < 1.9
+    assert m["reflux_ratio_over_minimum"] == pytest.approx(1.9 / m["reflux_ratio"])
+    assert data["fit_check"]["within_tolerance"] is True
+    assert not [w for w in data["warnings"] if "REFLUX BELOW MINIMUM" in w]

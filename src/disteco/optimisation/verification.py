@@ -28,7 +28,8 @@ from ..stages import ColumnSpec, ShortcutDesign, StageProfile, solve_rigorous, s
 from .pricing import price_design
 from .results import DesignEvaluation, SequentialPrice
 
-SPEC_TOLERANCE = 0.01  # relative excess of a key impurity accepted as meeting its specification (common practice, no source)
+# relative excess of a key impurity accepted as meeting its specification (common practice, no source)
+SPEC_TOLERANCE = 0.01
 METHOD = "stage-by-stage energy balances on the thermodynamic library's equilibrium and enthalpies ({method})"
 
 

@@ -23,7 +23,8 @@ def checks_table(checks: ThermoChecks, reflux_ratio: float, cmo_minimum: float |
         ("Condenser duty, thermo [kW]", v.condenser_duty / 1e3),
         ("Reboiler duty, thermo [kW]", v.reboiler_duty / 1e3),
         ("Corrected on thermo", "no" if v.corrected is None else
-         f"yes: reflux ratio {v.corrected.reflux_ratio:.4f}, distillate {3.6 * v.corrected.distillate_flow:.3f} kmol/h"),
+         f"yes: reflux ratio {v.corrected.reflux_ratio:.4f}, "
+         f"distillate {3.6 * v.corrected.distillate_flow:.3f} kmol/h"),
     ]
     if cmo_minimum:
         items.append(("Reflux ratio / constant-molar-overflow minimum [-]", reflux_ratio / cmo_minimum))

@@ -70,6 +70,10 @@ def test_workbook_numbers_equal_result_json(result):
     tac_label = next(k for k in values if str(k).startswith("Total annualised cost, sizing and costing"))
     assert values[tac_label] == pytest.approx(data["cost"]["tac_per_year"])
     assert values["Column diameter [m]"] == pytest.approx(data["design"]["diameter_m"])
+    assert values["Specifications met on thermo"] == "yes"
+    assert values["Minimum reflux ratio, energy balances on thermo [-]"] == pytest.approx(
+        data["minimum_reflux_energy_balance"]["reflux_ratio"])
+    assert values["Reboiler duty, thermo [kW]"] == pytest.approx(data["verification"]["reboiler_duty_kW"])
 
 
 def test_given_design_below_minimum_reflux_is_refused(tmp_path, capsys):
@@ -100,14 +104,27 @@ def test_tac_curve_has_its_minimum_at_the_optimum(result):
     assert (out / "figures" / "tac_vs_reflux_reference.png").stat().st_size > 10_000
 
 
-def test_energy_balance_pinch_is_pointed_out(result):
-    """The minimum reflux assumes constant molar overflow; when the TAC curve shows the column
-    failing below a higher reflux under energy balances, a warning gives that reflux and the
-    optimum's margin over it (numbers from the same result.json)."""
+def test_reported_design_is_verified_on_thermo(result):
+    """result.json carries the thermo verification, the energy-balance minimum reflux beside the
+    constant-molar-overflow one, and the fitted forms' errors, each with sensible numbers."""
     _, data = result
-    lowest = min(data["tac_curves"][0]["points"], key=lambda p: p["reflux_ratio"])
-    assert lowest["reflux_ratio"] > data["minimum_reflux_ratio"]
-    (note,) = [w for w in data["warnings"] if "assumes constant molar overflow" in w]
-    assert f"{lowest['reflux_ratio']:.4g} ({lowest['stages']} stages)" in note
-    margin = 100 * (data["design"]["reflux_ratio"] / lowest["reflux_ratio"] - 1)
-    assert f"lies {margin:.2g} % above it" in note
+    v = data["verification"]
+    assert v["specifications_met"] is True and v["corrected_design"] is None
+    assert v["method"].startswith("stage-by-stage energy balances")
+    assert v["distillate_light_key_fraction"] == pytest.approx(0.985, abs=2e-4)
+    assert v["bottoms_light_key_fraction"] == pytest.approx(0.015, abs=2e-4)
+    assert 0.0 <= v["max_temperature_difference_K"] < 0.1 and 0.0 <= v["max_composition_difference"] < 1e-3
+    assert v["reboiler_duty_kW"] == pytest.approx(data["design"]["reboiler_duty_kW"], rel=5e-3)
+    assert v["condenser_duty_kW"] == pytest.approx(data["design"]["condenser_duty_kW"], rel=5e-3)
+    m = data["minimum_reflux_energy_balance"]
+    # benzene-toluene: the McCabe-Thiele minimum is at the top pressure; the energy-balance one
+    # sees the column's higher pressures (lower volatility) as well as the latent heats
+    assert data["minimum_reflux_ratio"] < m["reflux_ratio"] < data["design"]["reflux_ratio"]
+    assert m["reflux_ratio_over_minimum"] == pytest.approx(data["design"]["reflux_ratio"] / m["reflux_ratio"])
+    assert m["stages"] == 2 * data["design"]["stages"]
+    assert m["bottom_pressure_kPa"] == pytest.approx(data["stage_profile"]["pressure_kPa"][-1])
+    f = data["fit_check"]
+    assert f["within_tolerance"] and f["max_bubble_temperature_error_K"] < 0.1
+    assert f["max_vapour_fraction_error"] < 1e-3 and f["max_enthalpy_error_kJ_per_mol"] < 0.1
+    for scenario in data["scenarios"]:
+        assert scenario["verification"]["specifications_met"] is True

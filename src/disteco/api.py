@@ -5,7 +5,7 @@ Engineers use this from notebooks and scripts; the command line is a thin layer 
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Callable
 
@@ -16,6 +16,7 @@ from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.given import check_decisions
 from .optimisation.results import DesignEvaluation, OptimumDesign
+from .optimisation.thermo_checks import ThermoChecks, thermo_checks
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
 from .reports.design_result import DesignResult
 from .reports.figures import write_design_figures
@@ -86,45 +87,42 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         report(f"pricing the given design under '{names[0]}'", 1, total)
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
                                      given.feed_stage, options, sizing, names[0])
-        parts = _evaluation_parts(evaluation, data)
+        checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
+        parts = _checked(_evaluation_parts(evaluation, data), checks)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
-                            warnings=_warnings(stages.shortcut.warnings + evaluation.warnings + mixture.warnings,
-                                               parts))
-    optima, curves = [], []
+                            warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
+                                               + mixture.warnings, parts))
+    optima, curves, checked = [], [], []
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
         optima.append((name, optimum))
+        checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name,
+                                            full=k == 0)))
         report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
         curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
                                                  sizing, name)))
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
     best = optima[0][1]
+    checks = checked[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
-                          **_binary_parts(stages, best.best.reflux_ratio, case))
+                          scenario_checks=tuple(checked), **_binary_parts(stages, checks.reflux_ratio, case))
     extra = tuple(cross.below_zero()) if cross is not None else ()
-    extra += _pinch_note(stages.minimum_reflux, best.best, curves[0][1]) + mixture.warnings
+    extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
+                   for w in c.warnings)
+    extra += mixture.warnings
+    parts = _checked(parts, checks)
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
                         warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts))
 
 
-def _pinch_note(minimum_reflux: float, best: DesignEvaluation, curve) -> tuple[str, ...]:
-    """Say so when the curve shows the energy-balance pinch above the constant-molar-overflow minimum.
-
-    The reported minimum reflux assumes constant molar overflow; with stage energy balances
-    the lowest reflux on the TAC curve that still meets the specifications bounds the true
-    minimum from above, so R over it is a lower bound on the optimum's true R/Rmin.
-    """
-    if best.profile.model != "rigorous":
-        return ()
-    lowest = min(curve, key=lambda d: d.reflux_ratio)
-    if lowest.reflux_ratio <= minimum_reflux:
-        return ()
-    return (f"minimum reflux {minimum_reflux:.4g} assumes constant molar overflow; with stage energy balances "
-            f"the lowest reflux found to meet the specifications is {lowest.reflux_ratio:.4g} ({lowest.stages} "
-            f"stages), and the optimum {best.reflux_ratio:.4g} lies {100 * (best.reflux_ratio / lowest.reflux_ratio - 1):.2g} % "
-            f"above it: closer to the pinch than {best.reflux_ratio / minimum_reflux:.3g} x the minimum suggests; "
-            "keep a control margin",)
+def _checked(parts: ReportParts, checks: ThermoChecks) -> ReportParts:
+    """``parts`` with the thermo checks, and the corrected design in place of the model's where there is one."""
+    v = checks.verification
+    if v.corrected is None or v.corrected_price is None:
+        return replace(parts, checks=checks)
+    return replace(parts, checks=checks, profile=v.corrected, sizing=v.corrected_price.sizing,
+                   cost=v.corrected_price.cost)
 
 
 def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:

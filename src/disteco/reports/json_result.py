@@ -4,7 +4,8 @@ Top-level keys (schema_version 1): ``schema_version``, ``disteco_version``, ``ca
 ``case_file``, ``mode`` ("optimise" or "evaluate"), ``minimum_reflux_ratio``,
 ``minimum_stages``, ``design``, ``cost``, ``solver``, ``equipment``, ``stage_profile``,
 ``shortcut_table``, ``scenarios``, ``cross_table``, ``tac_curves``, ``mixture``, ``feed``, ``warnings``,
-``cautions``. A part that was not computed is ``null``. Money is in ``cost.currency`` of
+``cautions``, and the thermo checks of the reported design (``reports.json_checks``):
+``verification``, ``minimum_reflux_energy_balance``, ``fit_check``. A part that was not computed is ``null``. Money is in ``cost.currency`` of
 ``cost.cost_year``; ``_per_year`` means per operating year.
 """
 
@@ -19,6 +20,7 @@ from ..sizing import ColumnSizing
 from ..stages import StageDesign, StageProfile
 from .cautions import CAUTIONS
 from .design_result import SCHEMA_VERSION, DesignResult
+from .json_checks import checks_json, scenario_verification_json
 
 KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
 
@@ -154,9 +156,11 @@ def solver_json(report: SolverReport, model_tac: float | None) -> dict:
                                             for u in report.unsolved]}}
 
 
-def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None) -> dict:
+def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None, checks=None) -> dict:
     best = optimum.best
     sequential = optimum.sequential
+    if checks is not None and checks.verification.corrected_price is not None:
+        sequential = checks.verification.corrected_price
     return {
         "scenario": name,
         "reflux_ratio": best.reflux_ratio,
@@ -169,6 +173,7 @@ def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | Non
         "cost": cost_json(sequential.cost) if sequential else None,
         "diameter_m": sequential.sizing.diameter if sequential else best.sizes.diameter,
         "height_m": sequential.sizing.height.tangent_length if sequential else best.sizes.height,
+        "verification": scenario_verification_json(checks),
     }
 
 
@@ -208,7 +213,8 @@ def result_json(result: DesignResult) -> dict:
         "equipment": equipment_json(parts.sizing) if parts.sizing else None,
         "stage_profile": profile_json(profile) if profile else None,
         "shortcut_table": stages_json(stages) if stages else None,
-        "scenarios": [scenario_json(name, optimum, r_min) for name, optimum in parts.scenarios],
+        "scenarios": [scenario_json(name, optimum, r_min, dict(parts.scenario_checks).get(name))
+                      for name, optimum in parts.scenarios],
         "cross_table": None if cross is None else {
             "scenarios": list(cross.scenarios), "currency": cross.currency,
             "tac_per_year": [list(row) for row in cross.tac],
@@ -225,4 +231,5 @@ def result_json(result: DesignResult) -> dict:
         "feed": feed_json(result.feed),
         "warnings": list(result.warnings),
         "cautions": list(CAUTIONS),
+        **checks_json(parts.checks, profile.reflux_ratio if profile else None),
     }

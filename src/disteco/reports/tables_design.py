@@ -6,6 +6,7 @@ from dataclasses import dataclass
 
 from ..costing import CostData, CostSummary, HeatTransferCoefficient
 from ..optimisation.results import DesignEvaluation, OptimumDesign
+from ..optimisation.thermo_checks import ThermoChecks
 from ..properties import BinaryDiagram, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
@@ -25,7 +26,9 @@ class ReportParts:
     ``coefficients`` the heat-transfer coefficient rows the exchangers were sized with;
     ``optimum``: the optimiser's result; ``scenarios``: (name, optimum) per price scenario;
     ``cross``: each scenario's design under every scenario's prices; ``tac_curves``:
-    (scenario, designs along the reflux ratio with stages and feed re-optimised).
+    (scenario, designs along the reflux ratio with stages and feed re-optimised); ``checks``:
+    the reported design on thermo (verification, energy-balance minimum reflux, fit check),
+    ``scenario_checks`` (scenario, checks) of every scenario's optimum.
     """
 
     profile: StageProfile | None = None
@@ -39,6 +42,8 @@ class ReportParts:
     scenarios: tuple[tuple[str, OptimumDesign], ...] = ()
     cross: CrossTable | None = None
     tac_curves: tuple[tuple[str, tuple[DesignEvaluation, ...]], ...] = ()
+    checks: ThermoChecks | None = None
+    scenario_checks: tuple[tuple[str, ThermoChecks], ...] = ()
 
 
 def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:

@@ -6,6 +6,7 @@ from .._base.units import to_degC
 from ..properties import MixtureSummary
 from .cautions import CAUTIONS
 from .design_result import DesignResult
+from .text_checks import checks_lines
 
 
 def mixture_text(summary: MixtureSummary) -> str:
@@ -49,10 +50,11 @@ def design_text(result: DesignResult) -> str:
     heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
     if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:
         heading = "Best design found (search incomplete, see the warnings)"
-    factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x minimum)" if stages else ""
+    factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
+    lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)
     if parts.sizing is not None:
         s = parts.sizing
         lines.append(f"Column: {s.diameter:.2f} m diameter, {s.real_trays} real trays "

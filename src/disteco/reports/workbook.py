@@ -21,6 +21,7 @@ from .design_result import DesignResult
 from .files import write_atomically
 from .tables import (Plot, Table, cautions_table, case_table, components_table, feed_table, mixture_table,
                      products_table, stage_profile_table, warnings_table)
+from .tables_checks import checks_table
 from .tables_costs import (capital_table, column_table, equipment_table, exchangers_table, provenance_table,
                            tac_breakdown_table, tac_table, utilities_table)
 from .tables_design import ReportParts, design_plots, summary_table
@@ -55,6 +56,9 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     summary = [summary_table(result.case.title, parts)]
     if parts.cost is not None:
         summary.append(tac_table(parts.cost))
+    if parts.checks is not None and parts.profile is not None:
+        minimum = result.stages.minimum_reflux if result.stages is not None else None
+        summary.append(checks_table(parts.checks, parts.profile.reflux_ratio, minimum))
     inputs = [case_table(result.case), mixture_table(result.mixture), components_table(result.mixture),
               feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:

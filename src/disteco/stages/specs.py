@@ -9,6 +9,8 @@ previous one. The start comes from the shortcut design (its D, and R from Gillil
 from __future__ import annotations
 
 import math
+import time
+from dataclasses import replace
 
 import numpy as np
 from scipy.optimize import brentq
@@ -58,35 +60,51 @@ def gilliland_reflux(design: ShortcutDesign, stages: int) -> float:
 
 def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column: Column,
                    design: ShortcutDesign, stages: int, feed_stage: int, energy: bool = True,
-                   start_reflux: float | None = None) -> StageProfile:
+                   start_reflux: float | None = None, start: StageProfile | None = None,
+                   pressure_drop_per_stage: float | None = None,
+                   max_log_reflux_step: float = MAX_LOG_REFLUX_STEP,
+                   time_limit: float | None = None) -> StageProfile:
     """Profile of a column with ``stages`` and ``feed_stage`` that meets both key specifications.
 
     ``energy`` chooses the stage model (energy balances, or constant molar overflow);
     ``start_reflux`` replaces the Gilliland estimate of R as the starting point.
+    ``start``: an earlier profile of the same mixture (any stage count): Newton starts from
+    its D (and its R unless ``start_reflux`` is given), and the first solve is warm-started
+    from it. ``pressure_drop_per_stage`` [Pa] replaces the column's; ``max_log_reflux_step``
+    caps each Newton step in ln R (small steps keep warm starts good near a pinch);
+    ``time_limit`` [s] ends the Newton iterations with ConvergenceError once exceeded.
     Raises InfeasibleSpecError when the stages are too few, ConvergenceError when Newton
     fails (usually: too close to the minimum number of stages).
     """
     solve = solve_rigorous if energy else solve_cmo
     F = feed.molar_flow
+    began = time.monotonic()
 
     def run(log_r: float, D: float, guess: StageProfile | None):
         spec = ColumnSpec.from_column(column, stages, feed_stage, math.exp(log_r), D)
+        if pressure_drop_per_stage is not None:
+            spec = replace(spec, pressure_drop_per_stage=pressure_drop_per_stage)
         profile = solve(mixture, feed, spec, guess)
         return profile, spec_residuals(profile, products, feed)
 
-    reflux = start_reflux if start_reflux is not None else gilliland_reflux(design, stages)
-    u = np.array([math.log(reflux), design.distillate_flow])
-    profile, r = run(u[0], u[1], None)
+    if start_reflux is not None:
+        reflux = start_reflux
+    else:
+        reflux = start.reflux_ratio if start is not None else gilliland_reflux(design, stages)
+    u = np.array([math.log(reflux), start.distillate_flow if start is not None else design.distillate_flow])
+    profile, r = run(u[0], u[1], start)
     for _ in range(MAX_ITERATIONS):
         if np.abs(r).max() < TOLERANCE:
             return profile
+        if time_limit is not None and time.monotonic() - began > time_limit:
+            break
         J = np.empty((2, 2))
         for k, h in enumerate((DIFFERENCE, DIFFERENCE * F)):
             shifted = u.copy()
             shifted[k] += h
             J[:, k] = (run(shifted[0], shifted[1], profile)[1] - r) / h
         step = np.linalg.solve(J, -r)
-        step *= min(1.0, MAX_LOG_REFLUX_STEP / max(abs(step[0]), 1e-30))
+        step *= min(1.0, max_log_reflux_step / max(abs(step[0]), 1e-30))
         for _ in range(12):
             trial = u + step
             if 0.0 < trial[1] < F:

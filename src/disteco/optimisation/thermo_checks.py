@@ -1,0 +1,56 @@
+"""Every reported design checked on thermo: verification, energy-balance minimum reflux, fit check.
+
+One call per reported design; see :mod:`.verification`, :mod:`.minimum_reflux` and
+:mod:`.fit_check` for what each part does and costs.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..case import Case
+from ..costing.data import CostData
+from ..properties import FeedState, Mixture
+from ..sizing.options import SizingOptions
+from ..stages import StageDesign
+from .design import resolved_problem
+from .fit_check import FitCheck, check_fit
+from .minimum_reflux import EnergyBalanceMinimum, energy_balance_minimum, minimum_warnings
+from .options import model_options
+from .results import DesignEvaluation
+from .verification import Verification, verify_design
+
+
+@dataclass(frozen=True)
+class ThermoChecks:
+    """The reported design on thermo, its minimum reflux on the same basis, the property fits' errors."""
+
+    verification: Verification
+    minimum: EnergyBalanceMinimum | None  # None where not asked for (other scenarios)
+    fit: FitCheck | None
+    warnings: tuple[str, ...]
+
+    @property
+    def reflux_ratio(self) -> float:
+        """Reflux ratio of the reported design (the corrected one where there is one) [-]."""
+        v = self.verification
+        return (v.corrected or v.profile).reflux_ratio
+
+
+def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData, design: DesignEvaluation,
+                  stages: StageDesign, options=None, sizing: SizingOptions = SizingOptions(),
+                  scenario: str | None = None, full: bool = True) -> ThermoChecks:
+    """Verify ``design`` on thermo; with ``full`` also its energy-balance minimum reflux and the fit check."""
+    verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario)
+    if not full:
+        return ThermoChecks(verification, None, None, verification.warnings)
+    reported = verification.corrected or verification.profile
+    minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported)
+    fitted = resolved_problem(case, mixture, feed, model_options(options), at_least=design.stages).fitted
+    fit = check_fit(fitted, mixture, verification.profile)
+    warnings = (verification.warnings + fit.warnings
+                + minimum_warnings(reported.reflux_ratio, stages.minimum_reflux, stages.basis, minimum))
+    return ThermoChecks(verification, minimum, fit, warnings)
+
+
+__all__ = ["ThermoChecks", "thermo_checks"]

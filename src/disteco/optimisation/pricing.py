@@ -13,15 +13,19 @@ design, so the reported breakdown is the one the rest of disteco produces.
 
 from __future__ import annotations
 
+from dataclasses import dataclass, replace
+
 from .._base.units import ATMOSPHERE
-from ..costing.column import cost_column, resolve_cost_year
+from ..costing.column import REBOILER_TYPES, TRAY_TYPES, cost_column, resolve_cost_year
 from ..costing.curves import bare_module_factor
-from ..costing.data import CostData
+from ..costing.data import CostData, HeatTransferCoefficient
 from ..costing.equipment import pressure_factor_of
 from ..costing.operating import ELECTRICITY
 from ..costing.from_sizing import cost_input
 from ..sizing.column import ColumnSizing, size_column
-from ..sizing.exchangers import choose_utility
+from ..sizing.exchanger_service import ExchangerService, exchanger_service
+from ..sizing.exchangers import OverallCoefficient, choose_utility
+from ..sizing.utilities import UtilityLevel
 from ..sizing.flooding import lygeros_magoulas_constants
 from ..sizing.options import SizingOptions
 from ..stages.results import StageProfile
@@ -29,8 +33,8 @@ from .basis import CondensateBasis, CostBasis, CostCurve, ExchangerBasis, Separa
 from .results import DesignEvaluation, SequentialPrice
 from .start import Profile, partial_condenser_split
 
-SHELL, TRAYS, DRUM, PUMP = "vertical_vessel", "sieve_tray", "horizontal_vessel", "centrifugal_pump"
-CONDENSER, REBOILER = "fixed_tube_sheet_exchanger", "kettle_reboiler"
+SHELL, DRUM, PUMP = "vertical_vessel", "horizontal_vessel", "centrifugal_pump"
+CONDENSER = "fixed_tube_sheet_exchanger"
 EXCHANGER_MATERIAL = "CS/CS"
 
 
@@ -58,21 +62,49 @@ def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int)
         condenser_temperature=float(T_d), partial_condenser=problem.partial_condenser, model="cmo")
 
 
-def _levels_and_coefficients(data: CostData, profile: StageProfile, options: SizingOptions):
+@dataclass(frozen=True)
+class ExchangerData:
+    """Utility levels, overall coefficients (with their cost-data rows) and reboiler type of a design."""
+
+    condenser_level: UtilityLevel
+    reboiler_level: UtilityLevel
+    condenser_U: OverallCoefficient
+    reboiler_U: OverallCoefficient
+    rows: tuple[HeatTransferCoefficient, ...]  # the condenser's and the reboiler's rows
+    service: ExchangerService
+    notes: tuple[str, ...]  # coefficient rows replaced for want of a matching process side
+
+
+def exchanger_data(data: CostData, mixture, profile: StageProfile, options: SizingOptions) -> ExchangerData:
+    """Utility levels, then the U rows looked up by service, process side and utility kind."""
     n = profile.stages
+    service = exchanger_service(profile, mixture)
     condenser = choose_utility(data.levels, "cooling", profile.T[0], profile.condenser_temperature,
                                options.min_approach, "condenser")
     reboiler = choose_utility(data.levels, "heating", profile.T[n - 2], profile.T[n - 1],
                               options.min_approach, "reboiler")
-    u_c = data.heat_transfer_coefficient("condenser", condenser.kind).u_typical
-    u_r = data.heat_transfer_coefficient("reboiler", reboiler.kind).u_typical
-    return condenser, reboiler, u_c, u_r
+    row_c, note_c = data.coefficient_row("condenser", condenser.kind, service.condenser_side)
+    row_r, note_r = data.coefficient_row("reboiler", reboiler.kind, service.reboiler_side)
+    return ExchangerData(condenser, reboiler, _coefficient(row_c), _coefficient(row_r), (row_c, row_r), service,
+                         tuple(note for note in (note_c, note_r) if note))
 
 
-def size_reference(mixture, data: CostData, profile: StageProfile, options: SizingOptions) -> ColumnSizing:
-    """Size ``profile`` with the utilities the cost data offers (sizing layer)."""
-    _, _, u_c, u_r = _levels_and_coefficients(data, profile, options)
-    return size_column(profile, mixture, data.levels, u_c, u_r, options)
+def _coefficient(row: HeatTransferCoefficient) -> OverallCoefficient:
+    return OverallCoefficient(row.u_typical, row.process_side, row.source)
+
+
+def size_reference(mixture, data: CostData, profile: StageProfile, options: SizingOptions,
+                   round_diameter: bool = True) -> ColumnSizing:
+    """Size ``profile`` with the utilities and coefficients the cost data offers (sizing layer)."""
+    exchangers = exchanger_data(data, mixture, profile, options)
+    return _size(mixture, data, profile, options, exchangers, round_diameter)
+
+
+def _size(mixture, data: CostData, profile: StageProfile, options: SizingOptions, exchangers: ExchangerData,
+          round_diameter: bool) -> ColumnSizing:
+    sizing = size_column(profile, mixture, data.levels, exchangers.condenser_U, exchangers.reboiler_U, options,
+                         exchangers.service.reboiler_type, round_diameter)
+    return replace(sizing, warnings=sizing.warnings + exchangers.notes)
 
 
 def _curve(data: CostData, item: str, name: str, index: float, installed_factor: float) -> CostCurve:
@@ -118,8 +150,10 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
     warnings: list[str] = []
     scenario = data.settings.default_scenario if scenario is None else data.scenario(scenario).name
     year, index = resolve_cost_year(data, cost_year)
-    condenser, reboiler, u_c, u_r = _levels_and_coefficients(data, profile, options)
-    ref = size_column(profile, mixture, data.levels, u_c, u_r, options)
+    exchangers = exchanger_data(data, mixture, profile, options)
+    condenser, reboiler = exchangers.condenser_level, exchangers.reboiler_level
+    u_c, u_r = exchangers.condenser_U.value, exchangers.reboiler_U.value
+    ref = _size(mixture, data, profile, options, exchangers, True)
     warnings.extend(ref.warnings)
     vessel = ref.vessel
     height = ref.height
@@ -137,16 +171,18 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
         shell=_curve(data, SHELL, "column shell", index,
                      _installed_factor(data, SHELL, vessel.material_class, vessel.design_pressure, warnings,
                                        ref.diameter, "column shell")),
-        tray_cost=_curve(data, TRAYS, "trays", index,
-                         _installed_factor(data, TRAYS, vessel.material_class, 0.0, warnings, label="trays")),
+        tray_cost=_curve(data, TRAY_TYPES[options.tray_type], "trays", index,
+                         _installed_factor(data, TRAY_TYPES[options.tray_type], vessel.material_class, 0.0, warnings,
+                                           label="trays")),
         condenser=ExchangerBasis(u_c, condenser.supply_temperature, condenser.return_temperature,
                                  options.min_approach, data.price_per_joule(scenario, condenser.name),
                                  _curve(data, CONDENSER, "condenser", index,
                                         _installed_factor(data, CONDENSER, EXCHANGER_MATERIAL, cond_gauge, warnings))),
         reboiler=ExchangerBasis(u_r, reboiler.supply_temperature, reboiler.return_temperature,
                                 options.min_approach, data.price_per_joule(scenario, reboiler.name),
-                                _curve(data, REBOILER, "reboiler", index,
-                                       _installed_factor(data, REBOILER, EXCHANGER_MATERIAL, reb_gauge, warnings))),
+                                _curve(data, REBOILER_TYPES[exchangers.service.reboiler_type], "reboiler", index,
+                                       _installed_factor(data, REBOILER_TYPES[exchangers.service.reboiler_type],
+                                                         EXCHANGER_MATERIAL, reb_gauge, warnings))),
         annualisation=data.settings.capital_charge_factor(),
         operating_hours=data.settings.operating_hours_per_year,
         currency=data.settings.currency, cost_year=year, tray_quantity=data.tray_quantity,
@@ -157,6 +193,8 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
 def price_design(design: DesignEvaluation, mixture, data: CostData, options: SizingOptions = SizingOptions(),
                  scenario: str | None = None, cost_year: int | None = None) -> SequentialPrice:
     """Size and cost a solved design with the sizing and costing layers (drum and pump included)."""
-    sizing = size_reference(mixture, data, design.profile, options)
-    return SequentialPrice(sizing, cost_column(data, cost_input(sizing), scenario, cost_year))
+    exchangers = exchanger_data(data, mixture, design.profile, options)
+    sizing = _size(mixture, data, design.profile, options, exchangers, True)
+    cost = cost_column(data, cost_input(sizing, options.tray_type), scenario, cost_year)
+    return SequentialPrice(sizing, cost, exchangers.rows)
 

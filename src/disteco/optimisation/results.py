@@ -5,6 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..costing.column import CostSummary
+from ..costing.data import HeatTransferCoefficient
 from ..sizing.column import ColumnSizing
 from ..stages.results import StageProfile
 
@@ -15,6 +16,7 @@ class SequentialPrice:
 
     sizing: ColumnSizing
     cost: CostSummary
+    coefficients: tuple[HeatTransferCoefficient, ...] = ()  # cost-data U rows of condenser and reboiler
 
 
 @dataclass(frozen=True)

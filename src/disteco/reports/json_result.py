@@ -139,7 +139,8 @@ def equipment_json(sizing: ColumnSizing) -> list[dict]:
         {"tag": e.tag, "kind": e.kind, "size": e.size, "size_unit": e.size_unit, "size_basis": e.size_basis,
          "material": e.material, "quantity": e.quantity,
          "design_pressure_kPa_gauge": e.design_pressure / 1e3,
-         "design_temperature_degC": to_degC(e.design_temperature)}
+         "design_temperature_degC": to_degC(e.design_temperature),
+         "overall_coefficient_W_per_m2K": e.overall_coefficient, "coefficient_basis": e.coefficient_basis}
         for e in sizing.equipment]
 
 

@@ -46,7 +46,8 @@ def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:
     priced by the sizing and costing layers, its sizing and cost; ``others`` fill the other fields."""
     sequential = optimum.sequential
     return ReportParts(profile=optimum.best.profile, sizing=sequential.sizing if sequential else None,
-                       cost=sequential.cost if sequential else None, optimum=optimum, **others)
+                       cost=sequential.cost if sequential else None, optimum=optimum,
+                       coefficients=sequential.coefficients if sequential else (), **others)
 
 
 def summary_table(title: str, parts: ReportParts) -> Table:

@@ -28,7 +28,7 @@ from ..sizing.options import SizingOptions
 from ..sizing.utilities import UtilityLevel
 from ..stages.results import StageProfile
 from .basis import CondensateBasis, CostBasis, ExchangerBasis, SeparationProblem, TrayBasis
-from .results import DesignEvaluation, SequentialPrice
+from .results import DesignEvaluation, ModelCheck, SequentialPrice
 from .start import Profile, partial_condenser_split
 
 
@@ -153,10 +153,19 @@ def price_design(design: DesignEvaluation, mixture, data: CostData, options: Siz
                  round_diameter: bool = True) -> SequentialPrice:
     """Size and cost a solved design with the sizing and costing layers (drum and pump included).
 
-    ``round_diameter`` False keeps the diameter flooding requires, as the model does.
+    ``round_diameter`` False keeps the diameter flooding requires, as the model does. With
+    rounding, the result carries a :class:`ModelCheck` of the model's TAC against it.
     """
     exchangers = exchanger_data(data, mixture, design.profile, options)
-    sizing = _size(mixture, data, design.profile, options, exchangers, round_diameter)
-    cost = cost_column(data, cost_input(sizing, options.tray_type), scenario, cost_year)
-    return SequentialPrice(sizing, cost, exchangers.rows)
 
+    def priced(rounded: bool):
+        sizing = _size(mixture, data, design.profile, options, exchangers, rounded)
+        return sizing, cost_column(data, cost_input(sizing, options.tray_type), scenario, cost_year)
+
+    sizing, cost = priced(round_diameter)
+    check = None
+    if round_diameter and design.cost is not None:
+        exact_sizing, exact_cost = priced(False)
+        check = ModelCheck(design.tac, cost.tac_per_year, exact_cost.tac_per_year, design.sizes.diameter,
+                           sizing.diameter, exact_sizing.diameter)
+    return SequentialPrice(sizing, cost, exchangers.rows, check)

@@ -59,8 +59,7 @@ def summary_table(title: str, parts: ReportParts) -> Table:
         o = parts.optimum
         items += [("Minimum reflux ratio [-]", o.minimum_reflux_ratio),
                   ("Reflux ratio / minimum [-]", o.best.reflux_ratio / o.minimum_reflux_ratio),
-                  ("Optimiser status", o.solver.status),
-                  (f"Total annualised cost, optimisation model [{o.best.cost.currency}/year]", o.best.tac)]
+                  ("Optimiser status", o.solver.status)]
     if parts.sizing is not None:
         s = parts.sizing
         items += [("Column diameter [m]", s.diameter), ("Real trays [-]", s.real_trays),
@@ -70,7 +69,7 @@ def summary_table(title: str, parts: ReportParts) -> Table:
         c = parts.cost
         items += [("Price scenario", c.scenario), (f"Installed capital [{c.currency}]", c.capital_installed),
                   (f"Utilities [{c.currency}/year]", c.utilities_per_year),
-                  (f"Total annualised cost, sizing and costing layers [{c.currency}/year]", c.tac_per_year)]
+                  (f"Total annualised cost [{c.currency}/year]", c.tac_per_year)]
     return quantity_table("Chosen design", items)
 
 

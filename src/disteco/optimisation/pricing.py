@@ -87,13 +87,6 @@ def _coefficient(row: HeatTransferCoefficient) -> OverallCoefficient:
     return OverallCoefficient(row.u_typical, row.process_side, row.source)
 
 
-def size_reference(mixture, data: CostData, profile: StageProfile, options: SizingOptions,
-                   round_diameter: bool = True) -> ColumnSizing:
-    """Size ``profile`` with the utilities and coefficients the cost data offers (sizing layer)."""
-    exchangers = exchanger_data(data, mixture, profile, options)
-    return _size(mixture, data, profile, options, exchangers, round_diameter)
-
-
 def _size(mixture, data: CostData, profile: StageProfile, options: SizingOptions, exchangers: ExchangerData,
           round_diameter: bool) -> ColumnSizing:
     sizing = size_column(profile, mixture, data.levels, exchangers.condenser_U, exchangers.reboiler_U, options,

@@ -24,7 +24,7 @@ from ..costing.annual import total_annualised_cost
 from ..costing.operating import yearly_cost
 from ..sizing.auxiliaries import drum_volume, pump_shaft_power
 from ..sizing.exchangers import exchanger_area, mean_temperature_difference, terminal_differences
-from ..sizing.flooding import diameter_of, required_tray_area, tray_area
+from ..sizing.flooding import allowable_vapour_velocity, diameter_of, flow_parameter, tray_area
 from .basis import CostBasis, SeparationProblem
 from .fitted_sizing import liquid_density, vapour_density
 from .options import model_options
@@ -235,22 +235,30 @@ def _add_sizing(m) -> None:
     m.height = trays.height(m.N)
     m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], _molar_mass(m, m.y, j)))
     m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: liquid_density(f, m.T[j], [m.x[j, i] for i in m.C]))
-    m.required_area = pyo.Expression(m.TRAYS, rule=required_area_rule, doc="tray cross-section flooding needs [m^2]")
+    m.vapour_volume = pyo.Expression(m.TRAYS, rule=lambda m, j: m.V[j] * _molar_mass(m, m.y, j) / m.rho_V[j],
+                                     doc="[m^3/s]")
+    m.flow_parameter = pyo.Expression(m.TRAYS, rule=lambda m, j: flow_parameter(
+        m.L[j] * _molar_mass(m, m.x, j), m.V[j] * _molar_mass(m, m.y, j), m.rho_L[j], m.rho_V[j]), doc="F_LV [-]")
+    m.allowable_velocity = pyo.Expression(m.TRAYS, rule=allowable_velocity_rule,
+                                          doc="vapour velocity on the cross-section at the design approach to flood [m/s]")
+    m.required_area = pyo.Expression(m.TRAYS, rule=lambda m, j: m.vapour_volume[j] / m.allowable_velocity[j],
+                                     doc="tray cross-section flooding needs [m^2]")
     m.tray_area = pyo.Expression(expr=tray_area(m.diameter))
-    m.flooding = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.tray_area >= m.required_area[j])
+    # area x velocity >= volume flow rather than area >= required area: no division in the constraint
+    m.flooding = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.tray_area * m.allowable_velocity[j] >= m.vapour_volume[j])
 
 
 def _molar_mass(m, fractions, j):
     return m.problem.fitted.molar_mass([fractions[j, i] for i in m.C])
 
 
-def required_area_rule(m, j):
-    """Cross-section at the design approach to flood for tray j: the sizing layer's function."""
+def allowable_velocity_rule(m, j):
+    """Allowable vapour velocity of tray j at the design approach to flood: the sizing layer's function."""
     trays, f = m.basis.trays, m.problem.fitted
-    return required_tray_area(
-        m.V[j] * _molar_mass(m, m.y, j), m.L[j] * _molar_mass(m, m.x, j), m.rho_L[j], m.rho_V[j],
-        f.surface_tension_of(m.T[j], [m.x[j, i] for i in m.C]), trays.tray_spacing, trays.flooding_fraction,
-        trays.flooding_method, trays.system_factor, trays.downcomer_fraction, PYOMO)
+    return allowable_vapour_velocity(
+        m.flow_parameter[j], m.rho_L[j], m.rho_V[j], f.surface_tension_of(m.T[j], [m.x[j, i] for i in m.C]),
+        trays.tray_spacing, trays.flooding_fraction, trays.flooding_method, trays.system_factor,
+        trays.downcomer_fraction, PYOMO)
 
 
 # ------------------------------------------------------------------ costs

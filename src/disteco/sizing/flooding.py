@@ -329,14 +329,78 @@ def flooding_velocity(capacity_factor, liquid_density, vapour_density, ops: Oper
     return capacity_factor * ops.sqrt((liquid_density - vapour_density) / vapour_density)
 
 
+def allowable_vapour_velocity(flow_parameter, liquid_density, vapour_density, surface_tension, tray_spacing,
+                              flood_fraction, method="lygeros-magoulas", system_factor=1.0, downcomer_fraction=None,
+                              ops: Operations = FLOAT):
+    r"""Vapour velocity on the total tray cross-section at the design approach to flood, with any flooding fit.
+
+    .. math::
+        u_{A_T} = f\,u_f\,(1 - A_d/A_T),\qquad
+        u_f = C_F(F_{LV}, TS)\,(\sigma/0.02)^{0.2}\,SF\,\sqrt{(\rho_L - \rho_V)/\rho_V}
+
+    Parameters
+    ----------
+    flow_parameter : float
+        Flow parameter of the tray, :func:`flow_parameter` [-]
+    liquid_density : float
+        Liquid density [kg/m^3]
+    vapour_density : float
+        Vapour density [kg/m^3]
+    surface_tension : float
+        Liquid surface tension [N/m]
+    tray_spacing : float
+        Tray spacing [m]
+    flood_fraction : float
+        Design fraction of flooding velocity [-]
+    method : str
+        Key of :data:`FLOODING_METHODS` [-]
+    system_factor : float
+        Foaming (system) factor on the capacity [-]
+    downcomer_fraction : float or None
+        Downcomer area over total cross-section; None applies :func:`downcomer_area_fraction` [-]
+    ops : Operations
+        exp, log, sqrt and smooth max: floats by default, Pyomo's in the model [-]
+
+    Returns
+    -------
+    float
+        Allowable vapour velocity on the total cross-section [m/s]
+
+    Notes
+    -----
+    Ranges as in the fit chosen (:data:`FLOW_PARAMETER_RANGE`, :data:`TRAY_SPACING_RANGE`),
+    checked by the caller. The tray needs the cross-section (vapour volume flow) / (this
+    velocity), :func:`required_tray_area`; the optimisation model writes its flooding
+    constraint as area x this velocity >= vapour volume flow, which keeps the division out,
+    and passes the flow parameter as one shared subexpression (it enters the fit and the
+    downcomer rule several times).
+
+    Examples
+    --------
+    >>> round(allowable_vapour_velocity(0.0473, 800.0, 2.8, 0.02, 0.6096, 0.8, downcomer_fraction=0.1), 3)
+    1.246
+
+    References
+    ----------
+    1. Fair, J. R., Petro/Chem Engineer 33(10), 45 (1961).
+    2. Lygeros, A. I., and K. G. Magoulas, Hydrocarbon Processing 65(12), 43 (1986).
+    """
+    flv = flow_parameter
+    c = FLOODING_METHODS[method](flv, tray_spacing, ops) * surface_tension_correction(surface_tension) * system_factor
+    u_flood = flooding_velocity(c, liquid_density, vapour_density, ops)
+    fraction = downcomer_area_fraction(flv, ops) if downcomer_fraction is None else downcomer_fraction
+    return flood_fraction * u_flood * (1.0 - fraction)
+
+
 def required_tray_area(vapour_mass_flow, liquid_mass_flow, liquid_density, vapour_density, surface_tension,
                        tray_spacing, flood_fraction, method="lygeros-magoulas", system_factor=1.0,
                        downcomer_fraction=None, ops: Operations = FLOAT):
     r"""Total tray (column) cross-section for a design fraction of flood, with any flooding fit.
 
     .. math::
-        A_T = \frac{\dot m_V/\rho_V}{f\,u_f\,(1 - A_d/A_T)},\qquad
-        u_f = C_F(F_{LV}, TS)\,(\sigma/0.02)^{0.2}\,SF\,\sqrt{(\rho_L - \rho_V)/\rho_V}
+        A_T = \frac{\dot m_V/\rho_V}{u_{A_T}}
+
+    with u_{A_T} from :func:`allowable_vapour_velocity`.
 
     Parameters
     ----------
@@ -370,8 +434,8 @@ def required_tray_area(vapour_mass_flow, liquid_mass_flow, liquid_density, vapou
 
     Notes
     -----
-    Ranges as in the fit chosen (:data:`FLOW_PARAMETER_RANGE`, :data:`TRAY_SPACING_RANGE`),
-    checked by the caller. The sizing layer and the optimisation model both call this function.
+    As :func:`allowable_vapour_velocity`. The sizing layer and the optimisation model both
+    call these functions.
 
     Examples
     --------
@@ -384,10 +448,9 @@ def required_tray_area(vapour_mass_flow, liquid_mass_flow, liquid_density, vapou
     2. Lygeros, A. I., and K. G. Magoulas, Hydrocarbon Processing 65(12), 43 (1986).
     """
     flv = flow_parameter(liquid_mass_flow, vapour_mass_flow, liquid_density, vapour_density)
-    c = FLOODING_METHODS[method](flv, tray_spacing, ops) * surface_tension_correction(surface_tension) * system_factor
-    u_flood = flooding_velocity(c, liquid_density, vapour_density, ops)
-    fraction = downcomer_area_fraction(flv, ops) if downcomer_fraction is None else downcomer_fraction
-    return vapour_mass_flow / vapour_density / (flood_fraction * u_flood * (1.0 - fraction))
+    velocity = allowable_vapour_velocity(flv, liquid_density, vapour_density, surface_tension, tray_spacing,
+                                         flood_fraction, method, system_factor, downcomer_fraction, ops)
+    return vapour_mass_flow / vapour_density / velocity
 
 
 def tray_area(diameter):

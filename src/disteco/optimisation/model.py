@@ -24,7 +24,7 @@ from ..costing.annual import total_annualised_cost
 from ..costing.operating import yearly_cost
 from ..sizing.auxiliaries import drum_volume, pump_shaft_power
 from ..sizing.exchangers import exchanger_area, mean_temperature_difference, terminal_differences
-from ..sizing.flooding import allowable_vapour_velocity, diameter_of, flow_parameter, tray_area
+from ..sizing.flooding import allowable_vapour_velocity, diameter_of, flow_parameter, required_tray_area, tray_area
 from .basis import CostBasis, SeparationProblem
 from .fitted_sizing import liquid_density, vapour_density
 from .options import model_options
@@ -357,8 +357,21 @@ def initialise(m, start: Profile) -> None:
 
 
 def _required_diameter(m) -> float:
-    """Smallest diameter meeting every flooding constraint at the current point [m]."""
-    return diameter_of(max(pyo.value(m.required_area[j]) for j in m.TRAYS))
+    """Smallest diameter meeting every flooding constraint at the current point [m].
+
+    Evaluated on floats with the same function (walking the Pyomo expressions took about
+    0.07 s per configuration on the five-component example, most of its initialisation).
+    """
+    f, trays = m.problem.fitted, m.basis.trays
+    need = 0.0
+    for j in m.TRAYS:
+        x, y = [pyo.value(m.x[j, i]) for i in m.C], [pyo.value(m.y[j, i]) for i in m.C]
+        T = pyo.value(m.T[j])
+        need = max(need, required_tray_area(
+            pyo.value(m.V[j]) * f.molar_mass(y), pyo.value(m.L[j]) * f.molar_mass(x), liquid_density(f, T, x),
+            vapour_density(m.P[j], T, f.molar_mass(y)), f.surface_tension_of(T, x), trays.tray_spacing,
+            trays.flooding_fraction, trays.flooding_method, trays.system_factor, trays.downcomer_fraction))
+    return diameter_of(need)
 
 
 def _inside(value: float, var) -> float:

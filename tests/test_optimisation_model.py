@@ -1,7 +1,7 @@
-"""The equation model of one configuration: twins of its correlations, bounds, termination mapping.
+"""The equation model of one configuration: flooding at a solution, bounds, termination mapping.
 
-Twin tests compare each Pyomo expression with the float function of the sizing or costing
-layer (or thermo) at design points; regression pins say so in their docstrings.
+The model's sizes and costs are the sizing and costing layers' own functions; their equality
+with the re-price over random designs is tests/test_one_copy.py.
 """
 
 import math
@@ -10,15 +10,11 @@ import pyomo.environ as pyo
 import pytest
 
 from disteco._base.errors import InfeasibleSpecError, SolverError
-from disteco.costing.data import load_cost_data
-from disteco.optimisation.correlations import (capacity_factor_expr, cost_curve_expr, lmtd_expr,
-                                                mean_temperature_difference, vapour_density_expr)
-from disteco.optimisation.model import build_column_model, flooding_terms, initialise
+from disteco.optimisation.fitted_sizing import vapour_density
+from disteco.optimisation.model import build_column_model, initialise
 from disteco.optimisation.solve import attempts, run_solver, solve_configuration, solved_model, start_profile
 from disteco.optimisation.options import model_options
-from disteco.sizing.exchangers import log_mean_temperature_difference
-from disteco.sizing.flooding import (capacity_factor_lygeros_magoulas, flooding_diameter_smooth,
-                                     lygeros_magoulas_constants)
+from disteco.sizing.flooding import required_tray_area
 from test_optimisation_support import EASY_SPLIT, example, example_basis, example_problem
 
 MAX = 22
@@ -39,58 +35,8 @@ def solved(problem, basis):
     return solved_model(problem, basis, 18, 9, {"max_stages": MAX})[0]
 
 
-def _value(expression_builder, *numbers):
-    """Evaluate a Pyomo-form builder on fixed Pyomo variables holding ``numbers``."""
-    m = pyo.ConcreteModel()
-    m.v = pyo.Var(range(len(numbers)))
-    for i, number in enumerate(numbers):
-        m.v[i].fix(number)
-    return pyo.value(expression_builder(*[m.v[i] for i in range(len(numbers))]))
-
-
-@pytest.mark.parametrize("flv", [0.01, 0.05, 0.1, 0.3, 1.0])
-@pytest.mark.parametrize("spacing", [0.3048, 0.4572, 0.6096])
-def test_capacity_factor_twin(flv, spacing):
-    """Pyomo capacity factor equals the sizing layer's Lygeros-Magoulas fit of Fair's chart."""
-    constants = lygeros_magoulas_constants(spacing)
-    assert _value(lambda f: capacity_factor_expr(f, constants), flv) == pytest.approx(
-        capacity_factor_lygeros_magoulas(flv, spacing), rel=1e-12)
-
-
-@pytest.mark.parametrize("item", ["vertical_vessel", "sieve_tray", "fixed_tube_sheet_exchanger", "kettle_reboiler"])
-def test_cost_curve_twin(item):
-    """Pyomo cost curve equals the costing layer's purchased cost over each curve's size range."""
-    data = load_cost_data()
-    curve = data.curve(item)
-    from disteco.optimisation.basis import CostCurve
-    mine = CostCurve(item, curve.k1, curve.k2, curve.k3, curve.size_unit, curve.size_min, curve.size_max)
-    for size in (curve.size_min, math.sqrt(curve.size_min * curve.size_max), curve.size_max):
-        assert _value(lambda s: cost_curve_expr(mine, s), size) == pytest.approx(curve.purchased_cost(size), rel=1e-10)
-
-
-@pytest.mark.parametrize("ends", [(30.0, 20.0), (12.0, 36.0), (10.0, 10.0), (5.0, 50.0)])
-def test_mean_temperature_difference_against_sizing_lmtd(ends):
-    """Underwood's cube-root mean used in the model is within 0.4 % of the sizing layer's log mean
-    (via ht) for end ratios up to 10, and exact for equal ends (a stated approximation, not a twin)."""
-    hot_in, hot_out = 400.0, 390.0
-    cold_out, cold_in = hot_in - ends[0], hot_out - ends[1]
-    exact = log_mean_temperature_difference(hot_in, hot_out, cold_in, cold_out)
-    approx = _value(lambda a, b: lmtd_expr(a, b), *ends)
-    assert approx == pytest.approx(exact, rel=0.004)
-    assert approx == pytest.approx(mean_temperature_difference(*ends), rel=1e-12)
-
-
-def test_vapour_density_twin():
-    """Ideal-gas vapour density equals thermo's ideal-gas model for benzene-toluene (within 1e-9)."""
-    _, mixture, _ = example("aromatics_binary")
-    y = [0.6, 0.4]
-    M = mixture.molar_mass(y)
-    assert _value(lambda T: vapour_density_expr(1.15e5, T, M), 370.0) == pytest.approx(
-        mixture.vapour_density(370.0, 1.15e5, y), rel=1e-9)
-
-
-def test_flooding_constraint_twin_at_solution(solved, basis):
-    """At a solved design the diameter equals the sizing layer's smooth flooding diameter at the
+def test_flooding_at_solution_is_the_sizing_layers_area(solved, basis):
+    """At a solved design the diameter is the one the sizing layer's area function requires at the
     tray that governs, evaluated with the model's own properties (Fair via Lygeros-Magoulas)."""
     m = solved
     f = m.problem.fitted
@@ -99,14 +45,23 @@ def test_flooding_constraint_twin_at_solution(solved, basis):
         x = [pyo.value(m.x[j, i]) for i in m.C]
         y = [pyo.value(m.y[j, i]) for i in m.C]
         T = pyo.value(m.T[j])
-        rho_v = pyo.value(m.rho_V[j])
-        worst = max(worst, flooding_diameter_smooth(
-            pyo.value(m.V[j]) * f.molar_mass(y), pyo.value(m.L[j]) * f.molar_mass(x), pyo.value(m.rho_L[j]), rho_v,
-            f.surface_tension_of(T, x), basis.trays.tray_spacing, basis.trays.flooding_fraction,
-            basis.trays.downcomer_fraction))
-        per_d2, volume = flooding_terms(m, j)
-        assert pyo.value(m.diameter) ** 2 * pyo.value(per_d2) >= pyo.value(volume) * (1 - 1e-6)
+        area = required_tray_area(
+            pyo.value(m.V[j]) * f.molar_mass(y), pyo.value(m.L[j]) * f.molar_mass(x), pyo.value(m.rho_L[j]),
+            pyo.value(m.rho_V[j]), f.surface_tension_of(T, x), basis.trays.tray_spacing,
+            basis.trays.flooding_fraction, basis.trays.flooding_method, basis.trays.system_factor,
+            basis.trays.downcomer_fraction)
+        assert pyo.value(m.required_area[j]) == pytest.approx(area, rel=1e-12)
+        worst = max(worst, math.sqrt(4.0 * area / math.pi))
+        assert pyo.value(m.tray_area) >= area * (1 - 1e-6)
     assert pyo.value(m.diameter) == pytest.approx(worst, rel=1e-5)
+
+
+def test_vapour_density_equals_thermo_ideal_gas():
+    """Ideal-gas vapour density of the model equals thermo's ideal-gas model for benzene-toluene (1e-9)."""
+    _, mixture, _ = example("aromatics_binary")
+    y = [0.6, 0.4]
+    assert vapour_density(1.15e5, 370.0, mixture.molar_mass(y)) == pytest.approx(
+        mixture.vapour_density(370.0, 1.15e5, y), rel=1e-9)
 
 
 def test_stage_temperatures_bounded_to_fitted_range(problem, basis):

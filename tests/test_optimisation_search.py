@@ -63,11 +63,11 @@ def test_dearer_steam_never_raises_the_optimum_reflux(problem, cheap_steam, opti
 def test_dearer_capital_never_lowers_the_optimum_reflux(problem, cheap_steam, optimum):
     """Raising the capital cost level never lowers the optimum reflux ratio (economic trend)."""
     def dearer(curve):
-        return replace(curve, multiplier=2.0 * curve.multiplier)
+        return replace(curve, index_ratio=2.0 * curve.index_ratio)
 
     dear = replace(cheap_steam, shell=dearer(cheap_steam.shell), tray_cost=dearer(cheap_steam.tray_cost),
-                   condenser=replace(cheap_steam.condenser, curve=dearer(cheap_steam.condenser.curve)),
-                   reboiler=replace(cheap_steam.reboiler, curve=dearer(cheap_steam.reboiler.curve)))
+                   condenser=replace(cheap_steam.condenser, cost=dearer(cheap_steam.condenser.cost)),
+                   reboiler=replace(cheap_steam.reboiler, cost=dearer(cheap_steam.reboiler.cost)))
     assert optimise(problem, dear, OPTIONS).best.reflux_ratio >= optimum.best.reflux_ratio * (1 - 1e-6)
 
 

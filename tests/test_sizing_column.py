@@ -2,12 +2,13 @@
 
 import dataclasses
 import json
+import math
 
 import pytest
 
 from disteco._base.errors import CaseError, CorrelationRangeError, InfeasibleSpecError
 from disteco._base.validity import OutOfRange
-from disteco.sizing import SizingOptions, UtilityLevel, flooding_diameter_smooth, size_column
+from disteco.sizing import SizingOptions, UtilityLevel, required_tray_area, size_column
 from disteco.stages.results import StageProfile
 
 C = 273.15
@@ -76,16 +77,16 @@ def test_column_diameter_is_rounded_largest_tray(sized):
     assert max(sized.rectifying_diameter, sized.stripping_diameter) == sized.diameter
 
 
-def test_smooth_form_agrees_on_every_tray(mixture, sized):
-    """The branch-free (Pyomo-ready) form gives each tray's diameter (downcomer 0.1 below F_LV 0.1)."""
+def test_shared_area_function_gives_every_tray(mixture, sized):
+    """The branch-free area function the model also uses gives each tray's area (regression guard)."""
     profile = make_profile(mixture)
     for tray in sized.hydraulics:
         i = tray.stage - 1
-        smooth = flooding_diameter_smooth(
+        area = required_tray_area(
             profile.V[i] * mixture.molar_mass(profile.y[i]), profile.L[i] * mixture.molar_mass(profile.x[i]),
-            tray.liquid_density, tray.vapour_density, tray.surface_tension, 24 * 0.0254, 0.8,
-            tray.downcomer_fraction)
-        assert smooth == pytest.approx(tray.diameter, rel=1e-12)
+            tray.liquid_density, tray.vapour_density, tray.surface_tension, 24 * 0.0254, 0.8)
+        assert area == pytest.approx(tray.total_area, rel=1e-12)
+        assert math.pi / 4 * tray.diameter ** 2 == pytest.approx(area, rel=1e-12)
 
 
 def test_user_efficiency_and_separate_sections(mixture):

@@ -13,9 +13,10 @@ from disteco.sizing import auxiliaries, efficiency, exchangers, flooding, vessel
 CORRELATIONS = [
     flooding.capacity_factor_lygeros_magoulas, flooding.capacity_factor_kessler_wankat,
     flooding.surface_tension_correction, flooding.flow_parameter, flooding.downcomer_area_fraction,
-    flooding.flooding_velocity, flooding.flooding_diameter_smooth, efficiency.oconnell_efficiency_lockett,
+    flooding.flooding_velocity, flooding.allowable_vapour_velocity, flooding.required_tray_area,
+    efficiency.oconnell_efficiency_lockett,
     vessel.shell_thickness_ug27, vessel.head_thickness_ug32, vessel.shell_mass,
-    exchangers.log_mean_temperature_difference, exchangers.exchanger_area,
+    exchangers.log_mean_temperature_difference, exchangers.mean_temperature_difference, exchangers.exchanger_area,
     auxiliaries.drum_volume, auxiliaries.pump_shaft_power,
 ]
 SECTIONS = ["Parameters", "Returns", "Notes", "Examples", "References"]

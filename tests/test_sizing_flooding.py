@@ -5,12 +5,13 @@ import math
 
 import pyomo.environ as pyo
 import pytest
+from fluids.separator import v_Souders_Brown
 
 from disteco._base.errors import CorrelationRangeError
+from disteco._base.operations import Operations
 from disteco.sizing.flooding import (FLOODING_METHODS, INCH, capacity_factor_kessler_wankat,
-                                     capacity_factor_lygeros_magoulas, downcomer_area_fraction,
-                                     flooding_diameter_smooth, lygeros_magoulas_constants,
-                                     surface_tension_correction)
+                                     capacity_factor_lygeros_magoulas, downcomer_area_fraction, flooding_velocity,
+                                     lygeros_magoulas_constants, required_tray_area, surface_tension_correction)
 from disteco.sizing.trays import round_up, tray_hydraulics
 
 CHART_SPACINGS = [6, 9, 12, 18, 24, 36]  # in, the curves of Fair's chart
@@ -78,9 +79,10 @@ def test_column_diameter_worked_example(method):
 def test_downcomer_rule_points():
     """Seader, Henley and Roper, Separation Process Principles, 3rd ed., Section 6.6 (from
     memory): 0.1 up to F_LV 0.1, 0.2 from F_LV 1.0, linear between."""
-    assert downcomer_area_fraction(0.05) == 0.1
+    # smooth corners (width 1e-4): within 1e-6 of the sharp rule away from them
+    assert downcomer_area_fraction(0.05) == pytest.approx(0.1, abs=1e-6)
     assert downcomer_area_fraction(0.55) == pytest.approx(0.15)
-    assert downcomer_area_fraction(2.0) == 0.2
+    assert downcomer_area_fraction(2.0) == pytest.approx(0.2, abs=1e-6)
 
 
 # ---------------------------------------------------------------- shape of the fits
@@ -133,22 +135,39 @@ DESIGN_POINTS = [  # vapour kg/s, liquid kg/s, rho_L, rho_V, sigma, spacing m, f
 ]
 
 
-def test_pyomo_twin_equals_float_form_at_design_points():
-    """The smooth form built with pyomo.environ.exp on Pyomo variables evaluates to the float form."""
+PYOMO = Operations(pyo.exp, pyo.log, pyo.sqrt)
+
+
+@pytest.mark.parametrize("method", sorted(FLOODING_METHODS))
+@pytest.mark.parametrize("downcomer_rule", [False, True])
+def test_one_area_function_for_floats_and_pyomo_at_design_points(method, downcomer_rule):
+    """The area function over Pyomo's operations on Pyomo variables evaluates to the float one,
+    for every flooding fit, with a given downcomer fraction and with the flow-parameter rule."""
     for point in DESIGN_POINTS:
+        *head, downcomer = point
+        downcomer = None if downcomer_rule else downcomer
         model = pyo.ConcreteModel()
         model.v = pyo.Var(initialize=point[0])
         model.l = pyo.Var(initialize=point[1])
-        expression = flooding_diameter_smooth(model.v, model.l, *point[2:], exp=pyo.exp)
-        assert pyo.value(expression) == pytest.approx(flooding_diameter_smooth(*point), rel=1e-12)
+        expression = required_tray_area(model.v, model.l, *head[2:], method=method, downcomer_fraction=downcomer,
+                                        ops=PYOMO)
+        assert pyo.value(expression) == pytest.approx(
+            required_tray_area(*head, method=method, downcomer_fraction=downcomer), rel=1e-12)
 
 
-def test_smooth_form_equals_stage_calculation_at_design_points():
-    """The branch-free form and the tray calculation with the default method give one diameter."""
+@pytest.mark.parametrize("method", sorted(FLOODING_METHODS))
+def test_area_function_equals_stage_calculation_at_design_points(method):
+    """The area function and the tray calculation give one diameter for each fit (regression guard)."""
     for v, l, rho_l, rho_v, sigma, spacing, flood, downcomer in DESIGN_POINTS:
-        tray = tray_hydraulics(1, l, v, rho_l, rho_v, sigma, spacing, flood, "lygeros-magoulas", 1.0, downcomer)
-        smooth = flooding_diameter_smooth(v, l, rho_l, rho_v, sigma, spacing, flood, downcomer)
-        assert smooth == pytest.approx(tray.diameter, rel=1e-12)
+        tray = tray_hydraulics(1, l, v, rho_l, rho_v, sigma, spacing, flood, method, 1.0, downcomer)
+        area = required_tray_area(v, l, rho_l, rho_v, sigma, spacing, flood, method, 1.0, downcomer)
+        assert math.sqrt(4.0 * area / math.pi) == pytest.approx(tray.diameter, rel=1e-12)
+
+
+def test_flooding_velocity_equals_the_souders_brown_function_of_fluids():
+    """Souders-Brown velocity against ``fluids.separator.v_Souders_Brown`` (Bell, fluids library)."""
+    for c, rho_l, rho_v in ((0.093, 954.0, 0.72), (0.05, 650.0, 25.0)):
+        assert flooding_velocity(c, rho_l, rho_v) == pytest.approx(v_Souders_Brown(c, rho_l, rho_v), rel=1e-14)
 
 
 def test_round_up_to_increment():

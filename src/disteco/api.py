@@ -138,7 +138,8 @@ def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
 def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportParts:
     sequential = evaluation.sequential
     return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
-                       cost=sequential.cost if sequential else None, cost_data=data)
+                       cost=sequential.cost if sequential else None, cost_data=data,
+                       coefficients=sequential.coefficients if sequential else ())
 
 
 def _cross_table(case, mixture, feed, data, options, sizing, optima, report, done, total) -> CrossTable | None:

@@ -45,6 +45,14 @@ def capital_recovery_factor(interest_rate: float, years: float) -> float:
     return interest_rate * growth / (growth - 1.0)
 
 
+def total_annualised_cost(capital, utilities_per_year, capital_charge_factor: float):
+    """TAC = capital charge factor x installed capital + yearly utilities [currency/year].
+
+    The one form the costing layer and the optimisation model both evaluate (floats or Pyomo).
+    """
+    return capital_charge_factor * capital + utilities_per_year
+
+
 @dataclass(frozen=True)
 class AnnualisationSettings:
     """How capital becomes a yearly charge (``annualisation.toml``)."""

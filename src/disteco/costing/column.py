@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from .._base.errors import CaseError
 from .._base.units import ATMOSPHERE
 from .._base.validity import OutOfRange
-from .annual import AccuracyBand
+from .annual import AccuracyBand, total_annualised_cost
 from .data import CostData
 from .equipment import EquipmentCost, cost_equipment, cost_trays
 from .operating import ELECTRICITY, UtilityCost, utility_cost
@@ -178,7 +178,8 @@ def cost_column(data: CostData, inp: ColumnCostInput, scenario: str | None = Non
     yearly = sum(u.cost_per_year for u in utilities)
     factor = data.settings.capital_charge_factor()
     warnings = [w for e in items for w in e.warnings] + warnings
-    return CostSummary(capital, yearly, factor, capital * factor, capital * factor + yearly, currency, year, index,
+    return CostSummary(capital, yearly, factor, capital * factor, total_annualised_cost(capital, yearly, factor),
+                       currency, year, index,
                        data.cost_index.name, scenario, data.settings.describe(),
                        data.settings.operating_hours_per_year, items, utilities, tuple(warnings), data.accuracy)
 

@@ -3,7 +3,7 @@
 The functions are the published equations with their constants as arguments; the
 constants themselves live in ``cost_data/`` and arrive here through the record
 dataclasses (``CostCurve`` and friends), which also expose them to the optimisation
-model. ``CostCurve.expression`` takes the ``log`` and ``exp`` functions to use, so
+model. ``CostCurve.expression`` takes an operations namespace (floats by default), so
 the same numbers build a float or a Pyomo expression.
 """
 
@@ -12,6 +12,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from .._base.operations import FLOAT, Operations
 from .._base.units import ATMOSPHERE
 from .._base.validity import OutOfRange, ValidityRange
 
@@ -23,7 +24,7 @@ KILOWATT = 1e3  # W
 SI_PER_SIZE_UNIT = {"m3": 1.0, "m2": 1.0, "m": 1.0, "kW": KILOWATT}
 
 
-def turton_purchased_cost(size: float, k1: float, k2: float, k3: float) -> float:
+def turton_purchased_cost(size, k1: float, k2: float, k3: float, ops: Operations = FLOAT):
     """Purchased equipment cost at base conditions, Turton et al. Appendix A.
 
     .. math::
@@ -39,6 +40,8 @@ def turton_purchased_cost(size: float, k1: float, k2: float, k3: float) -> float
         Constant K2 [-]
     k3 : float
         Constant K3 [-]
+    ops : Operations
+        exp and log of the numbers used: floats by default, Pyomo's in the model [-]
 
     Returns
     -------
@@ -63,8 +66,8 @@ def turton_purchased_cost(size: float, k1: float, k2: float, k3: float) -> float
        Analysis, Synthesis and Design of Chemical Processes, 4th ed., Prentice Hall,
        2012, Appendix A, Table A.1.
     """
-    log_a = math.log10(size)
-    return 10.0 ** (k1 + k2 * log_a + k3 * log_a * log_a)
+    log_a = ops.log(size) / LN10
+    return ops.exp(LN10 * (k1 + k2 * log_a + k3 * log_a * log_a))
 
 
 def pressure_factor_polynomial(pressure_gauge: float, c1: float, c2: float, c3: float,
@@ -294,19 +297,19 @@ class CostCurve:
         return ValidityRange(f"{self.item} cost", self.size_variable, self.size_min * self.si_per_unit,
                              self.size_max * self.si_per_unit, unit, self.source)
 
-    def expression(self, size, log=math.log, exp=math.exp):
-        """Purchased cost at the base index with the given ``log``/``exp`` (float or Pyomo).
+    def expression(self, size, ops: Operations = FLOAT):
+        """Purchased cost at the base index, :func:`turton_purchased_cost` over ``ops`` (float or Pyomo).
 
-        ``size`` is in SI units (m3, m2, W).
+        ``size`` is in SI units (m3, m2, W). The one form the costing layer and the
+        optimisation model both evaluate.
         """
-        log_a = log(size / self.si_per_unit) / LN10
-        return exp(LN10 * (self.k1 + self.k2 * log_a + self.k3 * log_a * log_a))
+        return turton_purchased_cost(size / self.si_per_unit, self.k1, self.k2, self.k3, ops)
 
     def purchased_cost(self, size: float, policy: OutOfRange = OutOfRange.RAISE,
                        warnings: list[str] | None = None) -> float:
         """Purchased cost of one unit at the base index [currency]; ``size`` in SI units."""
         self.validity().check(size, policy, warnings)
-        return turton_purchased_cost(size / self.si_per_unit, self.k1, self.k2, self.k3)
+        return self.expression(size)
 
 
 @dataclass(frozen=True)

@@ -146,6 +146,25 @@ class CostData:
                             f"no row for {service} against {utility_kind}"
                             + (f" with process side '{process_side}'" if process_side else ""))
 
+    def coefficient_row(self, service: str, utility_kind: str,
+                        process_side: str) -> tuple[HeatTransferCoefficient, str | None]:
+        """The U row of a service, utility kind and process side, and a note when it had to be replaced.
+
+        Without a row for ``process_side``, the row of the same service and utility kind with
+        the lowest typical U is used (the larger, safer exchanger; common practice, no source)
+        and the note says so.
+        """
+        rows = [r for r in self.heat_transfer if r.service == service and r.utility_kind == utility_kind]
+        for row in rows:
+            if row.process_side == process_side:
+                return row, None
+        if not rows:
+            self.heat_transfer_coefficient(service, utility_kind)  # raises, naming the file
+        row = min(rows, key=lambda r: r.u_typical)
+        return row, (f"{service}: no overall coefficient for '{process_side}' against {utility_kind} in "
+                     f"{self._file('heat_transfer_coefficients.csv')}; the lowest row of that utility "
+                     f"('{row.process_side}', {row.u_typical:g} W/(m^2 K)) is used")
+
     def _file(self, filename: str) -> str:
         return f"{self.folder}/{filename}"
 

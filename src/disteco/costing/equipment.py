@@ -10,13 +10,45 @@ warning is listed. A size below the range is extrapolated with a warning.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from .._base.errors import CorrelationRangeError
+from .._base.operations import FLOAT, Operations
 from .._base.validity import OutOfRange
-from .curves import VesselPressureFactor, bare_module_factor
+from .curves import CostCurve, VesselPressureFactor, bare_module_factor
 from .data import CostData
-from .indices import escalate
+
+
+@dataclass(frozen=True)
+class InstalledCost:
+    """Everything but the size that turns one item's size into its installed cost.
+
+    C_BM = n N F_q C_p^0(S / n) (I / I_base) F_BM, with n parallel units of one piece and N
+    identical pieces (trays) sharing the quantity factor F_q. The costing layer builds it for
+    every item; the optimisation model takes it, built at a reference design, and evaluates
+    the same :meth:`installed` on its size expressions.
+    """
+
+    item: str
+    curve: CostCurve
+    index_ratio: float  # I / I_base [-]
+    bare_module_factor: float  # F_BM [-]
+    parallel_units: int = 1
+    count: int = 1
+    quantity_factor: float = 1.0  # F_q [-]
+
+    def purchased_base(self, size, ops: Operations = FLOAT):
+        """Purchased cost at the curve's base index [currency]; ``size`` per piece in SI units."""
+        n = self.parallel_units
+        return n * self.count * self.quantity_factor * self.curve.expression(size / n, ops)
+
+    def installed(self, size, ops: Operations = FLOAT):
+        """Installed (bare-module) cost at the cost year [currency]; ``size`` per piece in SI units."""
+        return self.purchased_base(size, ops) * self.index_ratio * self.bare_module_factor
+
+    def with_count(self, count: int, quantity_factor: float) -> "InstalledCost":
+        """The same item with another number of pieces (trays) and their quantity factor."""
+        return replace(self, count=count, quantity_factor=quantity_factor)
 
 
 @dataclass(frozen=True)
@@ -41,6 +73,7 @@ class EquipmentCost:
     installed: float  # bare-module cost at the cost year
     source: str
     warnings: tuple[str, ...]
+    pricing: InstalledCost | None = None  # the numbers that give ``installed`` from the size
 
 
 def cost_equipment(data: CostData, item: str, equipment: str, size: float, cost_index: float, *,
@@ -68,18 +101,19 @@ def cost_equipment(data: CostData, item: str, equipment: str, size: float, cost_
         warnings.append(f"{item}: {curve.size_variable} {size:.4g} {validity.unit} is above the "
                         f"{validity.high:.4g} {validity.unit} of {equipment}; split into {units} parallel units "
                         f"of {size / units:.4g} {validity.unit}")
-    unit_cost = curve.purchased_cost(size / units, policy, warnings)
+    validity.check(size / units, policy, warnings)
     warnings = [w if w.startswith(item) else f"{item}: {w}" for w in warnings]
-    purchased = units * count * quantity_factor * unit_cost
     material_row = data.material_factor(curve.material_group, material)
     pressure_factor = pressure_factor_of(data, curve.pressure_group, pressure_gauge, diameter, item, warnings)
     bare = data.bare_module(curve.bare_module_group)
     f_bm = bare_module_factor(bare.b1, bare.b2, material_row.factor, pressure_factor)
-    escalated = escalate(purchased, curve.base_index, cost_index)
+    pricing = InstalledCost(item, curve, cost_index / curve.base_index, f_bm, units, count, quantity_factor)
+    purchased = pricing.purchased_base(size)
+    escalated = purchased * pricing.index_ratio
     source = "; ".join(dict.fromkeys((curve.source, material_row.source, bare.source)))
     return EquipmentCost(item, equipment, size * count, validity.unit, units, count, quantity_factor, purchased,
                          curve.base_index, cost_index, escalated, material_row.material, material_row.factor,
-                         pressure_factor, f_bm, escalated * f_bm, source, tuple(warnings))
+                         pressure_factor, f_bm, pricing.installed(size), source, tuple(warnings), pricing)
 
 
 def cost_trays(data: CostData, item: str, equipment: str, tray_area: float, trays: int, cost_index: float, *,

@@ -7,7 +7,10 @@ from .column import ColumnCostInput
 
 
 def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInput:
-    """Map a ``ColumnSizing`` onto ``ColumnCostInput`` (shell costed at its largest diameter)."""
+    """Map a ``ColumnSizing`` onto ``ColumnCostInput`` (shell costed at its largest diameter).
+
+    The reboiler is costed on the curve of the type the sizing chose (kettle when none was).
+    """
     return ColumnCostInput(
         shell_diameter=sizing.diameter,
         shell_height=sizing.height.tangent_length,
@@ -23,5 +26,6 @@ def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInpu
         drum_diameter=sizing.reflux_drum.diameter,
         pump_shaft_power=sizing.reflux_pump.shaft_power,
         tray_type=tray_type,
+        reboiler_type=sizing.reboiler.exchanger_type or "kettle",
         shell_material=sizing.vessel.material_class,
     )

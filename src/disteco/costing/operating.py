@@ -123,6 +123,14 @@ class UtilityCost:
     source: str
 
 
+def yearly_cost(duty, per_joule: float, hours_per_year: float):
+    """Yearly cost of a steady duty or power ``duty`` [W] at ``per_joule`` [currency/J] [currency/year].
+
+    The one form the costing layer and the optimisation model both evaluate (floats or Pyomo).
+    """
+    return duty * hours_per_year * HOUR * per_joule
+
+
 def utility_cost(item: str, duty: float, price: UtilityPrice, hours_per_year: float,
                  level: UtilityLevel | None = None, density: float | None = None) -> UtilityCost:
     """Yearly cost of a steady duty [currency/year] at a utility price.
@@ -171,7 +179,7 @@ def utility_cost(item: str, duty: float, price: UtilityPrice, hours_per_year: fl
         raise ValueError(f"{item}: duty {duty:g} W is negative; give its magnitude")
     per_joule = price_per_joule(price.price, price.per, level, density)
     energy = duty * hours_per_year * HOUR  # J/year
-    cost = energy * per_joule
+    cost = yearly_cost(duty, per_joule, hours_per_year)
     amount = energy * price_per_joule(1.0, price.per, level, density)  # price 1 per unit gives units
     return UtilityCost(item, price.utility, level.kind if level else ELECTRICITY, duty, amount, price.per,
                        price.price, price.unit, price.year, cost, price.source)

@@ -5,7 +5,7 @@ Entry points: :func:`optimise_design` (search over reflux, stages and feed stage
 is the checking tool that solves every configuration.
 """
 
-from .basis import CostBasis, CostCurve, ExchangerBasis, SeparationProblem, TrayBasis
+from .basis import CostBasis, ExchangerBasis, SeparationProblem, TrayBasis
 from .design import evaluate_design, optimise_design, separation_problem
 from .enumerate import Enumeration, enumerate_designs
 from .options import OPTIONS, model_options
@@ -13,7 +13,7 @@ from .results import (ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, Op
                       SequentialPrice, SolverReport)
 from .search import optimise
 
-__all__ = ["ColumnSizes", "CostBasis", "CostBreakdown", "CostCurve", "CostItem", "DesignEvaluation", "Enumeration",
+__all__ = ["ColumnSizes", "CostBasis", "CostBreakdown", "CostItem", "DesignEvaluation", "Enumeration",
            "ExchangerBasis", "OPTIONS", "OptimumDesign", "SearchStep", "SeparationProblem", "SequentialPrice",
            "SolverReport", "TrayBasis", "enumerate_designs", "evaluate_design", "model_options", "optimise",
            "optimise_design", "separation_problem"]

@@ -7,12 +7,12 @@ that the model does not depend on how the sizing and costing layers load their d
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from functools import lru_cache
 
 from .._base.errors import CaseError
 from ..case import EndSpec
+from ..costing.equipment import InstalledCost
 from ..properties.fitted import FittedMixture
 from ..sizing.efficiency import real_trays
 
@@ -74,58 +74,34 @@ def _dew_temperature(fitted: FittedMixture, P: float, y) -> float:
 
 
 @dataclass(frozen=True)
-class CostCurve:
-    """Purchased cost = multiplier * 10**(k1 + k2 log10 S + k3 (log10 S)^2) [currency].
-
-    ``multiplier`` folds the cost-index ratio and any fixed factors; ``installed_factor``
-    turns purchased into installed (bare-module) cost. ``size_min``/``size_max`` are the
-    curve's validity range in its size unit.
-    """
-
-    name: str
-    k1: float
-    k2: float
-    k3: float
-    size_unit: str
-    size_min: float
-    size_max: float
-    multiplier: float = 1.0
-    installed_factor: float = 1.0
-    source: str = ""
-
-    def purchased(self, size: float) -> float:
-        """Purchased cost [currency] at ``size`` [size_unit]."""
-        s = math.log10(size)
-        return self.multiplier * 10.0 ** (self.k1 + self.k2 * s + self.k3 * s * s)
-
-
-@dataclass(frozen=True)
 class ExchangerBasis:
-    """A condenser or reboiler: overall coefficient, utility temperatures, price and cost curve."""
+    """A condenser or reboiler: overall coefficient, utility temperatures, price and installed-cost numbers."""
 
     U: float  # W/(m^2 K)
     utility_in: float  # K, utility supply temperature
     utility_out: float  # K, utility return temperature (equal to supply for condensing steam)
     minimum_approach: float  # K
     price: float  # currency/J of duty
-    curve: CostCurve
+    cost: InstalledCost  # size: area [m^2]
+    service: str = "cooling"  # the utility's service: "cooling" (condenser) or "heating" (reboiler)
 
 
 @dataclass(frozen=True)
 class TrayBasis:
-    """Tray and shell numbers for sizing.
+    """Tray and shell numbers for sizing: the flooding fit and options, efficiency, height allowances.
 
-    Flooding capacity (Fair), in the smooth form
-    C_sb = c0 + c1 * exp(-c2 * F_LV**c3) [m/s] at the chosen tray spacing, then
-    u_flood = C_sb (sigma/0.02)^0.2 sqrt((rho_L - rho_V)/rho_V).
+    Flooding follows :func:`disteco.sizing.flooding.required_tray_area` with ``flooding_method``
+    (a key of ``FLOODING_METHODS``), the system factor and the downcomer fraction (None: the
+    flow-parameter rule on every tray), as in the sizing layer.
     """
 
     tray_spacing: float  # m
     flooding_fraction: float  # [-]
-    downcomer_fraction: float  # [-] of the column cross-section
     efficiency: float  # overall tray efficiency [-]
     extra_height: float  # m, sump, top space and feed nozzles
-    capacity: tuple[float, float, float, float]  # c0 [m/s], c1 [m/s], c2 [-], c3 [-]
+    flooding_method: str = "lygeros-magoulas"
+    system_factor: float = 1.0  # [-]
+    downcomer_fraction: float | None = None  # [-] of the cross-section; None: rule from the flow parameter
     diameter_min: float = 0.3  # m
     diameter_max: float = 12.0  # m
 
@@ -144,7 +120,7 @@ class CondensateBasis:
 
     The condensate's molar volume, the pump's efficiency and the head beyond the shell's
     tangent length are frozen at the reference design; the flow moves with the decisions.
-    Drum volume = Q t_hold / fill; pump shaft power = rho g Q H / eta, drawn as electricity.
+    Drum volume and pump shaft power come from the sizing layer's functions.
     """
 
     liquid_molar_volume: float  # m^3/mol
@@ -153,18 +129,18 @@ class CondensateBasis:
     fill_fraction: float  # [-]
     pump_efficiency: float  # [-]
     head_beyond_shell: float  # m, pump head minus the shell's tangent length
-    drum: CostCurve  # size: m^3
-    pump: CostCurve  # size: kW of shaft power
+    drum: InstalledCost  # size: m^3
+    pump: InstalledCost  # size: W of shaft power
     electricity_price: float  # currency/J
 
 
 @dataclass(frozen=True)
 class CostBasis:
-    """Everything the TAC needs beyond the stages: sizing numbers, curves, prices, annualisation."""
+    """Everything the TAC needs beyond the stages: sizing numbers, installed-cost numbers, prices, annualisation."""
 
     trays: TrayBasis
-    shell: CostCurve  # size: shell volume [m^3]
-    tray_cost: CostCurve  # size: tray area [m^2], cost per tray
+    shell: InstalledCost  # size: shell volume [m^3]
+    tray_cost: InstalledCost  # size: tray area [m^2], cost per tray
     condenser: ExchangerBasis
     reboiler: ExchangerBasis
     annualisation: float  # 1/yr, capital charge

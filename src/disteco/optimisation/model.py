@@ -6,25 +6,33 @@ or stage energy balances, the condenser and reboiler duties, the product specifi
 the column diameter from flooding at every tray, the exchanger areas and the total
 annualised cost. Reflux ratio and distillate flow are the continuous decisions.
 
+Sizes and costs are not written here: flooding, tray area, mean temperature difference and
+area, drum, pump, cost curves with their installed-cost factors, utility cost and TAC are
+the sizing and costing layers' functions, evaluated over Pyomo's operations (:data:`PYOMO`)
+with the options the basis carries (flooding fit, tray type, materials).
+
 Scaling: enthalpies in kJ/mol so duties are in kW; the objective is TAC in thousands of
 currency per year.
 """
 
 from __future__ import annotations
 
-import math
-
 import pyomo.environ as pyo
-from scipy.constants import g as GRAVITY
 
+from .._base.operations import Operations
+from ..costing.annual import total_annualised_cost
+from ..costing.operating import yearly_cost
+from ..sizing.auxiliaries import drum_volume, pump_shaft_power
+from ..sizing.exchangers import exchanger_area, mean_temperature_difference, terminal_differences
+from ..sizing.flooding import allowable_vapour_velocity, diameter_of, flow_parameter, required_tray_area, tray_area
 from .basis import CostBasis, SeparationProblem
-from .correlations import (capacity_factor_expr, cost_curve_expr, lmtd_expr, vapour_density_expr)
+from .fitted_sizing import liquid_density, vapour_density
 from .options import model_options
 from .start import Profile, partial_condenser_split
 
+PYOMO = Operations(pyo.exp, pyo.log, pyo.sqrt)
 KILO = 1e3
 TAC_SCALE = 1e3  # objective in thousands of currency per year
-SECONDS_PER_HOUR = 3600.0
 FLOW_FLOOR = 1e-4  # fraction of the feed kept as the smallest internal flow (keeps F_LV**c3 smooth)
 
 
@@ -225,43 +233,32 @@ def _add_sizing(m) -> None:
     m.diameter = pyo.Var(bounds=(trays.diameter_min, trays.diameter_max), initialize=1.0, doc="[m]")
     m.real_trays = trays.real_trays(m.N)
     m.height = trays.height(m.N)
-
-    def rho_v(j):
-        return vapour_density_expr(m.P[j], m.T[j], f.molar_mass([m.y[j, i] for i in m.C]))
-
-    def rho_l(j):
-        x = [m.x[j, i] for i in m.C]
-        return f.molar_mass(x) / f.liquid_molar_volume(m.T[j], x)
-
-    m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: rho_v(j))
-    m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: rho_l(j))
-    m.flow_parameter = pyo.Expression(m.TRAYS, rule=flow_parameter_rule)
-    m.flooding = pyo.Constraint(m.TRAYS, rule=flooding_rule)
-
-
-def flow_parameter_rule(m, j):
-    """F_LV = (L M_L)/(V M_V) sqrt(rho_V/rho_L) [-]."""
-    f = m.problem.fitted
-    mass_l = m.L[j] * f.molar_mass([m.x[j, i] for i in m.C])
-    mass_v = m.V[j] * f.molar_mass([m.y[j, i] for i in m.C])
-    return mass_l / mass_v * pyo.sqrt(m.rho_V[j] / m.rho_L[j])
+    m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], _molar_mass(m, m.y, j)))
+    m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: liquid_density(f, m.T[j], [m.x[j, i] for i in m.C]))
+    m.vapour_volume = pyo.Expression(m.TRAYS, rule=lambda m, j: m.V[j] * _molar_mass(m, m.y, j) / m.rho_V[j],
+                                     doc="[m^3/s]")
+    m.flow_parameter = pyo.Expression(m.TRAYS, rule=lambda m, j: flow_parameter(
+        m.L[j] * _molar_mass(m, m.x, j), m.V[j] * _molar_mass(m, m.y, j), m.rho_L[j], m.rho_V[j]), doc="F_LV [-]")
+    m.allowable_velocity = pyo.Expression(m.TRAYS, rule=allowable_velocity_rule,
+                                          doc="vapour velocity on the cross-section at the design approach to flood [m/s]")
+    m.required_area = pyo.Expression(m.TRAYS, rule=lambda m, j: m.vapour_volume[j] / m.allowable_velocity[j],
+                                     doc="tray cross-section flooding needs [m^2]")
+    m.tray_area = pyo.Expression(expr=tray_area(m.diameter))
+    # area x velocity >= volume flow rather than area >= required area: no division in the constraint
+    m.flooding = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.tray_area * m.allowable_velocity[j] >= m.vapour_volume[j])
 
 
-def flooding_terms(m, j):
-    """(area-specific vapour capacity per unit D^2 [m/s], vapour volume flow [m^3/s]) of tray j."""
+def _molar_mass(m, fractions, j):
+    return m.problem.fitted.molar_mass([fractions[j, i] for i in m.C])
+
+
+def allowable_velocity_rule(m, j):
+    """Allowable vapour velocity of tray j at the design approach to flood: the sizing layer's function."""
     trays, f = m.basis.trays, m.problem.fitted
-    sigma = f.surface_tension_of(m.T[j], [m.x[j, i] for i in m.C])
-    u_flood = capacity_factor_expr(m.flow_parameter[j], trays.capacity) * (sigma / 0.02) ** 0.2 \
-        * pyo.sqrt((m.rho_L[j] - m.rho_V[j]) / m.rho_V[j])
-    vapour_volume = m.V[j] * f.molar_mass([m.y[j, i] for i in m.C]) / m.rho_V[j]
-    per_d2 = math.pi / 4.0 * (1.0 - trays.downcomer_fraction) * trays.flooding_fraction * u_flood
-    return per_d2, vapour_volume
-
-
-def flooding_rule(m, j):
-    """Built net area at the design approach to flood carries the vapour of tray j."""
-    per_d2, vapour_volume = flooding_terms(m, j)
-    return m.diameter ** 2 * per_d2 >= vapour_volume
+    return allowable_vapour_velocity(
+        m.flow_parameter[j], m.rho_L[j], m.rho_V[j], f.surface_tension_of(m.T[j], [m.x[j, i] for i in m.C]),
+        trays.tray_spacing, trays.flooding_fraction, trays.flooding_method, trays.system_factor,
+        trays.downcomer_fraction, PYOMO)
 
 
 # ------------------------------------------------------------------ costs
@@ -272,28 +269,31 @@ def _add_costs(m) -> None:
     cond, reb = b.condenser, b.reboiler
     # Counter-current ends as the sizing layer takes them: the condenser cools the top vapour
     # (stage 1) to the reflux; the reboiler heats the liquid from the last tray to stage N.
-    ends = {"condenser": (m.T[1] - cond.utility_out, m.TD - m.problem.subcooling - cond.utility_in),
-            "reboiler": (reb.utility_in - m.T[m.N], reb.utility_out - m.T[m.N - 1])}
+    ends = {"condenser": terminal_differences(cond.service, m.T[1], m.TD - m.problem.subcooling,
+                                              cond.utility_in, cond.utility_out),
+            "reboiler": terminal_differences(reb.service, m.T[m.N - 1], m.T[m.N], reb.utility_in, reb.utility_out)}
     m.approach = pyo.Constraint(
         [(name, k) for name in ends for k in (0, 1)],
         rule=lambda m, name, k: ends[name][k] >= (cond if name == "condenser" else reb).minimum_approach)
-    m.condenser_area = pyo.Expression(expr=m.Qc * KILO / (cond.U * lmtd_expr(*ends["condenser"])))
-    m.reboiler_area = pyo.Expression(expr=m.Qr * KILO / (reb.U * lmtd_expr(*ends["reboiler"])))
-    m.shell_volume = pyo.Expression(expr=math.pi / 4.0 * m.diameter ** 2 * m.height)
-    m.tray_area = pyo.Expression(expr=math.pi / 4.0 * m.diameter ** 2)
-    m.cost_shell = pyo.Expression(expr=cost_curve_expr(b.shell, m.shell_volume) * b.shell.installed_factor)
-    m.tray_quantity_factor = b.tray_quantity_factor(m.real_trays)
-    m.cost_trays = pyo.Expression(expr=m.real_trays * m.tray_quantity_factor * cost_curve_expr(b.tray_cost, m.tray_area)
-                                  * b.tray_cost.installed_factor)
-    m.cost_condenser = pyo.Expression(expr=cost_curve_expr(cond.curve, m.condenser_area) * cond.curve.installed_factor)
-    m.cost_reboiler = pyo.Expression(expr=cost_curve_expr(reb.curve, m.reboiler_area) * reb.curve.installed_factor)
+    m.condenser_area = pyo.Expression(
+        expr=exchanger_area(m.Qc * KILO, cond.U, mean_temperature_difference(*ends["condenser"])))
+    m.reboiler_area = pyo.Expression(
+        expr=exchanger_area(m.Qr * KILO, reb.U, mean_temperature_difference(*ends["reboiler"])))
+    m.shell_volume = pyo.Expression(expr=m.tray_area * m.height)
+    m.cost_shell = pyo.Expression(expr=b.shell.installed(m.shell_volume, PYOMO))
+    m.tray_pricing = b.tray_cost.with_count(m.real_trays, b.tray_quantity_factor(m.real_trays))
+    m.cost_trays = pyo.Expression(expr=m.tray_pricing.installed(m.tray_area, PYOMO))
+    m.cost_condenser = pyo.Expression(expr=cond.cost.installed(m.condenser_area, PYOMO))
+    m.cost_reboiler = pyo.Expression(expr=reb.cost.installed(m.reboiler_area, PYOMO))
     _add_condensate(m)
     m.capital = pyo.Expression(expr=m.cost_shell + m.cost_trays + m.cost_condenser + m.cost_reboiler
                                + m.cost_drum + m.cost_pump)
-    seconds = b.operating_hours * SECONDS_PER_HOUR
-    m.utilities = pyo.Expression(expr=(m.Qc * cond.price + m.Qr * reb.price) * KILO * seconds
-                                 + m.pump_power * m.electricity_price * seconds)
-    m.tac = pyo.Expression(expr=b.annualisation * m.capital + m.utilities)
+    hours = b.operating_hours
+    m.condenser_utility = pyo.Expression(expr=yearly_cost(m.Qc * KILO, cond.price, hours))
+    m.reboiler_utility = pyo.Expression(expr=yearly_cost(m.Qr * KILO, reb.price, hours))
+    m.pump_utility = pyo.Expression(expr=yearly_cost(m.pump_power, m.electricity_price, hours))
+    m.utilities = pyo.Expression(expr=m.condenser_utility + m.reboiler_utility + m.pump_utility)
+    m.tac = pyo.Expression(expr=total_annualised_cost(m.capital, m.utilities, b.annualisation))
     m.penalty = pyo.Param(mutable=True, initialize=m.config.shortfall_penalty,
                           doc="objective charge per unit relative shortfall [thousand currency/yr]")
     m.objective = pyo.Objective(
@@ -311,12 +311,12 @@ def _add_condensate(m) -> None:
         m.drum_volume = m.pump_power = m.cost_drum = m.cost_pump = m.electricity_price = 0.0
         return
     volume_flow = (m.reflux if m.problem.partial_condenser else m.V[1]) * c.liquid_molar_volume
-    m.drum_volume = pyo.Expression(expr=volume_flow * c.holdup_time / c.fill_fraction, doc="[m^3]")
+    m.drum_volume = pyo.Expression(expr=drum_volume(volume_flow, c.holdup_time, c.fill_fraction), doc="[m^3]")
     m.pump_power = pyo.Expression(
-        expr=c.liquid_density * GRAVITY * volume_flow * (m.height + c.head_beyond_shell) / c.pump_efficiency,
+        expr=pump_shaft_power(volume_flow, c.liquid_density, m.height + c.head_beyond_shell, c.pump_efficiency),
         doc="shaft power [W]")
-    m.cost_drum = pyo.Expression(expr=cost_curve_expr(c.drum, m.drum_volume) * c.drum.installed_factor)
-    m.cost_pump = pyo.Expression(expr=cost_curve_expr(c.pump, m.pump_power / KILO) * c.pump.installed_factor)
+    m.cost_drum = pyo.Expression(expr=c.drum.installed(m.drum_volume, PYOMO))
+    m.cost_pump = pyo.Expression(expr=c.pump.installed(m.pump_power, PYOMO))
     m.electricity_price = c.electricity_price
 
 
@@ -357,12 +357,21 @@ def initialise(m, start: Profile) -> None:
 
 
 def _required_diameter(m) -> float:
-    """Smallest diameter meeting every flooding constraint at the current point [m]."""
+    """Smallest diameter meeting every flooding constraint at the current point [m].
+
+    Evaluated on floats with the same function (walking the Pyomo expressions took about
+    0.07 s per configuration on the five-component example, most of its initialisation).
+    """
+    f, trays = m.problem.fitted, m.basis.trays
     need = 0.0
     for j in m.TRAYS:
-        per_d2, vapour_volume = flooding_terms(m, j)
-        need = max(need, pyo.value(vapour_volume) / pyo.value(per_d2))
-    return math.sqrt(need)
+        x, y = [pyo.value(m.x[j, i]) for i in m.C], [pyo.value(m.y[j, i]) for i in m.C]
+        T = pyo.value(m.T[j])
+        need = max(need, required_tray_area(
+            pyo.value(m.V[j]) * f.molar_mass(y), pyo.value(m.L[j]) * f.molar_mass(x), liquid_density(f, T, x),
+            vapour_density(m.P[j], T, f.molar_mass(y)), f.surface_tension_of(T, x), trays.tray_spacing,
+            trays.flooding_fraction, trays.flooding_method, trays.system_factor, trays.downcomer_fraction))
+    return diameter_of(need)
 
 
 def _inside(value: float, var) -> float:

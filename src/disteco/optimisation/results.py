@@ -5,16 +5,48 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..costing.column import CostSummary
+from ..costing.data import HeatTransferCoefficient
 from ..sizing.column import ColumnSizing
 from ..stages.results import StageProfile
 
 
 @dataclass(frozen=True)
+class ModelCheck:
+    """Diagnostic only: the optimisation model's TAC and diameter against the reported re-price.
+
+    The reported TAC is the re-price (sizing and costing layers, thermo properties, diameter
+    rounded up to the standard increment). Both paths evaluate the same sizing and costing
+    functions (tests/test_one_copy.py), so what separates them is: the rounding of the
+    diameter (``rounding_tac``), and the fitted property forms and the constants the model
+    freezes at its reference design (the rest of ``difference``).
+    """
+
+    model_tac: float  # currency/yr, the optimisation model at its solution
+    reported_tac: float  # currency/yr, the re-price that is reported
+    unrounded_tac: float  # currency/yr, the re-price with the diameter flooding requires
+    model_diameter: float  # m
+    reported_diameter: float  # m, rounded up
+    unrounded_diameter: float  # m
+
+    @property
+    def difference(self) -> float:
+        """Model TAC minus reported TAC [currency/yr]."""
+        return self.model_tac - self.reported_tac
+
+    @property
+    def rounding_tac(self) -> float:
+        """Part of the reported TAC due to rounding the diameter up [currency/yr]."""
+        return self.reported_tac - self.unrounded_tac
+
+
+@dataclass(frozen=True)
 class SequentialPrice:
-    """A design sized and costed again by the sizing and costing layers (drum and pump included)."""
+    """A design sized and costed again by the sizing and costing layers (drum and pump included): the reported price."""
 
     sizing: ColumnSizing
     cost: CostSummary
+    coefficients: tuple[HeatTransferCoefficient, ...] = ()  # cost-data U rows of condenser and reboiler
+    model_check: ModelCheck | None = None  # the model's TAC against this one, a diagnostic
 
 
 @dataclass(frozen=True)

@@ -18,7 +18,7 @@ from pyomo.opt import SolverStatus, TerminationCondition as TC
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
-from .model import KILO, SECONDS_PER_HOUR, build_column_model, flooding_terms, initialise, shortfall
+from .model import KILO, build_column_model, initialise, shortfall
 from .options import model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
 from .start import Profile, cmo_profile, gilliland_reflux, shortcut
@@ -254,46 +254,39 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
         distillate_flow=D, bottoms_flow=B, distillate_composition=distillate, bottoms_composition=x[-1],
         condenser_duty=v(m.Qc) * KILO, reboiler_duty=v(m.Qr) * KILO, condenser_temperature=v(m.TD) - p.subcooling,
         partial_condenser=partial, model="rigorous" if m.config.energy_balances else "cmo")
-    need = {}
-    for j in m.TRAYS:
-        per_d2, vapour_volume = flooding_terms(m, j)
-        need[j] = v(vapour_volume) / v(per_d2)
+    need = {j: v(m.required_area[j]) for j in m.TRAYS}
     sizes = ColumnSizes(diameter=v(m.diameter), height=m.height, real_trays=m.real_trays,
                         tray_efficiency=b.trays.efficiency, condenser_area=v(m.condenser_area),
                         reboiler_area=v(m.reboiler_area), condenser_duty=v(m.Qc) * KILO,
                         reboiler_duty=v(m.Qr) * KILO, flooding_stage=max(need, key=need.get))
-    items = (
-        _item(b.shell, v(m.shell_volume), v(m.cost_shell), 1),
-        _item(b.tray_cost, v(m.tray_area), v(m.cost_trays), m.real_trays),
-        _item(b.condenser.curve, sizes.condenser_area, v(m.cost_condenser), 1),
-        _item(b.reboiler.curve, sizes.reboiler_area, v(m.cost_reboiler), 1),
-    )
-    curves = (b.shell, b.tray_cost, b.condenser.curve, b.reboiler.curve)
+    priced = [(b.shell, v(m.shell_volume), v(m.cost_shell)), (m.tray_pricing, v(m.tray_area), v(m.cost_trays)),
+              (b.condenser.cost, sizes.condenser_area, v(m.cost_condenser)),
+              (b.reboiler.cost, sizes.reboiler_area, v(m.cost_reboiler))]
     if b.condensate is not None:
-        items += (_item(b.condensate.drum, v(m.drum_volume), v(m.cost_drum), 1),
-                  _item(b.condensate.pump, v(m.pump_power) / KILO, v(m.cost_pump), 1))
-        curves += (b.condensate.drum, b.condensate.pump)
-    seconds = b.operating_hours * SECONDS_PER_HOUR
+        priced += [(b.condensate.drum, v(m.drum_volume), v(m.cost_drum)),
+                   (b.condensate.pump, v(m.pump_power), v(m.cost_pump))]
+    items = tuple(_item(pricing, size, installed) for pricing, size, installed in priced)
     capital = v(m.capital)
-    cond_utility = sizes.condenser_duty * b.condenser.price * seconds
-    reb_utility = sizes.reboiler_duty * b.reboiler.price * seconds
-    pump_utility = v(m.pump_power) * v(m.electricity_price) * seconds
+    cond_utility, reb_utility, pump_utility = v(m.condenser_utility), v(m.reboiler_utility), v(m.pump_utility)
     cost = CostBreakdown(items, capital, cond_utility, reb_utility, cond_utility + reb_utility + pump_utility,
                          b.annualisation * capital, v(m.tac), b.currency, b.cost_year, pump_utility)
-    warnings = tuple(_range_warnings(items, curves))
+    warnings = tuple(_range_warnings(priced))
     return DesignEvaluation(m.N, m.NF, v(m.R), profile, sizes, cost, report, warnings)
 
 
-def _item(curve, size: float, installed: float, count: int) -> CostItem:
-    """Cost item; ``size`` is per piece (one tray's area) when ``count`` pieces are costed together."""
-    return CostItem(curve.name if count == 1 else f"{curve.name} ({count})", size, curve.size_unit,
-                    installed / curve.installed_factor, installed)
+def _item(pricing, size: float, installed: float) -> CostItem:
+    """Cost item; ``size`` [SI] is per piece (one tray's area) when several pieces are costed together."""
+    name = pricing.item if pricing.count == 1 else f"{pricing.item} ({pricing.count})"
+    return CostItem(name, size, pricing.curve.validity().unit, pricing.purchased_base(size) * pricing.index_ratio,
+                    installed)
 
 
-def _range_warnings(items, curves) -> list[str]:
+def _range_warnings(priced) -> list[str]:
     notes = []
-    for item, curve in zip(items, curves):
-        if not curve.size_min <= item.size <= curve.size_max:
-            notes.append(f"extrapolated: {curve.name} cost curve at {item.size:.4g} {curve.size_unit}, outside "
-                         f"{curve.size_min:g} to {curve.size_max:g} {curve.size_unit} ({curve.source or 'cost data'})")
+    for pricing, size, _ in priced:
+        validity = pricing.curve.validity()
+        per_unit = size / pricing.parallel_units
+        if not validity.contains(per_unit):
+            notes.append(f"extrapolated: {pricing.item} cost curve at {per_unit:.4g} {validity.unit}, outside "
+                         f"{validity.low:g} to {validity.high:g} {validity.unit} ({pricing.curve.source or 'cost data'})")
     return notes

@@ -2,7 +2,7 @@
 
 Top-level keys (schema_version 1): ``schema_version``, ``disteco_version``, ``case_title``,
 ``case_file``, ``mode`` ("optimise" or "evaluate"), ``minimum_reflux_ratio``,
-``minimum_stages``, ``design``, ``cost``, ``solver``, ``equipment``, ``stage_profile``,
+``minimum_stages``, ``design``, ``cost``, ``solver``, ``model_check``, ``equipment``, ``stage_profile``,
 ``shortcut_table``, ``scenarios``, ``cross_table``, ``tac_curves``, ``mixture``, ``feed``, ``warnings``,
 ``cautions``, and the thermo checks of the reported design (``reports.json_checks``):
 ``verification``, ``minimum_reflux_energy_balance``, ``fit_check``. A part that was not computed is ``null``. Money is in ``cost.currency`` of
@@ -14,7 +14,7 @@ from __future__ import annotations
 from .. import __version__
 from .._base.units import to_degC
 from ..costing import CostSummary
-from ..optimisation.results import DesignEvaluation, OptimumDesign, SolverReport
+from ..optimisation.results import DesignEvaluation, OptimumDesign, SequentialPrice, SolverReport
 from ..properties import FeedState, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages import StageDesign, StageProfile
@@ -141,19 +141,32 @@ def equipment_json(sizing: ColumnSizing) -> list[dict]:
         {"tag": e.tag, "kind": e.kind, "size": e.size, "size_unit": e.size_unit, "size_basis": e.size_basis,
          "material": e.material, "quantity": e.quantity,
          "design_pressure_kPa_gauge": e.design_pressure / 1e3,
-         "design_temperature_degC": to_degC(e.design_temperature)}
+         "design_temperature_degC": to_degC(e.design_temperature),
+         "overall_coefficient_W_per_m2K": e.overall_coefficient, "coefficient_basis": e.coefficient_basis}
         for e in sizing.equipment]
 
 
-def solver_json(report: SolverReport, model_tac: float | None) -> dict:
+def solver_json(report: SolverReport) -> dict:
     return {"solver": report.solver, "status": report.status, "termination": report.termination,
             "gap": report.gap, "wall_time_s": report.wall_time,
             "configurations_solved": report.configurations_solved, "message": report.message,
-            "model_tac_per_year": model_tac,
             "unsolved": {"neighbours_of_chosen": report.neighbours,
                          "neighbours_of_chosen_unsolved": report.neighbours_unsolved,
                          "configurations": [{"stages": u.stages, "feed_stage": u.feed_stage, "reason": u.status}
                                             for u in report.unsolved]}}
+
+
+def model_check_json(sequential: SequentialPrice | None) -> dict | None:
+    """Diagnostic: the optimisation model's TAC and diameter against the reported re-price."""
+    check = sequential.model_check if sequential is not None else None
+    if check is None:
+        return None
+    return {"model_tac_per_year": check.model_tac, "reported_tac_per_year": check.reported_tac,
+            "difference_per_year": check.difference,
+            "difference_fraction": check.difference / check.reported_tac,
+            "diameter_rounding_tac_per_year": check.rounding_tac,
+            "model_diameter_m": check.model_diameter, "reported_diameter_m": check.reported_diameter,
+            "unrounded_diameter_m": check.unrounded_diameter}
 
 
 def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None, checks=None) -> dict:
@@ -169,8 +182,8 @@ def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | Non
         "feed_stage": best.feed_stage,
         "condenser_duty_kW": best.sizes.condenser_duty / 1e3,
         "reboiler_duty_kW": best.sizes.reboiler_duty / 1e3,
-        "model_tac_per_year": best.tac,
         "cost": cost_json(sequential.cost) if sequential else None,
+        "model_check": model_check_json(sequential),
         "diameter_m": sequential.sizing.diameter if sequential else best.sizes.diameter,
         "height_m": sequential.sizing.height.tangent_length if sequential else best.sizes.height,
         "verification": scenario_verification_json(checks),
@@ -195,9 +208,11 @@ def result_json(result: DesignResult) -> dict:
     profile = parts.profile or (stages.profile if stages else None)
     solver = None
     if parts.optimum is not None:
-        solver = solver_json(parts.optimum.solver, parts.optimum.best.tac)
+        solver = solver_json(parts.optimum.solver)
     elif chosen is not None:
-        solver = solver_json(chosen.solver, chosen.tac)
+        solver = solver_json(chosen.solver)
+    sequential = parts.optimum.sequential if parts.optimum is not None else \
+        result.evaluation.sequential if result.evaluation is not None else None
     cross = parts.cross
     return {
         "schema_version": SCHEMA_VERSION,
@@ -210,6 +225,7 @@ def result_json(result: DesignResult) -> dict:
         "design": design_json(profile, r_min, parts.sizing) if profile else None,
         "cost": cost_json(parts.cost) if parts.cost else None,
         "solver": solver,
+        "model_check": model_check_json(sequential),
         "equipment": equipment_json(parts.sizing) if parts.sizing else None,
         "stage_profile": profile_json(profile) if profile else None,
         "shortcut_table": stages_json(stages) if stages else None,

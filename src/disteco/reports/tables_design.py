@@ -51,7 +51,8 @@ def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:
     priced by the sizing and costing layers, its sizing and cost; ``others`` fill the other fields."""
     sequential = optimum.sequential
     return ReportParts(profile=optimum.best.profile, sizing=sequential.sizing if sequential else None,
-                       cost=sequential.cost if sequential else None, optimum=optimum, **others)
+                       cost=sequential.cost if sequential else None, optimum=optimum,
+                       coefficients=sequential.coefficients if sequential else (), **others)
 
 
 def summary_table(title: str, parts: ReportParts) -> Table:
@@ -63,8 +64,7 @@ def summary_table(title: str, parts: ReportParts) -> Table:
         o = parts.optimum
         items += [("Minimum reflux ratio [-]", o.minimum_reflux_ratio),
                   ("Reflux ratio / minimum [-]", o.best.reflux_ratio / o.minimum_reflux_ratio),
-                  ("Optimiser status", o.solver.status),
-                  (f"Total annualised cost, optimisation model [{o.best.cost.currency}/year]", o.best.tac)]
+                  ("Optimiser status", o.solver.status)]
     if parts.sizing is not None:
         s = parts.sizing
         items += [("Column diameter [m]", s.diameter), ("Real trays [-]", s.real_trays),
@@ -74,7 +74,7 @@ def summary_table(title: str, parts: ReportParts) -> Table:
         c = parts.cost
         items += [("Price scenario", c.scenario), (f"Installed capital [{c.currency}]", c.capital_installed),
                   (f"Utilities [{c.currency}/year]", c.utilities_per_year),
-                  (f"Total annualised cost, sizing and costing layers [{c.currency}/year]", c.tac_per_year)]
+                  (f"Total annualised cost [{c.currency}/year]", c.tac_per_year)]
     return quantity_table("Chosen design", items)
 
 

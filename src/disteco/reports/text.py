@@ -74,6 +74,7 @@ def design_text(result: DesignResult) -> str:
                      f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s")
     if len(parts.scenarios) > 1:
         lines.append("Scenario optima: " + "; ".join(
-            f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC {o.best.tac:,.0f} per year"
+            f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC "
+            f"{(o.sequential.cost.tac_per_year if o.sequential else o.best.tac):,.0f} per year"
             for name, o in parts.scenarios))
     return "\n".join(lines)

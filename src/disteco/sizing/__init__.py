@@ -10,7 +10,7 @@ from .column import ColumnSizing, EquipmentItem, SizingProperties, size_column
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchangers import ExchangerSizing, choose_utility, log_mean_temperature_difference, size_exchanger
 from .flooding import (FLOODING_METHODS, FLOW_PARAMETER_RANGE, TRAY_SPACING_RANGE, capacity_factor_kessler_wankat,
-                       capacity_factor_lygeros_magoulas, flooding_diameter_smooth, lygeros_magoulas_constants)
+                       capacity_factor_lygeros_magoulas, lygeros_magoulas_constants, required_tray_area)
 from .materials import Material, load_materials, material
 from .options import SizingOptions
 from .trays import TrayHydraulics
@@ -21,6 +21,6 @@ __all__ = ["CAUTION", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentIt
            "FLOODING_METHODS", "FLOW_PARAMETER_RANGE", "Material", "OCONNELL_RANGE", "PumpSizing",
            "SizingOptions", "SizingProperties", "TRAY_SPACING_RANGE", "TrayEfficiency", "TrayHydraulics",
            "UtilityLevel", "VesselDesign", "capacity_factor_kessler_wankat",
-           "capacity_factor_lygeros_magoulas", "choose_utility", "flooding_diameter_smooth", "load_materials",
+           "capacity_factor_lygeros_magoulas", "choose_utility", "load_materials",
            "log_mean_temperature_difference", "lygeros_magoulas_constants", "material",
-           "oconnell_efficiency_lockett", "real_trays", "size_column", "size_exchanger"]
+           "oconnell_efficiency_lockett", "real_trays", "required_tray_area", "size_column", "size_exchanger"]

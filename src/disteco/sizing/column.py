@@ -16,7 +16,8 @@ from .._base.validity import OutOfRange, ValidityRange
 from ..stages.results import StageProfile
 from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
-from .exchangers import ExchangerSizing, size_exchanger
+from .exchanger_service import REBOILER_KINDS
+from .exchangers import ExchangerSizing, OverallCoefficient, size_exchanger
 from .flooding import FLOW_PARAMETER_RANGE
 from .trays import TrayHydraulics, round_up, tray_hydraulics
 from .options import SizingOptions
@@ -51,6 +52,8 @@ class EquipmentItem:
     quantity: int = 1
     diameter: float | None = None  # m, where meaningful
     length: float | None = None  # m, where meaningful
+    overall_coefficient: float | None = None  # W/(m^2 K), exchangers only
+    coefficient_basis: str | None = None  # process side and source of the coefficient, exchangers only
 
 
 @dataclass(frozen=True)
@@ -151,10 +154,15 @@ def _condenser_liquid(profile: StageProfile, mixture: SizingProperties) -> tuple
 
 
 def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Sequence[UtilityLevel],
-                U_condenser: float, U_reboiler: float, options: SizingOptions | None = None) -> ColumnSizing:
+                U_condenser: float | OverallCoefficient, U_reboiler: float | OverallCoefficient,
+                options: SizingOptions | None = None, reboiler_type: str = "kettle",
+                round_diameter: bool = True) -> ColumnSizing:
     """Size trays, shell, condenser, reboiler, reflux drum and pump for a converged column.
 
-    ``U_condenser`` and ``U_reboiler`` are overall heat-transfer coefficients [W/(m^2 K)];
+    ``U_condenser`` and ``U_reboiler`` are overall heat-transfer coefficients [W/(m^2 K)], bare
+    or with the cost-data row they came from; ``reboiler_type`` is "kettle" or "thermosiphon"
+    (see :mod:`disteco.sizing.exchanger_service`). ``round_diameter`` False keeps the diameters
+    as flooding requires them (the optimisation model's continuous diameter);
     ``utilities`` are the levels the scenario offers. Raises ``CaseError`` for bad options or
     profile, ``CorrelationRangeError`` when a range is passed under the RAISE policy, and
     ``InfeasibleSpecError`` when no utility level fits. Other range excursions are listed
@@ -166,11 +174,15 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     n = profile.stages
     trays = _hydraulics(profile, mixture, options, warnings)
     step = options.diameter_increment
-    diameter = round_up(max(t.diameter for t in trays), step)
+
+    def rounded(value: float) -> float:
+        return round_up(value, step) if round_diameter else value
+
+    diameter = rounded(max(t.diameter for t in trays))
     rectifying = [t.diameter for t in trays if t.stage < profile.feed_stage]
     stripping = [t.diameter for t in trays if t.stage >= profile.feed_stage]
-    d_rect = round_up(max(rectifying or stripping), step)
-    d_strip = round_up(max(stripping or rectifying), step)
+    d_rect = rounded(max(rectifying or stripping))
+    d_strip = rounded(max(stripping or rectifying))
     if diameter < 0.6:
         warnings.append(f"column diameter {diameter:.2f} m is below 0.6 m (common practice, no source): "
                         "trays are hard to install; consider packing")
@@ -192,9 +204,9 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
 
     condenser = size_exchanger("condenser", "cooling", profile.condenser_duty, profile.T[0],
                                profile.condenser_temperature, utilities, U_condenser, options.min_approach,
-                               options.operating_hours)
+                               options.operating_hours, "fixed_tube_sheet")
     reboiler = size_exchanger("reboiler", "heating", profile.reboiler_duty, profile.T[n - 2], profile.T[n - 1],
-                              utilities, U_reboiler, options.min_approach, options.operating_hours)
+                              utilities, U_reboiler, options.min_approach, options.operating_hours, reboiler_type)
 
     top_design_p = design_pressure(profile.P[0], options.pressure_margin_fraction, options.pressure_margin_minimum)
     top_design_t = max(profile.T[0], profile.condenser_temperature) + options.temperature_margin
@@ -230,9 +242,10 @@ def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: fl
                             diameter=d) for tag, d, count in sections if count > 0]
     items += [
         EquipmentItem("condenser", "shell-and-tube heat exchanger", condenser.area, "m^2", "heat-transfer area",
-                      **common, design_pressure=top_p, design_temperature=top_t),
-        EquipmentItem("reboiler", "shell-and-tube heat exchanger", reboiler.area, "m^2", "heat-transfer area",
-                      **common, **column_design),
+                      **common, design_pressure=top_p, design_temperature=top_t, **_coefficient(condenser)),
+        EquipmentItem("reboiler", REBOILER_KINDS.get(reboiler.exchanger_type, "shell-and-tube heat exchanger"),
+                      reboiler.area, "m^2", "heat-transfer area", **common, **column_design,
+                      **_coefficient(reboiler)),
         EquipmentItem("reflux_drum", "horizontal pressure vessel", drum.volume, "m^3", "volume", **common,
                       design_pressure=drum.design_pressure, design_temperature=drum.design_temperature,
                       diameter=drum.diameter, length=drum.length),
@@ -240,3 +253,8 @@ def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: fl
                       design_pressure=pump.design_pressure, design_temperature=pump.design_temperature),
     ]
     return tuple(items)
+
+
+def _coefficient(exchanger: ExchangerSizing) -> dict:
+    basis = "; ".join(part for part in (exchanger.process_side, exchanger.coefficient_source) if part)
+    return dict(overall_coefficient=exchanger.overall_coefficient, coefficient_basis=basis or "given value")

@@ -4,12 +4,17 @@ Fair's chart gives the flooding capacity factor C (the Souders-Brown K at flood)
 the flow parameter F_LV for tray spacings from 6 to 36 in. Two published fits of the chart
 are offered; both are kept so that their spread (about 10 %) stays visible:
 
-- ``lygeros-magoulas`` (default): one closed form over all spacings, written with ``exp``
-  and powers only, so the same function builds the Pyomo twin (pass ``exp=pyomo.environ.exp``).
-  It decreases monotonically with F_LV everywhere.
+- ``lygeros-magoulas`` (default): one closed form over all spacings. It decreases
+  monotonically with F_LV everywhere.
 - ``kessler-wankat``: one quadratic in log10 F_LV per charted spacing, interpolated
   linearly in spacing. Its quadratic turns over, so at F_LV below about 0.02-0.04 it
   decreases as F_LV decreases, unlike the chart, which levels off.
+
+Every relation here is written once over an operations namespace
+(:class:`disteco._base.operations.Operations`, floats by default): the sizing layer and the
+optimisation model (which passes Pyomo's functions) evaluate the same code, whichever fit
+``SizingOptions.flooding_method`` names. The tray spacing is a constant of the model, so the
+Kessler-Wankat interpolation in spacing happens on numbers.
 
 Measured over the chart (6-36 in, F_LV 0.02-1.0) the two fits differ by -13 % to +10 %
 (Lygeros-Magoulas lower near F_LV 0.05 at 24-36 in, higher near F_LV 0.5 at 9-18 in); at
@@ -25,8 +30,7 @@ from __future__ import annotations
 
 import math
 
-from fluids.separator import v_Souders_Brown
-
+from .._base.operations import FLOAT, Operations
 from .._base.units import FOOT
 from .._base.validity import ValidityRange
 
@@ -41,7 +45,10 @@ TRAY_SPACING_RANGE = ValidityRange("Fair flooding chart", "tray spacing", 6.0 * 
                                    _FAIR_SOURCE)
 
 
-def capacity_factor_lygeros_magoulas(flow_parameter, tray_spacing, exp=math.exp):
+LN10 = math.log(10.0)
+
+
+def capacity_factor_lygeros_magoulas(flow_parameter, tray_spacing, ops: Operations = FLOAT):
     r"""Flooding capacity factor of sieve trays, closed-form fit of Fair's chart by Lygeros and Magoulas.
 
     .. math::
@@ -55,8 +62,8 @@ def capacity_factor_lygeros_magoulas(flow_parameter, tray_spacing, exp=math.exp)
         Flow parameter F_LV = (L/V) (rho_V/rho_L)^0.5 on a mass basis [-]
     tray_spacing : float
         Tray spacing [m]
-    exp : callable
-        Exponential function: ``math.exp``, or ``pyomo.environ.exp`` to build the Pyomo twin [-]
+    ops : Operations
+        exp, log, sqrt of the numbers used: floats by default, Pyomo's in the model [-]
 
     Returns
     -------
@@ -82,7 +89,7 @@ def capacity_factor_lygeros_magoulas(flow_parameter, tray_spacing, exp=math.exp)
        Wiley (2011), Section 6.6 (quotes the fit).
     """
     c0, c1, c2, c3 = lygeros_magoulas_constants(tray_spacing)
-    return c0 + c1 * exp(-c2 * flow_parameter ** c3)
+    return c0 + c1 * ops.exp(-c2 * flow_parameter ** c3)
 
 
 def lygeros_magoulas_constants(tray_spacing: float) -> tuple[float, float, float, float]:
@@ -104,14 +111,15 @@ _KESSLER_WANKAT = (
 )
 
 
-def capacity_factor_kessler_wankat(flow_parameter, tray_spacing):
+def capacity_factor_kessler_wankat(flow_parameter, tray_spacing, ops: Operations = FLOAT):
     r"""Flooding capacity factor of sieve trays, per-spacing fits of Fair's chart by Kessler and Wankat.
 
     .. math::
         \log_{10} C_F = a_0 + a_1 \log_{10} F_{LV} + a_2 (\log_{10} F_{LV})^2
 
     with C_F in ft/s and one set (a0, a1, a2) for each charted spacing (6, 9, 12, 18, 24,
-    36 in); between spacings log10 C_F is interpolated linearly in spacing.
+    36 in); between spacings log10 C_F is interpolated linearly in spacing, which is the
+    same as interpolating the constants (:func:`kessler_wankat_constants`).
 
     Parameters
     ----------
@@ -119,6 +127,8 @@ def capacity_factor_kessler_wankat(flow_parameter, tray_spacing):
         Flow parameter F_LV = (L/V) (rho_V/rho_L)^0.5 on a mass basis [-]
     tray_spacing : float
         Tray spacing, 6 to 36 in [m]
+    ops : Operations
+        exp, log, sqrt of the numbers used: floats by default, Pyomo's in the model [-]
 
     Returns
     -------
@@ -143,15 +153,23 @@ def capacity_factor_kessler_wankat(flow_parameter, tray_spacing):
     1. Kessler, D. P., and P. C. Wankat, Chem. Eng. 95(13), 72 (1988).
     2. Wankat, P. C., Separation Process Engineering, 3rd ed., Prentice Hall (2012), Chapter 10.
     """
+    a0, a1, a2 = kessler_wankat_constants(tray_spacing)
+    log_flv = ops.log(flow_parameter) / LN10
+    return FOOT * ops.exp(LN10 * (a0 + a1 * log_flv + a2 * log_flv * log_flv))
+
+
+def kessler_wankat_constants(tray_spacing: float) -> tuple[float, float, float]:
+    """(a0, a1, a2) of log10(C_F [ft/s]) = a0 + a1 log10 F_LV + a2 (log10 F_LV)^2 at one spacing [m].
+
+    Linear interpolation between the charted spacings; ``CorrelationRangeError`` outside 6-36 in.
+    """
     spacing_in = tray_spacing / INCH
     if not _KESSLER_WANKAT[0][0] <= spacing_in <= _KESSLER_WANKAT[-1][0]:
         TRAY_SPACING_RANGE.check(tray_spacing)
-    log_flv = math.log10(flow_parameter)
-    logs = [(s, a0 + a1 * log_flv + a2 * log_flv ** 2) for s, a0, a1, a2 in _KESSLER_WANKAT]
-    for (s0, c0), (s1, c1) in zip(logs, logs[1:]):
-        if spacing_in <= s1:
-            log_c = c0 + (c1 - c0) * (spacing_in - s0) / (s1 - s0)
-            return 10.0 ** log_c * FOOT
+    for low, high in zip(_KESSLER_WANKAT, _KESSLER_WANKAT[1:]):
+        if spacing_in <= high[0]:
+            w = (spacing_in - low[0]) / (high[0] - low[0])
+            return tuple((1.0 - w) * a + w * b for a, b in zip(low[1:], high[1:]))
     raise AssertionError("unreachable: spacing checked above")
 
 
@@ -233,7 +251,7 @@ def flow_parameter(liquid_mass_flow, vapour_mass_flow, liquid_density, vapour_de
     return liquid_mass_flow / vapour_mass_flow * (vapour_density / liquid_density) ** 0.5
 
 
-def downcomer_area_fraction(flow_parameter):
+def downcomer_area_fraction(flow_parameter, ops: Operations = FLOAT):
     r"""Downcomer area as a fraction of the column cross-section, from the flow parameter.
 
     .. math::
@@ -244,6 +262,8 @@ def downcomer_area_fraction(flow_parameter):
     ----------
     flow_parameter : float
         Flow parameter [-]
+    ops : Operations
+        exp, log, sqrt and smooth max of the numbers used: floats by default, Pyomo's in the model [-]
 
     Returns
     -------
@@ -253,6 +273,8 @@ def downcomer_area_fraction(flow_parameter):
     Notes
     -----
     A rule for preliminary design: more liquid needs more downcomer. Quoted from memory.
+    The two corners are rounded by the smooth max and min of ``ops`` (width 1e-4), the same
+    for floats and the model: at most 5e-5 above the sharp rule, at the corners.
 
     Examples
     --------
@@ -264,11 +286,11 @@ def downcomer_area_fraction(flow_parameter):
     1. Seader, J. D., E. J. Henley and D. K. Roper, Separation Process Principles, 3rd ed.,
        Wiley (2011), Section 6.6.
     """
-    return min(0.2, max(0.1, 0.1 + (flow_parameter - 0.1) / 9.0))
+    return ops.min(0.2, ops.max(0.1, 0.1 + (flow_parameter - 0.1) / 9.0))
 
 
-def flooding_velocity(capacity_factor, liquid_density, vapour_density):
-    r"""Vapour velocity at flood through the net area, Souders-Brown form (via ``fluids``).
+def flooding_velocity(capacity_factor, liquid_density, vapour_density, ops: Operations = FLOAT):
+    r"""Vapour velocity at flood through the net area, Souders-Brown form.
 
     .. math::
         u_f = C \sqrt{\frac{\rho_L - \rho_V}{\rho_V}}
@@ -281,6 +303,8 @@ def flooding_velocity(capacity_factor, liquid_density, vapour_density):
         Liquid density [kg/m^3]
     vapour_density : float
         Vapour density [kg/m^3]
+    ops : Operations
+        exp, log, sqrt of the numbers used: floats by default, Pyomo's in the model [-]
 
     Returns
     -------
@@ -289,7 +313,8 @@ def flooding_velocity(capacity_factor, liquid_density, vapour_density):
 
     Notes
     -----
-    Any consistent units; ``fluids.separator.v_Souders_Brown`` evaluates it.
+    Any consistent units; checked against ``fluids.separator.v_Souders_Brown``
+    (tests/test_sizing_flooding.py).
 
     Examples
     --------
@@ -301,19 +326,81 @@ def flooding_velocity(capacity_factor, liquid_density, vapour_density):
     1. Souders, M., and G. G. Brown, Ind. Eng. Chem. 26, 98 (1934).
     2. Bell, C., fluids library, ``fluids.separator.v_Souders_Brown``.
     """
-    return v_Souders_Brown(capacity_factor, liquid_density, vapour_density)
+    return capacity_factor * ops.sqrt((liquid_density - vapour_density) / vapour_density)
 
 
-def flooding_diameter_smooth(vapour_mass_flow, liquid_mass_flow, liquid_density, vapour_density,
-                             surface_tension, tray_spacing, flood_fraction, downcomer_fraction,
-                             exp=math.exp):
-    r"""Tray diameter for a design fraction of flood, Lygeros-Magoulas form without branches.
+def allowable_vapour_velocity(flow_parameter, liquid_density, vapour_density, surface_tension, tray_spacing,
+                              flood_fraction, method="lygeros-magoulas", system_factor=1.0, downcomer_fraction=None,
+                              ops: Operations = FLOAT):
+    r"""Vapour velocity on the total tray cross-section at the design approach to flood, with any flooding fit.
 
     .. math::
-        D = \sqrt{\frac{4\,\dot m_V/\rho_V}{\pi f\,u_f\,(1 - A_d/A_T)}}
+        u_{A_T} = f\,u_f\,(1 - A_d/A_T),\qquad
+        u_f = C_F(F_{LV}, TS)\,(\sigma/0.02)^{0.2}\,SF\,\sqrt{(\rho_L - \rho_V)/\rho_V}
 
-    with u_f from :func:`flooding_velocity` and C from
-    :func:`capacity_factor_lygeros_magoulas` times :func:`surface_tension_correction`.
+    Parameters
+    ----------
+    flow_parameter : float
+        Flow parameter of the tray, :func:`flow_parameter` [-]
+    liquid_density : float
+        Liquid density [kg/m^3]
+    vapour_density : float
+        Vapour density [kg/m^3]
+    surface_tension : float
+        Liquid surface tension [N/m]
+    tray_spacing : float
+        Tray spacing [m]
+    flood_fraction : float
+        Design fraction of flooding velocity [-]
+    method : str
+        Key of :data:`FLOODING_METHODS` [-]
+    system_factor : float
+        Foaming (system) factor on the capacity [-]
+    downcomer_fraction : float or None
+        Downcomer area over total cross-section; None applies :func:`downcomer_area_fraction` [-]
+    ops : Operations
+        exp, log, sqrt and smooth max: floats by default, Pyomo's in the model [-]
+
+    Returns
+    -------
+    float
+        Allowable vapour velocity on the total cross-section [m/s]
+
+    Notes
+    -----
+    Ranges as in the fit chosen (:data:`FLOW_PARAMETER_RANGE`, :data:`TRAY_SPACING_RANGE`),
+    checked by the caller. The tray needs the cross-section (vapour volume flow) / (this
+    velocity), :func:`required_tray_area`; the optimisation model writes its flooding
+    constraint as area x this velocity >= vapour volume flow, which keeps the division out,
+    and passes the flow parameter as one shared subexpression (it enters the fit and the
+    downcomer rule several times).
+
+    Examples
+    --------
+    >>> round(allowable_vapour_velocity(0.0473, 800.0, 2.8, 0.02, 0.6096, 0.8, downcomer_fraction=0.1), 3)
+    1.246
+
+    References
+    ----------
+    1. Fair, J. R., Petro/Chem Engineer 33(10), 45 (1961).
+    2. Lygeros, A. I., and K. G. Magoulas, Hydrocarbon Processing 65(12), 43 (1986).
+    """
+    flv = flow_parameter
+    c = FLOODING_METHODS[method](flv, tray_spacing, ops) * surface_tension_correction(surface_tension) * system_factor
+    u_flood = flooding_velocity(c, liquid_density, vapour_density, ops)
+    fraction = downcomer_area_fraction(flv, ops) if downcomer_fraction is None else downcomer_fraction
+    return flood_fraction * u_flood * (1.0 - fraction)
+
+
+def required_tray_area(vapour_mass_flow, liquid_mass_flow, liquid_density, vapour_density, surface_tension,
+                       tray_spacing, flood_fraction, method="lygeros-magoulas", system_factor=1.0,
+                       downcomer_fraction=None, ops: Operations = FLOAT):
+    r"""Total tray (column) cross-section for a design fraction of flood, with any flooding fit.
+
+    .. math::
+        A_T = \frac{\dot m_V/\rho_V}{u_{A_T}}
+
+    with u_{A_T} from :func:`allowable_vapour_velocity`.
 
     Parameters
     ----------
@@ -331,34 +418,46 @@ def flooding_diameter_smooth(vapour_mass_flow, liquid_mass_flow, liquid_density,
         Tray spacing [m]
     flood_fraction : float
         Design fraction of flooding velocity [-]
-    downcomer_fraction : float
-        Downcomer area over total cross-section [-]
-    exp : callable
-        Exponential function: ``math.exp``, or ``pyomo.environ.exp`` for the Pyomo twin [-]
+    method : str
+        Key of :data:`FLOODING_METHODS` [-]
+    system_factor : float
+        Foaming (system) factor on the capacity [-]
+    downcomer_fraction : float or None
+        Downcomer area over total cross-section; None applies :func:`downcomer_area_fraction` [-]
+    ops : Operations
+        exp, log, sqrt and smooth max: floats by default, Pyomo's in the model [-]
 
     Returns
     -------
     float
-        Tray (column) diameter, not rounded [m]
+        Total cross-section the tray needs [m^2]
 
     Notes
     -----
-    Only powers and ``exp`` (here and in the helpers it calls): the same code gives the Pyomo twin. Ranges as in
-    :func:`capacity_factor_lygeros_magoulas`.
+    As :func:`allowable_vapour_velocity`. The sizing layer and the optimisation model both
+    call these functions.
 
     Examples
     --------
-    >>> round(flooding_diameter_smooth(3.0, 2.4, 800.0, 2.8, 0.02, 0.6096, 0.8, 0.1), 3)
-    1.046
+    >>> round(required_tray_area(3.0, 2.4, 800.0, 2.8, 0.02, 0.6096, 0.8, downcomer_fraction=0.1), 4)
+    0.8601
 
     References
     ----------
-    1. Lygeros, A. I., and K. G. Magoulas, Hydrocarbon Processing 65(12), 43 (1986).
-    2. Fair, J. R., Petro/Chem Engineer 33(10), 45 (1961).
+    1. Fair, J. R., Petro/Chem Engineer 33(10), 45 (1961).
+    2. Lygeros, A. I., and K. G. Magoulas, Hydrocarbon Processing 65(12), 43 (1986).
     """
     flv = flow_parameter(liquid_mass_flow, vapour_mass_flow, liquid_density, vapour_density)
-    c = capacity_factor_lygeros_magoulas(flv, tray_spacing, exp) * surface_tension_correction(surface_tension)
-    # written out rather than flooding_velocity(): fluids' sqrt does not take Pyomo expressions
-    u_flood = c * ((liquid_density - vapour_density) / vapour_density) ** 0.5
-    area = vapour_mass_flow / vapour_density / (flood_fraction * u_flood * (1.0 - downcomer_fraction))
-    return (4.0 * area / math.pi) ** 0.5
+    velocity = allowable_vapour_velocity(flv, liquid_density, vapour_density, surface_tension, tray_spacing,
+                                         flood_fraction, method, system_factor, downcomer_fraction, ops)
+    return vapour_mass_flow / vapour_density / velocity
+
+
+def tray_area(diameter):
+    """Cross-section of a column of ``diameter`` [m]: pi D^2 / 4 [m^2]."""
+    return math.pi / 4.0 * diameter ** 2
+
+
+def diameter_of(area, ops: Operations = FLOAT):
+    """Diameter of a circular cross-section ``area`` [m^2]: sqrt(4 A / pi) [m]."""
+    return ops.sqrt(4.0 * area / math.pi)

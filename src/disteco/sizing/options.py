@@ -13,6 +13,7 @@ from .flooding import FLOODING_METHODS, TRAY_SPACING_RANGE
 from .materials import material
 
 INCH = 0.0254  # m
+TRAY_TYPES = ("sieve", "valve")  # tray cost curves of the costing layer (sieve_tray, valve_tray)
 
 # Fields that must be strictly positive, and fractions in (0, 1].
 _POSITIVE = ("diameter_increment", "system_factor", "sump_residence_time", "max_height",
@@ -30,6 +31,7 @@ class SizingOptions:
     tray_spacing: float = 24 * INCH  # m; 24 in is usual above about 1.5 m diameter
     flood_fraction: float = 0.80  # - of flooding velocity
     flooding_method: str = "lygeros-magoulas"  # key of FLOODING_METHODS
+    tray_type: str = "sieve"  # one of TRAY_TYPES: which tray cost curve prices the trays
     system_factor: float = 1.0  # - ; below 1 for foaming systems
     downcomer_area_fraction: float | None = None  # - ; None: rule from the flow parameter
     diameter_increment: float = 0.05  # m; the diameter is rounded up to a multiple of it
@@ -73,6 +75,8 @@ class SizingOptions:
         if self.flooding_method not in FLOODING_METHODS:
             raise CaseError("sizing.flooding_method", f"unknown method {self.flooding_method!r}",
                             ", ".join(FLOODING_METHODS))
+        if self.tray_type not in TRAY_TYPES:
+            raise CaseError("sizing.tray_type", f"unknown tray type {self.tray_type!r}", ", ".join(TRAY_TYPES))
         if self.downcomer_area_fraction is not None and not 0.0 <= self.downcomer_area_fraction < 0.5:
             raise CaseError("sizing.downcomer_area_fraction", f"{self.downcomer_area_fraction!r}",
                             "0 to 0.5 of the cross-section")

@@ -5,8 +5,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .flooding import (FLOODING_METHODS, downcomer_area_fraction, flooding_velocity, flow_parameter,
-                       surface_tension_correction)
+from .flooding import (FLOODING_METHODS, diameter_of, downcomer_area_fraction, flooding_velocity, flow_parameter,
+                       required_tray_area, surface_tension_correction)
 
 
 @dataclass(frozen=True)
@@ -32,17 +32,21 @@ def tray_hydraulics(stage: int, liquid_mass_flow: float, vapour_mass_flow: float
                     vapour_density: float, surface_tension: float, tray_spacing: float,
                     flood_fraction: float, method: str = "lygeros-magoulas", system_factor: float = 1.0,
                     downcomer_fraction: float | None = None) -> TrayHydraulics:
-    """Flooding, net and total area and diameter of one tray (ranges are checked by the caller)."""
+    """Flooding, net and total area and diameter of one tray (ranges are checked by the caller).
+
+    The total area is :func:`~disteco.sizing.flooding.required_tray_area`, the function the
+    optimisation model's flooding constraints are built from.
+    """
     flv = flow_parameter(liquid_mass_flow, vapour_mass_flow, liquid_density, vapour_density)
     c = FLOODING_METHODS[method](flv, tray_spacing) * surface_tension_correction(surface_tension) * system_factor
     u_flood = flooding_velocity(c, liquid_density, vapour_density)
     fraction = downcomer_area_fraction(flv) if downcomer_fraction is None else downcomer_fraction
     volume_flow = vapour_mass_flow / vapour_density
-    net = volume_flow / (flood_fraction * u_flood)
-    total = net / (1.0 - fraction)
+    total = required_tray_area(vapour_mass_flow, liquid_mass_flow, liquid_density, vapour_density, surface_tension,
+                               tray_spacing, flood_fraction, method, system_factor, downcomer_fraction)
     return TrayHydraulics(stage, liquid_density, vapour_density, surface_tension, volume_flow, flv, c,
-                          u_flood, flood_fraction * u_flood, fraction, net, total,
-                          math.sqrt(4.0 * total / math.pi))
+                          u_flood, flood_fraction * u_flood, fraction, total * (1.0 - fraction), total,
+                          diameter_of(total))
 
 
 def round_up(value: float, increment: float) -> float:

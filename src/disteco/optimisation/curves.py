@@ -44,10 +44,12 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     where no column within the stage limit meets the specifications are left out.
     """
     config = model_options(options)
-    problem = separation_problem(case, mixture, feed, config.max_stages)
-    basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
-                                                                heavy_key=problem.heavy_key),
-                                scenario, case.economics.cost_year, config)
+    problem, basis = optimum.problem, optimum.basis  # the optimum's settled basis, so the curve passes through it
+    if basis is None:
+        problem = separation_problem(case, mixture, feed, config.max_stages)
+        basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
+                                                                    heavy_key=problem.heavy_key),
+                                    scenario, case.economics.cost_year, config)
     best = optimum.best
     if best.solver.barrier:  # try first the barrier strategy that solved the optimum
         config.barrier_strategies = first_strategy(best.solver.barrier, config.barrier_strategies)

@@ -66,7 +66,8 @@ def design_text(result: DesignResult) -> str:
     if optimum is not None:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
         lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
-                     f"configurations solved in {optimum.solver.wall_time:.1f} s")
+                     f"configurations solved in {optimum.solver.wall_time:.1f} s, "
+                     f"{optimum.rounds} round{'s' if optimum.rounds != 1 else ''} until the model's constants settled")
     if len(parts.scenarios) > 1:
         lines.append("Scenario optima: " + "; ".join(
             f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC {o.best.tac:,.0f} per year"

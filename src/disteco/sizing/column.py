@@ -18,6 +18,7 @@ from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchangers import ExchangerSizing, size_exchanger
 from .flooding import FLOW_PARAMETER_RANGE
+from .tray_pressure_drop import TrayPressureDrop, sieve_tray_pressure_drop, weir_height_for
 from .trays import TrayHydraulics, round_up, tray_hydraulics
 from .options import SizingOptions
 from .utilities import UtilityLevel
@@ -74,6 +75,12 @@ class ColumnSizing:
     reflux_pump: PumpSizing
     equipment: tuple[EquipmentItem, ...]
     warnings: tuple[str, ...]
+    pressure_drops: tuple[TrayPressureDrop, ...] = ()  # one per tray at the shell diameter, top first
+
+    @property
+    def tray_pressure_drop(self) -> float:
+        """Mean pressure drop per real tray from the sieve-tray hydraulics [Pa]."""
+        return sum(t.pressure_drop for t in self.pressure_drops) / len(self.pressure_drops)
 
 
 def _check_profile(profile: StageProfile) -> None:
@@ -210,9 +217,11 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
 
     equipment = _equipment(vessel, diameter, d_rect, d_strip, n_real, n_rect, options, condenser, reboiler,
                            drum, pump, top_design_p, top_design_t)
+    weir = weir_height_for(profile.P[0])
+    drops = tuple(sieve_tray_pressure_drop(t, diameter, weir) for t in trays)
     return ColumnSizing(trays, options.flood_fraction, diameter, d_rect, d_strip, options.separate_sections,
                         efficiency, n_real, n_rect, height, vessel, condenser, reboiler, drum, pump, equipment,
-                        tuple(warnings))
+                        tuple(warnings), drops)
 
 
 def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: float, n_real: int, n_rect: int,

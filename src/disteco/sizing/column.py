@@ -194,7 +194,7 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     vessel = design_vessel(diameter, height.tangent_length, max(profile.P), max(profile.T), options.material,
                            options.joint_efficiency, options.corrosion_allowance,
                            options.pressure_margin_fraction, options.pressure_margin_minimum,
-                           options.temperature_margin)
+                           options.temperature_margin, min(profile.P))
     warnings.extend(vessel.warnings)
 
     condenser = size_exchanger("condenser", "cooling", profile.condenser_duty, profile.T[0],

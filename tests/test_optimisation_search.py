@@ -46,6 +46,16 @@ def test_search_equals_enumeration(problem, cheap_steam, optimum):
     assert optimum.solver.configurations_solved < len(enumeration.visited) / 4
 
 
+def test_search_from_a_previous_optimum_only_descends(problem, cheap_steam, optimum):
+    """Started at the optimum (as the re-evaluation rounds do), the search ends there after its
+    neighbours (at most 8 more configurations), with the same TAC."""
+    best = optimum.best
+    again = optimise(problem, cheap_steam, OPTIONS, start=(best.stages, best.feed_stage))
+    assert (again.best.stages, again.best.feed_stage) == (best.stages, best.feed_stage)
+    assert again.best.tac == pytest.approx(best.tac, rel=1e-6)
+    assert again.solver.configurations_solved <= 9
+
+
 def test_optimum_is_interior_and_above_minimum_reflux(optimum):
     """The optimum lies inside the stage range, above Underwood's minimum reflux and Fenske's minimum stages."""
     best = optimum.best

@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from .._base.errors import InfeasibleSpecError
+from .._base.errors import InfeasibleSpecError, SolverError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
@@ -125,13 +125,23 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     config = model_options(options)
     year = case.economics.cost_year
     problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
-    previous, start = None, None
+    previous, start, kept = None, None, ()
     visited, wall, solved = (), 0.0, 0  # over all rounds
     for rounds in range(1, ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential
         # price repeats those that hold for the result.
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
-        result = optimise(problem, basis, config, start=start)
+        try:
+            result = optimise(problem, basis, config, start=start)
+        except (InfeasibleSpecError, SolverError) as failure:
+            if previous is None:
+                raise
+            # keep the last round that found a design rather than lose the run
+            result, priced, problem, basis = previous, kept[0], kept[1], kept[2]
+            result = replace(result, warnings=result.warnings + (
+                f"re-evaluation round {rounds} at the re-evaluated constants found no design ({failure}); "
+                f"the optimum of round {rounds - 1} is reported",))
+            break
         visited += result.visited
         wall += result.solver.wall_time
         solved += result.solver.configurations_solved
@@ -148,6 +158,7 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
             result = replace(result, warnings=result.warnings + _unsettled(ROUNDS, change))
             break
         previous, start, reference = result, (best.stages, best.feed_stage), best.profile
+        kept = (priced, problem, basis)
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)

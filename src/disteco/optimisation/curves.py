@@ -18,7 +18,7 @@ from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages.shortcut import ShortcutPoint
-from .design import model_cost_basis, separation_problem
+from .design import model_cost_basis, resolved_problem
 from .options import first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
 from .solve import solve_configuration
@@ -44,12 +44,14 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     where no column within the stage limit meets the specifications are left out.
     """
     config = model_options(options)
-    problem, basis = optimum.problem, optimum.basis  # the optimum's settled basis, so the curve passes through it
+    problem = resolved_problem(case, mixture, feed, config)  # also sets the stage bound
+    basis = optimum.basis  # the optimum's settled basis, so that the curve passes through it
     if basis is None:
-        problem = separation_problem(case, mixture, feed, config.max_stages)
         basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
                                                                     heavy_key=problem.heavy_key),
                                     scenario, case.economics.cost_year, config)
+    else:
+        problem = optimum.problem
     best = optimum.best
     if best.solver.barrier:  # try first the barrier strategy that solved the optimum
         config.barrier_strategies = first_strategy(best.solver.barrier, config.barrier_strategies)

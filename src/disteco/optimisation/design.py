@@ -27,7 +27,8 @@ from .basis import CostBasis, SeparationProblem, check_problem
 from .options import model_options
 from .pricing import cost_basis_from_data, price_design, size_reference, stage_profile
 from .results import DesignEvaluation, OptimumDesign
-from .search import optimise, starting_configuration
+from .given import check_given_design, explain_failure
+from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
 
@@ -54,6 +55,22 @@ def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages
         column.condenser == "partial")
     check_problem(problem)
     return problem
+
+
+def resolved_problem(case: Case, mixture: Mixture, feed: FeedState, config, at_least: int = 0) -> SeparationProblem:
+    """The separation problem fitted down to the search's stage bound, which this sets in ``config``.
+
+    Without a ``max_stages`` option the bound is :func:`default_max_stages` of Fenske's minimum
+    on forms fitted to ``STAGE_BOUND_FLOOR`` stages (refitted only when the bound is larger);
+    ``at_least`` raises it to a given design's stages.
+    """
+    if config.max_stages is None:
+        probe = separation_problem(case, mixture, feed, STAGE_BOUND_FLOOR)
+        config.max_stages = default_max_stages(shortcut(probe).minimum_stages)
+        if max(config.max_stages, at_least) == STAGE_BOUND_FLOOR:
+            return probe
+    config.max_stages = max(config.max_stages, at_least)
+    return separation_problem(case, mixture, feed, config.max_stages)
 
 
 def stage_pressure_drop(case: Case, sizing: ColumnSizing) -> float:
@@ -124,6 +141,7 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     """
     config = model_options(options)
     year = case.economics.cost_year
+    resolved_problem(case, mixture, feed, config)  # sets the stage bound
     problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
     previous, start, kept = None, None, ()
     visited, wall, solved = (), 0.0, 0  # over all rounds
@@ -172,27 +190,25 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     """Sizes and costs of a given design (reflux ratio [-], stages incl. reboiler, feed stage from the top).
 
     The distillate flow is chosen by the model to meet the specifications at least cost.
+    Before any solve, :func:`check_given_design` refuses (``InfeasibleDesignError``, naming the
+    decision) fewer stages than Fenske's minimum, a reflux at or below Underwood's minimum or
+    above the model's range, and a feed stage off the column; a design that passes and still
+    cannot meet the specifications raises :class:`InfeasibleSpecError`.
     The model's constants are taken at the given configuration and re-evaluated at the
     solution until the TAC and the pressure profile settle, as in :func:`optimise_design`.
     ``problem``: the separation problem of an optimum (:attr:`OptimumDesign.problem`) to price
     that same column, pressure profile included, under other prices; None iterates the
     pressure profile from the design's own trays. A reflux that just meets the specifications
     under one pressure profile can miss them under a slightly higher one.
-    Raises :class:`InfeasibleSpecError` when the reflux is at or below the minimum or the
-    design cannot meet the specifications.
     """
     config = model_options(options)
-    if stages > config.max_stages:
-        config.max_stages = stages
     year = case.economics.cost_year
-    fixed_pressures = problem is not None
-    problem = problem or separation_problem(case, mixture, feed, config.max_stages)
-    r_min = shortcut(problem).minimum_reflux
-    if reflux_ratio <= r_min:
-        raise InfeasibleSpecError(
-            f"reflux ratio {reflux_ratio:.4g} is at or below the minimum reflux ratio {r_min:.4g} "
-            "(Underwood): no number of stages meets the product specifications")
+    given, fixed_pressures = problem, problem is not None
+    problem = resolved_problem(case, mixture, feed, config, at_least=stages)
+    estimate = shortcut(problem)
+    check_given_design(estimate, reflux_ratio, stages, feed_stage, config.reflux_max)
     if fixed_pressures:
+        problem = given
         reference = reference_profile(problem, config, (stages, feed_stage), reflux_ratio)
     else:
         problem, reference = settled_reference(case, mixture, feed, data, sizing, config, (stages, feed_stage),
@@ -200,7 +216,10 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     previous = None
     for rounds in range(1, ROUNDS + 1):
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
-        design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
+        try:
+            design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
+        except SolverError as failure:
+            raise explain_failure(estimate, reflux_ratio, stages, failure) from failure
         priced = price_design(design, mixture, data, _keyed(sizing, problem), scenario, year)
         drop = stage_pressure_drop(case, priced.sizing)
         change = abs(design.tac / previous.tac - 1.0) if previous else float("inf")

@@ -151,7 +151,11 @@ def solver_json(report: SolverReport, model_tac: float | None, rounds: int = 1) 
     return {"solver": report.solver, "status": report.status, "termination": report.termination,
             "gap": report.gap, "wall_time_s": report.wall_time,
             "configurations_solved": report.configurations_solved, "message": report.message,
-            "model_tac_per_year": model_tac, "rounds": rounds}
+            "model_tac_per_year": model_tac, "rounds": rounds,
+            "unsolved": {"neighbours_of_chosen": report.neighbours,
+                         "neighbours_of_chosen_unsolved": report.neighbours_unsolved,
+                         "configurations": [{"stages": u.stages, "feed_stage": u.feed_stage, "reason": u.status}
+                                            for u in report.unsolved]}}
 
 
 def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None) -> dict:

@@ -165,6 +165,8 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         solved += result.solver.configurations_solved
         best = result.best
         priced = price_design(best, mixture, data, _keyed(sizing, problem), scenario, year)
+        if result.solver.status.startswith("time limit"):
+            break  # the time limit holds for each round; a stopped search is reported as it stands
         drop = stage_pressure_drop(case, priced.sizing)
         change = abs(best.tac / previous.best.tac - 1.0) if previous else float("inf")
         same = previous is not None and (best.stages, best.feed_stage) == (previous.best.stages,

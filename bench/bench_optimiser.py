@@ -43,7 +43,7 @@ THREE_COMPONENTS = {
     "title": "bench: benzene-toluene-o-xylene",
     "mixture": {"components": ["benzene", "toluene", "o-xylene"], "method": "ideal"},
     "feed": {"flow": "150 kmol/h", "composition": [0.35, 0.40, 0.25], "q": 1.0},
-    "column": {"top_pressure": "1.2 bar", "pressure_drop_per_stage": "0.7 kPa"},
+    "column": {"top_pressure": "1.2 bar", "pressure_drop_per_tray": "0.7 kPa"},
     "products": {"light_key": "benzene", "heavy_key": "toluene",
                  "light_key_recovery": 0.98, "heavy_key_recovery": 0.98},
 }

@@ -30,6 +30,9 @@ def run_cli(tmp_path, text, capsys, command="check"):
     (("1.15 bar", "1.15 furlongs"), "column.top_pressure", "unknown pressure unit"),
     (("q = 1.0", "q = 1.0\ntemperature = \"90 degC\""), "feed", "2 thermal conditions"),
     (("0.985", "1.5"), "products.distillate_light_key_fraction", "not a fraction"),
+    (('"auto"', '"9 kPa"'), "column.pressure_drop_per_tray", "0 to 5 kPa per real tray"),
+    (('pressure_drop_per_tray = "auto"', 'pressure_drop_per_tray = "auto"\npressure_drop_per_stage = "1 kPa"'),
+     "column.pressure_drop_per_stage", "given together with pressure_drop_per_tray"),
 ])
 def test_bad_field_named_with_exit_code_2(tmp_path, capsys, edit, field, fragment):
     """Every user mistake is named by its field and exits with code 2 without a traceback."""
@@ -81,3 +84,28 @@ def test_units_to_si(text, kind, expected):
     """Unit conversions against the defining values (1 psi = 6894.757 Pa, NIST SP 811 appendix B)."""
     value, _ = parse_quantity(text, kind, "field")
     assert value == pytest.approx(expected, rel=1e-5)
+
+
+def test_pressure_drop_per_tray_auto_value_and_deprecated_name():
+    """``auto`` (or absent) leaves the per-tray drop to the hydraulics; a figure is per real tray;
+    the old per-stage name is read as the per-tray figure with a deprecation warning."""
+    from disteco.case import PRELIMINARY_TRAY_DROP, parse_case
+    import tomllib
+
+    data = tomllib.loads(BASE)
+    assert parse_case(data).column.pressure_drop_per_tray is None
+    del data["column"]["pressure_drop_per_tray"]
+    assert parse_case(data).column.pressure_drop_per_tray is None
+    data["column"]["pressure_drop_per_tray"] = "0.9 kPa"
+    column = parse_case(data).column
+    assert column.pressure_drop_per_tray == pytest.approx(900.0) and column.warnings == ()
+    assert column.stage_pressure_drop(0.5) == pytest.approx(1800.0)  # per tray over the efficiency
+    del data["column"]["pressure_drop_per_tray"]
+    data["column"]["pressure_drop_per_stage"] = "0.9 kPa"
+    old = parse_case(data).column
+    assert old.pressure_drop_per_tray == pytest.approx(900.0)
+    assert "deprecated" in old.warnings[0] and "pressure_drop_per_tray" in old.warnings[0]
+    data["column"]["pressure_drop_per_stage"] = "auto"
+    auto = parse_case(data).column
+    assert auto.stage_pressure_drop(0.5) == pytest.approx(PRELIMINARY_TRAY_DROP / 0.5)
+    assert auto.stage_pressure_drop(0.5, tray_drop=650.0) == pytest.approx(1300.0)

@@ -24,7 +24,7 @@ from disteco.reports.workbook import write_workbook
 from disteco.sizing import size_column
 from disteco.stages.binary import minimum_reflux, step_stages, total_reflux_stages
 
-from test_reports_tables import X_B, X_D, Z, cost_input, design_parts, profile_from_steps
+from test_reports_tables import GRID_STAGE_DROP, X_B, X_D, Z, cost_input, design_parts, profile_from_steps
 
 SCENARIOS = ("reference", "cheap-steam-demo")
 REFLUX_FACTORS = (1.01, 1.02, 1.03, 1.05, 1.08, 1.12, 1.2, 1.4)
@@ -59,7 +59,7 @@ def scenario_study():
     inputs, profiles = [], []
     for factor in REFLUX_FACTORS:
         stepped = step_stages(parts.curve, X_D, X_B, Z, result.feed.q, factor * r_min)
-        profile = profile_from_steps(mixture, result.feed, stepped, P, case.column.pressure_drop_per_stage)
+        profile = profile_from_steps(mixture, result.feed, stepped, P, GRID_STAGE_DROP)
         sizing = size_column(profile, mixture, data.levels, parts.sizing.condenser.overall_coefficient,
                              parts.sizing.reboiler.overall_coefficient)
         inputs.append(cost_input(sizing))

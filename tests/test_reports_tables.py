@@ -35,6 +35,7 @@ HOSTILE_TITLE = '=HYPERLINK("http://example.invalid","click")'
 HOSTILE_WARNINGS = ("=1+1", "+SUM(A1:A2)", "-2+3", "@SUM(A1)", "plain warning")
 REFLUX = 2.0
 X_D, X_B, Z = 0.985, 0.015, 0.42
+GRID_STAGE_DROP = 700.0  # Pa per equilibrium stage of the stepped profiles (invented; reports only)
 UNIT = re.compile(r"\[[^\]]+\]$")
 
 
@@ -78,7 +79,7 @@ def design_parts() -> tuple[DesignResult, ReportParts]:
     result = DesignResult(case=case, mixture=summary, feed=feed, warnings=HOSTILE_WARNINGS)
     curve = equilibrium_curve(mixture, P)
     stepped = step_stages(curve, X_D, X_B, Z, feed.q, REFLUX)
-    profile = profile_from_steps(mixture, feed, stepped, P, case.column.pressure_drop_per_stage)
+    profile = profile_from_steps(mixture, feed, stepped, P, GRID_STAGE_DROP)
     data = load_cost_data()
     coefficients = (data.heat_transfer_coefficient("condenser", "cooling_water", "organic vapours"),
                     data.heat_transfer_coefficient("reboiler", "steam", "light organics"))

@@ -8,16 +8,18 @@ from pathlib import Path
 import pytest
 
 import disteco.sizing
-from disteco.sizing import auxiliaries, efficiency, exchangers, flooding, vessel
+from disteco.sizing import auxiliaries, efficiency, exchangers, flooding, tray_pressure_drop, vessel
 
 CORRELATIONS = [
     flooding.capacity_factor_lygeros_magoulas, flooding.capacity_factor_kessler_wankat,
     flooding.surface_tension_correction, flooding.flow_parameter, flooding.downcomer_area_fraction,
     flooding.flooding_velocity, flooding.allowable_vapour_velocity, flooding.required_tray_area,
     efficiency.oconnell_efficiency_lockett,
-    vessel.shell_thickness_ug27, vessel.head_thickness_ug32, vessel.shell_mass,
+    vessel.shell_thickness_ug27, vessel.head_thickness_ug32, vessel.shell_mass, vessel.collapse_pressure_von_mises,
     exchangers.log_mean_temperature_difference, exchangers.mean_temperature_difference, exchangers.exchanger_area,
     auxiliaries.drum_volume, auxiliaries.pump_shaft_power,
+    tray_pressure_drop.dry_plate_head, tray_pressure_drop.weir_crest_francis, tray_pressure_drop.residual_head,
+    tray_pressure_drop.head_to_pressure, tray_pressure_drop.weir_length,
 ]
 SECTIONS = ["Parameters", "Returns", "Notes", "Examples", "References"]
 

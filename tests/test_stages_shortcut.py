@@ -12,7 +12,7 @@ import re
 import numpy as np
 import pytest
 
-from disteco.case import Column, EndSpec, Feed, FeedFlow, Products, ThermalCondition, Thermo
+from disteco.case import PRELIMINARY_EFFICIENCY, Column, EndSpec, Feed, FeedFlow, Products, ThermalCondition, Thermo
 from disteco.properties import build_mixture, feed_state
 from disteco.stages import correlations
 from disteco.stages.correlations import (fenske_distribution, fenske_minimum_stages, gilliland_eduljee,
@@ -170,7 +170,7 @@ def hydrocarbons():
     names = ("n-butane", "n-pentane", "n-hexane", "n-heptane", "n-octane")
     mixture = build_mixture(names, Thermo("ideal"), 3e5)
     feed = Feed(FeedFlow("molar", 1.0), (0.1, 0.3, 0.3, 0.2, 0.1), ThermalCondition("q", 1.0), None)
-    return mixture, feed_state(feed, mixture, 3e5), Column(3e5, 700.0, "total", 0.0)
+    return mixture, feed_state(feed, mixture, 3e5), Column(3e5, 700.0 * PRELIMINARY_EFFICIENCY, "total", 0.0)  # 700 Pa per stage
 
 
 def test_shortcut_design_hydrocarbons(hydrocarbons):

@@ -158,7 +158,7 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, report, don
             report(f"pricing the '{name_i}' design under '{name_j}'", done, total)
             done += 1
             evaluation = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages,
-                                         best.feed_stage, options, sizing, name_j)
+                                         best.feed_stage, options, sizing, name_j, problem=optimum_i.problem)
             row.append(evaluation.tac)
         rows.append(tuple(row))
     return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)

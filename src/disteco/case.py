@@ -44,12 +44,37 @@ class Feed:
     pressure: float | None  # Pa; None means the feed-stage pressure
 
 
+PRELIMINARY_TRAY_DROP = 0.7e3  # Pa per real tray before the hydraulics are known (common practice, no source)
+PRELIMINARY_EFFICIENCY = 0.6  # [-] before O'Connell is evaluated (common practice, no source)
+MAX_TRAY_DROP = 5e3  # Pa per real tray
+
+
 @dataclass(frozen=True)
 class Column:
+    """The column table. ``pressure_drop_per_tray`` is per real tray; None: from the sieve-tray hydraulics."""
+
     top_pressure: float  # Pa, absolute
-    pressure_drop_per_stage: float  # Pa
+    pressure_drop_per_tray: float | None  # Pa per real tray; None means "auto" (tray hydraulics)
     condenser: str  # "total" or "partial"
     subcooling: float  # K below the bubble point of the reflux and distillate
+    warnings: tuple[str, ...] = field(default=(), compare=False)  # deprecation notes from reading the case
+
+    def stage_pressure_drop(self, efficiency: float = PRELIMINARY_EFFICIENCY,
+                            tray_drop: float | None = None) -> float:
+        """Pressure drop per equilibrium stage [Pa]: the per-tray drop over the overall efficiency.
+
+        ``tray_drop`` [Pa] is the hydraulics' figure, used when the case asks for "auto";
+        before any sizing the preliminary figures of this module stand in.
+        """
+        per_tray = self.pressure_drop_per_tray
+        if per_tray is None:
+            per_tray = PRELIMINARY_TRAY_DROP if tray_drop is None else tray_drop
+        return per_tray / efficiency
+
+    @property
+    def pressure_drop_per_stage(self) -> float:
+        """Preliminary per-stage drop [Pa] for the stages layer, before efficiency and hydraulics are known."""
+        return self.stage_pressure_drop()
 
 
 @dataclass(frozen=True)
@@ -261,12 +286,10 @@ def _pressure(table: dict, key: str, prefix: str) -> float:
 
 
 def _column(column: dict) -> Column:
-    _only_keys(column, "column.", {"top_pressure", "pressure_drop_per_stage", "condenser", "subcooling"})
+    _only_keys(column, "column.", {"top_pressure", "pressure_drop_per_tray", "pressure_drop_per_stage",
+                                   "condenser", "subcooling"})
     top = _pressure(column, "top_pressure", "column.")
-    drop, _ = parse_quantity(_get(column, "pressure_drop_per_stage", str, "column.", "0.7 kPa"),
-                             "pressure difference", "column.pressure_drop_per_stage")
-    if not 0.0 <= drop <= 5e3:
-        raise CaseError("column.pressure_drop_per_stage", f"{drop / 1e3:.4g} kPa per stage", "0 to 5 kPa per stage")
+    drop, warnings = _tray_drop(column)
     condenser = _get(column, "condenser", str, "column.", "total")
     if condenser not in CONDENSERS:
         raise CaseError("column.condenser", f"{condenser!r}", ", ".join(CONDENSERS))
@@ -276,7 +299,28 @@ def _column(column: dict) -> Column:
         raise CaseError("column.subcooling", f"{subcooling:.4g} K", "0 to 50 K")
     if condenser == "partial" and subcooling > 0.0:
         raise CaseError("column.subcooling", "a partial condenser has no subcooling", "0 K with a partial condenser")
-    return Column(top, drop, condenser, subcooling)
+    return Column(top, drop, condenser, subcooling, warnings)
+
+
+def _tray_drop(column: dict) -> tuple[float | None, tuple[str, ...]]:
+    """``pressure_drop_per_tray`` [Pa] or None for "auto"; the deprecated per-stage name is read as per tray."""
+    if "pressure_drop_per_stage" in column and "pressure_drop_per_tray" in column:
+        raise CaseError("column.pressure_drop_per_stage", "given together with pressure_drop_per_tray",
+                        "pressure_drop_per_tray alone (pressure_drop_per_stage is deprecated)")
+    key, warnings = "pressure_drop_per_tray", ()
+    if "pressure_drop_per_stage" in column:
+        key = "pressure_drop_per_stage"
+        warnings = ("column.pressure_drop_per_stage is deprecated and will be removed in the next release: "
+                    "its value is read as column.pressure_drop_per_tray (per real tray; the drop per "
+                    "equilibrium stage is the per-tray drop over the tray efficiency); rename the field",)
+    raw = _get(column, key, str, "column.", "auto")
+    if raw.strip().lower() == "auto":
+        return None, warnings
+    drop, _ = parse_quantity(raw, "pressure difference", "column." + key)
+    if not 0.0 <= drop <= MAX_TRAY_DROP:
+        raise CaseError("column." + key, f"{drop / 1e3:.4g} kPa per tray",
+                        f"0 to {MAX_TRAY_DROP / 1e3:g} kPa per real tray, or \"auto\" (sieve-tray hydraulics)")
+    return drop, warnings
 
 
 def _component_index(products: dict, key: str, components: tuple[str, ...]) -> int:

@@ -44,10 +44,14 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     where no column within the stage limit meets the specifications are left out.
     """
     config = model_options(options)
-    problem = resolved_problem(case, mixture, feed, config)
-    basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
-                                                                heavy_key=problem.heavy_key),
-                                scenario, case.economics.cost_year, config)
+    problem = resolved_problem(case, mixture, feed, config)  # also sets the stage bound
+    basis = optimum.basis  # the optimum's settled basis, so that the curve passes through it
+    if basis is None:
+        basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
+                                                                    heavy_key=problem.heavy_key),
+                                    scenario, case.economics.cost_year, config)
+    else:
+        problem = optimum.problem
     best = optimum.best
     if best.solver.barrier:  # try first the barrier strategy that solved the optimum
         config.barrier_strategies = first_strategy(best.solver.barrier, config.barrier_strategies)

@@ -3,36 +3,54 @@
 Both build the separation problem (fitted forms over the column's range), the cost basis
 (from the sizing and costing layers at a reference design), solve with the one equation
 model, and price the result again through the sequential sizing and costing path.
+
+The model holds some quantities constant: tray efficiency, shell pressure factor, exchanger
+coefficients, utility levels, height allowances and the pressure profile (a drop per
+equilibrium stage). They are first taken at a reference design, then re-evaluated at the
+answer and the solve repeated, starting from the previous answer, until the configuration
+and the TAC no longer change (:data:`TAC_TOLERANCE`) and the pressure profile agrees with
+the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times.
 """
 
 from __future__ import annotations
 
 from dataclasses import replace
 
-from .._base.errors import SolverError
+from .._base.errors import InfeasibleSpecError, SolverError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..properties.fitted import fit_mixture
+from ..sizing.column import ColumnSizing
 from ..sizing.options import SizingOptions
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import model_options
-from .pricing import cost_basis_from_data, price_design, stage_profile
+from .pricing import cost_basis_from_data, price_design, size_reference, stage_profile
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
 from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
 
+ROUNDS = 4  # most optimisations with re-evaluated constants
+TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
+DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
 
-def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int) -> SeparationProblem:
-    """The process side of ``case``, with forms fitted from the top pressure to ``max_stages`` stages down."""
+
+def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int,
+                       stage_pressure_drop: float | None = None) -> SeparationProblem:
+    """The process side of ``case``, with forms fitted from the top pressure to ``max_stages`` stages down.
+
+    ``stage_pressure_drop`` [Pa per equilibrium stage]: None takes the case's preliminary
+    figure (per-tray drop over a preliminary efficiency, see :meth:`disteco.case.Column.stage_pressure_drop`).
+    """
     column = case.column
+    drop = column.pressure_drop_per_stage if stage_pressure_drop is None else stage_pressure_drop
     P_top = column.top_pressure
-    P_bottom = P_top + max_stages * column.pressure_drop_per_stage
+    P_bottom = P_top + max_stages * drop
     problem = SeparationProblem(
         fit_mixture(mixture, P_top, P_bottom, z=feed.z), feed.molar_flow, tuple(feed.z), feed.q, P_top,
-        column.pressure_drop_per_stage, case.products.light_key, case.products.heavy_key,
+        drop, case.products.light_key, case.products.heavy_key,
         case.products.light_key_spec, case.products.heavy_key_spec, column.subcooling,
         column.condenser == "partial")
     check_problem(problem)
@@ -55,13 +73,61 @@ def resolved_problem(case: Case, mixture: Mixture, feed: FeedState, config, at_l
     return separation_problem(case, mixture, feed, config.max_stages)
 
 
+def stage_pressure_drop(case: Case, sizing: ColumnSizing) -> float:
+    """Drop per equilibrium stage [Pa] of a sized design: per-tray drop (case or hydraulics) over its efficiency.
+
+    With N - 1 equilibrium trays at efficiency E, the column has (N - 1)/E real trays, so
+    the drop per real tray times (N - 1)/E spreads as drop/E over each equilibrium stage.
+    """
+    return case.column.stage_pressure_drop(sizing.efficiency.value, sizing.tray_pressure_drop)
+
+
+def _keyed(sizing: SizingOptions, problem: SeparationProblem) -> SizingOptions:
+    return replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
+
+
+def reference_profile(problem: SeparationProblem, config, configuration: tuple[int, int] | None = None,
+                      reflux: float | None = None):
+    """Stage profile of the reference design: ``configuration`` or the search's start, CMO at ``reflux``.
+
+    ``reflux`` None: Gilliland's reflux for the stages.
+    """
+    stages, feed_stage = configuration or starting_configuration(problem, shortcut(problem), config)
+    return stage_profile(problem, start_profile(problem, stages, feed_stage, reflux), feed_stage)
+
+
+def settled_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostData, sizing: SizingOptions,
+                      config, configuration: tuple[int, int] | None = None, reflux: float | None = None):
+    """Problem and reference profile whose pressure drop per stage agrees with the reference's trays.
+
+    The per-stage drop is the per-tray drop over the efficiency, both from sizing the
+    reference; repeated (at most :data:`ROUNDS` times) until it moves less than :data:`DROP_TOLERANCE`.
+    """
+    drop = None
+    for _ in range(ROUNDS):
+        problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+        reference = reference_profile(problem, config, configuration, reflux)
+        new = stage_pressure_drop(case, size_reference(mixture, data, reference, _keyed(sizing, problem)))
+        if _close(new, problem.stage_pressure_drop, DROP_TOLERANCE):
+            break
+        drop = new
+    return problem, reference
+
+
+def _close(new: float, old: float, tolerance: float) -> bool:
+    return abs(new - old) <= tolerance * abs(old)
+
+
 def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostData, sizing: SizingOptions,
                      scenario: str | None, cost_year: int | None, config) -> tuple[CostBasis, list[str]]:
     """Cost basis frozen at the search's starting configuration (Gilliland reflux, CMO profile)."""
-    stages, feed_stage = starting_configuration(problem, shortcut(problem), config)
-    reference = stage_profile(problem, start_profile(problem, stages, feed_stage), feed_stage)
-    options = replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
-    return cost_basis_from_data(data, mixture, reference, options, scenario, cost_year)
+    return cost_basis_from_data(data, mixture, reference_profile(problem, config), _keyed(sizing, problem),
+                                scenario, cost_year)
+
+
+def _unsettled(rounds: int, tac_change: float) -> tuple[str, ...]:
+    return (f"the model's constants (efficiency, factors, coefficients, pressure profile) had not settled after "
+            f"{rounds} rounds of re-evaluation at the optimum (last TAC change {100 * tac_change:.2g} %)",)
 
 
 def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
@@ -69,23 +135,60 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     """Lowest-TAC reflux ratio, stages and feed stage of ``case`` and its sequential price.
 
     ``options``: optimiser options (see :mod:`disteco.optimisation.options`); ``scenario``:
-    utility-price scenario of the cost data (None: the data's default).
+    utility-price scenario of the cost data (None: the data's default). The constants of the
+    model are re-evaluated at each optimum and the search repeated from it until nothing
+    changes; ``rounds`` of the result counts the optimisations.
     """
     config = model_options(options)
-    problem = resolved_problem(case, mixture, feed, config)
-    # The reference design only freezes the model's constants; its sizing warnings would describe
-    # a column nobody asked about, and the sequential price repeats those that hold for the result.
-    basis, _ = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
-    result = optimise(problem, basis, config)
-    priced = price_design(result.best, mixture, data, replace(sizing, light_key=problem.light_key,
-                                                               heavy_key=problem.heavy_key),
-                          scenario, case.economics.cost_year)
-    return replace(result, sequential=priced)
+    year = case.economics.cost_year
+    resolved_problem(case, mixture, feed, config)  # sets the stage bound
+    problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+    previous, start, kept = None, None, ()
+    visited, wall, solved = (), 0.0, 0  # over all rounds
+    for rounds in range(1, ROUNDS + 1):
+        # Reference-design warnings would describe a column nobody asked about; the sequential
+        # price repeats those that hold for the result.
+        basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
+        try:
+            result = optimise(problem, basis, config, start=start)
+        except (InfeasibleSpecError, SolverError) as failure:
+            if previous is None:
+                raise
+            # keep the last round that found a design rather than lose the run
+            result, priced, problem, basis = previous, kept[0], kept[1], kept[2]
+            result = replace(result, warnings=result.warnings + (
+                f"re-evaluation round {rounds} at the re-evaluated constants found no design ({failure}); "
+                f"the optimum of round {rounds - 1} is reported",))
+            break
+        visited += result.visited
+        wall += result.solver.wall_time
+        solved += result.solver.configurations_solved
+        best = result.best
+        priced = price_design(best, mixture, data, _keyed(sizing, problem), scenario, year)
+        if result.solver.status.startswith("time limit"):
+            break  # the time limit holds for each round; a stopped search is reported as it stands
+        drop = stage_pressure_drop(case, priced.sizing)
+        change = abs(best.tac / previous.best.tac - 1.0) if previous else float("inf")
+        same = previous is not None and (best.stages, best.feed_stage) == (previous.best.stages,
+                                                                           previous.best.feed_stage)
+        drop_settled = _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
+        if same and change <= TAC_TOLERANCE and drop_settled:
+            break
+        if rounds == ROUNDS:
+            result = replace(result, warnings=result.warnings + _unsettled(ROUNDS, change))
+            break
+        previous, start, reference = result, (best.stages, best.feed_stage), best.profile
+        kept = (priced, problem, basis)
+        if not drop_settled:
+            problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+    solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
+    return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + result.warnings,
+                   problem=problem, basis=basis, visited=visited, solver=solver)
 
 
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,
                     stages: int, feed_stage: int, options=None, sizing: SizingOptions = SizingOptions(),
-                    scenario: str | None = None) -> DesignEvaluation:
+                    scenario: str | None = None, problem: SeparationProblem | None = None) -> DesignEvaluation:
     """Sizes and costs of a given design (reflux ratio [-], stages incl. reboiler, feed stage from the top).
 
     The distillate flow is chosen by the model to meet the specifications at least cost.
@@ -93,18 +196,42 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     decision) fewer stages than Fenske's minimum, a reflux at or below Underwood's minimum or
     above the model's range, and a feed stage off the column; a design that passes and still
     cannot meet the specifications raises :class:`InfeasibleSpecError`.
+    The model's constants are taken at the given configuration and re-evaluated at the
+    solution until the TAC and the pressure profile settle, as in :func:`optimise_design`.
+    ``problem``: the separation problem of an optimum (:attr:`OptimumDesign.problem`) to price
+    that same column, pressure profile included, under other prices; None iterates the
+    pressure profile from the design's own trays. A reflux that just meets the specifications
+    under one pressure profile can miss them under a slightly higher one.
     """
     config = model_options(options)
+    year = case.economics.cost_year
+    given, fixed_pressures = problem, problem is not None
     problem = resolved_problem(case, mixture, feed, config, at_least=stages)
     estimate = shortcut(problem)
     check_given_design(estimate, reflux_ratio, stages, feed_stage, config.reflux_max)
-    # reference-design warnings dropped as in optimise_design
-    basis, _ = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
-    try:
-        design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
-    except SolverError as failure:
-        raise explain_failure(estimate, reflux_ratio, stages, failure) from failure
-    priced = price_design(design, mixture, data, replace(sizing, light_key=problem.light_key,
-                                                         heavy_key=problem.heavy_key),
-                          scenario, case.economics.cost_year)
-    return replace(design, sequential=priced)
+    if fixed_pressures:
+        problem = given
+        reference = reference_profile(problem, config, (stages, feed_stage), reflux_ratio)
+    else:
+        problem, reference = settled_reference(case, mixture, feed, data, sizing, config, (stages, feed_stage),
+                                               reflux_ratio)
+    previous = None
+    for rounds in range(1, ROUNDS + 1):
+        basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
+        try:
+            design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
+        except SolverError as failure:
+            raise explain_failure(estimate, reflux_ratio, stages, failure) from failure
+        priced = price_design(design, mixture, data, _keyed(sizing, problem), scenario, year)
+        drop = stage_pressure_drop(case, priced.sizing)
+        change = abs(design.tac / previous.tac - 1.0) if previous else float("inf")
+        drop_settled = fixed_pressures or _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
+        if change <= TAC_TOLERANCE and drop_settled:
+            break
+        if rounds == ROUNDS:
+            design = replace(design, warnings=design.warnings + _unsettled(ROUNDS, change))
+            break
+        previous, reference = design, design.profile
+        if not drop_settled:
+            problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+    return replace(design, sequential=priced, warnings=case.column.warnings + design.warnings)

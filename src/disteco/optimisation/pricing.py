@@ -94,6 +94,12 @@ def _size(mixture, data: CostData, profile: StageProfile, options: SizingOptions
     return replace(sizing, warnings=sizing.warnings + exchangers.notes)
 
 
+def size_reference(mixture, data: CostData, profile: StageProfile, options: SizingOptions) -> ColumnSizing:
+    """Size ``profile`` with the utilities and exchanger data the cost data gives it (sizing layer)."""
+    return _size(mixture, data, profile, options, exchanger_data(data, mixture, profile, options),
+                 round_diameter=False)
+
+
 def condensate_basis(ref: ColumnSizing, profile: StageProfile, costs: dict, electricity_price: float) -> CondensateBasis:
     """Reflux drum and pump numbers frozen at the reference sizing ``ref`` of ``profile``."""
     drum, pump = ref.reflux_drum, ref.reflux_pump

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 from ..costing.column import CostSummary
 from ..costing.data import HeatTransferCoefficient
@@ -155,3 +155,7 @@ class OptimumDesign:
     visited: tuple[SearchStep, ...]
     warnings: tuple[str, ...] = ()
     sequential: SequentialPrice | None = None  # the best design priced by the sizing and costing layers
+    rounds: int = 1  # optimisations run until the re-evaluated model constants settled
+    # the separation problem and cost basis of the last round, for further designs on the same basis
+    problem: object | None = field(default=None, compare=False, repr=False)
+    basis: object | None = field(default=None, compare=False, repr=False)

@@ -296,8 +296,12 @@ def final_solve(evaluator: Evaluator, chosen: tuple[int, int]):
     return solved_model(problem, basis, *chosen, config, strategies=strategies)
 
 
-def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> OptimumDesign:
+def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
+             start: tuple[int, int] | None = None) -> OptimumDesign:
     """Lowest-TAC design: discrete descent over (N, NF), NLP in (R, D) for each configuration.
+
+    ``start`` (stages, feed stage): descend from this configuration (a previous optimum)
+    instead of the shortcut's start and its line searches.
 
     Raises :class:`InfeasibleSpecError` when no configuration in the stage range meets the
     specifications and :class:`SolverError` when the time limit passes before any design is
@@ -313,10 +317,13 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
     timed_out = False
     try:
-        stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
-        feed = feed_search(evaluator, stages, feed)
-        ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
-        descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
+        if start is not None and evaluator.allowed(*start):
+            descend(evaluator, start)
+        else:
+            stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
+            feed = feed_search(evaluator, stages, feed)
+            ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
+            descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
     except TimeoutError:
         timed_out = True
     chosen = evaluator.best()

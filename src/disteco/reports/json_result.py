@@ -88,6 +88,9 @@ def design_json(profile: StageProfile, minimum_reflux: float | None, sizing: Col
         "bottoms_kmol_per_h": profile.bottoms_flow * KMOL_PER_H,
         "top_temperature_degC": to_degC(profile.T[0]),
         "reboiler_temperature_degC": to_degC(profile.reboiler_temperature),
+        "top_pressure_kPa": profile.P[0] / 1e3,
+        "bottom_pressure_kPa": profile.P[-1] / 1e3,
+        "tray_pressure_drop_hydraulics_kPa": None,
         "real_trays": None, "tray_efficiency": None, "diameter_m": None, "height_m": None,
         "shell_thickness_mm": None, "condenser_area_m2": None, "reboiler_area_m2": None,
         "condenser_utility": None, "reboiler_utility": None,
@@ -95,6 +98,7 @@ def design_json(profile: StageProfile, minimum_reflux: float | None, sizing: Col
     if sizing is not None:
         data.update({
             "real_trays": sizing.real_trays,
+            "tray_pressure_drop_hydraulics_kPa": sizing.tray_pressure_drop / 1e3 if sizing.pressure_drops else None,
             "tray_efficiency": sizing.efficiency.value,
             "diameter_m": sizing.diameter,
             "height_m": sizing.height.tangent_length,
@@ -146,10 +150,11 @@ def equipment_json(sizing: ColumnSizing) -> list[dict]:
         for e in sizing.equipment]
 
 
-def solver_json(report: SolverReport) -> dict:
+def solver_json(report: SolverReport, rounds: int = 1) -> dict:
     return {"solver": report.solver, "status": report.status, "termination": report.termination,
             "gap": report.gap, "wall_time_s": report.wall_time,
             "configurations_solved": report.configurations_solved, "message": report.message,
+            "rounds": rounds,
             "unsolved": {"neighbours_of_chosen": report.neighbours,
                          "neighbours_of_chosen_unsolved": report.neighbours_unsolved,
                          "configurations": [{"stages": u.stages, "feed_stage": u.feed_stage, "reason": u.status}
@@ -208,7 +213,7 @@ def result_json(result: DesignResult) -> dict:
     profile = parts.profile or (stages.profile if stages else None)
     solver = None
     if parts.optimum is not None:
-        solver = solver_json(parts.optimum.solver)
+        solver = solver_json(parts.optimum.solver, parts.optimum.rounds)
     elif chosen is not None:
         solver = solver_json(chosen.solver)
     sequential = parts.optimum.sequential if parts.optimum is not None else \

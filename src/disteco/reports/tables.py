@@ -158,7 +158,8 @@ def case_table(case: Case) -> Table:
         ("Component names (as written)", ", ".join(names)),
         ("Thermodynamic method (as asked)", case.thermo.method),
         ("Top pressure [kPa]", case.column.top_pressure / KPA),
-        ("Pressure drop per stage [kPa]", case.column.pressure_drop_per_stage / KPA),
+        ("Pressure drop per real tray [kPa]", "auto (sieve-tray hydraulics)"
+         if case.column.pressure_drop_per_tray is None else case.column.pressure_drop_per_tray / KPA),
         ("Condenser", case.column.condenser),
         ("Subcooling [K]", case.column.subcooling),
         ("Light key", names[p.light_key]),

@@ -71,7 +71,8 @@ def design_text(result: DesignResult) -> str:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
         failed = f" ({len(optimum.solver.unsolved)} did not solve)" if optimum.solver.unsolved else ""
         lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
-                     f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s")
+                     f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s, "
+                     f"{optimum.rounds} round{'s' if optimum.rounds != 1 else ''} until the model's constants settled")
     if len(parts.scenarios) > 1:
         lines.append("Scenario optima: " + "; ".join(
             f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC "

@@ -19,6 +19,7 @@ from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lock
 from .exchanger_service import REBOILER_KINDS
 from .exchangers import ExchangerSizing, OverallCoefficient, size_exchanger
 from .flooding import FLOW_PARAMETER_RANGE
+from .tray_pressure_drop import TrayPressureDrop, sieve_tray_pressure_drop, weir_height_for
 from .trays import TrayHydraulics, round_up, tray_hydraulics
 from .options import SizingOptions
 from .utilities import UtilityLevel
@@ -77,6 +78,12 @@ class ColumnSizing:
     reflux_pump: PumpSizing
     equipment: tuple[EquipmentItem, ...]
     warnings: tuple[str, ...]
+    pressure_drops: tuple[TrayPressureDrop, ...] = ()  # one per tray at the shell diameter, top first
+
+    @property
+    def tray_pressure_drop(self) -> float:
+        """Mean pressure drop per real tray from the sieve-tray hydraulics [Pa]."""
+        return sum(t.pressure_drop for t in self.pressure_drops) / len(self.pressure_drops)
 
 
 def _check_profile(profile: StageProfile) -> None:
@@ -199,7 +206,7 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     vessel = design_vessel(diameter, height.tangent_length, max(profile.P), max(profile.T), options.material,
                            options.joint_efficiency, options.corrosion_allowance,
                            options.pressure_margin_fraction, options.pressure_margin_minimum,
-                           options.temperature_margin)
+                           options.temperature_margin, min(profile.P))
     warnings.extend(vessel.warnings)
 
     condenser = size_exchanger("condenser", "cooling", profile.condenser_duty, profile.T[0],
@@ -222,9 +229,11 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
 
     equipment = _equipment(vessel, diameter, d_rect, d_strip, n_real, n_rect, options, condenser, reboiler,
                            drum, pump, top_design_p, top_design_t)
+    weir = weir_height_for(profile.P[0])
+    drops = tuple(sieve_tray_pressure_drop(t, diameter, weir) for t in trays)
     return ColumnSizing(trays, options.flood_fraction, diameter, d_rect, d_strip, options.separate_sections,
                         efficiency, n_real, n_rect, height, vessel, condenser, reboiler, drum, pump, equipment,
-                        tuple(warnings))
+                        tuple(warnings), drops)
 
 
 def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: float, n_real: int, n_rect: int,

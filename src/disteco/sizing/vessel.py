@@ -1,7 +1,10 @@
 """Column shell: height, design conditions, wall and head thickness (ASME VIII-1), mass.
 
-A preliminary estimate for costing: wind, seismic and external-pressure loads, nozzles,
-supports and fabrication tolerances are not included (see :data:`CAUTION`).
+A preliminary estimate for costing: wind, seismic loads, nozzles, supports and fabrication
+tolerances are not included (see :data:`CAUTION`). A shell operating below atmospheric
+pressure is also designed for full vacuum by the elastic buckling pressure of von Mises
+(:func:`collapse_pressure_von_mises`) with a design factor of 3, without stiffening rings;
+the heads are not checked for external pressure.
 """
 
 from __future__ import annotations
@@ -22,6 +25,11 @@ THIN_WALL_LIMIT = 0.385  # P <= 0.385 S E for the UG-27(c)(1) formula
 CAUTION = ("Preliminary sizes for cost estimation only. The vessel must be designed to the "
            "applicable pressure-vessel code (e.g. ASME Section VIII Division 1), including wind, "
            "seismic, external-pressure and support loads, and checked by a qualified engineer.")
+
+ELASTIC_MODULUS = 200e9  # Pa, carbon and low-alloy steel near ambient temperature (from memory)
+POISSON_RATIO = 0.3  # [-], steel
+BUCKLING_DESIGN_FACTOR = 3.0  # collapse over allowable external pressure, as in ASME VIII-1 UG-28 (from memory)
+FULL_VACUUM = ATMOSPHERE  # Pa, external design pressure of a vacuum shell (common practice, no source)
 
 # Minimum practical wall thickness for rigidity, including 2 mm corrosion allowance:
 # (largest inside diameter [m], thickness [m]). Towler and Sinnott, Chemical Engineering
@@ -108,6 +116,81 @@ def head_thickness_ug32(pressure, inside_diameter, allowable_stress, joint_effic
     """
     _check_thin_wall("UG-32 ellipsoidal head", pressure, allowable_stress, joint_efficiency)
     return pressure * inside_diameter / (2.0 * allowable_stress * joint_efficiency - 0.2 * pressure)
+
+
+def collapse_pressure_von_mises(thickness, outside_diameter, length, elastic_modulus, poisson_ratio):
+    r"""Elastic buckling pressure of a cylinder under uniform radial external pressure, von Mises.
+
+    .. math::
+        p_c = \min_{n \ge 2} \frac{E t / R}{n^2 - 1 + \tfrac12 a}\left[\frac{1}{(n^2/a + 1)^2}
+              + \frac{t^2}{12 R^2 (1-\nu^2)}\,(n^2 - 1 + a)^2\right],\quad a = (\pi R / L)^2
+
+    with n the number of circumferential lobes and R the mean radius (taken as outside radius).
+
+    Parameters
+    ----------
+    thickness : float
+        Shell thickness, corroded [m]
+    outside_diameter : float
+        Outside diameter [m]
+    length : float
+        Unsupported length between stiffeners or heads (simply supported ends) [m]
+    elastic_modulus : float
+        Young's modulus at the design temperature [Pa]
+    poisson_ratio : float
+        Poisson's ratio [-]
+
+    Returns
+    -------
+    float
+        Elastic collapse pressure [Pa]
+
+    Notes
+    -----
+    Elastic, perfect cylinder; thin shells (D/t above about 20) where buckling governs
+    before yield. For long cylinders it tends to the ring value 2 E/(1 - nu^2) (t/D)^3 (n = 2);
+    Windenburg and Trilling's closed form approximates it for short cylinders. Real shells
+    with out-of-roundness collapse lower: a design factor (3 here) covers that.
+
+    Examples
+    --------
+    >>> round(collapse_pressure_von_mises(0.008, 1.5, 3.0, 200e9, 0.3) / 1e3)
+    546
+
+    References
+    ----------
+    1. von Mises, R., Z. Ver. Dtsch. Ing. 58, 750 (1914).
+    2. Windenburg, D. F., Trilling, C., Trans. ASME 56, 819 (1934).
+    3. Timoshenko, S. P., Gere, J. M., Theory of Elastic Stability, 2nd ed., McGraw-Hill (1961), Ch. 11.
+    """
+    R = outside_diameter / 2.0
+    a = (math.pi * R / length) ** 2
+    shell = thickness ** 2 / (12.0 * R ** 2 * (1.0 - poisson_ratio ** 2))
+
+    def lobes(n: int) -> float:
+        m = n * n
+        return elastic_modulus * thickness / R / (m - 1.0 + 0.5 * a) * (1.0 / (m / a + 1.0) ** 2
+                                                                       + shell * (m - 1.0 + a) ** 2)
+
+    return min(lobes(n) for n in range(2, 200))
+
+
+def external_pressure_thickness(external_pressure: float, inside_diameter: float, length: float,
+                                elastic_modulus: float = ELASTIC_MODULUS, poisson_ratio: float = POISSON_RATIO,
+                                design_factor: float = BUCKLING_DESIGN_FACTOR) -> float:
+    """Thinnest shell [m] whose von Mises collapse pressure is ``design_factor`` x ``external_pressure`` [Pa].
+
+    The outside diameter is the inside diameter plus twice the thickness; found by bisection.
+    """
+    def margin(t: float) -> float:
+        return collapse_pressure_von_mises(t, inside_diameter + 2.0 * t, length, elastic_modulus,
+                                           poisson_ratio) - design_factor * external_pressure
+
+    low, high = 1e-5, 0.25 * inside_diameter
+    for _ in range(80):
+        mid = 0.5 * (low + high)
+        low, high = (mid, high) if margin(mid) < 0.0 else (low, mid)
+    return high
 
 
 def _check_thin_wall(rule: str, pressure: float, stress: float, efficiency: float) -> None:
@@ -200,20 +283,33 @@ class VesselDesign:
     mass: float  # kg, shell and heads
     warnings: tuple[str, ...]
     caution: str = CAUTION
+    external_pressure: float = 0.0  # Pa, external design pressure (full vacuum below atmospheric, else 0)
+    shell_thickness_external: float = 0.0  # m, von Mises buckling with the design factor, without corrosion allowance
 
 
 def design_vessel(inside_diameter: float, tangent_length: float, max_pressure: float, max_temperature: float,
                   material_name: str, joint_efficiency: float, corrosion_allowance: float,
                   pressure_margin_fraction: float, pressure_margin_minimum: float,
-                  temperature_margin: float) -> VesselDesign:
+                  temperature_margin: float, min_pressure: float | None = None) -> VesselDesign:
     """Design conditions, thicknesses and mass of a column shell with 2:1 ellipsoidal heads.
 
-    ``max_pressure`` [Pa, absolute] and ``max_temperature`` [K] are operating maxima.
+    ``max_pressure`` [Pa, absolute] and ``max_temperature`` [K] are operating maxima;
+    ``min_pressure`` [Pa, absolute] the lowest operating pressure (None: ``max_pressure``).
+    Below atmospheric the shell is also designed for full vacuum (:func:`external_pressure_thickness`)
+    over its tangent length plus a third of each head's depth (D/4), without stiffening rings.
     """
     warnings = []
-    if max_pressure < ATMOSPHERE:
-        warnings.append(f"operating pressure {max_pressure / 1e5:.3g} bar is below atmospheric: the shell "
-                        "must also be checked for external pressure (ASME VIII-1 UG-28), not done here")
+    lowest = max_pressure if min_pressure is None else min_pressure
+    external, t_external = 0.0, 0.0
+    if lowest < ATMOSPHERE:
+        external = FULL_VACUUM
+        t_external = external_pressure_thickness(external, inside_diameter + 2.0 * corrosion_allowance,
+                                                 tangent_length + inside_diameter / 6.0)
+        warnings.append(f"operating pressure {lowest / 1e3:.3g} kPa is below atmospheric: the shell is designed "
+                        f"for full vacuum by von Mises' elastic buckling pressure with a design factor of "
+                        f"{BUCKLING_DESIGN_FACTOR:g} and no stiffening rings ({t_external * 1e3:.1f} mm plus "
+                        "corrosion allowance); heads, stiffening rings and the code check for external pressure "
+                        "(ASME VIII-1 UG-28, UG-33) are not done")
     p_design = design_pressure(max_pressure, pressure_margin_fraction, pressure_margin_minimum)
     t_design = max_temperature + temperature_margin
     steel = material(material_name)
@@ -222,12 +318,13 @@ def design_vessel(inside_diameter: float, tangent_length: float, max_pressure: f
     t_shell = shell_thickness_ug27(p_design, corroded / 2.0, stress, joint_efficiency)
     t_head = head_thickness_ug32(p_design, corroded, stress, joint_efficiency)
     floor = minimum_thickness(inside_diameter, corrosion_allowance)
-    nominal_shell = _round_up(max(t_shell + corrosion_allowance, floor), MILLIMETRE)
+    nominal_shell = _round_up(max(max(t_shell, t_external) + corrosion_allowance, floor), MILLIMETRE)
     nominal_head = _round_up(max(t_head + corrosion_allowance, floor), MILLIMETRE)
     mass = shell_mass(inside_diameter, tangent_length, nominal_shell, nominal_head, steel.density)
     return VesselDesign(steel.name, steel.material_class, p_design, t_design, stress, joint_efficiency,
                         corrosion_allowance, inside_diameter, tangent_length, t_shell, t_head,
-                        nominal_shell, nominal_head, mass, tuple(warnings))
+                        nominal_shell, nominal_head, mass, tuple(warnings), external_pressure=external,
+                        shell_thickness_external=t_external)
 
 
 @dataclass(frozen=True)

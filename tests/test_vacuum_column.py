@@ -1,0 +1,67 @@
+"""The vacuum example end to end: the trays' pressure drop sets the bottom, the shell is designed for vacuum.
+
+One design command per module (about half a minute); every check reads its result.
+"""
+
+import json
+import math
+
+import pytest
+
+from disteco._base.units import ATMOSPHERE
+from disteco.case import Thermo
+from disteco.cli import main
+from disteco.properties import build_mixture
+from disteco.sizing.vessel import external_pressure_thickness
+
+from conftest import EXAMPLES
+
+CORROSION_ALLOWANCE = 3e-3  # m, SizingOptions' default
+
+
+@pytest.fixture(scope="module")
+def result(tmp_path_factory):
+    out = tmp_path_factory.mktemp("vacuum")
+    code = main(["design", str(EXAMPLES / "styrene_vacuum.toml"), "-o", str(out), "-q", "--no-figures"])
+    return code, json.loads((out / "result.json").read_text())
+
+
+def test_designs_with_exit_0_in_settled_rounds(result):
+    code, data = result
+    assert code == 0
+    assert 2 <= data["solver"]["rounds"] <= 4
+    assert not any("had not settled" in w for w in data["warnings"])
+
+
+def test_bottom_pressure_follows_real_trays(result):
+    """Bottom = top + real trays x per-tray drop of the sieve-tray hydraulics, within 3 % of the
+    column's drop: the per-stage drop settles to 1 % and real trays round up by under one tray."""
+    _, data = result
+    design = data["design"]
+    drop = design["bottom_pressure_kPa"] - design["top_pressure_kPa"]
+    assert drop == pytest.approx(design["real_trays"] * design["tray_pressure_drop_hydraulics_kPa"], rel=0.03)
+    assert drop > 3.0 * design["top_pressure_kPa"]  # the trays, not the top pressure, set the bottom
+
+
+def test_bottom_temperature_is_the_bubble_point_at_the_bottom_pressure(result):
+    """The reboiler's temperature is the bubble point of the bottoms at the tray-set bottom pressure
+    (thermo, ideal), within 0.5 K, and far above the bubble point at the top pressure."""
+    _, data = result
+    design, profile = data["design"], data["stage_profile"]
+    mixture = build_mixture(("ethylbenzene", "styrene"), Thermo("ideal"), 8e3)
+    x_b = profile["bottoms_mole_fractions"]
+    at_bottom = mixture.bubble_point(design["bottom_pressure_kPa"] * 1e3, x_b).T - 273.15
+    at_top = mixture.bubble_point(design["top_pressure_kPa"] * 1e3, x_b).T - 273.15
+    assert design["reboiler_temperature_degC"] == pytest.approx(at_bottom, abs=0.5)
+    assert design["reboiler_temperature_degC"] > at_top + 30.0
+
+
+def test_shell_designed_for_full_vacuum(result):
+    """Nominal shell = von Mises buckling thickness for full vacuum (design factor 3) plus corrosion
+    allowance, rounded up to 1 mm; the warning says what is not checked."""
+    _, data = result
+    design = data["design"]
+    inside = design["diameter_m"] + 2 * CORROSION_ALLOWANCE
+    needed = external_pressure_thickness(ATMOSPHERE, inside, design["height_m"] + design["diameter_m"] / 6.0)
+    assert design["shell_thickness_mm"] == pytest.approx(math.ceil((needed + CORROSION_ALLOWANCE) * 1e3 - 1e-6))
+    assert any("full vacuum" in w and "not done" in w for w in data["warnings"])

@@ -85,26 +85,27 @@ def _options(args) -> dict:
 
 def _run(args) -> int:
     from . import api
-    from .reports.text import cautions_text, design_text, mixture_text
+    from .reports.text import cautions_text, console_title, design_text, mixture_text
 
     case = api.load_case(args.case)
     if args.command == "check":
-        print(f"Case: {case.title}")
+        print(f"Case: {console_title(case.title)}")
         print(mixture_text(api.check(case)))
         print("Case file is valid.")
         return EXIT_OK
     given = _given(args)
     progress = None if args.quiet else ProgressLine()
-    result = api.design(case, given=given, scenarios=tuple(args.scenario), options=_options(args),
-                        progress=progress)
-    print(f"Case: {case.title}")
-    print(mixture_text(result.mixture))
-    print()
-    print(design_text(result))
-    for warning in result.warnings:
-        print(f"Warning: {warning}")
-    for path in api.write_results(result, args.out, figures=not args.no_figures):
-        print(f"Wrote {path}")
+    with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
+        result = api.design(case, given=given, scenarios=tuple(args.scenario), options=_options(args),
+                            progress=progress)
+        print(f"Case: {console_title(case.title)}")
+        print(mixture_text(result.mixture))
+        print()
+        print(design_text(result))
+        for warning in result.warnings:
+            print(f"Warning: {warning}")
+        for path in api.write_results(result, out, figures=not args.no_figures):
+            print(f"Wrote {path}")
     print(cautions_text())
     return EXIT_OK
 

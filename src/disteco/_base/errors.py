@@ -65,6 +65,23 @@ class CostDataError(DistecoError, ValueError):
         super().__init__(f"{where}: {problem}")
 
 
+class OutputFolderError(DistecoError, ValueError):
+    """The output folder cannot be created, written into, or is held by another run.
+
+    ``label`` names the folder as the user gave it (``--out`` on the command line).
+    """
+
+    def __init__(self, label: str, folder, problem: str, allowed: str | None = None):
+        self.label = label
+        self.folder = folder
+        self.problem = problem
+        self.allowed = allowed
+        message = f"{label} {str(folder)!r}: {problem}"
+        if allowed:
+            message += f" (allowed: {allowed})"
+        super().__init__(message)
+
+
 class PropertyError(DistecoError, RuntimeError):
     """A property or phase-equilibrium calculation failed."""
 

@@ -9,7 +9,6 @@ import json
 import os
 import subprocess
 import sys
-import warnings
 from pathlib import Path
 
 import pytest
@@ -22,8 +21,6 @@ from disteco.reports import files
 from disteco.reports.figures import draw
 from disteco.reports.json_result import result_json
 from disteco.reports.tables import Plot, Series
-from disteco.reports.text import console_title
-from disteco.stages.binary import _operating_lines
 
 from conftest import EXAMPLES
 from test_reports_tables import design_parts
@@ -229,26 +226,3 @@ def test_dollar_signs_in_figure_text_are_drawn_literally():
     axes = figure.axes[0]
     assert [line.get_label() for line in axes.get_lines()] == [r"scenario \$x^2\$", r"broken \$\frac{\$"]
     assert axes.get_title() == r"TAC in \$ per year, \$x^2\$"
-
-
-def test_a_long_title_is_shortened_on_the_console_only(tmp_path, capsys):
-    title = "Column " + "x" * 1_000_000
-    text = (EXAMPLES / "aromatics_binary.toml").read_text().replace("Kestrel Point benzene column", title)
-    case = tmp_path / "case.toml"
-    case.write_text(text)
-    assert main(["check", str(case)]) == 0
-    line = next(line for line in capsys.readouterr().out.splitlines() if line.startswith("Case: "))
-    assert line == "Case: " + console_title(title)
-    assert len(console_title(title)) == 100 and console_title(title).endswith("...")
-    assert console_title("  two\n lines  ") == "two lines"
-    assert api.load_case(case).title == title  # the files get it whole
-
-
-def test_vertical_stripping_line_gives_no_numpy_warning():
-    """A vapour feed at low reflux puts the q-line intersection at the bottoms: the stripping line
-    is vertical and y_op(x_B) is taken from the rectifying line without a RuntimeWarning."""
-    x_int, y_op = _operating_lines(0.985, 0.015, 0.42, 1e-12, 0.1)
-    assert x_int == 0.015
-    with warnings.catch_warnings():
-        warnings.simplefilter("error")
-        assert float(y_op(0.015)) == pytest.approx((0.1 * 0.015 + 0.985) / 1.1)

@@ -12,6 +12,11 @@ class DistecoError(Exception):
     """Base class of every error disteco raises on purpose."""
 
 
+def _stated(where: str, problem: str, allowed: str | None) -> str:
+    """One error line: where, what is wrong and, if known, what is allowed."""
+    return f"{where}: {problem}" + (f" (allowed: {allowed})" if allowed else "")
+
+
 class CaseError(DistecoError, ValueError):
     """A case-file field is missing or invalid.
 
@@ -23,10 +28,7 @@ class CaseError(DistecoError, ValueError):
         self.problem = problem
         self.allowed = allowed
         self.value = value
-        message = f"{field}: {problem}"
-        if allowed:
-            message += f" (allowed: {allowed})"
-        super().__init__(message)
+        super().__init__(_stated(field, problem, allowed))
 
 
 class InfeasibleSpecError(DistecoError, ValueError):
@@ -76,10 +78,7 @@ class OutputFolderError(DistecoError, ValueError):
         self.folder = folder
         self.problem = problem
         self.allowed = allowed
-        message = f"{label} {str(folder)!r}: {problem}"
-        if allowed:
-            message += f" (allowed: {allowed})"
-        super().__init__(message)
+        super().__init__(_stated(f"{label} {str(folder)!r}", problem, allowed))
 
 
 class PropertyError(DistecoError, RuntimeError):

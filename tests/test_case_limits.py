@@ -50,6 +50,7 @@ CASES = [
      "is not a folder"),
     (("cost_year = 2023", 'cost_year = 2023\ncurrency = ""'), "economics.currency", "empty"),
     (('["reference"]', '["no-such-scenario"]'), "scenario", "no-such-scenario"),
+    (("cost_year = 2023", "cost_year = 1951"), "economics.cost_year", "not in the cost-index table"),
     (("title = \"", "title = \"a\\u0007"), "title", "control character"),
     (("bottoms_light_key_fraction = 0.015", "bottoms_light_key_fraction = 0.015\nheavy_key_recovery = -0.01"),
      "products.heavy_key_recovery", "not used with distillate_light_key_fraction"),

@@ -12,7 +12,7 @@ from typing import Callable
 
 from ._base.errors import CaseError, CostDataError
 from .case import Case, load_case
-from .costing import CostData, load_cost_data, resolve_scenarios
+from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.results import DesignEvaluation, OptimumDesign
@@ -61,7 +61,9 @@ def mixture_of(case: Case) -> Mixture:
 def check(case: Case) -> MixtureSummary:
     """Load the case's cost data and scenarios, resolve the components and summarise the
     mixture at the column's top pressure."""
-    resolve_scenarios(cost_data_of(case), case.economics.scenarios)
+    data = cost_data_of(case)
+    resolve_scenarios(data, case.economics.scenarios)
+    resolve_cost_year(data, case.economics.cost_year)
     mixture = mixture_of(case)
     return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
                              case.products.light_key, case.products.heavy_key)

@@ -131,3 +131,19 @@ def test_parse_case_names_the_field_of_a_parameter_out_of_range():
     text = BASE.replace(*method("wilson", WILSON.format(a="[[0, 3], [3, 0]]")))
     with pytest.raises(CaseError, match=r"mixture.wilson: these parameters give ln\(gamma\) = -2[0-9.]+ for benzene"):
         parse_case(tomllib.loads(text))
+
+
+def test_ordinary_interaction_parameters_pass_check(tmp_path, capsys):
+    """Parameters of the size published fits have (an invented NRTL set for ethanol-water with
+    tau from about -0.3 to 3.4 over 200-600 K, and a Wilson set with Lambda from 0.13 to 1.3)
+    pass the limits and check; the limits refuse only what breaks the calculation."""
+    ethanol_water = (EXAMPLES / "ethanol_water.toml").read_text()
+    tables = {
+        "nrtl": "[mixture.nrtl]\na = [[0, 0.0], [0, 0]]\nb = [[0, -55.0], [670.0, 0]]\nalpha = [[0, 0.3], [0.3, 0]]",
+        "wilson": "[mixture.wilson]\na = [[0, -1.5], [0, 0]]\nb = [[0, -100.0], [50.0, 0]]",
+    }
+    for name, table in tables.items():
+        case = tmp_path / f"{name}.toml"
+        case.write_text(ethanol_water.replace('method = "unifac-dortmund"', f'method = "{name}"\n{table}'))
+        assert main(["check", str(case)]) == 0, capsys.readouterr().err
+        assert f"Thermodynamic method: {name}" in capsys.readouterr().out

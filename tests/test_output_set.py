@@ -226,3 +226,26 @@ def test_dollar_signs_in_figure_text_are_drawn_literally():
     axes = figure.axes[0]
     assert [line.get_label() for line in axes.get_lines()] == [r"scenario \$x^2\$", r"broken \$\frac{\$"]
     assert axes.get_title() == r"TAC in \$ per year, \$x^2\$"
+
+
+def test_a_terminated_design_leaves_nothing(tmp_path):
+    """A real `disteco design` process terminated (SIGTERM) during its computation exits with
+    code 1 and leaves neither the output folder it created nor its lock file."""
+    import signal
+    import time
+
+    out = tmp_path / "new-out"
+    run = subprocess.Popen([sys.executable, "-m", "disteco.cli", "design", CASE, "-o", str(out), "-q"],
+                           stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    try:
+        deadline = time.monotonic() + 120
+        while not (out / files.LOCK_FILE).exists():
+            assert run.poll() is None and time.monotonic() < deadline, "the run never claimed its folder"
+            time.sleep(0.05)
+        run.send_signal(signal.SIGTERM)
+        _, err = run.communicate(timeout=120)
+    finally:
+        run.kill()
+    assert run.returncode == 1
+    assert "interrupted" in err and "Traceback" not in err
+    assert not out.exists()

@@ -6,9 +6,12 @@ Exit codes: 0 success, 2 bad input or an infeasible request, 1 internal failure.
 from __future__ import annotations
 
 import argparse
+import signal
 import sys
+import threading
 import time
 import traceback
+from contextlib import contextmanager
 from pathlib import Path
 
 from . import __version__
@@ -110,12 +113,31 @@ def _run(args) -> int:
     return EXIT_OK
 
 
+def _interrupt(signum, frame):
+    raise KeyboardInterrupt
+
+
+@contextmanager
+def _terminate_as_interrupt():
+    """SIGTERM raises KeyboardInterrupt, so a terminated run unwinds: it releases its output
+    folder's lock and removes its staging files, as an interrupted one does."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = signal.signal(signal.SIGTERM, _interrupt)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+
+
 def main(argv: list[str] | None = None) -> int:
     from ._base.errors import DistecoError
 
     args = _parser().parse_args(argv)
     try:
-        return _run(args)
+        with _terminate_as_interrupt():
+            return _run(args)
     except DistecoError as exc:
         print(f"error: {exc}", file=sys.stderr)
         if isinstance(exc, ValueError):  # a user mistake or an infeasible request

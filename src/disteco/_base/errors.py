@@ -24,11 +24,11 @@ class CaseError(DistecoError, ValueError):
     """
 
     def __init__(self, field: str, problem: str, allowed: str | None = None, value=None):
-        self.field = field
+        self.field = field or "case file"  # never an empty name before the colon
         self.problem = problem
         self.allowed = allowed
         self.value = value
-        super().__init__(_stated(field, problem, allowed))
+        super().__init__(_stated(self.field, problem, allowed))
 
 
 class InfeasibleSpecError(DistecoError, ValueError):

@@ -47,7 +47,7 @@ def test_misspelled_component_lists_close_matches(tmp_path, capsys):
         "{ benzene = 0.42, toluene = 0.58 }", "[0.42, 0.58]")
     code, err = run_cli(tmp_path, text, capsys)
     assert code == 2
-    assert "mixture.components: unknown component 'tolunee'" in err
+    assert "mixture.components[1]: unknown component 'tolunee'" in err
     assert "toluene" in err.split("close matches")[1]
 
 

@@ -82,3 +82,30 @@ def test_enthalpy_and_volume_fits_follow_thermo(benzene_toluene, fitted_benzene_
             assert f.vapour_enthalpy_of(T, x) == pytest.approx(benzene_toluene.vapour_enthalpy(T, ATM, x), abs=100.0)
             density = f.molar_mass(x) / f.liquid_molar_volume(T, x)
             assert density == pytest.approx(benzene_toluene.liquid_density(T, ATM, x), rel=0.01)
+
+
+def test_peng_robinson_fit_follows_the_liquid_near_the_critical_region():
+    """Ethane / propane / n-butane at 25 bar (thermo's Peng-Robinson as reference): the fitted bubble
+    temperature within 0.6 K over random liquids and the near-pure ends, top to a 60-stage bottom
+    (measured: 0.34 K; without the composition terms of the K fit 7.6 K, the distillate end 7 K low)."""
+    P_top = 25e5
+    mixture = build_mixture(("ethane", "propane", "n-butane"), Thermo("peng-robinson"), P_top)
+    f = fit_mixture(mixture, P_top, P_top + 60 * 700.0, z=(0.3, 0.4, 0.3))
+    liquids = [np.array(x) for x in ((0.973, 0.027, 0.0), (0.0, 0.05, 0.95), (0.5, 0.5, 0.0))]
+    liquids += list(np.random.default_rng(7).dirichlet(np.full(3, 0.8), 12))
+    for P in (P_top, P_top + 30 * 700.0):
+        for x in liquids:
+            assert f.bubble_temperature(P, x) == pytest.approx(mixture.bubble_point(P, x).T, abs=0.6)
+
+
+def test_peng_robinson_liquid_enthalpy_of_a_depropaniser_above_propane_saturation():
+    """Bubble-point liquids of propane/isobutane/n-butane at 17.2 bar (reboiler above propane's Tc):
+    the fitted liquid enthalpy within 500 J/mol of thermo's Peng-Robinson (about 3 % of the latent
+    heat; measured 148 J/mol). Pure propane has no liquid root over most of this range; while the
+    vapour root was fitted as its liquid the error was 3100 J/mol."""
+    mixture = build_mixture(("propane", "isobutane", "n-butane"), Thermo("peng-robinson"), 17e5)
+    fitted = fit_mixture(mixture, 17.0e5, 17.4e5, z=[0.4, 0.25, 0.35])
+    for x_propane in np.linspace(0.01, 0.99, 8):
+        x = np.array([x_propane, 0.42 * (1 - x_propane), 0.58 * (1 - x_propane)])
+        T = mixture.bubble_point(17.2e5, x).T
+        assert fitted.liquid_enthalpy_of(T, x) == pytest.approx(mixture.liquid_enthalpy(T, 17.2e5, x), abs=500.0)

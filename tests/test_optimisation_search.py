@@ -142,3 +142,51 @@ def test_partial_condenser_condenses_only_the_reflux(partial_and_total):
     drum = {item.name: item.size for item in partial.cost.items}["reflux drum"]
     drum_total = {item.name: item.size for item in total.cost.items}["reflux drum"]
     assert drum / drum_total == pytest.approx(R / (R + 1.0), rel=0.05)
+
+
+def test_failed_neighbour_is_counted_not_scored_infeasible(problem, cheap_steam, optimum, monkeypatch):
+    """A neighbour of the optimum whose solve fails (forced here) is listed as unsolved, the status
+    says "best found; 1 of 8 neighbours did not solve" instead of "locally optimal", and a warning names it."""
+    import disteco.optimisation.search as search
+
+    assert optimum.solver.status == "locally optimal (discrete neighbourhood)"
+    assert optimum.solver.neighbours == 8 and optimum.solver.neighbours_unsolved == 0
+    N, NF = optimum.best.stages, optimum.best.feed_stage
+    solve = search.configuration_tac
+
+    def failing(problem, basis, stages, feed_stage, *args, **kwargs):
+        if (stages, feed_stage) == (N + 1, NF):
+            raise SolverError("forced failure for the test")
+        return solve(problem, basis, stages, feed_stage, *args, **kwargs)
+
+    monkeypatch.setattr(search, "configuration_tac", failing)
+    found = optimise(problem, cheap_steam, OPTIONS)
+    assert (found.best.stages, found.best.feed_stage) == (N, NF)
+    assert found.best.tac == pytest.approx(optimum.best.tac, rel=1e-6)
+    assert found.solver.status == "best found; 1 of 8 neighbours did not solve"
+    assert [(u.stages, u.feed_stage) for u in found.solver.unsolved] == [(N + 1, NF)]
+    assert "forced failure for the test" in found.solver.unsolved[0].status
+    assert any(f"N={N + 1} NF={NF}" in w and "not shown to be a local optimum" in w for w in found.warnings)
+
+
+def test_solver_failing_everywhere_is_not_called_infeasible(problem, cheap_steam, monkeypatch):
+    """When every solve fails, the search says the solver failed (SolverError), not that no column exists."""
+    import disteco.optimisation.search as search
+
+    def failing(*args, **kwargs):
+        raise SolverError("forced failure for the test")
+
+    monkeypatch.setattr(search, "configuration_tac", failing)
+    with pytest.raises(SolverError, match="the solver failed on every configuration tried"):
+        optimise(problem, cheap_steam, OPTIONS)
+
+
+def test_time_limit_is_stated_in_status_termination_and_warning(problem, cheap_steam):
+    """A search stopped by its time limit after a first design: status and termination both say
+    time limit, and a warning says how far the search got."""
+    found = optimise(problem, cheap_steam, {"max_stages": MAX, "time_limit": 0.01})
+    assert found.solver.status.startswith("time limit; ")
+    assert found.solver.termination == "maxTimeLimit"
+    assert found.solver.neighbours_unsolved > 0
+    (warning,) = [w for w in found.warnings if "stopped by its time limit of 0.01 s" in w]
+    assert f"after {found.solver.configurations_solved} configurations" in warning

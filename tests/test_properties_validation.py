@@ -113,3 +113,18 @@ def test_heat_of_vaporisation_of_benzene_near_its_normal_boiling_point():
     mixture = build_mixture(("benzene", "toluene"), Thermo("ideal"), P_ATM)
     latent = mixture.heat_of_vaporisation(P_ATM, [1.0 - 1e-9, 1e-9])
     assert latent == pytest.approx(30.72e3, rel=0.02)
+
+
+@pytest.mark.parametrize("names", [("benzene", "toluene"), ("propane", "isobutane", "n-butane"),
+                                   ("methanol", "water"), ("ethylbenzene", "styrene")])
+def test_pure_correlations_are_published_methods(names):
+    """Surface tension, viscosity and conductivity of every component come from a method in our list of
+    published correlations and data compilations, not from thermo's default where that is a fit labelled
+    with an existing program's name."""
+    from disteco.case import Thermo
+    from disteco.properties import build_mixture
+    from disteco.properties.mixture import PUBLISHED_METHODS
+    mixture = build_mixture(names, Thermo("ideal"), 101325.0)
+    for group, allowed in PUBLISHED_METHODS.items():
+        for correlation in getattr(mixture._correlations, group):
+            assert correlation.method in allowed, (group, correlation.method)

@@ -15,6 +15,7 @@ from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
+from .optimisation.given import check_decisions
 from .optimisation.results import DesignEvaluation, OptimumDesign
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
 from .reports.design_result import DesignResult
@@ -44,13 +45,8 @@ class GivenDesign:
     feed_stage: int
 
     def __post_init__(self):
-        if not self.reflux_ratio > 0.0:
-            raise CaseError("reflux ratio", f"{self.reflux_ratio}", "a positive number")
-        if self.stages < 2:
-            raise CaseError("stages", f"{self.stages}", "at least 2 (one tray and the reboiler)")
-        if not 1 <= self.feed_stage <= self.stages:
-            raise CaseError("feed stage", f"{self.feed_stage} with {self.stages} stages",
-                            f"1 to {self.stages}, counted from the top")
+        # What needs no mixture is checked here; the minima when the design is priced (before any solve).
+        check_decisions(self.reflux_ratio, self.stages, self.feed_stage)
 
 
 def mixture_of(case: Case) -> Mixture:
@@ -90,6 +86,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """
     report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
+    mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
     data = cost_data_of(case)
     names = resolve_scenarios(data, scenarios or case.economics.scenarios)
     summary = check(case)
@@ -104,7 +101,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                                      given.feed_stage, options, sizing, names[0])
         parts = _evaluation_parts(evaluation, data)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
-                            warnings=_warnings(stages.shortcut.warnings + evaluation.warnings, parts))
+                            warnings=_warnings(stages.shortcut.warnings + evaluation.warnings + mixture.warnings,
+                                               parts))
     optima, curves = [], []
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
@@ -118,7 +116,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           **_binary_parts(stages, best.best.reflux_ratio, case))
     extra = tuple(cross.below_zero()) if cross is not None else ()
-    extra += _pinch_note(stages.minimum_reflux, best.best, curves[0][1])
+    extra += _pinch_note(stages.minimum_reflux, best.best, curves[0][1]) + mixture.warnings
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
                         warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts))
 

@@ -17,6 +17,9 @@ from pathlib import Path
 from . import __version__
 
 EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
+# Option of the command line behind each field of the given design and of the optimiser's options.
+OPTION_OF = {"reflux_ratio": "--reflux", "stages": "--stages", "feed_stage": "--feed-stage",
+             "max_stages": "--max-stages", "time_limit": "--time-limit", "relative_gap": "--gap"}
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -40,7 +43,9 @@ def _parser() -> argparse.ArgumentParser:
     given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
     given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")
     given.add_argument("--feed-stage", type=int, metavar="F", help="feed stage counted from the top [-]")
-    design.add_argument("--max-stages", type=int, metavar="N", help="most equilibrium stages searched (default 60)")
+    design.add_argument("--max-stages", type=int, metavar="N",
+                        help="most equilibrium stages searched, at least 3 (default: 4.5 x the Fenske minimum, "
+                             "at least 60)")
     design.add_argument("--time-limit", type=float, metavar="S", help="wall-clock limit of each search [s]")
     design.add_argument("--gap", type=float, metavar="G", help="relative optimality gap asked of a certifying solver [-]")
     design.add_argument("--no-figures", action="store_true", help="skip the PNG figures")
@@ -76,6 +81,9 @@ def _given(args):
 
 
 def _options(args) -> dict:
+    """The optimiser options given on the command line, checked before the case is read."""
+    from .optimisation.options import model_options
+
     options = {}
     if args.max_stages is not None:
         options["max_stages"] = args.max_stages
@@ -83,23 +91,34 @@ def _options(args) -> dict:
         options["time_limit"] = args.time_limit
     if args.gap is not None:
         options["relative_gap"] = args.gap
+    model_options(options)
     return options
+
+
+def _as_option(exc):
+    """``exc`` with its field named as the command-line option that set it (unchanged otherwise)."""
+    from ._base.errors import CaseError
+
+    if not isinstance(exc, CaseError) or exc.field not in OPTION_OF:
+        return exc
+    return CaseError(OPTION_OF[exc.field], exc.problem, exc.allowed, exc.value)
 
 
 def _run(args) -> int:
     from . import api
     from .reports.text import cautions_text, console_title, design_text, mixture_text
 
+    if args.command == "design":  # option mistakes are found before the case is read
+        given, options = _given(args), _options(args)
     case = api.load_case(args.case)
     if args.command == "check":
         print(f"Case: {console_title(case.title)}")
         print(mixture_text(api.check(case)))
         print("Case file is valid.")
         return EXIT_OK
-    given = _given(args)
     progress = None if args.quiet else ProgressLine()
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
-        result = api.design(case, given=given, scenarios=tuple(args.scenario), options=_options(args),
+        result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
                             progress=progress)
         print(f"Case: {console_title(case.title)}")
         print(mixture_text(result.mixture))
@@ -139,7 +158,7 @@ def main(argv: list[str] | None = None) -> int:
         with _terminate_as_interrupt():
             return _run(args)
     except DistecoError as exc:
-        print(f"error: {exc}", file=sys.stderr)
+        print(f"error: {_as_option(exc)}", file=sys.stderr)
         if isinstance(exc, ValueError):  # a user mistake or an infeasible request
             return EXIT_BAD_INPUT
         if getattr(args, "debug", False):

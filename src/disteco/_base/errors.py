@@ -91,3 +91,7 @@ class ConvergenceError(DistecoError, RuntimeError):
 
 class SolverError(DistecoError, RuntimeError):
     """The optimisation solver failed or stopped without a usable design."""
+
+
+class InfeasibleDesignError(CaseError, InfeasibleSpecError):
+    """A given design (reflux, stages, feed stage) that cannot work; ``field`` names the decision at fault."""

@@ -18,7 +18,7 @@ from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages.shortcut import ShortcutPoint
-from .design import model_cost_basis, separation_problem
+from .design import model_cost_basis, resolved_problem
 from .options import first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
 from .solve import solve_configuration
@@ -44,7 +44,7 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     where no column within the stage limit meets the specifications are left out.
     """
     config = model_options(options)
-    problem = separation_problem(case, mixture, feed, config.max_stages)
+    problem = resolved_problem(case, mixture, feed, config)
     basis, _ = model_cost_basis(problem, mixture, data, replace(sizing, light_key=problem.light_key,
                                                                 heavy_key=problem.heavy_key),
                                 scenario, case.economics.cost_year, config)

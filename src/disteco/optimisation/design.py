@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from .._base.errors import InfeasibleSpecError
+from .._base.errors import SolverError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
@@ -19,7 +19,8 @@ from .basis import CostBasis, SeparationProblem, check_problem
 from .options import model_options
 from .pricing import cost_basis_from_data, price_design, stage_profile
 from .results import DesignEvaluation, OptimumDesign
-from .search import optimise, starting_configuration
+from .given import check_given_design, explain_failure
+from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
 
@@ -36,6 +37,22 @@ def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages
         column.condenser == "partial")
     check_problem(problem)
     return problem
+
+
+def resolved_problem(case: Case, mixture: Mixture, feed: FeedState, config, at_least: int = 0) -> SeparationProblem:
+    """The separation problem fitted down to the search's stage bound, which this sets in ``config``.
+
+    Without a ``max_stages`` option the bound is :func:`default_max_stages` of Fenske's minimum
+    on forms fitted to ``STAGE_BOUND_FLOOR`` stages (refitted only when the bound is larger);
+    ``at_least`` raises it to a given design's stages.
+    """
+    if config.max_stages is None:
+        probe = separation_problem(case, mixture, feed, STAGE_BOUND_FLOOR)
+        config.max_stages = default_max_stages(shortcut(probe).minimum_stages)
+        if max(config.max_stages, at_least) == STAGE_BOUND_FLOOR:
+            return probe
+    config.max_stages = max(config.max_stages, at_least)
+    return separation_problem(case, mixture, feed, config.max_stages)
 
 
 def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostData, sizing: SizingOptions,
@@ -55,7 +72,7 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     utility-price scenario of the cost data (None: the data's default).
     """
     config = model_options(options)
-    problem = separation_problem(case, mixture, feed, config.max_stages)
+    problem = resolved_problem(case, mixture, feed, config)
     # The reference design only freezes the model's constants; its sizing warnings would describe
     # a column nobody asked about, and the sequential price repeats those that hold for the result.
     basis, _ = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
@@ -72,21 +89,21 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     """Sizes and costs of a given design (reflux ratio [-], stages incl. reboiler, feed stage from the top).
 
     The distillate flow is chosen by the model to meet the specifications at least cost.
-    Raises :class:`InfeasibleSpecError` when the reflux is at or below the minimum or the
-    design cannot meet the specifications.
+    Before any solve, :func:`check_given_design` refuses (``InfeasibleDesignError``, naming the
+    decision) fewer stages than Fenske's minimum, a reflux at or below Underwood's minimum or
+    above the model's range, and a feed stage off the column; a design that passes and still
+    cannot meet the specifications raises :class:`InfeasibleSpecError`.
     """
     config = model_options(options)
-    if stages > config.max_stages:
-        config.max_stages = stages
-    problem = separation_problem(case, mixture, feed, config.max_stages)
-    r_min = shortcut(problem).minimum_reflux
-    if reflux_ratio <= r_min:
-        raise InfeasibleSpecError(
-            f"reflux ratio {reflux_ratio:.4g} is at or below the minimum reflux ratio {r_min:.4g} "
-            "(Underwood): no number of stages meets the product specifications")
+    problem = resolved_problem(case, mixture, feed, config, at_least=stages)
+    estimate = shortcut(problem)
+    check_given_design(estimate, reflux_ratio, stages, feed_stage, config.reflux_max)
     # reference-design warnings dropped as in optimise_design
     basis, _ = model_cost_basis(problem, mixture, data, sizing, scenario, case.economics.cost_year, config)
-    design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
+    try:
+        design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
+    except SolverError as failure:
+        raise explain_failure(estimate, reflux_ratio, stages, failure) from failure
     priced = price_design(design, mixture, data, replace(sizing, light_key=problem.light_key,
                                                          heavy_key=problem.heavy_key),
                           scenario, case.economics.cost_year)

@@ -18,7 +18,7 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from .basis import CostBasis, SeparationProblem
 from .options import model_options
 from .results import DesignEvaluation, SearchStep
-from .search import Evaluator, stage_floor
+from .search import Evaluator, default_max_stages, stage_floor
 from .solve import solve_configuration
 from .start import shortcut
 
@@ -37,6 +37,8 @@ def enumerate_designs(problem: SeparationProblem, basis: CostBasis, options=None
                       stage_range: tuple[int, int] | None = None, reflux_points: int = 0) -> Enumeration:
     """Solve every configuration in ``stage_range`` (default: the options' min/max stages)."""
     config = model_options(options)
+    if config.max_stages is None:
+        config.max_stages = default_max_stages(shortcut(problem).minimum_stages)
     low, high = stage_range or (stage_floor(shortcut(problem), config), config.max_stages)
     start = time.perf_counter()
     evaluator = Evaluator(problem, basis, config, deadline=math.inf, low=low)

@@ -60,17 +60,36 @@ class ColumnSizes:
 
 
 @dataclass(frozen=True)
+class SearchStep:
+    """One configuration visited by the search: TAC [currency/yr] or None when it had no feasible design."""
+
+    stages: int
+    feed_stage: int
+    tac: float | None
+    status: str
+
+
+@dataclass(frozen=True)
 class SolverReport:
-    """How a result was obtained: solver, status in words, termination condition, gap, effort."""
+    """How a result was obtained: solver, status in words, termination condition, gap, effort.
+
+    For a search, ``status`` says "locally optimal (discrete neighbourhood)" only when every
+    neighbour of the chosen configuration was solved (feasible or shown infeasible); the
+    configurations whose solve failed are listed in ``unsolved``, and ``termination`` is
+    "maxTimeLimit" when the search was stopped by its time limit.
+    """
 
     solver: str
-    status: str  # "optimal", "locally optimal", "certified", "time limit", "iteration limit", "failed"
+    status: str  # "optimal", "locally optimal", "certified", "time limit", "iteration limit", "failed", "best found; ..."
     termination: str  # Pyomo's termination condition
     gap: float | None  # relative optimality gap where a bound exists [-]
     wall_time: float  # s
-    configurations_solved: int = 1
+    configurations_solved: int = 1  # configurations tried, whether or not they solved
     message: str = ""
     barrier: str = ""  # interior-point barrier strategy of the successful try ("" for other solvers)
+    unsolved: tuple[SearchStep, ...] = ()  # configurations whose solve failed (status: the failure)
+    neighbours: int = 0  # neighbours of the chosen configuration within the stage range
+    neighbours_unsolved: int = 0  # of them, failed or never tried (time limit)
 
 
 @dataclass(frozen=True)
@@ -91,16 +110,6 @@ class DesignEvaluation:
     def tac(self) -> float:
         """Total annualised cost [currency/yr]."""
         return self.cost.tac_per_year
-
-
-@dataclass(frozen=True)
-class SearchStep:
-    """One configuration visited by the search: TAC [currency/yr] or None when it had no feasible design."""
-
-    stages: int
-    feed_stage: int
-    tac: float | None
-    status: str
 
 
 @dataclass(frozen=True)

@@ -26,11 +26,19 @@ import pyomo.environ as pyo
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
+from .given import check_stage_bound
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Shortcut, shortcut
 from .solve import certify, configuration_tac, read_design, solved_model
+
+# The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
+# Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
+# source); never below the 60 stages that were the fixed bound before, so small columns keep
+# the room they had.
+STAGE_BOUND_FACTOR = 4.5
+STAGE_BOUND_FLOOR = 60
 
 DIRECTIONS = tuple((dn, df) for dn in (-1, 0, 1) for df in (-1, 0, 1) if (dn, df) != (0, 0))
 IMPROVEMENT = 1e-7  # relative TAC drop that counts as a move
@@ -46,6 +54,8 @@ class Evaluator:
     deadline: float
     designs: dict = field(default_factory=dict)
     steps: list = field(default_factory=list)
+    failures: dict = field(default_factory=dict)  # (N, NF) -> why the solve failed (not infeasibility)
+    profiles: dict = field(default_factory=dict)  # (N, NF) -> its solved profile, to restart it from
     strategies: tuple = ()  # barrier strategies, the one that last worked first
 
     low: int = 3
@@ -65,21 +75,42 @@ class Evaluator:
         if remaining <= 0.0:
             raise TimeoutError
         try:
-            tac, _, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
+            tac, profile, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
                                                time_limit=min(remaining, self.config.configuration_time_limit),
                                                strategies=self.strategies or None)
-        except (InfeasibleSpecError, SolverError, ConvergenceError) as exc:
+        except InfeasibleSpecError as exc:
             self.steps.append(SearchStep(stages, feed_stage, None, f"{type(exc).__name__}: {exc}"))
             return float("inf")
+        except (SolverError, ConvergenceError) as exc:
+            # Not scored as infeasible: recorded so the result can say the neighbourhood is incomplete.
+            # The search cannot price it, so it moves on as if it were dearer than any design.
+            reason = f"did not solve: {type(exc).__name__}: {exc}"
+            self.failures[(stages, feed_stage)] = reason
+            self.steps.append(SearchStep(stages, feed_stage, None, reason))
+            return float("inf")
         self.steps.append(SearchStep(stages, feed_stage, tac, report.status))
+        self.profiles[(stages, feed_stage)] = profile
         if report.barrier:
             self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
         return tac
+
+    def neighbours(self, stages: int, feed_stage: int) -> list[tuple[int, int]]:
+        """The configurations next to (N, NF) within the stage range."""
+        return [(stages + dn, feed_stage + df) for dn, df in DIRECTIONS if self.allowed(stages + dn, feed_stage + df)]
+
+    def unsolved(self) -> tuple[SearchStep, ...]:
+        """The configurations whose solve failed, in the order tried."""
+        return tuple(SearchStep(n, f, None, why) for (n, f), why in self.failures.items())
 
     def best(self) -> tuple[int, int] | None:
         """The cheapest feasible configuration seen."""
         feasible = {k: v for k, v in self.designs.items() if v < float("inf")}
         return min(feasible, key=feasible.get) if feasible else None
+
+
+def default_max_stages(minimum_stages: float) -> int:
+    """Largest stage count searched when the options give none [-]: ``STAGE_BOUND_FACTOR`` x Fenske's minimum."""
+    return max(STAGE_BOUND_FLOOR, math.ceil(STAGE_BOUND_FACTOR * minimum_stages))
 
 
 def stage_floor(estimate: Shortcut, config) -> int:
@@ -185,8 +216,7 @@ def descend(evaluator: Evaluator, start: tuple[int, int]) -> tuple[int, int]:
     current = start
     value = evaluator.tac(*current)
     while True:
-        moves = [(current[0] + dn, current[1] + df) for dn, df in DIRECTIONS
-                 if evaluator.allowed(current[0] + dn, current[1] + df)]
+        moves = evaluator.neighbours(*current)
         values = {move: evaluator.tac(*move) for move in moves}
         best = min(values, key=values.get) if values else current
         if not values or values[best] >= value * (1.0 - IMPROVEMENT) or values[best] == float("inf"):
@@ -206,6 +236,66 @@ def descend(evaluator: Evaluator, start: tuple[int, int]) -> tuple[int, int]:
             current, value = ahead, evaluator.tac(*ahead)
 
 
+def _search_status(evaluator: Evaluator, chosen: tuple[int, int], neighbours: list, missing: list,
+                   timed_out: bool, config) -> tuple[str, str, tuple[str, ...]]:
+    """(status, termination or "" for the chosen NLP's, warnings) of a finished or stopped search.
+
+    "locally optimal" only when every neighbour of the chosen configuration was solved; a
+    search stopped by its time limit says so in both status and termination.
+    """
+    where = f"N={chosen[0]} NF={chosen[1]}"
+    failed = [n for n in missing if n in evaluator.failures]
+    named = "; ".join(f"N={n} NF={f}: {evaluator.failures[(n, f)]}" for n, f in failed[:3])
+    warnings = ()
+    if failed:
+        warnings += (f"{len(failed)} of the {len(neighbours)} neighbours of the chosen configuration ({where}) did "
+                     f"not solve ({named}{'; ...' if len(failed) > 3 else ''}); they were not counted as "
+                     "infeasible, and the design is the best found, not shown to be a local optimum",)
+    if timed_out:
+        feasible = sum(1 for v in evaluator.designs.values() if v < float("inf"))
+        warnings += (f"the search was stopped by its time limit of {config.time_limit:g} s after "
+                     f"{len(evaluator.designs)} configurations ({feasible} feasible); the design is the best "
+                     f"of those ({where}), and {len(missing)} of its {len(neighbours)} neighbours were not solved: "
+                     "raise the time limit for a local optimum",)
+        return f"time limit; {len(missing)} of {len(neighbours)} neighbours not solved", "maxTimeLimit", warnings
+    if missing:
+        return f"best found; {len(missing)} of {len(neighbours)} neighbours did not solve", "", warnings
+    return "locally optimal (discrete neighbourhood)", "", warnings
+
+
+def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: bool) -> Exception:
+    """The error when no configuration gave a design: time, solver failures or infeasibility."""
+    tried = "; ".join(f"N={s.stages} NF={s.feed_stage}: {s.status}" for s in evaluator.steps[:4])
+    if timed_out:
+        return SolverError(f"time limit of {config.time_limit:g} s reached before any feasible design ({tried})")
+    if evaluator.failures and len(evaluator.failures) == len(evaluator.designs):
+        return SolverError(f"the solver failed on every configuration tried ({len(evaluator.failures)}); "
+                           f"none was shown infeasible ({tried})")
+    failed = f"; {len(evaluator.failures)} of the {len(evaluator.designs)} tried did not solve" \
+        if evaluator.failures else ""
+    return InfeasibleSpecError(
+        f"no column with {config.min_stages} to {config.max_stages} stages meets the product specifications "
+        f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}){failed}; tried {tried}")
+
+
+def final_solve(evaluator: Evaluator, chosen: tuple[int, int]):
+    """Solve the chosen configuration again for the full read-back, from its own solved profile.
+
+    Restarting from the solution takes a few iterations; a cold re-solve can stall where the
+    search's solve did not (measured: a 25-bar deethaniser with a partial condenser, whose
+    chosen configuration needed the constant-molar-overflow homotopy).
+    """
+    problem, basis, config = evaluator.problem, evaluator.basis, evaluator.config
+    strategies = evaluator.strategies or None
+    start = evaluator.profiles.get(chosen)
+    if start is not None:
+        try:
+            return solved_model(problem, basis, *chosen, config, start=start, strategies=strategies)
+        except (SolverError, InfeasibleSpecError):
+            pass
+    return solved_model(problem, basis, *chosen, config, strategies=strategies)
+
+
 def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> OptimumDesign:
     """Lowest-TAC design: discrete descent over (N, NF), NLP in (R, D) for each configuration.
 
@@ -216,25 +306,23 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
     config = model_options(options)
     check_problem(problem)
     estimate = shortcut(problem)
+    if config.max_stages is None:
+        config.max_stages = default_max_stages(estimate.minimum_stages)
+    check_stage_bound(estimate, config.max_stages)
     clock = time.perf_counter()
     evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
-    status = "locally optimal (discrete neighbourhood)"
+    timed_out = False
     try:
         stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
         feed = feed_search(evaluator, stages, feed)
         ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
         descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
     except TimeoutError:
-        status = "time limit"
+        timed_out = True
     chosen = evaluator.best()
     if chosen is None:
-        tried = "; ".join(f"N={s.stages} NF={s.feed_stage}: {s.status}" for s in evaluator.steps[:4])
-        if status == "time limit":
-            raise SolverError(f"time limit of {config.time_limit:g} s reached before any feasible design ({tried})")
-        raise InfeasibleSpecError(
-            f"no column with {config.min_stages} to {config.max_stages} stages meets the product specifications "
-            f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}); tried {tried}")
-    model, local = solved_model(problem, basis, *chosen, config, strategies=evaluator.strategies or None)
+        raise _nothing_found(evaluator, estimate, config, timed_out)
+    model, local = final_solve(evaluator, chosen)
     best = read_design(model, local)
     gap, message = None, ""
     if config.certify:
@@ -243,8 +331,13 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None) -> Opti
         message = (f"{bound.solver} on the best configuration: {bound.status}, gap "
                    f"{'unknown' if gap is None else f'{100 * gap:.3g} %'} after {bound.wall_time:.1f} s")
     wall = time.perf_counter() - clock
-    report = SolverReport(config.solver, status, best.solver.termination, gap, wall, len(evaluator.designs), message)
-    warnings = best.warnings
+    neighbours = evaluator.neighbours(*chosen)
+    missing = [n for n in neighbours if n in evaluator.failures or n not in evaluator.designs]
+    status, termination, warnings = _search_status(evaluator, chosen, neighbours, missing, timed_out, config)
+    report = SolverReport(config.solver, status, termination or best.solver.termination, gap, wall,
+                          len(evaluator.designs), message, unsolved=evaluator.unsolved(),
+                          neighbours=len(neighbours), neighbours_unsolved=len(missing))
+    warnings = best.warnings + warnings
     if best.stages == config.max_stages:
         warnings += (f"the optimum lies at the largest stage count allowed ({config.max_stages}); "
                      "raise max_stages to look further",)

@@ -1,4 +1,4 @@
-"""Component names and CAS numbers resolved through the chemicals databank."""
+"""Component names, synonyms, CAS numbers and formulas resolved exactly through the chemicals databank."""
 
 from __future__ import annotations
 
@@ -11,6 +11,7 @@ from chemicals.identifiers import CAS_from_any, dippr_compounds, search_chemical
 from .._base.errors import CaseError
 
 POLAR_ELEMENTS = frozenset({"O", "N", "S", "F", "Cl", "Br", "I", "P"})
+OBSOLETE = "(obs.)"  # how the databank marks an obsolete synonym
 
 
 @dataclass(frozen=True)
@@ -50,22 +51,43 @@ def close_matches(text: str, count: int = 5) -> list[str]:
     return difflib.get_close_matches(text.lower(), _known_names(), n=count, cutoff=0.6)
 
 
+def _exact_names(meta) -> set[str]:
+    """Every spelling that names ``meta`` exactly: CAS, names, formula, current synonyms (lower case).
+
+    A synonym the databank also lists as obsolete ("benzine (obs.)") is left out: an obsolete
+    name today means something else (benzine is a petroleum cut), so it is not a name.
+    """
+    synonyms = {s.lower() for s in meta.synonyms}
+    obsolete = {s[:-len(OBSOLETE)].strip() for s in synonyms if s.endswith(OBSOLETE)}
+    names = {meta.CASs, meta.common_name, meta.iupac_name, meta.formula}
+    return {n.lower() for n in names if n} | (synonyms - obsolete)
+
+
 def resolve_component(text: str, field: str = "mixture.components") -> ComponentId:
-    """Resolve a name or CAS number; raise CaseError listing close matches when unknown."""
+    """Resolve a name, synonym, CAS number or formula matching the databank exactly (any case).
+
+    The databank's own search also accepts near spellings; a name it finds that is not one of
+    the chemical's exact names is refused with close matches, never substituted.
+    """
     try:
-        cas = CAS_from_any(text)
-        meta = search_chemical(cas)
+        meta = search_chemical(CAS_from_any(text.strip()))
+        exact = text.strip().lower() in _exact_names(meta)
     except ValueError:
+        meta, exact = None, False
+    if not exact:
         matches = close_matches(text)
-        hint = ", ".join(matches) if matches else "a name or CAS number from the thermo/chemicals databank"
+        if meta is not None and meta.common_name not in matches:
+            matches.insert(0, meta.common_name)
+        hint = ", ".join(matches) if matches else "a name, synonym, CAS number or formula from the " \
+                                                   "thermo/chemicals databank, spelt exactly"
         raise CaseError(field, f"unknown component {text!r}", f"close matches: {hint}" if matches else hint,
                         text) from None
-    return ComponentId(text, cas, meta.common_name, meta.formula)
+    return ComponentId(text, meta.CASs, meta.common_name, meta.formula)
 
 
 def resolve_components(names: tuple[str, ...]) -> tuple[ComponentId, ...]:
     """Resolve every component; two names for one chemical are an error."""
-    resolved = tuple(resolve_component(name) for name in names)
+    resolved = tuple(resolve_component(name, f"mixture.components[{k}]") for k, name in enumerate(names))
     seen: dict[str, str] = {}
     for component in resolved:
         if component.cas in seen:

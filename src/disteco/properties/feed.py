@@ -15,7 +15,10 @@ STANDARD_T = 288.15  # K; volumetric feed flows are taken as liquid at 15 degC (
 
 @dataclass(frozen=True)
 class FeedState:
-    """Feed molar flow [mol/s], composition [-], pressure [Pa], q [-] and enthalpy [J/mol]."""
+    """Feed molar flow [mol/s], composition [-], its own pressure [Pa], q [-] and enthalpy [J/mol].
+
+    ``bubble_T`` and ``dew_T`` are those of the feed composition at the column pressure it enters.
+    """
 
     molar_flow: float
     z: tuple[float, ...]
@@ -39,12 +42,18 @@ def feed_molar_flow(feed: Feed, mixture: Mixture) -> float:
 
 
 def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
-    """Feed state at ``pressure`` [Pa] (the feed's own pressure if given, else the caller's).
+    """Feed state entering a column at ``pressure`` [Pa].
 
-    q = (H_dew_vapour - H_feed) / (H_dew_vapour - H_bubble_liquid): the fraction of the
-    feed that joins the liquid flow (McCabe-Thiele convention).
+    q = (H_dew - H_feed) / (H_dew - H_bubble): the fraction of the feed that joins the
+    liquid flow (McCabe-Thiele convention), with H_dew and H_bubble the saturated vapour and
+    liquid of the feed composition at ``pressure``, where the feed enters, and H_feed the
+    feed's enthalpy at its own pressure (``feed.pressure``, default ``pressure``): a feed
+    let down through a valve keeps its enthalpy and flashes on entry. The enthalpies are the
+    mixture's (``Mixture.liquid_enthalpy``/``vapour_enthalpy``: the equation of state's own
+    for Peng-Robinson).
     """
-    P = feed.pressure or pressure
+    P = pressure
+    P_feed = feed.pressure or pressure
     z = feed.composition
     bubble = mixture.bubble_point(P, z)
     dew = mixture.dew_point(P, z)
@@ -57,30 +66,35 @@ def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
         h_feed = h_vapour - q * latent
         T = _temperature_of(q, bubble.T, dew.T)
     elif condition.kind == "vapour_fraction":
-        q = 1.0 - condition.value
-        point = mixture.flash_pvf(P, condition.value, z)
+        point = mixture.flash_pvf(P_feed, condition.value, z)
         T = point.T
-        h_feed = (1.0 - condition.value) * mixture.liquid_enthalpy(T, P, point.x) \
-            + condition.value * mixture.vapour_enthalpy(T, P, point.y)
+        h_feed = _two_phase_enthalpy(mixture, point)
         q = (h_vapour - h_feed) / latent
     else:
         T = condition.value
-        if T <= bubble.T:
-            h_feed = mixture.liquid_enthalpy(T, P, z)
-        elif T >= dew.T:
-            h_feed = mixture.vapour_enthalpy(T, P, z)
+        own_bubble, own_dew = (bubble, dew) if P_feed == P else (mixture.bubble_point(P_feed, z),
+                                                                 mixture.dew_point(P_feed, z))
+        if T <= own_bubble.T:
+            h_feed = mixture.liquid_enthalpy(T, P_feed, z)
+        elif T >= own_dew.T:
+            h_feed = mixture.vapour_enthalpy(T, P_feed, z)
         else:
-            point = mixture.flash_tp(T, P, z)
-            vf = point.vapour_fraction
-            h_feed = (1.0 - vf) * mixture.liquid_enthalpy(T, P, point.x) + vf * mixture.vapour_enthalpy(T, P, point.y)
+            h_feed = _two_phase_enthalpy(mixture, mixture.flash_tp(T, P_feed, z))
         q = (h_vapour - h_feed) / latent
     if not -5.0 <= q <= 5.0:
         raise InfeasibleSpecError(
             f"feed thermal condition: q = {q:.3g} is outside -5 to 5 (feed at {T - 273.15:.1f} degC against "
             f"bubble point {bubble.T - 273.15:.1f} degC and dew point {dew.T - 273.15:.1f} degC); "
             "check the feed temperature and pressure")
-    return FeedState(feed_molar_flow(feed, mixture), tuple(z), P, float(q), float(h_feed),
+    return FeedState(feed_molar_flow(feed, mixture), tuple(z), P_feed, float(q), float(h_feed),
                      bubble.T, dew.T, float(T))
+
+
+def _two_phase_enthalpy(mixture: Mixture, point) -> float:
+    """Molar enthalpy of a two-phase state: liquid and vapour weighted by the vapour fraction [J/mol]."""
+    vf = point.vapour_fraction
+    return (1.0 - vf) * mixture.liquid_enthalpy(point.T, point.P, point.x) \
+        + vf * mixture.vapour_enthalpy(point.T, point.P, point.y)
 
 
 def _temperature_of(q: float, bubble_T: float, dew_T: float) -> float:

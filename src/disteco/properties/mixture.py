@@ -7,18 +7,23 @@ object.
 
 from __future__ import annotations
 
+from contextlib import contextmanager
 from dataclasses import dataclass
 from functools import cached_property, lru_cache
 
 import numpy as np
+from chemicals.interface import Winterfeld_Scriven_Davis
 from scipy.optimize import brentq
 from thermo import (CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL, GibbsExcessLiquid,
                     IdealGas, NRTL, PRMIX, UNIFAC, Wilson)
 from thermo.unifac import DOUFIP2016, DOUFSG
 
-from .._base.errors import CaseError, PropertyError
+from .._base.errors import CaseError, InfeasibleSpecError, PropertyError
 from ..case import Thermo
 from .components import ComponentId, resolve_components
+from .vle_fallback import NoSplit, isothermal_split, saturation_point, wilson_k, wilson_start
+from .critical import (extrapolated_surface_tension, log_mixing, supercritical_liquid_density,
+                       supercritical_liquid_viscosity, supercritical_surface_tension)
 
 HIGH_PRESSURE = 1e6  # Pa; above this the automatic choice is Peng-Robinson (common practice, no source)
 REFERENCE_T = 298.15  # K
@@ -35,6 +40,31 @@ class PhasePoint:
     y: tuple[float, ...]
 
 
+# Pure-component correlations, in order of preference, for the properties sizing uses. thermo's
+# own default for many components is a fit labelled with the name of an existing program; data
+# so labelled is not used here, so a published correlation or data compilation is chosen instead.
+PUBLISHED_METHODS = {
+    "SurfaceTensions": ("SOMAYAJULU2", "SOMAYAJULU", "JASPER", "VDI_PPDS", "MIQUEU", "BROCK_BIRD", "PITZER_SIGMA",
+                        "SASTRI_RAO", "ZUO_STENBY", "Aleem"),
+    "ViscosityLiquids": ("DIPPR_PERRY_8E", "VDI_PPDS", "DUTT_PRASAD", "VISWANATH_NATARAJAN_3",
+                         "VISWANATH_NATARAJAN_2", "LETSOU_STIEL", "PRZEDZIECKI_SRIDHAR", "JOBACK"),
+    "ViscosityGases": ("DIPPR_PERRY_8E", "VDI_PPDS", "LUCAS_GAS", "STIEL_THODOS", "YOON_THODOS", "GHARAGHEIZI"),
+    "ThermalConductivityLiquids": ("DIPPR_PERRY_8E", "VDI_PPDS", "SATO_RIEDEL", "LAKSHMI_PRASAD", "GHARAGHEIZI_L"),
+    "ThermalConductivityGases": ("DIPPR_PERRY_8E", "VDI_PPDS", "CHUNG", "EUCKEN_MOD", "EUCKEN"),
+}
+
+
+def choose_published_methods(correlations) -> None:
+    """Set each pure-component correlation named in :data:`PUBLISHED_METHODS` to the first listed
+    method thermo has data for (a component with none of them keeps thermo's choice)."""
+    for group, preferred in PUBLISHED_METHODS.items():
+        for correlation in getattr(correlations, group, None) or ():
+            available = correlation.all_methods
+            chosen = next((m for m in preferred if m in available), None)
+            if chosen is not None:
+                correlation.method = chosen
+
+
 class Mixture:
     """Phase equilibrium and physical properties of one mixture over thermo.
 
@@ -47,7 +77,10 @@ class Mixture:
         self.method = method
         ids = [c.cas for c in components]
         self._constants, self._correlations = ChemicalConstantsPackage.from_IDs(ids)
+        choose_published_methods(self._correlations)
         self._flasher = self._make_flasher(thermo_spec)
+        self._notes: dict[str, str] = {}
+        self._quiet = False
 
     # ------------------------------------------------------------ set-up
     def _make_flasher(self, spec: Thermo) -> FlashVL:
@@ -120,7 +153,8 @@ class Mixture:
     def _flash(self, **kwargs):
         zs = [float(v) for v in kwargs.pop("zs")]
         try:
-            return self._flasher.flash(zs=zs, **kwargs)
+            with np.errstate(all="ignore"):
+                return self._flasher.flash(zs=zs, **kwargs)
         except Exception as exc:  # thermo raises many kinds; ours names the state
             state = ", ".join(f"{k}={v:.6g}" for k, v in kwargs.items())
             raise PropertyError(f"phase equilibrium failed at {state}, z={np.round(zs, 6).tolist()}: {exc}") \
@@ -140,7 +174,7 @@ class Mixture:
         directly in T; this also holds at an azeotrope, where a general flash struggles.
         """
         if self.method == "peng-robinson":
-            return self._point(self._flash(P=P, VF=0.0, zs=x), P)
+            return self.flash_pvf(P, 0.0, x)
         x = np.asarray(x, dtype=float)
 
         def residual(T):
@@ -168,15 +202,62 @@ class Mixture:
 
     def dew_point(self, P: float, y) -> PhasePoint:
         """Dew temperature and incipient liquid of vapour ``y`` at ``P`` [Pa]."""
-        return self._point(self._flash(P=P, VF=1.0, zs=y), P)
+        return self.flash_pvf(P, 1.0, y)
 
     def flash_tp(self, T: float, P: float, z) -> PhasePoint:
-        """Isothermal flash at ``T`` [K] and ``P`` [Pa]."""
-        return self._point(self._flash(T=T, P=P, zs=z), P)
+        """Isothermal flash at ``T`` [K] and ``P`` [Pa] (second route as for :meth:`flash_pvf`)."""
+        try:
+            return self._point(self._flash(T=T, P=P, zs=z), P)
+        except PropertyError as failure:
+            c = self._constants
+            z = np.asarray(z, dtype=float)
+            try:
+                beta, x, y = isothermal_split(lambda T, x, y: self.k_values(T, P, x, y), T, z,
+                                              wilson_k(T, P, c.Tcs, c.Pcs, c.omegas))
+            except NoSplit:
+                self._no_split(P, z, failure)
+            self._note_fallback()
+            return PhasePoint(float(T), P, float(beta), tuple(map(float, x)), tuple(map(float, y)))
 
     def flash_pvf(self, P: float, vapour_fraction: float, z) -> PhasePoint:
-        """Flash at ``P`` [Pa] and a molar vapour fraction [-]."""
-        return self._point(self._flash(P=P, VF=vapour_fraction, zs=z), P)
+        """Flash at ``P`` [Pa] and a molar vapour fraction [-].
+
+        Where thermo's flash fails, the equilibrium is solved again on the same fugacities by
+        :mod:`.vle_fallback`; where no vapour-liquid split exists at ``P`` that is an
+        infeasible request (:meth:`_no_split`).
+        """
+        try:
+            return self._point(self._flash(P=P, VF=vapour_fraction, zs=z), P)
+        except PropertyError as failure:
+            return self._fallback_pvf(P, vapour_fraction, z, failure)
+
+    def _fallback_pvf(self, P: float, vapour_fraction: float, z, failure: PropertyError) -> PhasePoint:
+        c = self._constants
+        z = np.asarray(z, dtype=float)
+        try:
+            T0, k0 = wilson_start(P, z, vapour_fraction, c.Tcs, c.Pcs, c.omegas)
+            T, x, y = saturation_point(lambda T, x, y: self.k_values(T, P, x, y), z, vapour_fraction, T0, k0)
+        except (NoSplit, ValueError):
+            self._no_split(P, z, failure)
+        self._note_fallback()
+        return PhasePoint(T, P, float(vapour_fraction), tuple(map(float, x)), tuple(map(float, y)))
+
+    def _note_fallback(self) -> None:
+        self._note("fallback-flash", "thermo's flash failed on some states; they were solved by disteco's own "
+                   "successive-substitution route on the same equation of state (see DEVELOPERS.md)")
+
+    def _no_split(self, P: float, z, failure: PropertyError):
+        """Raise: no vapour-liquid split at ``P``; infeasible above a present component's critical pressure."""
+        present = [i for i, zi in enumerate(z) if zi > 1e-9]
+        critical = ", ".join(f"{self.names[i]} {self.critical_pressures[i] / 1e5:.4g} bar" for i in present)
+        fluid = ", ".join(f"{self.names[i]} {z[i]:.4g}" for i in present)
+        if P >= min(self.critical_pressures[i] for i in present):
+            raise InfeasibleSpecError(
+                f"no vapour-liquid split exists at {P / 1e5:.4g} bar for a fluid of mole fractions {fluid}: "
+                "the pressure is at or above the mixture's critical region "
+                f"(critical pressures: {critical}), where liquid and vapour become one fluid; "
+                "lower the column pressure") from None
+        raise failure
 
     def k_values(self, T: float, P: float, x, y=None) -> np.ndarray:
         """Equilibrium ratios K_i = y_i/x_i = phi_i^L(x)/phi_i^V(y) [-] (y defaults to x)."""
@@ -194,6 +275,27 @@ class Mixture:
     def liquid_enthalpy(self, T: float, P: float, x) -> float:
         """Molar enthalpy of liquid ``x`` [J/mol] (ideal-gas elements reference of thermo)."""
         return float(self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).H())
+
+    def liquid_root_exists(self, T: float, P: float, x) -> bool:
+        """False where the equation of state has no liquid-like root at (T, P, x): thermo's "liquid" is then the vapour.
+
+        Activity-coefficient and ideal liquids always exist.
+        """
+        if self.method != "peng-robinson":
+            return True
+        return "l" in self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).eos_mix.phase
+
+    def dilute_liquid_enthalpy(self, T: float, P: float, i: int, solvent: int) -> float | None:
+        """Partial molar enthalpy of component ``i`` at infinite dilution in liquid ``solvent`` [J/mol].
+
+        H + dH/dn_i of the pure solvent liquid; None where the solvent has no liquid root.
+        """
+        zs = [0.0] * self.size
+        zs[solvent] = 1.0
+        liquid = self._flasher.liquid.to(T=T, P=P, zs=zs)
+        if not self.liquid_root_exists(T, P, zs):
+            return None
+        return float(liquid.H() + liquid.dH_dns()[i])
 
     def vapour_enthalpy(self, T: float, P: float, y) -> float:
         """Molar enthalpy of vapour ``y`` [J/mol]."""
@@ -214,9 +316,57 @@ class Mixture:
         mass = self.molar_masses * np.asarray(z, dtype=float)
         return list(mass / mass.sum())
 
+    # ------------------------------------------------------------ warnings channel
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        """Notes on property routes taken since the last :meth:`clear_warnings` (in order, no repeats)."""
+        return tuple(self._notes.values())
+
+    def clear_warnings(self) -> None:
+        """Forget the notes (the mixture is cached across runs; a run starts by clearing them)."""
+        self._notes.clear()
+
+    def _note(self, key: str, text: str) -> None:
+        if not self._quiet:
+            self._notes.setdefault(key, text)
+
+    @contextmanager
+    def quiet(self):
+        """No notes inside: pure-component states probed to fit closed forms are not column states."""
+        self._quiet = True
+        try:
+            yield self
+        finally:
+            self._quiet = False
+
+    def _supercritical(self, T: float, x) -> list[int]:
+        """Components present in liquid ``x`` at or above their critical temperature at ``T`` [K]."""
+        found = [i for i, (xi, Tc) in enumerate(zip(x, self.critical_temperatures)) if xi > 0.0 and T >= Tc]
+        for i in found:
+            self._note(f"supercritical:{i}",
+                       f"{self.names[i]} is above its critical temperature ({self.critical_temperatures[i] - 273.15:.1f} "
+                       "degC) in column liquids: their surface tension is taken by the Diguilio-Teja rule, "
+                       "density by the Hankinson-Thomson (COSTALD) mixture rule and this component's viscosity "
+                       "by Letsou-Stiel extrapolated (see DEVELOPERS.md, Thermodynamics)")
+        return found
+
+    # ------------------------------------------------------------ transport and density
+    def molar_mass(self, z) -> float:
+        """Mean molar mass [kg/mol]."""
+        return float(np.dot(self.molar_masses, z))
+
+    def mass_fractions(self, z) -> list[float]:
+        mass = self.molar_masses * np.asarray(z, dtype=float)
+        return list(mass / mass.sum())
+
     def liquid_density(self, T: float, P: float, x) -> float:
-        """Liquid mass density [kg/m^3] from thermo's mixture liquid-volume correlation."""
-        volume = self._correlations.VolumeLiquidMixture(T, P, [float(v) for v in x], self.mass_fractions(x))
+        """Liquid mass density [kg/m^3]: thermo's mixture liquid-volume correlation, or the
+        COSTALD mixture rule when a component is supercritical (``critical`` module)."""
+        x = [float(v) for v in x]
+        if self._supercritical(T, x):
+            c = self._constants
+            return supercritical_liquid_density(T, x, self.molar_masses, c.Tcs, c.Vcs, c.omegas)
+        volume = self._correlations.VolumeLiquidMixture(T, P, x, self.mass_fractions(x))
         return self.molar_mass(x) / volume
 
     def vapour_density(self, T: float, P: float, y) -> float:
@@ -224,14 +374,43 @@ class Mixture:
         return self.molar_mass(y) / float(self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y]).V())
 
     def liquid_viscosity(self, T: float, P: float, x) -> float:
-        """Liquid dynamic viscosity [Pa s]."""
-        return float(self._correlations.ViscosityLiquidMixture(T, P, [float(v) for v in x],
-                                                               self.mass_fractions(x)))
+        """Liquid dynamic viscosity [Pa s]; supercritical components by Letsou-Stiel (``critical`` module)."""
+        x = [float(v) for v in x]
+        hot = self._supercritical(T, x)
+        if not hot:
+            return float(self._correlations.ViscosityLiquidMixture(T, P, x, self.mass_fractions(x)))
+        c, props = self._constants, self._correlations
+        values = [supercritical_liquid_viscosity(T, c.Tcs[i], c.Pcs[i], c.omegas[i], self.molar_masses[i],
+                                                 props.ViscosityGases[i](T, P))
+                  if i in hot else props.ViscosityLiquids[i](T, P) for i in range(self.size)]
+        return log_mixing(x, values)
 
     def surface_tension(self, T: float, x) -> float:
-        """Liquid surface tension [N/m]."""
-        return float(self._correlations.SurfaceTensionMixture(T, 101325.0, [float(v) for v in x],
-                                                              self.mass_fractions(x)))
+        """Liquid surface tension [N/m]; near-critical and supercritical routes of the ``critical`` module."""
+        x = [float(v) for v in x]
+        if self._supercritical(T, x):
+            c = self._constants
+            sigmas_Tb = [s(tb) for s, tb in zip(self._correlations.SurfaceTensions, c.Tbs)]
+            return supercritical_surface_tension(T, x, sigmas_Tb, c.Tbs, c.Tcs)
+        sigma = self._correlations.SurfaceTensionMixture(T, 101325.0, x, self.mass_fractions(x))
+        if sigma is not None:
+            return float(sigma)
+        sigmas = [self._pure_surface_tension(i, T) for i in range(self.size)]
+        volumes = [v(T, 101325.0) for v in self._correlations.VolumeLiquids]
+        return float(Winterfeld_Scriven_Davis(x, sigmas, [1.0 / v for v in volumes]))
+
+    def _pure_surface_tension(self, i: int, T: float) -> float:
+        correlation = self._correlations.SurfaceTensions[i]
+        sigma = correlation(T)
+        if sigma is not None:
+            return float(sigma)
+        T_end = correlation.T_limits[correlation.method][1]
+        self._note(f"near-critical:{i}",
+                   f"{self.names[i]} is near its critical temperature ({self.critical_temperatures[i] - 273.15:.1f} "
+                   f"degC) in column liquids, beyond the databank's surface-tension fit (to {T_end - 273.15:.1f} "
+                   "degC): its surface tension is extrapolated to vanish at the critical point "
+                   "(corresponding states, exponent 11/9)")
+        return extrapolated_surface_tension(T, float(correlation(T_end)), T_end, self.critical_temperatures[i])
 
     def liquid_heat_capacity(self, T: float, P: float, x) -> float:
         """Liquid molar heat capacity [J/(mol K)]."""

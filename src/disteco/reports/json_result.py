@@ -147,7 +147,11 @@ def solver_json(report: SolverReport, model_tac: float | None) -> dict:
     return {"solver": report.solver, "status": report.status, "termination": report.termination,
             "gap": report.gap, "wall_time_s": report.wall_time,
             "configurations_solved": report.configurations_solved, "message": report.message,
-            "model_tac_per_year": model_tac}
+            "model_tac_per_year": model_tac,
+            "unsolved": {"neighbours_of_chosen": report.neighbours,
+                         "neighbours_of_chosen_unsolved": report.neighbours_unsolved,
+                         "configurations": [{"stages": u.stages, "feed_stage": u.feed_stage, "reason": u.status}
+                                            for u in report.unsolved]}}
 
 
 def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None) -> dict:

@@ -56,6 +56,8 @@ def design_text(result: DesignResult) -> str:
     if profile is None:
         return "\n".join(lines)
     heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
+    if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:
+        heading = "Best design found (search incomplete, see the warnings)"
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
@@ -74,8 +76,9 @@ def design_text(result: DesignResult) -> str:
     optimum = parts.optimum
     if optimum is not None:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
+        failed = f" ({len(optimum.solver.unsolved)} did not solve)" if optimum.solver.unsolved else ""
         lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
-                     f"configurations solved in {optimum.solver.wall_time:.1f} s")
+                     f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s")
     if len(parts.scenarios) > 1:
         lines.append("Scenario optima: " + "; ".join(
             f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC {o.best.tac:,.0f} per year"

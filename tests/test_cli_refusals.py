@@ -1,0 +1,89 @@
+"""Given designs and optimiser options the command line must refuse: exit 2, one line naming the option.
+
+Each refusal happens before any solver call (checks on the decisions, then Fenske's and
+Underwood's minima on the column's fitted forms), so these tests are fast.
+"""
+
+import math
+
+import pytest
+
+from disteco._base.errors import CaseError, InfeasibleDesignError, SolverError
+from disteco.api import GivenDesign
+from disteco.cli import main
+from disteco.optimisation.given import check_given_design, explain_failure
+from disteco.optimisation.options import model_options
+from disteco.optimisation.start import Shortcut
+
+from conftest import EXAMPLES
+
+CASE = str(EXAMPLES / "aromatics_binary.toml")
+
+
+@pytest.mark.parametrize("arguments, option, fragment", [
+    ("--time-limit 0", "--time-limit", "a finite number above 0 s"),
+    ("--time-limit -1", "--time-limit", "a finite number above 0 s"),
+    ("--time-limit nan", "--time-limit", "a finite number above 0 s"),
+    ("--gap -1", "--gap", "a finite number at least 0"),
+    ("--gap nan", "--gap", "a finite number at least 0"),
+    ("--max-stages 0", "--max-stages", "a whole number at least 3"),
+    ("--max-stages 2", "--max-stages", "a whole number at least 3"),
+    ("--max-stages 5", "--max-stages", "not above the minimum of 9.40 stages"),
+    ("--reflux inf --stages 30 --feed-stage 15", "--reflux", "a finite number above 0"),
+    ("--reflux nan --stages 30 --feed-stage 15", "--reflux", "a finite number above 0"),
+    ("--reflux -1 --stages 30 --feed-stage 15", "--reflux", "a finite number above 0"),
+    ("--reflux 1e9 --stages 30 --feed-stage 15", "--reflux", "above the highest the model allows (50"),
+    ("--reflux 1.0 --stages 30 --feed-stage 15", "--reflux", "at or below the minimum reflux ratio 1.59"),
+    ("--reflux 2 --stages 25 --feed-stage 25", "--feed-stage", "a stage from 2 to 24"),
+    ("--reflux 2 --stages 25 --feed-stage 1", "--feed-stage", "a stage from 2 to 24"),
+    ("--reflux 2 --stages 2 --feed-stage 1", "--stages", "a whole number of at least 3"),
+    ("--reflux 2 --stages 5 --feed-stage 3", "--stages", "fewer than the minimum of 9.40 (Fenske/McCabe-Thiele"),
+    ("--reflux 100 --stages 6 --feed-stage 3", "--stages", "fewer than the minimum of 9.40"),
+    ("--reflux 2 --stages 30", "--reflux/--stages/--feed-stage", "only some of the three"),
+])
+def test_refused_with_exit_2_and_the_option_named(tmp_path, capsys, arguments, option, fragment):
+    """Benzene-toluene example (minimum stages 9.40 by Fenske on the fitted forms, minimum reflux 1.59
+    by Underwood; regression values that only guard against change): each bad option or given design
+    exits 2 with one line that starts with the option and says what is allowed; nothing is written."""
+    code = main(["design", CASE, "-o", str(tmp_path / "out"), "-q", *arguments.split()])
+    err = capsys.readouterr().err
+    assert code == 2
+    lines = err.strip().splitlines()
+    assert len(lines) == 1, err
+    assert lines[0].startswith(f"error: {option}: ")
+    assert fragment in lines[0]
+    assert not (tmp_path / "out").exists()
+
+
+def test_options_name_the_field_from_the_api():
+    """The Python API names the option itself (the command line renames it)."""
+    with pytest.raises(CaseError, match="time_limit: nan is not allowed"):
+        model_options({"time_limit": math.nan})
+    with pytest.raises(CaseError, match="no_such_option: unknown optimiser option"):
+        model_options({"no_such_option": 1})
+    assert model_options({"max_stages": 40.0}).max_stages == 40
+
+
+def test_given_design_fields_from_the_api():
+    with pytest.raises(CaseError, match="feed_stage: feed on stage 10 of a 10-stage column"):
+        GivenDesign(2.0, 10, 10)
+
+
+ESTIMATE = Shortcut(alpha=(2.4, 1.0), distillate=(0.5, 0.01), minimum_reflux=1.5, minimum_stages=9.4)
+
+
+def test_minimum_stages_checked_before_reflux():
+    """Fewer stages than the minimum is named first, whatever the reflux (a reflux of 100 too)."""
+    with pytest.raises(InfeasibleDesignError, match="9 stages is fewer than the minimum of 9.40") as caught:
+        check_given_design(ESTIMATE, 100.0, 9, 5, reflux_max=50.0)
+    assert caught.value.field == "stages"
+
+
+def test_solver_failure_short_of_gilliland_stages_is_explained():
+    """A failed solve on a design with fewer stages than Gilliland's estimate (Molokanov form) is
+    explained as short of stages; one with more stages keeps the solver's own error."""
+    failure = SolverError("stalled")
+    explained = explain_failure(ESTIMATE, 1.8, 12, failure)
+    assert isinstance(explained, InfeasibleDesignError) and explained.field == "stages"
+    assert "Gilliland's correlation asks for about" in str(explained)
+    assert explain_failure(ESTIMATE, 1.8, 80, failure) is failure

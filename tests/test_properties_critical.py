@@ -1,0 +1,153 @@
+"""Near-critical and supercritical liquids, and the second flash route on the equation of state.
+
+Validation tests name their reference beside each check; the reference library is
+thermo/chemicals (pure-component correlations and the Peng-Robinson equation of state).
+"""
+
+import numpy as np
+import pytest
+from thermo import ChemicalConstantsPackage, PR
+
+from disteco._base.errors import InfeasibleSpecError
+from disteco.case import Thermo
+from disteco.properties import build_mixture
+from disteco.properties.critical import (extrapolated_surface_tension, supercritical_liquid_density,
+                                         supercritical_liquid_viscosity, supercritical_surface_tension)
+
+C3_C4 = ("propane", "isobutane", "n-butane")
+
+
+@pytest.fixture(scope="module")
+def depropaniser():
+    return build_mixture(C3_C4, Thermo("peng-robinson"), 17e5)
+
+
+@pytest.fixture(scope="module")
+def propane_data():
+    return ChemicalConstantsPackage.from_IDs(["propane", "n-butane"])
+
+
+def test_extrapolated_surface_tension_against_somayajulu(propane_data):
+    """Propane at 366 K (Tr 0.99), past the end of thermo's default fit (364 K), against the
+    Somayajulu fit valid to the critical point (Somayajulu, G. R., Int. J. Thermophys. 9 (1988)
+    559, as shipped by thermo: method SOMAYAJULU2). Tolerance 10 %."""
+    constants, correlations = propane_data
+    sigma = correlations.SurfaceTensions[0]
+    T_end = sigma.T_limits[sigma.method][1]
+    ours = extrapolated_surface_tension(366.0, sigma(T_end), T_end, constants.Tcs[0])
+    assert ours == pytest.approx(sigma.calculate(366.0, "SOMAYAJULU2"), rel=0.10)
+    assert extrapolated_surface_tension(constants.Tcs[0], sigma(T_end), T_end, constants.Tcs[0]) == 0.0
+
+
+def test_costald_route_against_thermo_pure_propane_density(propane_data):
+    """Saturated liquid propane at 330 K by the Hankinson-Thomson (COSTALD) route against thermo's
+    default pure-propane liquid volume (a fit to the reference equation of state, thermo method
+    HEOS_FIT). Tolerance 1 %."""
+    constants, correlations = propane_data
+    mw = constants.MWs[0] * 1e-3
+    ours = supercritical_liquid_density(330.0, [1.0], [mw], constants.Tcs[:1], constants.Vcs[:1],
+                                        constants.omegas[:1])
+    assert ours == pytest.approx(mw / correlations.VolumeLiquids[0](330.0, 101325.0), rel=0.01)
+
+
+def test_letsou_stiel_route_against_thermo_pure_propane_viscosity(propane_data):
+    """Liquid propane at 355 K (Tr 0.96, inside Letsou-Stiel's range 0.76-0.98) against thermo's
+    default pure-propane liquid viscosity. Tolerance 10 % (Letsou-Stiel's stated average error is
+    larger; this checks the route's inputs and units)."""
+    constants, correlations = propane_data
+    ours = supercritical_liquid_viscosity(355.0, constants.Tcs[0], constants.Pcs[0], constants.omegas[0],
+                                          constants.MWs[0] * 1e-3, 0.0)
+    assert ours == pytest.approx(correlations.ViscosityLiquids[0](355.0, 2e6), rel=0.10)
+
+
+def test_diguilio_teja_against_thermo_mixture_rule(propane_data):
+    """Equimolar propane/n-butane at 330 K (both subcritical): Diguilio-Teja against thermo's default
+    mixture rule (Winterfeld, Scriven and Davis). Tolerance 15 %, the spread between the rules."""
+    constants, correlations = propane_data
+    sigmas_Tb = [s(tb) for s, tb in zip(correlations.SurfaceTensions, constants.Tbs)]
+    ours = supercritical_surface_tension(330.0, [0.5, 0.5], sigmas_Tb, constants.Tbs, constants.Tcs)
+    reference = correlations.SurfaceTensionMixture(330.0, 101325.0, [0.5, 0.5], [0.43, 0.57])
+    assert ours == pytest.approx(reference, rel=0.15)
+
+
+@pytest.mark.parametrize("T", [366.0, 372.0, 385.0])
+def test_reboiler_liquid_with_propane_near_or_above_critical(depropaniser, T):
+    """A depropaniser bottoms liquid with propane near (366 K) or above (372, 385 K) its critical
+    temperature 369.9 K: finite properties, never None, and a warning naming propane above it (below
+    it Somayajulu's surface-tension fit, valid up to the critical point, needs no extrapolation)."""
+    depropaniser.clear_warnings()
+    x = [0.02, 0.40, 0.58]
+    sigma = depropaniser.surface_tension(T, x)
+    density = depropaniser.liquid_density(T, 17e5, x)
+    viscosity = depropaniser.liquid_viscosity(T, 17e5, x)
+    assert 1e-4 < sigma < 0.01 and 300.0 < density < 550.0 and 1e-5 < viscosity < 2e-4
+    warned = any("propane" in w and "critical temperature" in w for w in depropaniser.warnings)
+    assert warned == (T > 369.9)
+
+
+def test_liquid_above_its_pseudo_critical_temperature_is_infeasible(depropaniser):
+    with pytest.raises(InfeasibleSpecError, match="pseudo-critical temperature"):
+        depropaniser.surface_tension(400.0, [0.9, 0.05, 0.05])
+
+
+@pytest.fixture(scope="module")
+def c3_splitter():
+    return build_mixture(("propylene", "propane"), Thermo("peng-robinson"), 17e5)
+
+
+def test_fallback_bubble_point_of_nearly_pure_propane(c3_splitter):
+    """Propane with 1e-12 propylene at 17 bar, where thermo's flash fails, against the saturation
+    temperature of pure propane from thermo's Peng-Robinson equation (PR.Tsat). Tolerance 1e-6 K."""
+    constants, _ = ChemicalConstantsPackage.from_IDs(["propane"])
+    reference = PR(Tc=constants.Tcs[0], Pc=constants.Pcs[0], omega=constants.omegas[0], T=300.0,
+                   P=17e5).Tsat(17e5)
+    c3_splitter.clear_warnings()
+    for point in (c3_splitter.bubble_point(17e5, [1e-12, 1.0 - 1e-12]),
+                  c3_splitter.dew_point(17e5, [1e-12, 1.0 - 1e-12])):
+        assert point.T == pytest.approx(reference, abs=1e-6)
+    assert any("successive-substitution" in w for w in c3_splitter.warnings)
+
+
+@pytest.mark.parametrize("vapour_fraction", [0.0, 0.4, 1.0])
+def test_fallback_route_against_thermo_flash(c3_splitter, vapour_fraction):
+    """Where thermo's flash works, the second route finds the same state (same equation of state,
+    solver tolerance only): 1e-6 K and 1e-6 in mole fraction."""
+    reference = c3_splitter.flash_pvf(17e5, vapour_fraction, [0.3, 0.7])
+    ours = c3_splitter._fallback_pvf(17e5, vapour_fraction, [0.3, 0.7], None)
+    assert ours.T == pytest.approx(reference.T, abs=1e-6)
+    assert np.allclose(ours.x, reference.x, atol=1e-6) and np.allclose(ours.y, reference.y, atol=1e-6)
+
+
+def test_pressure_above_the_critical_region_is_infeasible():
+    """n-hexane at 40 bar is above its critical pressure (30.4 bar): no vapour-liquid split."""
+    mixture = build_mixture(("n-pentane", "n-hexane"), Thermo("peng-robinson"), 40e5)
+    with pytest.raises(InfeasibleSpecError, match=r"40 bar.*critical region.*n-hexane 30.\d+ bar"):
+        mixture.bubble_point(40e5, [0.01, 0.99])
+
+
+@pytest.mark.parametrize("T", [300.0, 317.0, 330.0])
+def test_isothermal_second_route_against_thermo_flash(c3_splitter, T):
+    """Isothermal split of propylene/propane at 17 bar below, inside and above the two-phase range:
+    the second route against thermo's flash (same equation of state): 1e-6 in vapour fraction and x."""
+    from disteco.properties.vle_fallback import isothermal_split, wilson_k
+
+    constants = c3_splitter._constants
+    reference = c3_splitter.flash_tp(T, 17e5, [0.5, 0.5])
+    beta, x, _ = isothermal_split(lambda T, x, y: c3_splitter.k_values(T, 17e5, x, y), T, np.array([0.5, 0.5]),
+                                  wilson_k(T, 17e5, constants.Tcs, constants.Pcs, constants.omegas))
+    assert beta == pytest.approx(reference.vapour_fraction, abs=1e-6)
+    assert np.allclose(x, reference.x, atol=1e-6)
+
+
+def test_depentaniser_above_the_critical_pressures_exits_2(tmp_path, capsys):
+    """The depentaniser example at 40 bar (automatic method: Peng-Robinson) is above the critical
+    pressures of its key components: exit 2 with the pressure and critical pressures named."""
+    from conftest import EXAMPLES
+    from disteco.cli import main
+
+    case = tmp_path / "case.toml"
+    case.write_text((EXAMPLES / "depentaniser.toml").read_text().replace('"2.5 bar"', '"40 bar"'))
+    assert main(["check", str(case)]) == 2
+    err = capsys.readouterr().err
+    assert "no vapour-liquid split exists at 40 bar" in err and "n-hexane 30.44 bar" in err
+    assert "Traceback" not in err

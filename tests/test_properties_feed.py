@@ -1,0 +1,55 @@
+"""Feed thermal condition q against a hand calculation with thermo's Peng-Robinson enthalpies."""
+
+import pytest
+from thermo import CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL, PRMIX
+
+from disteco.case import Feed, FeedFlow, ThermalCondition, Thermo
+from disteco.properties import build_mixture, feed_state
+
+NAMES = ("propane", "isobutane", "n-butane")
+Z = (0.40, 0.25, 0.35)
+P_COLUMN = 11e5
+
+
+@pytest.fixture(scope="module")
+def hand():
+    """thermo's own Peng-Robinson flash (zero kij), set up here independently of disteco."""
+    constants, correlations = ChemicalConstantsPackage.from_IDs(list(NAMES))
+    eos = dict(Tcs=constants.Tcs, Pcs=constants.Pcs, omegas=constants.omegas, kijs=[[0.0] * 3 for _ in range(3)])
+    state = dict(T=300.0, P=P_COLUMN, zs=list(Z))
+    gas = CEOSGas(PRMIX, eos_kwargs=eos, HeatCapacityGases=correlations.HeatCapacityGases, **state)
+    liquid = CEOSLiquid(PRMIX, eos_kwargs=eos, HeatCapacityGases=correlations.HeatCapacityGases, **state)
+    return FlashVL(constants, correlations, liquid=liquid, gas=gas)
+
+
+@pytest.fixture(scope="module")
+def mixture():
+    return build_mixture(NAMES, Thermo("peng-robinson"), P_COLUMN)
+
+
+def hand_q(flasher, feed_spec: dict, P_feed: float) -> float:
+    """q = (H_dew - H_feed) / (H_dew - H_bubble), saturation at the column pressure, feed at its own."""
+    h_bubble = flasher.flash(P=P_COLUMN, VF=0.0, zs=list(Z)).H()
+    h_dew = flasher.flash(P=P_COLUMN, VF=1.0, zs=list(Z)).H()
+    h_feed = flasher.flash(P=P_feed, zs=list(Z), **feed_spec).H()
+    return (h_dew - h_feed) / (h_dew - h_bubble)
+
+
+@pytest.mark.parametrize("kind, value, spec, P_feed", [
+    ("temperature", 293.15, {"T": 293.15}, None),  # subcooled liquid, q about 1.29
+    ("temperature", 333.15, {"T": 333.15}, None),  # two-phase feed
+    ("vapour_fraction", 0.3, {"VF": 0.3}, None),
+    ("temperature", 293.15, {"T": 293.15}, 16e5),  # liquid held at 16 bar, let down into the column
+    ("vapour_fraction", 0.0, {"VF": 0.0}, 16e5),  # saturated at 16 bar: flashes on entry, q < 1
+])
+def test_q_against_hand_calculation_with_thermo_pr_enthalpies(hand, mixture, kind, value, spec, P_feed):
+    """Hand calculation with thermo's PR enthalpies (FlashVL with PRMIX phases, built in the test):
+    q = (H_dew - H_feed)/(H_dew - H_bubble). Same equation of state: agreement to 1e-6."""
+    feed = Feed(FeedFlow("molar", 50.0), Z, ThermalCondition(kind, value), P_feed)
+    state = feed_state(feed, mixture, P_COLUMN)
+    assert state.q == pytest.approx(hand_q(hand, spec, P_feed or P_COLUMN), abs=1e-6)
+
+
+def test_saturated_liquid_feed_at_column_pressure_has_q_one(mixture):
+    feed = Feed(FeedFlow("molar", 50.0), Z, ThermalCondition("vapour_fraction", 0.0), None)
+    assert feed_state(feed, mixture, P_COLUMN).q == pytest.approx(1.0, abs=1e-9)

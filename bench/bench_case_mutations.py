@@ -26,7 +26,7 @@ from disteco.cli import main as disteco
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "tests"))
 
-from case_mutations import mutated_cases  # noqa: E402
+from case_mutations import EXAMPLE_NAMES, EXAMPLES, mutated_cases  # noqa: E402
 from test_case_mutations import run_check  # noqa: E402
 
 
@@ -36,15 +36,19 @@ def main() -> None:
     parser.add_argument("--seed", type=int, default=None)
     parser.add_argument("--most", type=int, default=3, help="most mutations per case")
     parser.add_argument("--design", type=int, default=0, help="cases accepted by check to design")
+    parser.add_argument("--all-examples", action="store_true",
+                        help="mutate every example in examples/, not only the three of the suite's test")
     args = parser.parse_args()
     codes: Counter = Counter()
     first_lines: Counter = Counter()
     bad: list[tuple[str, str]] = []
     accepted: list[str] = []
 
+    names = tuple(sorted(p.stem for p in EXAMPLES.glob("*.toml"))) if args.all_examples else EXAMPLE_NAMES
+
     @settings(max_examples=args.examples, deadline=None, database=None,
               suppress_health_check=list(HealthCheck))
-    @given(mutated_cases(args.most))
+    @given(mutated_cases(args.most, names))
     def run(text):
         code, err, runtime_warnings = run_check(text)
         codes[code] += 1

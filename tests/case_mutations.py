@@ -127,9 +127,9 @@ def mutate(draw, data: dict) -> dict:
 
 
 @st.composite
-def mutated_cases(draw, most: int = 3) -> str:
-    """TOML text of an example case with one to ``most`` mutations."""
-    data = load_example(draw(st.sampled_from(EXAMPLE_NAMES)))
+def mutated_cases(draw, most: int = 3, names: tuple[str, ...] = EXAMPLE_NAMES) -> str:
+    """TOML text of one of the examples ``names`` with one to ``most`` mutations."""
+    data = load_example(draw(st.sampled_from(names)))
     for _ in range(draw(st.integers(1, most))):
         data = draw(mutate(data))
     return to_toml(data)

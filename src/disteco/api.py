@@ -5,13 +5,14 @@ Engineers use this from notebooks and scripts; the command line is a thin layer 
 
 from __future__ import annotations
 
+from contextlib import AbstractContextManager
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Callable
 
-from ._base.errors import CaseError
+from ._base.errors import CaseError, CostDataError
 from .case import Case, load_case
-from .costing import CostData, load_cost_data, resolve_scenarios
+from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.given import check_decisions
@@ -20,7 +21,7 @@ from .optimisation.thermo_checks import ThermoChecks, thermo_checks
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
 from .reports.design_result import DesignResult
 from .reports.figures import write_design_figures
-from .reports.files import write_json
+from .reports.files import ClaimedFolder, claim_folder, write_json
 from .reports.json_result import result_json
 from .reports.tables_design import ReportParts, optimum_parts
 from .reports.tables_scenarios import CrossTable
@@ -31,6 +32,7 @@ from .stages import StageDesign, design_stages, step_stages
 RESULT_FILE = "result.json"
 WORKBOOK_FILE = "design.xlsx"
 FIGURE_FOLDER = "figures"
+OUTPUT_SET = (RESULT_FILE, WORKBOOK_FILE, FIGURE_FOLDER)  # what a run owns in its output folder
 
 Progress = Callable[[str, int, int], None]  # (what is being done, steps done, steps in all)
 
@@ -54,7 +56,11 @@ def mixture_of(case: Case) -> Mixture:
 
 
 def check(case: Case) -> MixtureSummary:
-    """Resolve the components and summarise the mixture at the column's top pressure."""
+    """Load the case's cost data and scenarios, resolve the components and summarise the
+    mixture at the column's top pressure."""
+    data = cost_data_of(case)
+    resolve_scenarios(data, case.economics.scenarios)
+    resolve_cost_year(data, case.economics.cost_year)
     mixture = mixture_of(case)
     return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
                              case.products.light_key, case.products.heavy_key)
@@ -62,7 +68,14 @@ def check(case: Case) -> MixtureSummary:
 
 def cost_data_of(case: Case) -> CostData:
     """The case's cost data: its own folder if it names one, else the bundled data."""
-    return load_cost_data(case.economics.cost_data)
+    folder = case.economics.cost_data
+    try:
+        return load_cost_data(folder)
+    except CostDataError as exc:
+        if folder is None:
+            raise
+        raise CaseError("economics.cost_data", f"the folder {str(folder)!r} does not hold usable cost data: {exc}",
+                        "a copy of the bundled cost_data folder, edited") from None
 
 
 def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
@@ -173,16 +186,35 @@ def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:
     return tuple(dict.fromkeys(found))  # in order, without repeats
 
 
-def write_results(result: DesignResult, folder: str | Path, figures: bool = True) -> list[Path]:
-    """Write result.json, the workbook and (optionally) the figures into ``folder``; return the paths."""
-    folder = Path(folder)
-    path = folder / RESULT_FILE
-    written = [write_workbook(result, folder / WORKBOOK_FILE, result.parts)]
+def claim_output(folder: str | Path, label: str = "output folder",
+                 case: Case | None = None) -> AbstractContextManager[ClaimedFolder]:
+    """Create, check and lock an output folder before any computation; use it with ``with``.
+
+    Raises :class:`~disteco._base.errors.OutputFolderError` naming ``label`` when the folder
+    cannot be written or another run holds it. Pass the claimed folder to :func:`write_results`.
+    """
+    owner = f"case {case.source}" if case is not None and case.source is not None else ""
+    return claim_folder(folder, label, owner)
+
+
+def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figures: bool = True) -> list[Path]:
+    """Write result.json, the workbook and (optionally) the figures into ``folder`` as one set.
+
+    The files are written beside the folder's old set and replace it together (an old
+    ``figures`` folder goes too when ``figures`` is false). Returns the paths written.
+    """
+    if not isinstance(folder, ClaimedFolder):
+        with claim_output(folder, case=result.case) as claimed:
+            return write_results(result, claimed, figures)
+    drawn: list[Path] = []
+    writers = {WORKBOOK_FILE: lambda path: write_workbook(result, path, result.parts),
+               RESULT_FILE: lambda path: write_json(path, result_json(result))}
     if figures:
-        written += write_design_figures(result.mixture, result.parts, folder / FIGURE_FOLDER)
-    write_json(path, result_json(result))
-    return [path] + written
+        writers[FIGURE_FOLDER] = lambda path: drawn.extend(write_design_figures(result.mixture, result.parts, path))
+    folder.write_set(writers, OUTPUT_SET)
+    return [folder.path / RESULT_FILE, folder.path / WORKBOOK_FILE] + [
+        folder.path / FIGURE_FOLDER / p.name for p in drawn]
 
 
-__all__ = ["GivenDesign", "OptimumDesign", "check", "cost_data_of", "design", "load_case", "mixture_of",
-           "write_results"]
+__all__ = ["GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of", "design", "load_case",
+           "mixture_of", "write_results"]

@@ -6,11 +6,15 @@ feed flow is put on a molar basis by the properties layer, which knows the chemi
 
 from __future__ import annotations
 
+import math
 import tomllib
+import unicodedata
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from ._base.errors import CaseError
+from ._base.interaction import KIJ_RANGE, LN_GAMMA_INF_RANGE, NRTL_ALPHA_RANGE, TEMPERATURES, nrtl_outside, \
+    wilson_outside
 from ._base.units import ATMOSPHERE, parse_quantity
 
 METHODS = ("ideal", "unifac-dortmund", "nrtl", "wilson", "peng-robinson")
@@ -18,6 +22,12 @@ CONDENSERS = ("total", "partial")
 MIN_PRESSURE = 1e3  # Pa; below this vacuum distillation is out of scope
 MAX_PRESSURE = 5e6  # Pa; above this a cubic EOS and a high-pressure column design are needed
 COMPOSITION_TOLERANCE = 1e-6
+# Feed temperatures from cryogenic service to hot-oil heating (common practice, no source);
+# outside them the property correlations extrapolate far beyond their data.
+FEED_TEMPERATURE_RANGE = (50.0, 1000.0)  # K
+# Feed flows from a pilot column (about 4 mol/h) to the largest columns built (about
+# 360 000 kmol/h) (common practice, no source), per basis of the flow as written.
+FLOW_RANGES = {"molar": (1e-3, 1e5, "mol/s"), "mass": (1e-4, 1e4, "kg/s"), "volume": (1e-7, 10.0, "m3/s")}
 
 
 @dataclass(frozen=True)
@@ -150,13 +160,16 @@ def load_case(path: str | Path) -> Case:
         # A cost-data folder is written relative to the case file, as a person expects.
         economics = Economics(path.resolve().parent / economics.cost_data, economics.cost_year,
                               economics.scenarios, economics.currency)
+    if economics.cost_data is not None and not economics.cost_data.is_dir():
+        raise CaseError("economics.cost_data", f"{str(economics.cost_data)!r} is not a folder",
+                        "a folder holding cost-data files, relative to the case file or absolute")
     return Case(**{**case.__dict__, "economics": economics, "source": path.resolve()})
 
 
 def parse_case(data: dict) -> Case:
     """Validate a case given as the dict read from TOML."""
     _only_keys(data, "", {"title", "mixture", "feed", "column", "products", "economics"})
-    title = _get(data, "title", str, default="untitled case")
+    title = _text(data, "title", "", "untitled case")
     mixture = _table(data, "mixture")
     components = _components(mixture)
     return Case(
@@ -165,7 +178,7 @@ def parse_case(data: dict) -> Case:
         feed=_feed(_table(data, "feed"), components),
         column=_column(_table(data, "column")),
         products=_products(_table(data, "products"), components),
-        thermo=_thermo(mixture, len(components)),
+        thermo=_thermo(mixture, components),
         economics=_economics(data.get("economics", {})),
     )
 
@@ -176,7 +189,13 @@ def parse_case(data: dict) -> Case:
 def _only_keys(table: dict, prefix: str, allowed: set[str]) -> None:
     for key in table:
         if key not in allowed:
-            raise CaseError(f"{prefix}{key}", "unknown field", ", ".join(sorted(allowed)))
+            raise CaseError(_key_name(prefix, key), "unknown field", ", ".join(sorted(allowed)))
+
+
+def _key_name(prefix: str, key: str) -> str:
+    """Dotted field name; a key that is empty or not a plain word is quoted, as TOML writes it."""
+    plain = key and all(c.isalnum() or c in "_-" for c in key)
+    return prefix + (key if plain else repr(key))
 
 
 def _table(data: dict, name: str, prefix: str = "") -> dict:
@@ -189,6 +208,13 @@ def _table(data: dict, name: str, prefix: str = "") -> dict:
 
 
 _MISSING = object()
+_KIND_NAMES = {str: "text", float: "a number", int: "a whole number", list: "a list", dict: "a table",
+               bool: "true or false"}
+
+
+def _kind_name(kind) -> str:
+    kinds = kind if isinstance(kind, tuple) else (kind,)
+    return " or ".join(_KIND_NAMES.get(k, k.__name__) for k in kinds)
 
 
 def _get(table: dict, key: str, kind, prefix: str = "", default=_MISSING):
@@ -200,8 +226,28 @@ def _get(table: dict, key: str, kind, prefix: str = "", default=_MISSING):
     if kind is float and isinstance(value, int) and not isinstance(value, bool):
         value = float(value)
     if not isinstance(value, kind) or isinstance(value, bool) and kind is not bool:
-        raise CaseError(f"{prefix}{key}", f"expected {kind.__name__}, got {value!r}")
+        raise CaseError(f"{prefix}{key}", f"expected {_kind_name(kind)}, got {_shown(value)}")
+    if kind is float and not math.isfinite(value):
+        raise CaseError(f"{prefix}{key}", f"{value!r} is not a finite number", "a finite number")
     return value
+
+
+def _shown(value, limit: int = 60) -> str:
+    text = repr(value)
+    return text if len(text) <= limit else text[:limit] + "..."
+
+
+def _text(table: dict, key: str, prefix: str, default=_MISSING) -> str:
+    """A text field without control characters (they break the workbook and the console)."""
+    value = _get(table, key, str, prefix, default)
+    _printable(value, prefix + key)
+    return value
+
+
+def _printable(value, field: str) -> None:
+    if isinstance(value, str) and any(unicodedata.category(c) == "Cc" for c in value):
+        raise CaseError(field, f"{_shown(value)} contains a control character",
+                        "printable text (no NUL, tab, newline or other control characters)")
 
 
 def _fraction(table: dict, key: str, prefix: str, open_ends: bool = True) -> float:
@@ -255,6 +301,10 @@ def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
     flow_si, unit = parse_quantity(_get(feed, "flow", str, "feed."), "flow", "feed.flow")
     if flow_si <= 0.0:
         raise CaseError("feed.flow", f"{feed['flow']!r} is not positive", "a flow above zero")
+    low, high, si_unit = FLOW_RANGES[unit.basis]
+    if not low <= flow_si <= high:
+        raise CaseError("feed.flow", f"{feed['flow']!r} ({flow_si:.4g} {si_unit}) is out of range",
+                        f"{low:g} to {high:g} {si_unit} for a {unit.basis} flow")
     conditions = [k for k in ("temperature", "vapour_fraction", "q") if k in feed]
     if len(conditions) != 1:
         raise CaseError("feed", f"{len(conditions)} thermal conditions given ({', '.join(conditions) or 'none'})",
@@ -262,8 +312,10 @@ def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
     kind = conditions[0]
     if kind == "temperature":
         value, _ = parse_quantity(feed["temperature"], "temperature", "feed.temperature")
-        if value <= 0.0:
-            raise CaseError("feed.temperature", "below absolute zero", "above 0 K")
+        low, high = FEED_TEMPERATURE_RANGE
+        if not low <= value <= high:
+            raise CaseError("feed.temperature", f"{feed['temperature']!r} ({value:.6g} K) is out of range",
+                            f"{low:g} to {high:g} K ({low - 273.15:g} to {high - 273.15:g} degC)")
     elif kind == "vapour_fraction":
         value = _fraction(feed, "vapour_fraction", "feed.", open_ends=False)
     else:
@@ -341,8 +393,15 @@ def _products(products: dict, components: tuple[str, ...]) -> Products:
             raise CaseError(prefix + "distillate_light_key_fraction",
                             f"binary specification given for {len(components)} components",
                             "light_key, heavy_key with recoveries or fractions for more than 2 components")
+        unused = sorted(products.keys() & (key_keys - {"light_key", "heavy_key"}))
+        if unused:
+            raise CaseError(prefix + unused[0], "not used with distillate_light_key_fraction and "
+                            "bottoms_light_key_fraction", "either the two binary fractions or key "
+                            "recoveries/fractions, not both")
         light = _component_index(products, "light_key", components) if "light_key" in products else 0
         heavy = 1 - light
+        if "heavy_key" in products and _component_index(products, "heavy_key", components) != heavy:
+            raise CaseError(prefix + "heavy_key", "same component as the light key", "the other component")
         x_d = _fraction(products, "distillate_light_key_fraction", prefix)
         x_b = _fraction(products, "bottoms_light_key_fraction", prefix)
         return Products(light, heavy, EndSpec("fraction", x_b), EndSpec("fraction", 1.0 - x_d))
@@ -368,7 +427,7 @@ def _end_spec(products: dict, recovery_key: str, fraction_key: str) -> EndSpec:
     return EndSpec(kind, float(value))
 
 
-def _matrix(table: dict, key: str, n: int, prefix: str):
+def _matrix(table: dict, key: str, n: int, prefix: str, zero_diagonal: bool = True):
     if key not in table:
         raise CaseError(prefix + key, "missing field", f"a {n} x {n} list of numbers")
     value = table[key]
@@ -376,45 +435,93 @@ def _matrix(table: dict, key: str, n: int, prefix: str):
             or any(not isinstance(row, list) or len(row) != n for row in value)
             or any(isinstance(x, bool) or not isinstance(x, (int, float)) for row in value for x in row)):
         raise CaseError(prefix + key, f"not a {n} x {n} matrix of numbers", f"a {n} x {n} list of lists")
-    return tuple(tuple(float(x) for x in row) for row in value)
+    matrix = tuple(tuple(float(x) for x in row) for row in value)
+    if not all(math.isfinite(x) for row in matrix for x in row):
+        raise CaseError(prefix + key, "holds a value that is not a finite number", "finite numbers")
+    if zero_diagonal and any(matrix[i][i] != 0.0 for i in range(n)):
+        raise CaseError(prefix + key, "a diagonal entry is not zero",
+                        "0 on the diagonal: a component does not interact with itself")
+    return matrix
 
 
-def _thermo(mixture: dict, n: int) -> Thermo:
+_METHOD_TABLES = {"nrtl": "nrtl", "wilson": "wilson", "peng-robinson": "peng_robinson"}
+
+
+def _thermo(mixture: dict, components: tuple[str, ...]) -> Thermo:
+    n = len(components)
     _only_keys(mixture, "mixture.", {"components", "method", "nrtl", "wilson", "peng_robinson"})
     method = _get(mixture, "method", str, "mixture.", "auto")
     if method not in METHODS + ("auto",):
-        raise CaseError("mixture.method", f"unknown method {method!r}", ", ".join(METHODS + ("auto",)))
+        raise CaseError("mixture.method", f"unknown method {_shown(method)}", ", ".join(METHODS + ("auto",)))
+    for other in set(_METHOD_TABLES.values()) - {_METHOD_TABLES.get(method)}:
+        if other in mixture:
+            raise CaseError(f"mixture.{other}", f"parameters given but mixture.method is {method!r}",
+                            f"a [mixture.{other}] table only with method = "
+                            f"{next(m for m, t in _METHOD_TABLES.items() if t == other)!r}")
     kwargs = {}
     if method == "nrtl":
         table = _table(mixture, "nrtl", "mixture.")
         _only_keys(table, "mixture.nrtl.", {"a", "b", "alpha"})
         kwargs = dict(nrtl_a=_matrix(table, "a", n, "mixture.nrtl."),
                       nrtl_b=_matrix(table, "b", n, "mixture.nrtl."),
-                      nrtl_alpha=_matrix(table, "alpha", n, "mixture.nrtl."))
+                      nrtl_alpha=_matrix(table, "alpha", n, "mixture.nrtl.", zero_diagonal=False))
+        low, high = NRTL_ALPHA_RANGE
+        if not all(low <= x <= high for row in kwargs["nrtl_alpha"] for x in row):
+            raise CaseError("mixture.nrtl.alpha", "a value lies outside the range of the non-randomness "
+                            "parameter", f"{low:g} to {high:g} (0.2 to 0.47 usual)")
+        _activity_limits("mixture.nrtl", components,
+                         nrtl_outside(kwargs["nrtl_a"], kwargs["nrtl_b"], kwargs["nrtl_alpha"]))
     elif method == "wilson":
         table = _table(mixture, "wilson", "mixture.")
         _only_keys(table, "mixture.wilson.", {"a", "b"})
         kwargs = dict(wilson_a=_matrix(table, "a", n, "mixture.wilson."),
                       wilson_b=_matrix(table, "b", n, "mixture.wilson."))
+        _activity_limits("mixture.wilson", components, wilson_outside(kwargs["wilson_a"], kwargs["wilson_b"]))
     elif method == "peng-robinson" and "peng_robinson" in mixture:
         table = _table(mixture, "peng_robinson", "mixture.")
         _only_keys(table, "mixture.peng_robinson.", {"kij"})
-        kwargs = dict(kij=_matrix(table, "kij", n, "mixture.peng_robinson."))
+        kij = _matrix(table, "kij", n, "mixture.peng_robinson.")
+        low, high = KIJ_RANGE
+        if any(kij[i][j] != kij[j][i] for i in range(n) for j in range(n)):
+            raise CaseError("mixture.peng_robinson.kij", "not symmetric", "k_ij = k_ji")
+        if not all(low <= x <= high for row in kij for x in row):
+            raise CaseError("mixture.peng_robinson.kij", "a value lies outside the range of binary "
+                            "interaction parameters", f"{low:g} to {high:g}")
+        kwargs = dict(kij=kij)
     return Thermo(method, **kwargs)
+
+
+def _activity_limits(field: str, components: tuple[str, ...], outside) -> None:
+    """Refuse parameters whose infinite-dilution activity coefficients leave the finite range."""
+    if outside is None:
+        return
+    value, i, j, T = outside
+    low, high = LN_GAMMA_INF_RANGE
+    raise CaseError(field, f"these parameters give ln(gamma) = {value:.4g} for {components[i]} infinitely "
+                    f"diluted in {components[j]} at {T:g} K",
+                    f"parameters whose ln(gamma) at infinite dilution lies from {low:g} to {high:g} for "
+                    f"every pair from {TEMPERATURES[0]:g} to {TEMPERATURES[-1]:g} K")
 
 
 def _economics(table) -> Economics:
     if not isinstance(table, dict):
         raise CaseError("economics", "must be a table", "[economics]")
     _only_keys(table, "economics.", {"cost_data", "cost_year", "scenarios", "currency"})
-    cost_data = _get(table, "cost_data", str, "economics.", None)
+    cost_data = _text(table, "cost_data", "economics.", None)
+    if cost_data is not None and not cost_data.strip():
+        raise CaseError("economics.cost_data", "empty", "a folder holding cost-data files; leave the field "
+                        "out for the bundled data")
     year = _get(table, "cost_year", int, "economics.", None)
     if year is not None and not 1950 <= year <= 2100:
         raise CaseError("economics.cost_year", f"{year}", "a year from 1950 to 2100 present in the cost-index table")
     scenarios = _get(table, "scenarios", list, "economics.", [])
-    if any(not isinstance(s, str) for s in scenarios):
+    if any(not isinstance(s, str) or not s.strip() for s in scenarios):
         raise CaseError("economics.scenarios", "every scenario must be a name", "a list of scenario names")
-    currency = _get(table, "currency", str, "economics.", "USD")
+    for name in scenarios:
+        _printable(name, "economics.scenarios")
+    currency = _text(table, "currency", "economics.", "USD")
+    if not currency.strip():
+        raise CaseError("economics.currency", "empty", "a currency code such as USD or EUR")
     return Economics(Path(cost_data) if cost_data else None, year, tuple(scenarios), currency)
 
 

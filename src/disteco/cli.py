@@ -6,9 +6,12 @@ Exit codes: 0 success, 2 bad input or an infeasible request, 1 internal failure.
 from __future__ import annotations
 
 import argparse
+import signal
 import sys
+import threading
 import time
 import traceback
+from contextlib import contextmanager
 from pathlib import Path
 
 from . import __version__
@@ -103,29 +106,48 @@ def _as_option(exc):
 
 def _run(args) -> int:
     from . import api
-    from .reports.text import cautions_text, design_text, mixture_text
+    from .reports.text import cautions_text, console_title, design_text, mixture_text
 
     if args.command == "design":  # option mistakes are found before the case is read
         given, options = _given(args), _options(args)
     case = api.load_case(args.case)
     if args.command == "check":
-        print(f"Case: {case.title}")
+        print(f"Case: {console_title(case.title)}")
         print(mixture_text(api.check(case)))
         print("Case file is valid.")
         return EXIT_OK
     progress = None if args.quiet else ProgressLine()
-    result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
-                        progress=progress)
-    print(f"Case: {case.title}")
-    print(mixture_text(result.mixture))
-    print()
-    print(design_text(result))
-    for warning in result.warnings:
-        print(f"Warning: {warning}")
-    for path in api.write_results(result, args.out, figures=not args.no_figures):
-        print(f"Wrote {path}")
+    with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
+        result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
+                            progress=progress)
+        print(f"Case: {console_title(case.title)}")
+        print(mixture_text(result.mixture))
+        print()
+        print(design_text(result))
+        for warning in result.warnings:
+            print(f"Warning: {warning}")
+        for path in api.write_results(result, out, figures=not args.no_figures):
+            print(f"Wrote {path}")
     print(cautions_text())
     return EXIT_OK
+
+
+def _interrupt(signum, frame):
+    raise KeyboardInterrupt
+
+
+@contextmanager
+def _terminate_as_interrupt():
+    """SIGTERM raises KeyboardInterrupt, so a terminated run unwinds: it releases its output
+    folder's lock and removes its staging files, as an interrupted one does."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = signal.signal(signal.SIGTERM, _interrupt)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -133,7 +155,8 @@ def main(argv: list[str] | None = None) -> int:
 
     args = _parser().parse_args(argv)
     try:
-        return _run(args)
+        with _terminate_as_interrupt():
+            return _run(args)
     except DistecoError as exc:
         print(f"error: {_as_option(exc)}", file=sys.stderr)
         if isinstance(exc, ValueError):  # a user mistake or an infeasible request

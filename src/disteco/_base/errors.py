@@ -12,6 +12,11 @@ class DistecoError(Exception):
     """Base class of every error disteco raises on purpose."""
 
 
+def _stated(where: str, problem: str, allowed: str | None) -> str:
+    """One error line: where, what is wrong and, if known, what is allowed."""
+    return f"{where}: {problem}" + (f" (allowed: {allowed})" if allowed else "")
+
+
 class CaseError(DistecoError, ValueError):
     """A case-file field is missing or invalid.
 
@@ -19,14 +24,11 @@ class CaseError(DistecoError, ValueError):
     """
 
     def __init__(self, field: str, problem: str, allowed: str | None = None, value=None):
-        self.field = field
+        self.field = field or "case file"  # never an empty name before the colon
         self.problem = problem
         self.allowed = allowed
         self.value = value
-        message = f"{field}: {problem}"
-        if allowed:
-            message += f" (allowed: {allowed})"
-        super().__init__(message)
+        super().__init__(_stated(self.field, problem, allowed))
 
 
 class InfeasibleSpecError(DistecoError, ValueError):
@@ -63,6 +65,20 @@ class CostDataError(DistecoError, ValueError):
         if column is not None:
             where += f", column '{column}'"
         super().__init__(f"{where}: {problem}")
+
+
+class OutputFolderError(DistecoError, ValueError):
+    """The output folder cannot be created, written into, or is held by another run.
+
+    ``label`` names the folder as the user gave it (``--out`` on the command line).
+    """
+
+    def __init__(self, label: str, folder, problem: str, allowed: str | None = None):
+        self.label = label
+        self.folder = folder
+        self.problem = problem
+        self.allowed = allowed
+        super().__init__(_stated(f"{label} {str(folder)!r}", problem, allowed))
 
 
 class PropertyError(DistecoError, RuntimeError):

@@ -7,6 +7,7 @@ every other pressure unit is absolute. Gauge values are referred to 101325 Pa.
 
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import dataclass
 
@@ -95,6 +96,8 @@ def parse_quantity(text, kind: str, field: str) -> tuple[float, Unit]:
         raise CaseError(field, f"cannot read {text!r} as a number followed by a unit",
                         f"e.g. \"{_example(kind)}\"; units: {allowed}", text)
     value = float(match.group(1))
+    if not math.isfinite(value):  # "1e999" reads as infinity
+        raise CaseError(field, f"{text!r} is not a finite number", f"e.g. \"{_example(kind)}\"", text)
     unit_name = _normalise_unit(match.group(2))
     unit = table.get(unit_name)
     if unit is None:

@@ -24,6 +24,12 @@ FIGURE_SIZE = (6.4, 4.6)  # inch
 DPI = 150
 
 
+def literal(text: str) -> str:
+    """``text`` with every dollar sign escaped, so matplotlib draws it as written and never reads
+    a pair of them (in a scenario name or a currency, say) as mathematical text."""
+    return text.replace("$", r"\$")
+
+
 def draw(plot: Plot) -> Figure:
     """A matplotlib Figure of ``plot``: one line per series, in the series' order."""
     figure = Figure(figsize=FIGURE_SIZE, dpi=DPI, layout="constrained")
@@ -31,16 +37,16 @@ def draw(plot: Plot) -> Figure:
     for k, series in enumerate(plot.series):
         colour = "#" + PALETTE[k % len(PALETTE)]
         if series.style == "markers":
-            axes.plot(series.x, series.y, linestyle="", marker="o", markersize=4, color=colour, label=series.name)
+            axes.plot(series.x, series.y, linestyle="", marker="o", markersize=4, color=colour, label=literal(series.name))
         elif series.style == "dashed":
-            axes.plot(series.x, series.y, linestyle="--", linewidth=1.0, color=colour, label=series.name)
+            axes.plot(series.x, series.y, linestyle="--", linewidth=1.0, color=colour, label=literal(series.name))
         else:
             dots = series.style == "line_markers" or plot.stage_axis  # a dot on each stage or solved design
             axes.plot(series.x, series.y, linestyle="-", linewidth=1.6, marker="o" if dots else "", markersize=3,
-                      color=colour, label=series.name)
-    axes.set_title(plot.title, fontsize=11)
-    axes.set_xlabel(plot.x_label)
-    axes.set_ylabel(plot.y_label)
+                      color=colour, label=literal(series.name))
+    axes.set_title(literal(plot.title), fontsize=11)
+    axes.set_xlabel(literal(plot.x_label))
+    axes.set_ylabel(literal(plot.y_label))
     if plot.x_limits:
         axes.set_xlim(*plot.x_limits)
     if plot.y_limits:

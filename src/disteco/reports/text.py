@@ -8,6 +8,15 @@ from .cautions import CAUTIONS
 from .design_result import DesignResult
 from .text_checks import checks_lines
 
+CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
+
+
+def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
+    """The case title on one console line: whitespace runs folded to one space and the text
+    shortened to ``limit`` characters with "..." (the files keep the whole title)."""
+    line = " ".join(title.split())
+    return line if len(line) <= limit else line[:limit - 3] + "..."
+
 
 def mixture_text(summary: MixtureSummary) -> str:
     """The mixture report printed by the check command."""

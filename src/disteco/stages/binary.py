@@ -109,7 +109,9 @@ def _operating_lines(x_d: float, x_b: float, z: float, q: float, reflux: float):
 
     def y_op(x):
         x = np.asarray(x, dtype=float)
-        return np.where(x >= x_int, (reflux * x + x_d) / (reflux + 1.0), x_b + slope_s * (x - x_b))
+        with np.errstate(invalid="ignore"):  # inf * 0 at x = x_b on a vertical stripping line, discarded below
+            stripping = x_b + slope_s * (x - x_b)
+        return np.where(x >= x_int, (reflux * x + x_d) / (reflux + 1.0), stripping)
 
     return x_int, y_op
 

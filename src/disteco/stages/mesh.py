@@ -180,7 +180,10 @@ class Stages:
             old = U[:, :-1]
             # a flow that would turn negative shrinks by a factor instead (keeps positivity)
             shrink = flows <= 0.0
-            flows[shrink] = old[shrink] * np.exp(np.maximum(alpha * step[:, :-1][shrink] / old[shrink], -5.0))
+            before = old[shrink]
+            with np.errstate(divide="ignore", invalid="ignore"):  # a zero flow (no feed of it) stays zero
+                ratio = np.where(before > 0.0, alpha * step[:, :-1][shrink] / before, -5.0)
+            flows[shrink] = before * np.exp(np.maximum(ratio, -5.0))
             try:
                 props = self.all_properties(trial)
             except PropertyError:

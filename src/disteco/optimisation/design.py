@@ -35,6 +35,8 @@ from .start import shortcut
 ROUNDS = 4  # most optimisations with re-evaluated constants
 TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
 DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
+SPEC_SHORTFALL = 1e-4  # relative shortfall below which a given design is said to meet its specifications [-]
+GIVEN_SHORTFALL = 0.05  # relative shortfall of a specification a given design is priced at, with a warning [-]
 
 
 def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int,
@@ -204,6 +206,10 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     under one pressure profile can miss them under a slightly higher one.
     """
     config = model_options(options)
+    # A reported optimum sits on its specifications; priced again on its own pressure profile it
+    # can fall just short (measured: the benzene optimum 1.6 % short). It is priced with a warning
+    # instead of refused, and the verification on thermo then corrects reflux and distillate.
+    config.shortfall_tolerance = max(config.shortfall_tolerance, GIVEN_SHORTFALL)
     year = case.economics.cost_year
     given, fixed_pressures = problem, problem is not None
     problem = resolved_problem(case, mixture, feed, config, at_least=stages)
@@ -234,4 +240,9 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         previous, reference = design, design.profile
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
-    return replace(design, sequential=priced, warnings=case.column.warnings + design.warnings)
+    short = ()
+    if design.shortfall > SPEC_SHORTFALL:
+        short = (f"the given design falls {100 * design.shortfall:.2g} % short of a product specification on the "
+                 "optimiser's fitted forms at its own pressure profile; see the verification on thermo, which "
+                 "corrects reflux and distillate at these stages",)
+    return replace(design, sequential=priced, warnings=case.column.warnings + design.warnings + short)

@@ -137,6 +137,7 @@ class DesignEvaluation:
     solver: SolverReport
     warnings: tuple[str, ...] = ()
     sequential: SequentialPrice | None = None  # filled by the case-level functions
+    shortfall: float = 0.0  # largest relative shortfall of a product specification on the fitted forms [-]
 
     @property
     def tac(self) -> float:

@@ -271,7 +271,8 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
     cost = CostBreakdown(items, capital, cond_utility, reb_utility, cond_utility + reb_utility + pump_utility,
                          b.annualisation * capital, v(m.tac), b.currency, b.cost_year, pump_utility)
     warnings = tuple(_range_warnings(priced))
-    return DesignEvaluation(m.N, m.NF, v(m.R), profile, sizes, cost, report, warnings)
+    return DesignEvaluation(m.N, m.NF, v(m.R), profile, sizes, cost, report, warnings,
+                            shortfall=max(shortfall(m), 0.0))
 
 
 def _item(pricing, size: float, installed: float) -> CostItem:

@@ -7,6 +7,7 @@ the keys; regression pins say that they only guard against change.
 import numpy as np
 import pytest
 
+from disteco._base.errors import InfeasibleSpecError
 from disteco.api import load_case, mixture_of
 from disteco.cli import main
 from disteco.properties import feed_state
@@ -54,6 +55,14 @@ def test_non_distributing_light_non_key_is_fixed_at_its_feed():
     assert d[0] == F[0] and d[4] == 0.0
     assert roots == tuple(underwood_roots(alpha, Z, 1.0, alpha[HEAVY], alpha[LIGHT]))
     assert max(abs(r) for r in residuals(alpha, d, v_min, roots)) < 1e-9 * v_min
+
+
+def test_equal_volatilities_of_distributing_components_are_explained():
+    """Two distributing components of one volatility leave the system one root short: refused in words."""
+    alpha = np.array([2.1, 2.1, 2.0, 1.0])
+    z = np.array([0.2, 0.2, 0.3, 0.3])
+    with pytest.raises(InfeasibleSpecError, match="same relative volatility"):
+        underwood_minimum_vapour(alpha, z, 1.0, np.array([0.0, 0.0, 27.0, 3.0]), 2, 3, 100.0 * z)
 
 
 def test_without_feed_flows_non_keys_outside_keep_their_flows():

@@ -233,6 +233,10 @@ def _underwood_system(alpha: np.ndarray, z: np.ndarray, q: float, d: np.ndarray,
     """V_min and the distillate flows of ``unknown`` from one equation per root."""
     volatilities = [alpha[i] for i in unknown + [light, heavy]]
     roots = underwood_roots(alpha, z, q, min(volatilities), max(volatilities))
+    if len(roots) != 1 + len(unknown):
+        raise InfeasibleSpecError(
+            "two distributing components have the same relative volatility at the feed, so Underwood's "
+            "equations cannot split them; choose keys that differ from the other components in volatility")
     fixed = d.copy()
     fixed[unknown] = 0.0
     matrix = np.zeros((len(roots), 1 + len(unknown)))

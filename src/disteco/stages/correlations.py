@@ -164,7 +164,8 @@ def underwood_roots(alpha: np.ndarray, z: np.ndarray, q: float, low: float, high
 
 
 def underwood_minimum_vapour(alpha: np.ndarray, z: np.ndarray, q: float, distillate: np.ndarray,
-                             light: int, heavy: int) -> tuple[float, np.ndarray, tuple]:
+                             light: int, heavy: int, feed: np.ndarray | None = None
+                             ) -> tuple[float, np.ndarray, tuple]:
     """Minimum vapour flow from the top section, Underwood's second equation.
 
     .. math:: V_{min} = \\sum_i \\frac{\\alpha_i d_i}{\\alpha_i - \\phi_k}\\quad\\text{for every root } \\phi_k
@@ -174,15 +175,23 @@ def underwood_minimum_vapour(alpha: np.ndarray, z: np.ndarray, q: float, distill
     alpha : Relative volatilities to the heavy key [-]
     z : Feed mole fractions [-]
     q : Feed thermal condition [-]
-    distillate : Distillate flows of every component; those between the keys are unknowns [mol/s]
+    distillate : Distillate flows of every component; the keys' are fixed, the others a guess [mol/s]
     light : Index of the light key [-]
     heavy : Index of the heavy key [-]
+    feed : Component feed flows; given, non-keys outside the keys may distribute too [mol/s]
 
     Notes
     -----
-    With m components between the keys there are m + 1 roots; the m + 1 equations give
-    V_min and the distillate flows of the in-between components (ref. 1, Class 2
-    separation). Returns V_min [mol/s], the distillate flows [mol/s] and the roots [-].
+    Underwood's Class 2 separation (ref. 1; set out in ref. 2, section 9.2, and ref. 3,
+    chapter 9). Every component between the keys distributes; with ``feed`` given every
+    non-key outside the keys is first taken as distributing too. The roots of the feed
+    equation between the volatilities of the lightest and heaviest distributing
+    components (one fewer than those components) each give one equation of the second
+    kind, linear in V_min and the unknown distillate flows: a square system. A non-key
+    outside the keys that comes out with d_i < 0 or d_i > f_i is fixed at that bound, and
+    with it every component farther from the keys, and the system is solved again. Without
+    ``feed`` the non-keys outside the keys keep the flows passed in. Returns V_min [mol/s],
+    the distillate flows at minimum reflux [mol/s] and the roots used [-].
 
     Examples
     --------
@@ -195,23 +204,50 @@ def underwood_minimum_vapour(alpha: np.ndarray, z: np.ndarray, q: float, distill
     ----------
     1. Underwood, A.J.V. Fractional distillation of multicomponent mixtures. Chem. Eng.
        Prog. 44 (1948) 603-614.
+    2. Seader, J.D., Henley, E.J., Roper, D.K. Separation Process Principles, 3rd ed.,
+       Wiley, 2011, section 9.2 (Class 2 separations; section number from memory).
+    3. King, C.J. Separation Processes, 2nd ed., McGraw-Hill, 1980, chapter 9 (from memory).
     """
-    roots = underwood_roots(alpha, z, q, alpha[heavy], alpha[light])
-    between = [i for i in range(len(alpha)) if alpha[heavy] < alpha[i] < alpha[light] and z[i] > 0.0]
-    fixed = np.array(distillate, dtype=float)
-    fixed[between] = 0.0
-    # unknowns: V_min and d of the in-between components; one equation per root
-    matrix = np.zeros((len(roots), 1 + len(between)))
+    alpha = np.asarray(alpha, dtype=float)
+    z = np.asarray(z, dtype=float)
+    d = np.array(distillate, dtype=float)
+    present = [i for i in range(len(alpha)) if z[i] > 0.0 and i not in (light, heavy)]
+    between = [i for i in present if alpha[heavy] < alpha[i] < alpha[light]]
+    outside = [] if feed is None else [i for i in present if i not in between]
+    while True:
+        v_min, d_free, roots = _underwood_system(alpha, z, q, d, light, heavy, between + outside)
+        d[between + outside] = d_free
+        bounds = {i: 0.0 if d[i] < 0.0 else feed[i] for i in outside if not 0.0 <= d[i] <= feed[i]}
+        if not bounds:
+            return v_min, d, roots
+        for j, bound in bounds.items():
+            side = 1.0 if alpha[j] > alpha[light] else -1.0
+            # a non-key beyond one that does not distribute does not distribute either
+            for i in [i for i in outside if side * (alpha[i] - alpha[j]) >= 0.0]:
+                outside.remove(i)
+                d[i] = bound if i == j else (feed[i] if side > 0.0 else 0.0)
+
+
+def _underwood_system(alpha: np.ndarray, z: np.ndarray, q: float, d: np.ndarray, light: int, heavy: int,
+                      unknown: list[int]) -> tuple[float, np.ndarray, tuple]:
+    """V_min and the distillate flows of ``unknown`` from one equation per root."""
+    volatilities = [alpha[i] for i in unknown + [light, heavy]]
+    roots = underwood_roots(alpha, z, q, min(volatilities), max(volatilities))
+    if len(roots) != 1 + len(unknown):
+        raise InfeasibleSpecError(
+            "two distributing components have the same relative volatility at the feed, so Underwood's "
+            "equations cannot split them; choose keys that differ from the other components in volatility")
+    fixed = d.copy()
+    fixed[unknown] = 0.0
+    matrix = np.zeros((len(roots), 1 + len(unknown)))
     rhs = np.zeros(len(roots))
     for k, phi in enumerate(roots):
         matrix[k, 0] = 1.0
-        for col, i in enumerate(between, start=1):
+        for col, i in enumerate(unknown, start=1):
             matrix[k, col] = -alpha[i] / (alpha[i] - phi)
         rhs[k] = underwood_function(phi, alpha, fixed)
     solution = np.linalg.solve(matrix, rhs)
-    d = fixed.copy()
-    d[between] = solution[1:]
-    return float(solution[0]), d, tuple(roots)
+    return float(solution[0]), solution[1:], tuple(roots)
 
 
 def gilliland_molokanov(X: float, policy: OutOfRange = OutOfRange.RAISE,

@@ -111,16 +111,20 @@ def minimum_reflux_underwood(alpha, z, q: float, split: ProductSplit) -> tuple[f
     """Underwood minimum reflux L0/D [-] and the roots used, with the impossible cases explained."""
     alpha = np.asarray(alpha, dtype=float)
     light, heavy = split.light_key, split.heavy_key
-    v_min, _, roots = underwood_minimum_vapour(alpha, np.asarray(z, dtype=float), q,
-                                               np.asarray(split.distillate), light, heavy)
-    r_min = v_min / split.distillate_flow - 1.0
+    feed = np.asarray(split.distillate) + np.asarray(split.bottoms)
+    v_min, d_min, roots = underwood_minimum_vapour(alpha, np.asarray(z, dtype=float), q,
+                                                   np.asarray(split.distillate), light, heavy, feed)
+    # L_min = V_min - D with D of the distribution at minimum reflux, which Underwood's
+    # equations give together with V_min (the Fenske split is the total-reflux one)
+    distillate = float(np.sum(d_min))
+    r_min = v_min / distillate - 1.0
     if not math.isfinite(r_min):
         raise InfeasibleSpecError("Underwood's equations have no root between the key volatilities; "
                                   "check that the keys differ in volatility at column conditions")
     if r_min <= 0.0:
         raise InfeasibleSpecError(
             f"Underwood's equations give a minimum vapour flow {v_min:.4g} mol/s that is not above the "
-            f"distillate flow {split.distillate_flow:.4g} mol/s: the specified split is looser than "
+            f"distillate flow {distillate:.4g} mol/s: the specified split is looser than "
             f"the feed itself provides at q = {q:.3g} (no reflux would be needed, a flash or a stripping "
             "column does it); tighten the key specifications or change the feed condition")
     return float(r_min), roots

@@ -334,13 +334,14 @@ def initialise(m, start: Profile) -> None:
         m.L[j].set_value(_inside(start.L[k], m.L[j]))
         m.V[j].set_value(_inside(start.V[k], m.V[j]))
         for i in m.C:
-            m.x[j, i].set_value(float(start.x[k, i]))
-            m.y[j, i].set_value(float(start.y[k, i]))
+            # a start's trace fractions can come out a hair below zero (-2e-24 seen on 20 components)
+            m.x[j, i].set_value(_inside(float(start.x[k, i]), m.x[j, i]))
+            m.y[j, i].set_value(_inside(float(start.y[k, i]), m.y[j, i]))
     if m.problem.partial_condenser:
         T_d, x_d, y_d = partial_condenser_split(m.problem, start.y[0], start.reflux_ratio)
         for i in m.C:
-            m.xD[i].set_value(float(x_d[i]))
-            m.yD[i].set_value(float(y_d[i]))
+            m.xD[i].set_value(_inside(float(x_d[i]), m.xD[i]))
+            m.yD[i].set_value(_inside(float(y_d[i]), m.yD[i]))
     else:
         T_d = f.bubble_temperature(m.problem.top_pressure, start.y[0])
     m.TD.set_value(_inside(T_d, m.TD))

@@ -136,3 +136,17 @@ def test_both_barrier_strategies_reach_the_same_optimum(problem, basis, solved, 
     assert report.barrier == strategy
     assert pyo.value(model.tac) == pytest.approx(pyo.value(solved.tac), rel=1e-6)
     assert pyo.value(model.R) == pytest.approx(pyo.value(solved.R), rel=1e-4)
+
+
+def test_distillate_without_a_bubble_point_is_refused_in_words(problem, monkeypatch):
+    """A top vapour the fitted forms cannot condense totally (light components at a low top pressure:
+    a 20-component case with 6.6 % methane at 3 bar) is an infeasible request, not an internal error."""
+    from disteco._base.errors import PropertyError
+    from disteco.optimisation.pricing import total_condensate_temperature
+
+    def no_root(self, P, x):
+        raise PropertyError("no bubble point")
+
+    monkeypatch.setattr(type(problem.fitted), "bubble_temperature", no_root)
+    with pytest.raises(InfeasibleSpecError, match="cannot be condensed totally.*condenser"):
+        total_condensate_temperature(problem, [0.99, 0.01])

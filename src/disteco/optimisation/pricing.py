@@ -17,6 +17,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
+from .._base.errors import InfeasibleSpecError, PropertyError
 from ..costing.column import cost_column
 from ..costing.data import CostData, HeatTransferCoefficient
 from ..costing.from_sizing import cost_input
@@ -32,6 +33,25 @@ from .results import DesignEvaluation, ModelCheck, SequentialPrice
 from .start import Profile, partial_condenser_split
 
 
+def total_condensate_temperature(problem: SeparationProblem, y) -> float:
+    """Bubble point [K] of the top vapour ``y`` condensed totally at the top pressure.
+
+    Raises :class:`InfeasibleSpecError` when the fitted forms find none within the column's
+    range: light components that a total condenser cannot hold at this pressure.
+    """
+    f = problem.fitted
+    try:
+        return f.bubble_temperature(problem.top_pressure, y)
+    except PropertyError:
+        light = ", ".join(f"{f.names[i]} {y[i]:.3g}" for i in sorted(range(f.size), key=lambda i: -y[i])[:3]
+                          if y[i] > 1e-3)
+        raise InfeasibleSpecError(
+            f"the distillate (largest fractions: {light}) cannot be condensed totally at the top pressure of "
+            f"{problem.top_pressure / 1e3:.4g} kPa (no bubble point between {f.T_low - 50.0:.0f} and "
+            f"{f.T_high + 50.0:.0f} K on the column's fitted forms); use "
+            "column.condenser = \"partial\" or a higher column.top_pressure") from None
+
+
 def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int) -> StageProfile:
     """A :class:`StageProfile` of a start profile, duties from the fitted enthalpies."""
     f = problem.fitted
@@ -41,7 +61,7 @@ def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int)
         T_d, x_d, y_d = partial_condenser_split(problem, profile.y[0], R)
         h_reflux, h_distillate = f.liquid_enthalpy_of(T_d, x_d), f.vapour_enthalpy_of(T_d, y_d)
     else:
-        T_d, y_d = f.bubble_temperature(problem.top_pressure, profile.y[0]) - problem.subcooling, profile.y[0]
+        T_d, y_d = total_condensate_temperature(problem, profile.y[0]) - problem.subcooling, profile.y[0]
         h_reflux = h_distillate = f.liquid_enthalpy_of(T_d, profile.y[0])
     q_c = profile.V[0] * f.vapour_enthalpy_of(profile.T[0], profile.y[0]) - R * D * h_reflux - D * h_distillate
     q_r = profile.V[-1] * (f.vapour_enthalpy_of(profile.T[-1], profile.y[-1])

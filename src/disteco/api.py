@@ -111,7 +111,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
         optima.append((name, optimum))
         checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name,
-                                            full=k == 0)))
+                                            full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)))
         report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
         curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
                                                  sizing, name)))

@@ -8,26 +8,21 @@ from __future__ import annotations
 from contextlib import AbstractContextManager
 from dataclasses import dataclass, replace
 from pathlib import Path
-from typing import Callable
+from typing import TYPE_CHECKING, Callable
 
 from ._base.errors import CaseError, CostDataError
 from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
-from .optimisation.curves import reflux_curve
-from .optimisation.design import evaluate_design, optimise_design
-from .optimisation.given import check_decisions
-from .optimisation.results import DesignEvaluation, OptimumDesign
-from .optimisation.thermo_checks import ThermoChecks, thermo_checks
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
-from .reports.design_result import DesignResult
-from .reports.figures import write_design_figures
 from .reports.files import ClaimedFolder, claim_folder, write_json
-from .reports.json_result import result_json
-from .reports.tables_design import ReportParts, optimum_parts
-from .reports.tables_scenarios import CrossTable
-from .reports.workbook import write_workbook
-from .sizing.options import SizingOptions
-from .stages import StageDesign, design_stages, step_stages
+
+if TYPE_CHECKING:  # the solver interfaces, plotting and the workbook are imported where used (quick `check`)
+    from .optimisation.results import DesignEvaluation, OptimumDesign
+    from .optimisation.thermo_checks import ThermoChecks
+    from .reports.design_result import DesignResult
+    from .reports.tables_design import ReportParts
+    from .reports.tables_scenarios import CrossTable
+    from .stages import StageDesign
 
 RESULT_FILE = "result.json"
 WORKBOOK_FILE = "design.xlsx"
@@ -47,6 +42,8 @@ class GivenDesign:
 
     def __post_init__(self):
         # What needs no mixture is checked here; the minima when the design is priced (before any solve).
+        from .optimisation.given import check_decisions
+
         check_decisions(self.reflux_ratio, self.stages, self.feed_stage)
 
 
@@ -85,6 +82,14 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
     (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
     """
+    from .optimisation.curves import reflux_curve
+    from .optimisation.design import evaluate_design, optimise_design
+    from .optimisation.thermo_checks import thermo_checks
+    from .reports.design_result import DesignResult
+    from .reports.tables_design import optimum_parts
+    from .sizing.options import SizingOptions
+    from .stages import design_stages
+
     report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
     mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
@@ -140,6 +145,8 @@ def _checked(parts: ReportParts, checks: ThermoChecks) -> ReportParts:
 
 def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
     """The McCabe-Thiele construction at the chosen reflux, for the diagrams of a binary."""
+    from .stages import step_stages
+
     if stages.binary is None:
         return {}
     column = stages.binary.column
@@ -149,6 +156,8 @@ def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
 
 
 def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportParts:
+    from .reports.tables_design import ReportParts
+
     sequential = evaluation.sequential
     return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
                        cost=sequential.cost if sequential else None, cost_data=data,
@@ -157,6 +166,9 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
 
 def _cross_table(case, mixture, feed, data, options, sizing, optima, report, done, total) -> CrossTable | None:
     """Each scenario's optimum priced by the model under every other scenario's prices."""
+    from .optimisation.design import evaluate_design
+    from .reports.tables_scenarios import CrossTable
+
     if len(optima) < 2:
         return None
     names = tuple(name for name, _ in optima)
@@ -206,6 +218,10 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
     if not isinstance(folder, ClaimedFolder):
         with claim_output(folder, case=result.case) as claimed:
             return write_results(result, claimed, figures)
+    from .reports.figures import write_design_figures
+    from .reports.json_result import result_json
+    from .reports.workbook import write_workbook
+
     drawn: list[Path] = []
     writers = {WORKBOOK_FILE: lambda path: write_workbook(result, path, result.parts),
                RESULT_FILE: lambda path: write_json(path, result_json(result))}
@@ -214,6 +230,13 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
     folder.write_set(writers, OUTPUT_SET)
     return [folder.path / RESULT_FILE, folder.path / WORKBOOK_FILE] + [
         folder.path / FIGURE_FOLDER / p.name for p in drawn]
+
+
+def __getattr__(name: str):
+    if name == "OptimumDesign":  # offered here, imported on first use
+        from .optimisation.results import OptimumDesign
+        return OptimumDesign
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
 __all__ = ["GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of", "design", "load_case",

@@ -5,15 +5,14 @@ Entry points: :func:`optimise_design` (search over reflux, stages and feed stage
 is the checking tool that solves every configuration.
 """
 
-from .basis import CostBasis, ExchangerBasis, SeparationProblem, TrayBasis
-from .design import evaluate_design, optimise_design, separation_problem
-from .enumerate import Enumeration, enumerate_designs
-from .options import OPTIONS, model_options
-from .results import (ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, OptimumDesign, SearchStep,
-                      SequentialPrice, SolverReport)
-from .search import optimise
+from .._base.lazy import lazy_names
 
-__all__ = ["ColumnSizes", "CostBasis", "CostBreakdown", "CostItem", "DesignEvaluation", "Enumeration",
-           "ExchangerBasis", "OPTIONS", "OptimumDesign", "SearchStep", "SeparationProblem", "SequentialPrice",
-           "SolverReport", "TrayBasis", "enumerate_designs", "evaluate_design", "model_options", "optimise",
-           "optimise_design", "separation_problem"]
+__getattr__, __dir__, __all__ = lazy_names(__name__, {
+    "basis": ("CostBasis", "ExchangerBasis", "SeparationProblem", "TrayBasis"),
+    "design": ("evaluate_design", "optimise_design", "separation_problem"),
+    "enumerate": ("Enumeration", "enumerate_designs"),
+    "options": ("OPTIONS", "model_options"),
+    "results": ("ColumnSizes", "CostBreakdown", "CostItem", "DesignEvaluation", "OptimumDesign", "SearchStep",
+        "SequentialPrice", "SolverReport"),
+    "search": ("optimise",),
+})

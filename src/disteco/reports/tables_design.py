@@ -3,10 +3,10 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from ..costing import CostData, CostSummary, HeatTransferCoefficient
 from ..optimisation.results import DesignEvaluation, OptimumDesign
-from ..optimisation.thermo_checks import ThermoChecks
 from ..properties import BinaryDiagram, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
@@ -14,6 +14,9 @@ from ..stages.results import StageProfile
 from .tables import (Cell, Plot, Table, composition_profile_plot, design_items, quantity_table,
                      temperature_profile_plot, xy_plot)
 from .tables_scenarios import CrossTable, stages_duty_plot, tac_curve_plot
+
+if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver interfaces
+    from ..optimisation.thermo_checks import ThermoChecks
 
 
 @dataclass(frozen=True)

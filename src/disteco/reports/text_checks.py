@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
-from ..optimisation.thermo_checks import ThermoChecks
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver interfaces
+    from ..optimisation.thermo_checks import ThermoChecks
 
 
 def checks_lines(checks: ThermoChecks | None, reflux_ratio: float, cmo_minimum: float | None) -> list[str]:

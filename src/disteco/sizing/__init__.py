@@ -5,22 +5,18 @@ small functions in the modules ``flooding``, ``efficiency``, ``vessel``, ``excha
 ``auxiliaries``.
 """
 
-from .auxiliaries import DrumSizing, PumpSizing
-from .column import ColumnSizing, EquipmentItem, SizingProperties, size_column
-from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
-from .exchangers import ExchangerSizing, choose_utility, log_mean_temperature_difference, size_exchanger
-from .flooding import (FLOODING_METHODS, FLOW_PARAMETER_RANGE, TRAY_SPACING_RANGE, capacity_factor_kessler_wankat,
-                       capacity_factor_lygeros_magoulas, lygeros_magoulas_constants, required_tray_area)
-from .materials import Material, load_materials, material
-from .options import SizingOptions
-from .trays import TrayHydraulics
-from .utilities import UtilityLevel
-from .vessel import CAUTION, ColumnHeight, VesselDesign
+from .._base.lazy import lazy_names
 
-__all__ = ["CAUTION", "ColumnHeight", "ColumnSizing", "DrumSizing", "EquipmentItem", "ExchangerSizing",
-           "FLOODING_METHODS", "FLOW_PARAMETER_RANGE", "Material", "OCONNELL_RANGE", "PumpSizing",
-           "SizingOptions", "SizingProperties", "TRAY_SPACING_RANGE", "TrayEfficiency", "TrayHydraulics",
-           "UtilityLevel", "VesselDesign", "capacity_factor_kessler_wankat",
-           "capacity_factor_lygeros_magoulas", "choose_utility", "load_materials",
-           "log_mean_temperature_difference", "lygeros_magoulas_constants", "material",
-           "oconnell_efficiency_lockett", "real_trays", "required_tray_area", "size_column", "size_exchanger"]
+__getattr__, __dir__, __all__ = lazy_names(__name__, {
+    "auxiliaries": ("DrumSizing", "PumpSizing"),
+    "column": ("ColumnSizing", "EquipmentItem", "SizingProperties", "size_column"),
+    "efficiency": ("OCONNELL_RANGE", "TrayEfficiency", "oconnell_efficiency_lockett", "real_trays"),
+    "exchangers": ("ExchangerSizing", "choose_utility", "log_mean_temperature_difference", "size_exchanger"),
+    "flooding": ("FLOODING_METHODS", "FLOW_PARAMETER_RANGE", "TRAY_SPACING_RANGE", "capacity_factor_kessler_wankat",
+        "capacity_factor_lygeros_magoulas", "lygeros_magoulas_constants", "required_tray_area"),
+    "materials": ("Material", "load_materials", "material"),
+    "options": ("SizingOptions",),
+    "trays": ("TrayHydraulics",),
+    "utilities": ("UtilityLevel",),
+    "vessel": ("CAUTION", "ColumnHeight", "VesselDesign"),
+})

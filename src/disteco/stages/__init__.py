@@ -6,17 +6,17 @@ Public entry points (see each module): :func:`design_stages` (all of it for a ca
 :func:`solve_cmo`, :func:`solve_rigorous`, :func:`solve_to_specs`, :func:`duties`.
 """
 
-from .binary import EquilibriumCurve, MinimumReflux, SteppedColumn, equilibrium_curve, minimum_reflux, \
-    step_stages, total_reflux_stages
-from .design import BinaryStepping, StageDesign, design_stages
-from .duties import duties
-from .results import Duties, StageProfile
-from .rigorous import ColumnSpec, solve_cmo, solve_rigorous
-from .shortcut import ShortcutDesign, ShortcutPoint, shortcut_design
-from .specs import gilliland_reflux, solve_to_specs, spec_residuals
-from .splits import ProductSplit, product_split
+from .._base.lazy import lazy_names
+from .duties import duties  # eager: a lazy name cannot share its module's name (the import rebinds it)
 
-__all__ = ["BinaryStepping", "ColumnSpec", "StageDesign", "design_stages", "Duties", "EquilibriumCurve", "MinimumReflux", "ProductSplit", "ShortcutDesign",
-           "ShortcutPoint", "StageProfile", "SteppedColumn", "duties", "equilibrium_curve", "gilliland_reflux",
-           "minimum_reflux", "product_split", "shortcut_design", "solve_cmo", "solve_rigorous",
-           "solve_to_specs", "spec_residuals", "step_stages", "total_reflux_stages"]
+__getattr__, __dir__, _lazy = lazy_names(__name__, {
+    "binary": ("EquilibriumCurve", "MinimumReflux", "SteppedColumn", "equilibrium_curve", "minimum_reflux",
+        "step_stages", "total_reflux_stages"),
+    "design": ("BinaryStepping", "StageDesign", "design_stages"),
+    "results": ("Duties", "StageProfile"),
+    "rigorous": ("ColumnSpec", "solve_cmo", "solve_rigorous"),
+    "shortcut": ("ShortcutDesign", "ShortcutPoint", "shortcut_design"),
+    "specs": ("gilliland_reflux", "solve_to_specs", "spec_residuals"),
+    "splits": ("ProductSplit", "product_split"),
+})
+__all__ = sorted(_lazy + ["duties"])

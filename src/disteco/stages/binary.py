@@ -12,7 +12,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError
@@ -34,6 +33,8 @@ class EquilibriumCurve:
     pressure: float
 
     def __post_init__(self):
+        from scipy.interpolate import PchipInterpolator  # here: importing it costs `check` a large share of its time
+
         object.__setattr__(self, "_y_of_x", PchipInterpolator(np.array(self.x), np.array(self.y)))
 
     def y_of(self, x):

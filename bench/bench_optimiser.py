@@ -27,6 +27,8 @@ import time
 import pyomo
 import pyomo.environ as pyo
 
+from machine_facts import cpu_model
+
 from disteco.case import load_case, parse_case
 from disteco.costing.data import load_cost_data
 from disteco.optimisation.design import model_cost_basis, resolved_problem
@@ -50,12 +52,7 @@ THREE_COMPONENTS = {
 
 
 def machine() -> str:
-    cpu = "unknown"
-    try:
-        with open("/proc/cpuinfo", encoding="utf-8") as info:
-            cpu = next(line.split(":", 1)[1].strip() for line in info if line.startswith("model name"))
-    except (OSError, StopIteration):
-        pass
+    cpu = cpu_model()
     return (f"nproc {os.cpu_count()}, CPU {cpu}, Python {platform.python_version()}, Pyomo {pyomo.version.version}, "
             f"solver ripopt available: {pyo.SolverFactory('ripopt').available(exception_flag=False)}")
 
@@ -96,7 +93,7 @@ def run_window(label: str, case, options: dict) -> None:
     problem, basis, config, found, t_opt = optimised(case, options, None)
     max_stages = config.max_stages
     b = found.best
-    evaluator = Evaluator(problem, basis, config, deadline=float("inf"), low=3)
+    evaluator = Evaluator(problem, basis, config, deadline=float("inf"), low=3, warm_starts=False)
     start = time.perf_counter()
     for n in range(b.stages - WINDOW_STAGES, b.stages + WINDOW_STAGES + 1):
         for f in range(b.feed_stage - WINDOW_FEED, b.feed_stage + WINDOW_FEED + 1):

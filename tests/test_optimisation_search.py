@@ -163,14 +163,14 @@ def test_failed_neighbour_is_counted_not_scored_infeasible(problem, cheap_steam,
     assert optimum.solver.status == "locally optimal (discrete neighbourhood)"
     assert optimum.solver.neighbours == 8 and optimum.solver.neighbours_unsolved == 0
     N, NF = optimum.best.stages, optimum.best.feed_stage
-    solve = search.configuration_tac
+    solve = search.configuration_design
 
     def failing(problem, basis, stages, feed_stage, *args, **kwargs):
         if (stages, feed_stage) == (N + 1, NF):
             raise SolverError("forced failure for the test")
         return solve(problem, basis, stages, feed_stage, *args, **kwargs)
 
-    monkeypatch.setattr(search, "configuration_tac", failing)
+    monkeypatch.setattr(search, "configuration_design", failing)
     found = optimise(problem, cheap_steam, OPTIONS)
     assert (found.best.stages, found.best.feed_stage) == (N, NF)
     assert found.best.tac == pytest.approx(optimum.best.tac, rel=1e-6)
@@ -187,7 +187,7 @@ def test_solver_failing_everywhere_is_not_called_infeasible(problem, cheap_steam
     def failing(*args, **kwargs):
         raise SolverError("forced failure for the test")
 
-    monkeypatch.setattr(search, "configuration_tac", failing)
+    monkeypatch.setattr(search, "configuration_design", failing)
     with pytest.raises(SolverError, match="the solver failed on every configuration tried"):
         optimise(problem, cheap_steam, OPTIONS)
 

@@ -41,7 +41,7 @@ def enumerate_designs(problem: SeparationProblem, basis: CostBasis, options=None
         config.max_stages = default_max_stages(shortcut(problem).minimum_stages)
     low, high = stage_range or (stage_floor(shortcut(problem), config), config.max_stages)
     start = time.perf_counter()
-    evaluator = Evaluator(problem, basis, config, deadline=math.inf, low=low)
+    evaluator = Evaluator(problem, basis, config, deadline=math.inf, low=low, warm_starts=False)
     for stages in range(low, high + 1):
         for feed_stage in range(2, stages):
             evaluator.tac(stages, feed_stage)

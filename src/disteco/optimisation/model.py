@@ -363,16 +363,25 @@ def _required_diameter(m) -> float:
     Evaluated on floats with the same function (walking the Pyomo expressions took about
     0.07 s per configuration on the five-component example, most of its initialisation).
     """
+    return diameter_of(max(required_areas(m).values(), default=0.0))
+
+
+def required_areas(m) -> dict[int, float]:
+    """Tray cross-section flooding needs on each tray at the current point [m^2], on floats.
+
+    The same function as the model's flooding constraints; walking the Pyomo expressions
+    instead took about 0.2 s per configuration read back (benzene-toluene, 29 stages).
+    """
     f, trays = m.problem.fitted, m.basis.trays
-    need = 0.0
+    need = {}
     for j in m.TRAYS:
         x, y = [pyo.value(m.x[j, i]) for i in m.C], [pyo.value(m.y[j, i]) for i in m.C]
         T = pyo.value(m.T[j])
-        need = max(need, required_tray_area(
+        need[j] = required_tray_area(
             pyo.value(m.V[j]) * f.molar_mass(y), pyo.value(m.L[j]) * f.molar_mass(x), liquid_density(f, T, x),
             vapour_density(m.P[j], T, f.molar_mass(y)), f.surface_tension_of(T, x), trays.tray_spacing,
-            trays.flooding_fraction, trays.flooding_method, trays.system_factor, trays.downcomer_fraction))
-    return diameter_of(need)
+            trays.flooding_fraction, trays.flooding_method, trays.system_factor, trays.downcomer_fraction)
+    return need
 
 
 def _inside(value: float, var) -> float:

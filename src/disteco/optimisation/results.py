@@ -160,3 +160,5 @@ class OptimumDesign:
     # the separation problem and cost basis of the last round, for further designs on the same basis
     problem: object | None = field(default=None, compare=False, repr=False)
     basis: object | None = field(default=None, compare=False, repr=False)
+    # every configuration the search solved (the last round's), each at its own lowest-TAC reflux
+    solved: tuple[DesignEvaluation, ...] = field(default=(), compare=False, repr=False)

@@ -6,7 +6,9 @@ going in that direction while the TAC keeps falling (a line search), then looks 
 neighbours again. It stops at a configuration none of whose neighbours is cheaper: a
 local optimum in the discrete sense of logic-based discrete steepest descent (Bernal et
 al., 2018). Each configuration is solved from its own start profile, so a configuration's
-TAC does not depend on the order of visits.
+TAC does not depend on the order of visits (up to the solver's tolerance): it starts from the
+solved profile of the nearest configuration already solved, mapped onto its stages, and from
+its own constant-molar-overflow profile only when that start fails.
 
 References
 ----------
@@ -22,6 +24,7 @@ import math
 import time
 from dataclasses import dataclass, field
 
+import numpy as np
 import pyomo.environ as pyo
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
@@ -30,8 +33,8 @@ from .given import check_stage_bound
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
-from .start import Shortcut, shortcut
-from .solve import certify, configuration_tac, read_design, solved_model
+from .start import Profile, Shortcut, moved_profile, shortcut
+from .solve import certify, configuration_design, solved_model
 
 # The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
 # Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
@@ -46,7 +49,14 @@ IMPROVEMENT = 1e-7  # relative TAC drop that counts as a move
 
 @dataclass
 class Evaluator:
-    """Solves configurations once each and remembers the outcome."""
+    """Solves configurations once each and remembers the outcome.
+
+    With ``warm_starts`` a configuration starts from the solved profile of the nearest
+    configuration already solved (:func:`moved_profile`), and from its own constant-molar-
+    overflow profile only if that fails (measured, see DEVELOPERS.md: fewer iterations and no
+    start profile to build). The enumeration turns them off, so that it stays a reference
+    independent of the order of visits.
+    """
 
     problem: SeparationProblem
     basis: CostBasis
@@ -56,7 +66,9 @@ class Evaluator:
     steps: list = field(default_factory=list)
     failures: dict = field(default_factory=dict)  # (N, NF) -> why the solve failed (not infeasibility)
     profiles: dict = field(default_factory=dict)  # (N, NF) -> its solved profile, to restart it from
+    evaluations: dict = field(default_factory=dict)  # (N, NF) -> its lowest-TAC DesignEvaluation
     strategies: tuple = ()  # barrier strategies, the one that last worked first
+    warm_starts: bool = True
 
     low: int = 3
 
@@ -70,14 +82,16 @@ class Evaluator:
             self.designs[key] = self._solve(stages, feed_stage)
         return self.designs[key]
 
+    def seed(self, designs) -> None:
+        """Take ``designs`` (DesignEvaluation, solved on this problem and basis) as solved configurations."""
+        for design in designs:
+            key = (design.stages, design.feed_stage)
+            self.designs[key], self.evaluations[key] = design.tac, design
+            self.profiles[key] = start_of(design)
+
     def _solve(self, stages: int, feed_stage: int) -> float:
-        remaining = self.deadline - time.perf_counter()
-        if remaining <= 0.0:
-            raise TimeoutError
         try:
-            tac, profile, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
-                                               time_limit=min(remaining, self.config.configuration_time_limit),
-                                               strategies=self.strategies or None)
+            design, profile = self._solved(stages, feed_stage)
         except InfeasibleSpecError as exc:
             self.steps.append(SearchStep(stages, feed_stage, None, f"{type(exc).__name__}: {exc}"))
             return float("inf")
@@ -88,11 +102,38 @@ class Evaluator:
             self.failures[(stages, feed_stage)] = reason
             self.steps.append(SearchStep(stages, feed_stage, None, reason))
             return float("inf")
-        self.steps.append(SearchStep(stages, feed_stage, tac, report.status))
+        report = design.solver
+        self.steps.append(SearchStep(stages, feed_stage, design.tac, report.status))
         self.profiles[(stages, feed_stage)] = profile
+        self.evaluations[(stages, feed_stage)] = design
         if report.barrier:
             self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
-        return tac
+        return design.tac
+
+    def _solved(self, stages: int, feed_stage: int):
+        """(design, profile) from the nearest solved configuration's profile, else from a new start."""
+        near = self.nearest(stages, feed_stage) if self.warm_starts else None
+        if near is not None:
+            start = moved_profile(self.profiles[near], near[1], stages, feed_stage)
+            try:
+                return configuration_design(self.problem, self.basis, stages, feed_stage, self.config,
+                                            time_limit=self._limit(), strategies=self.strategies or None, start=start)
+            except (InfeasibleSpecError, SolverError, ConvergenceError):
+                pass  # a start can mislead a nonconvex solve; the configuration's own start decides
+        return configuration_design(self.problem, self.basis, stages, feed_stage, self.config,
+                                    time_limit=self._limit(), strategies=self.strategies or None)
+
+    def _limit(self) -> float:
+        remaining = self.deadline - time.perf_counter()
+        if remaining <= 0.0:
+            raise TimeoutError
+        return min(remaining, self.config.configuration_time_limit)
+
+    def nearest(self, stages: int, feed_stage: int) -> tuple[int, int] | None:
+        """The solved configuration closest to (N, NF): fewest stage and feed moves, stage moves first."""
+        if not self.profiles:
+            return None
+        return min(self.profiles, key=lambda k: (abs(k[0] - stages) + abs(k[1] - feed_stage), abs(k[0] - stages)))
 
     def neighbours(self, stages: int, feed_stage: int) -> list[tuple[int, int]]:
         """The configurations next to (N, NF) within the stage range."""
@@ -106,6 +147,13 @@ class Evaluator:
         """The cheapest feasible configuration seen."""
         feasible = {k: v for k, v in self.designs.items() if v < float("inf")}
         return min(feasible, key=feasible.get) if feasible else None
+
+
+def start_of(design) -> Profile:
+    """A solved design's stage profile as a start :class:`Profile` for the model."""
+    p = design.profile
+    return Profile(p.reflux_ratio, p.distillate_flow, np.array(p.T), np.array(p.x), np.array(p.y), np.array(p.L),
+                   np.array(p.V))
 
 
 def default_max_stages(minimum_stages: float) -> int:
@@ -278,22 +326,11 @@ def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: 
         f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}){failed}; tried {tried}")
 
 
-def final_solve(evaluator: Evaluator, chosen: tuple[int, int]):
-    """Solve the chosen configuration again for the full read-back, from its own solved profile.
-
-    Restarting from the solution takes a few iterations; a cold re-solve can stall where the
-    search's solve did not (measured: a 25-bar deethaniser with a partial condenser, whose
-    chosen configuration needed the constant-molar-overflow homotopy).
-    """
+def final_model(evaluator: Evaluator, chosen: tuple[int, int]):
+    """The chosen configuration's model solved again from its own profile (for the certifying solver)."""
     problem, basis, config = evaluator.problem, evaluator.basis, evaluator.config
-    strategies = evaluator.strategies or None
-    start = evaluator.profiles.get(chosen)
-    if start is not None:
-        try:
-            return solved_model(problem, basis, *chosen, config, start=start, strategies=strategies)
-        except (SolverError, InfeasibleSpecError):
-            pass
-    return solved_model(problem, basis, *chosen, config, strategies=strategies)
+    return solved_model(problem, basis, *chosen, config, start=evaluator.profiles[chosen],
+                        strategies=evaluator.strategies or None)
 
 
 def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
@@ -329,10 +366,10 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
     chosen = evaluator.best()
     if chosen is None:
         raise _nothing_found(evaluator, estimate, config, timed_out)
-    model, local = final_solve(evaluator, chosen)
-    best = read_design(model, local)
+    best = evaluator.evaluations[chosen]  # read back when solved: no second solve
     gap, message = None, ""
     if config.certify:
+        model, _ = final_model(evaluator, chosen)
         bound = certify(model, config, pyo.value(model.objective))
         gap = bound.gap
         message = (f"{bound.solver} on the best configuration: {bound.status}, gap "
@@ -349,4 +386,4 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
         warnings += (f"the optimum lies at the largest stage count allowed ({config.max_stages}); "
                      "raise max_stages to look further",)
     return OptimumDesign(best, estimate.minimum_reflux, estimate.minimum_stages, report,
-                         tuple(evaluator.steps), warnings)
+                         tuple(evaluator.steps), warnings, solved=tuple(evaluator.evaluations.values()))

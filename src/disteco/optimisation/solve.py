@@ -18,7 +18,7 @@ from pyomo.opt import SolverStatus, TerminationCondition as TC
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
-from .model import KILO, build_column_model, initialise, shortfall
+from .model import KILO, build_column_model, initialise, required_areas, shortfall
 from .options import model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
 from .start import Profile, cmo_profile, gilliland_reflux, shortcut
@@ -226,16 +226,16 @@ def solve_configuration(problem: SeparationProblem, basis: CostBasis, stages: in
                                      strategies))
 
 
-def configuration_tac(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
-                      options=None, time_limit: float | None = None,
-                      strategies: tuple[str, ...] | None = None) -> tuple[float, Profile, SolverReport]:
-    """(TAC [currency/yr], solved profile, report) of one configuration, without the full read-back.
+def configuration_design(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
+                         options=None, time_limit: float | None = None, strategies: tuple[str, ...] | None = None,
+                         start: Profile | None = None) -> tuple[DesignEvaluation, Profile]:
+    """(lowest-TAC design, its solved profile) of one configuration, from ``start`` if given.
 
-    The profile restarts the configuration later (the search's final read-back) in a few iterations.
+    The profile starts neighbouring configurations (:func:`~disteco.optimisation.start.moved_profile`).
     """
-    model, report = solved_model(problem, basis, stages, feed_stage, options, time_limit=time_limit,
+    model, report = solved_model(problem, basis, stages, feed_stage, options, start=start, time_limit=time_limit,
                                  strategies=strategies)
-    return pyo.value(model.tac), profile_of(model), report
+    return read_design(model, report), profile_of(model)
 
 
 def read_design(model, report: SolverReport) -> DesignEvaluation:
@@ -254,7 +254,7 @@ def read_design(model, report: SolverReport) -> DesignEvaluation:
         distillate_flow=D, bottoms_flow=B, distillate_composition=distillate, bottoms_composition=x[-1],
         condenser_duty=v(m.Qc) * KILO, reboiler_duty=v(m.Qr) * KILO, condenser_temperature=v(m.TD) - p.subcooling,
         partial_condenser=partial, model="rigorous" if m.config.energy_balances else "cmo")
-    need = {j: v(m.required_area[j]) for j in m.TRAYS}
+    need = required_areas(m)
     sizes = ColumnSizes(diameter=v(m.diameter), height=m.height, real_trays=m.real_trays,
                         tray_efficiency=b.trays.efficiency, condenser_area=v(m.condenser_area),
                         reboiler_area=v(m.reboiler_area), condenser_duty=v(m.Qc) * KILO,

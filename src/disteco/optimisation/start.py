@@ -55,6 +55,37 @@ class Profile:
     V: np.ndarray  # mol/s, vapour leaving each stage
 
 
+def _section_rows(rows: np.ndarray, count: int) -> np.ndarray:
+    """``rows`` (one per stage of a column section) stretched or shrunk to ``count`` rows by linear interpolation."""
+    if count == len(rows):
+        return rows.copy()
+    if len(rows) == 1 or count == 1:
+        return np.repeat(rows[:1] if count == 1 else rows, count, axis=0)[:count]
+    where = np.linspace(0.0, len(rows) - 1.0, count)
+    low = np.minimum(np.floor(where).astype(int), len(rows) - 2)
+    share = (where - low).reshape((-1,) + (1,) * (rows.ndim - 1))
+    return (1.0 - share) * rows[low] + share * rows[low + 1]
+
+
+def moved_profile(profile: Profile, feed_stage: int, stages: int, new_feed_stage: int) -> Profile:
+    """A solved column's profile (feed on ``feed_stage``) mapped onto ``stages`` with the feed on ``new_feed_stage``.
+
+    Each section (the stages above the feed, and the feed stage down to the reboiler) is
+    stretched or shrunk on its own, so stages inserted or removed and a moved feed keep the
+    feed's conditions at the feed and the products' at the ends. The start of a neighbouring
+    configuration (see :class:`disteco.optimisation.search.Evaluator`).
+    """
+    def mapped(values: np.ndarray) -> np.ndarray:
+        values = np.asarray(values, dtype=float)
+        return np.concatenate([_section_rows(values[:feed_stage - 1], new_feed_stage - 1),
+                               _section_rows(values[feed_stage - 1:], stages - new_feed_stage + 1)])
+
+    x, y = mapped(profile.x), mapped(profile.y)
+    return Profile(profile.reflux_ratio, profile.distillate_flow, mapped(profile.T),
+                   x / x.sum(axis=1, keepdims=True), y / y.sum(axis=1, keepdims=True), mapped(profile.L),
+                   mapped(profile.V))
+
+
 def _split(problem: SeparationProblem, alpha: np.ndarray) -> np.ndarray:
     """Distillate component flows [mol/s]: keys by the specs, non-keys sharply by volatility."""
     F, z = problem.feed_flow, np.asarray(problem.z)

@@ -193,8 +193,9 @@ def _tries(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage
     """The tries of :func:`attempts` on one configuration, until one solves; the last failure raises."""
     plan = attempts(config, strategies, retries=start is None and fixed_reflux is None)
     profiles = {}
+    # One model for all tries: a failed solve loads nothing, so initialising again restores every value.
+    model = build_column_model(problem, basis, stages, feed_stage, config)
     for attempt, (factor, barrier, iterations) in enumerate(plan):
-        model = build_column_model(problem, basis, stages, feed_stage, config)
         if factor not in profiles:
             profiles[factor] = start or start_profile(problem, stages, feed_stage, fixed_reflux, factor=factor)
         initialise(model, profiles[factor])

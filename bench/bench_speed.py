@@ -95,6 +95,8 @@ def main() -> None:
     parser.add_argument("--base", default="main", help="git revision to compare with (default main)")
     parser.add_argument("--examples", nargs="+", default=["aromatics_binary"])
     parser.add_argument("--repeats", type=int, default=1)
+    parser.add_argument("--tree", type=Path, default=ROOT / "src",
+                        help="source folder to measure against the base (default: this tree's src)")
     args = parser.parse_args()
     print(facts(), flush=True)
     with tempfile.TemporaryDirectory() as tmp:
@@ -103,7 +105,7 @@ def main() -> None:
         archive = subprocess.run(["git", "-C", str(ROOT), "archive", args.base, "src"], check=True,
                                  capture_output=True).stdout
         subprocess.run(["tar", "-x", "-C", str(base)], input=archive, check=True)
-        sources = {args.base: base / "src", "this tree": ROOT / "src"}
+        sources = {args.base: base / "src", "this tree": args.tree}
         for name in args.examples:
             example = ROOT / "examples" / f"{name}.toml"
             runs = {label: [] for label in sources}

@@ -5,8 +5,8 @@ folder and runs the same measurement on it and on this working tree, alternately
 (``--repeats`` times each), each in a fresh interpreter with that source first on the path.
 Prints per example and revision: ``disteco check`` and ``disteco design`` (figures
 included) wall and CPU time (the solver's processes included), the optimisation's and the
-TAC curve's CPU time, solves and curve points, the optimum; then the ratios new / base and
-the machine's facts. On a shared machine compare the ratios, not the absolute times.
+TAC curve's CPU time, NLP solves (tries included) and curve points, the optimum; then the
+ratios new / base and the machine's facts. On a shared machine compare the ratios, not the absolute times.
 
     python bench/bench_speed.py                          # binary example, base main
     python bench/bench_speed.py --examples aromatics_binary ethanol_water depentaniser --repeats 2
@@ -34,13 +34,13 @@ def cpu():
     t = os.times()
     return t.user + t.system + t.children_user + t.children_system
 case_path, out = sys.argv[1], sys.argv[2]
-import disteco.optimisation.search as search
+import disteco.optimisation.solve as solve
 solves = [0]
-original = search.Evaluator._solve
-def counted(self, *args):
+original = solve.run_solver
+def counted(*args, **kwargs):  # every NLP solve, failed tries included
     solves[0] += 1
-    return original(self, *args)
-search.Evaluator._solve = counted
+    return original(*args, **kwargs)
+solve.run_solver = counted
 from disteco import api
 from disteco.optimisation.curves import reflux_curve
 from disteco.optimisation.design import optimise_design

@@ -25,7 +25,7 @@ from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
 from .options import first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
-from .search import Evaluator, stage_floor
+from .search import Evaluator, stage_floor, worker_pool
 from .start import shortcut
 
 CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows: the largest ends the curve
@@ -69,12 +69,13 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     evaluator.strategies = config.barrier_strategies
     most = min(config.max_stages, math.ceil(MORE_STAGES_FACTOR * best.stages))
     fewest = max(evaluator.low, top.whole_stages if top else evaluator.low)  # the table's stages at that reflux
-    try:
-        _extend(evaluator, -1, fewest, lambda last, new: new.reflux_ratio >= highest)
-        _extend(evaluator, +1, most,
-                lambda last, new: last.reflux_ratio - new.reflux_ratio < FLAT_REFLUX * new.reflux_ratio)
-    except TimeoutError:
-        pass  # the curve keeps the points found within the time limit
+    with worker_pool(config) as evaluator.pool:
+        try:
+            _extend(evaluator, -1, fewest, lambda last, new: new.reflux_ratio >= highest)
+            _extend(evaluator, +1, most,
+                    lambda last, new: last.reflux_ratio - new.reflux_ratio < FLAT_REFLUX * new.reflux_ratio)
+        except TimeoutError:
+            pass  # the curve keeps the points found within the time limit
     return along_reflux(evaluator.evaluations.values())
 
 
@@ -109,8 +110,8 @@ def _feed_between(evaluator: Evaluator, stages: int, position: float) -> int | N
     feed share stays within 0.41-0.50 over 15 to 42 stages). A full line search would cost a
     third solve at every point for a TAC change of about 0.01 %.
     """
-    feeds = {min(max(math.floor(position) + k, 2), stages - 1) for k in (0, 1)}
-    costs = {feed: evaluator.tac(stages, feed) for feed in sorted(feeds)}
+    feeds = sorted({min(max(math.floor(position) + k, 2), stages - 1) for k in (0, 1)})
+    costs = {feed: tac for (_, feed), tac in evaluator.tac_all([(stages, feed) for feed in feeds]).items()}
     feed = min(costs, key=costs.get)
     return None if costs[feed] == float("inf") else feed
 

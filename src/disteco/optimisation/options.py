@@ -114,6 +114,11 @@ def _options() -> ConfigDict:
                                           description="certify the best configuration with a global solver"))
     config.declare("certify_solver", ConfigValue(default="scip_direct", domain=str))
     config.declare("certify_time_limit", ConfigValue(default=30.0, domain=SECONDS, description="[s]"))
+    config.declare("workers", ConfigValue(
+        default=None, domain=_optional(COUNT),
+        description="worker processes solving independent configurations side by side (neighbours, feed "
+                    "stages tried together, the curve's feed stages); None: the cores available, at most "
+                    "4; 1: all in this process. Results are the same either way"))
     config.declare("tee", ConfigValue(default=False, domain=Bool, description="print solver logs"))
     return config
 

@@ -21,7 +21,11 @@ References
 from __future__ import annotations
 
 import math
+import multiprocessing
+import os
 import time
+from concurrent.futures import ProcessPoolExecutor
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -69,6 +73,7 @@ class Evaluator:
     evaluations: dict = field(default_factory=dict)  # (N, NF) -> its lowest-TAC DesignEvaluation
     strategies: tuple = ()  # barrier strategies, the one that last worked first
     warm_starts: bool = True
+    pool: object | None = None  # an executor whose workers solve the configurations of a batch
 
     low: int = 3
 
@@ -77,10 +82,25 @@ class Evaluator:
 
     def tac(self, stages: int, feed_stage: int) -> float:
         """TAC of a configuration [currency/yr]; infinity when it has no feasible design."""
-        key = (stages, feed_stage)
-        if key not in self.designs:
-            self.designs[key] = self._solve(stages, feed_stage)
-        return self.designs[key]
+        return self.tac_all([(stages, feed_stage)])[(stages, feed_stage)]
+
+    def tac_all(self, keys) -> dict[tuple[int, int], float]:
+        """TAC of each configuration in ``keys`` [currency/yr], those not yet solved solved as one batch.
+
+        Every configuration of a batch starts from the profiles and barrier strategies known
+        before the batch, so a batch gives the same results whether its solves run one after
+        the other or side by side in the ``pool``'s worker processes.
+        """
+        todo = [key for key in dict.fromkeys(keys) if key not in self.designs]
+        if todo:
+            limit = self._limit()
+            jobs = [(self.problem, self.basis, self.config.value(), stages, feed_stage, self._start(stages, feed_stage),
+                     limit, self.strategies or None) for stages, feed_stage in todo]
+            outcomes = self.pool.map(solve_job, jobs) if self.pool is not None and len(jobs) > 1 \
+                else map(solve_job, jobs)
+            for key, outcome in zip(todo, list(outcomes)):
+                self.designs[key] = self._record(key, outcome)
+        return {key: self.designs[key] for key in keys}
 
     def seed(self, designs) -> None:
         """Take ``designs`` (DesignEvaluation, solved on this problem and basis) as solved configurations."""
@@ -89,39 +109,30 @@ class Evaluator:
             self.designs[key], self.evaluations[key] = design.tac, design
             self.profiles[key] = start_of(design)
 
-    def _solve(self, stages: int, feed_stage: int) -> float:
-        try:
-            design, profile = self._solved(stages, feed_stage)
-        except InfeasibleSpecError as exc:
-            self.steps.append(SearchStep(stages, feed_stage, None, f"{type(exc).__name__}: {exc}"))
+    def _start(self, stages: int, feed_stage: int) -> Profile | None:
+        near = self.nearest(stages, feed_stage) if self.warm_starts else None
+        return None if near is None else moved_profile(self.profiles[near], near[1], stages, feed_stage)
+
+    def _record(self, key: tuple[int, int], outcome) -> float:
+        """Record a solve's outcome (see :func:`solve_job`); return the configuration's TAC."""
+        kind, found = outcome
+        if kind == "infeasible":
+            self.steps.append(SearchStep(*key, None, found))
             return float("inf")
-        except (SolverError, ConvergenceError) as exc:
+        if kind == "failed":
             # Not scored as infeasible: recorded so the result can say the neighbourhood is incomplete.
             # The search cannot price it, so it moves on as if it were dearer than any design.
-            reason = f"did not solve: {type(exc).__name__}: {exc}"
-            self.failures[(stages, feed_stage)] = reason
-            self.steps.append(SearchStep(stages, feed_stage, None, reason))
+            reason = f"did not solve: {found}"
+            self.failures[key] = reason
+            self.steps.append(SearchStep(*key, None, reason))
             return float("inf")
+        design, profile = found
         report = design.solver
-        self.steps.append(SearchStep(stages, feed_stage, design.tac, report.status))
-        self.profiles[(stages, feed_stage)] = profile
-        self.evaluations[(stages, feed_stage)] = design
+        self.steps.append(SearchStep(*key, design.tac, report.status))
+        self.profiles[key], self.evaluations[key] = profile, design
         if report.barrier:
             self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
         return design.tac
-
-    def _solved(self, stages: int, feed_stage: int):
-        """(design, profile) from the nearest solved configuration's profile, else from a new start."""
-        near = self.nearest(stages, feed_stage) if self.warm_starts else None
-        if near is not None:
-            start = moved_profile(self.profiles[near], near[1], stages, feed_stage)
-            try:
-                return configuration_design(self.problem, self.basis, stages, feed_stage, self.config,
-                                            time_limit=self._limit(), strategies=self.strategies or None, start=start)
-            except (InfeasibleSpecError, SolverError, ConvergenceError):
-                pass  # a start can mislead a nonconvex solve; the configuration's own start decides
-        return configuration_design(self.problem, self.basis, stages, feed_stage, self.config,
-                                    time_limit=self._limit(), strategies=self.strategies or None)
 
     def _limit(self) -> float:
         remaining = self.deadline - time.perf_counter()
@@ -147,6 +158,54 @@ class Evaluator:
         """The cheapest feasible configuration seen."""
         feasible = {k: v for k, v in self.designs.items() if v < float("inf")}
         return min(feasible, key=feasible.get) if feasible else None
+
+
+def solve_job(job) -> tuple[str, object]:
+    """Solve one configuration (in a worker process or not): ("ok", (design, profile)), ("infeasible",
+    why) or ("failed", why).
+
+    From the given start first when there is one (a solved neighbour's profile), then from the
+    configuration's own start if that fails: a start can mislead a nonconvex solve.
+    """
+    problem, basis, values, stages, feed_stage, start, limit, strategies = job
+    config = model_options(values)
+    for begin in ((start, None) if start is not None else (None,)):
+        try:
+            return "ok", configuration_design(problem, basis, stages, feed_stage, config, time_limit=limit,
+                                              strategies=strategies, start=begin)
+        except InfeasibleSpecError as exc:
+            outcome = "infeasible", f"{type(exc).__name__}: {exc}"
+        except (SolverError, ConvergenceError) as exc:
+            outcome = "failed", f"{type(exc).__name__}: {exc}"
+    return outcome
+
+
+MAX_WORKERS = 4  # the default's cap: a neighbourhood holds 8 configurations, a line search 1
+
+
+def usable_cores() -> int:
+    """Cores this process may run on."""
+    try:
+        return len(os.sched_getaffinity(0))
+    except AttributeError:  # not on every platform
+        return os.cpu_count() or 1
+
+
+@contextmanager
+def worker_pool(config):
+    """Worker processes for the batches of an :class:`Evaluator`, or None for one worker.
+
+    Forked where the platform allows it (the workers inherit the imported modules and the
+    problem), else started afresh.
+    """
+    workers = config.workers if config.workers is not None else min(usable_cores(), MAX_WORKERS)
+    if workers <= 1:
+        yield None
+        return
+    methods = multiprocessing.get_all_start_methods()
+    context = multiprocessing.get_context("fork" if "fork" in methods else None)
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+        yield pool
 
 
 def start_of(design) -> Profile:
@@ -250,7 +309,8 @@ def first_feasible(evaluator: Evaluator, stages: int, kirkbride_feed: int) -> tu
     step = 1
     while True:
         feeds = [kirkbride_feed] + [min(max(round(f * stages), 2), stages - 1) for f in FEED_TRIALS]
-        values = {feed: evaluator.tac(stages, feed) for feed in dict.fromkeys(feeds) if evaluator.allowed(stages, feed)}
+        values = evaluator.tac_all([(stages, feed) for feed in dict.fromkeys(feeds) if evaluator.allowed(stages, feed)])
+        values = {feed: v for (_, feed), v in values.items()}
         feasible = {feed: v for feed, v in values.items() if v < float("inf")}
         if feasible or stages >= evaluator.config.max_stages:
             return stages, min(feasible, key=feasible.get) if feasible else kirkbride_feed
@@ -265,7 +325,7 @@ def descend(evaluator: Evaluator, start: tuple[int, int]) -> tuple[int, int]:
     value = evaluator.tac(*current)
     while True:
         moves = evaluator.neighbours(*current)
-        values = {move: evaluator.tac(*move) for move in moves}
+        values = evaluator.tac_all(moves)
         best = min(values, key=values.get) if values else current
         if not values or values[best] >= value * (1.0 - IMPROVEMENT) or values[best] == float("inf"):
             if value < float("inf"):
@@ -351,18 +411,21 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
         config.max_stages = default_max_stages(estimate.minimum_stages)
     check_stage_bound(estimate, config.max_stages)
     clock = time.perf_counter()
-    evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config))
     timed_out = False
-    try:
-        if start is not None and evaluator.allowed(*start):
-            descend(evaluator, start)
-        else:
-            stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
-            feed = feed_search(evaluator, stages, feed)
-            ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
-            descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
-    except TimeoutError:
-        timed_out = True
+    with worker_pool(config) as pool:
+        evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config),
+                              pool=pool)
+        try:
+            if start is not None and evaluator.allowed(*start):
+                descend(evaluator, start)
+            else:
+                stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
+                feed = feed_search(evaluator, stages, feed)
+                ratio = (feed - 1) / (stages - feed + 1)  # the best feed stage found recalibrates Kirkbride's ratio
+                descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
+        except TimeoutError:
+            timed_out = True
+        evaluator.pool = None  # closed with the block
     chosen = evaluator.best()
     if chosen is None:
         raise _nothing_found(evaluator, estimate, config, timed_out)

@@ -5,6 +5,8 @@ Engineers use this from notebooks and scripts; the command line is a thin layer 
 
 from __future__ import annotations
 
+import importlib
+import sys
 from contextlib import AbstractContextManager
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -218,10 +220,9 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
     if not isinstance(folder, ClaimedFolder):
         with claim_output(folder, case=result.case) as claimed:
             return write_results(result, claimed, figures)
-    from .reports.figures import write_design_figures
-    from .reports.json_result import result_json
-    from .reports.workbook import write_workbook
-
+    this = sys.modules[__name__]
+    write_workbook, write_design_figures, result_json = (
+        getattr(this, name) for name in ("write_workbook", "write_design_figures", "result_json"))
     drawn: list[Path] = []
     writers = {WORKBOOK_FILE: lambda path: write_workbook(result, path, result.parts),
                RESULT_FILE: lambda path: write_json(path, result_json(result))}
@@ -232,11 +233,18 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
         folder.path / FIGURE_FOLDER / p.name for p in drawn]
 
 
+# Offered here but imported on first use (see ``__getattr__``): the writers pull in openpyxl and
+# matplotlib. ``write_results`` looks them up on this module, so replacing one here takes effect.
+_LAZY = {"OptimumDesign": ".optimisation.results", "write_workbook": ".reports.workbook",
+         "write_design_figures": ".reports.figures", "result_json": ".reports.json_result"}
+
+
 def __getattr__(name: str):
-    if name == "OptimumDesign":  # offered here, imported on first use
-        from .optimisation.results import OptimumDesign
-        return OptimumDesign
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    if name not in _LAZY:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(_LAZY[name], __package__), name)
+    globals()[name] = value
+    return value
 
 
 __all__ = ["GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of", "design", "load_case",

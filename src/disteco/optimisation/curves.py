@@ -5,9 +5,10 @@ lowest-TAC reflux ratio. For each stage count the point is the feed stage with t
 TAC; more stages need less reflux, so the points run from the many-stage, low-reflux side
 to the few-stage, high-reflux side. The search leaves points near the optimum; the curve adds
 stage counts on both sides, in steps that widen away from the optimum (points denser near
-the minimum), each with the better of the two feed stages around its neighbour's feed position. Every added configuration starts
-from the solved profile of its nearest solved neighbour, and all of them are the optimiser's
-own model on the optimum's cost basis, so the curve passes through the optimum.
+the minimum), each with the better of the two feed stages around its neighbour's feed
+position. Every added configuration starts from the solved profile of its nearest solved
+neighbour, and all of them are the optimiser's own model on the optimum's cost basis, so the
+curve passes through the optimum.
 """
 
 from __future__ import annotations

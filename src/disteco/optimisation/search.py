@@ -5,10 +5,11 @@ From the shortcut's configuration the search evaluates the eight neighbours
 going in that direction while the TAC keeps falling (a line search), then looks at the
 neighbours again. It stops at a configuration none of whose neighbours is cheaper: a
 local optimum in the discrete sense of logic-based discrete steepest descent (Bernal et
-al., 2018). Each configuration is solved from its own start profile, so a configuration's
-TAC does not depend on the order of visits (up to the solver's tolerance): it starts from the
-solved profile of the nearest configuration already solved, mapped onto its stages, and from
-its own constant-molar-overflow profile only when that start fails.
+al., 2018). Each configuration starts from the solved profile of the nearest configuration
+already solved, mapped onto its stages, and from its own constant-molar-overflow profile
+only when that start fails; its TAC depends on the order of visits only within the solver's
+tolerance. Configurations that do not depend on each other (the neighbours) are solved as
+one batch, side by side in worker processes when there are cores for them.
 
 References
 ----------
@@ -94,8 +95,8 @@ class Evaluator:
         todo = [key for key in dict.fromkeys(keys) if key not in self.designs]
         if todo:
             limit = self._limit()
-            jobs = [(self.problem, self.basis, self.config.value(), stages, feed_stage, self._start(stages, feed_stage),
-                     limit, self.strategies or None) for stages, feed_stage in todo]
+            values, strategies = self.config.value(), self.strategies or None
+            jobs = [(self.problem, self.basis, values, n, f, self._start(n, f), limit, strategies) for n, f in todo]
             outcomes = self.pool.map(solve_job, jobs) if self.pool is not None and len(jobs) > 1 \
                 else map(solve_job, jobs)
             for key, outcome in zip(todo, list(outcomes)):

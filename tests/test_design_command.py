@@ -110,6 +110,10 @@ def test_tac_curve_has_its_minimum_at_the_optimum(result):
         # Fewer stages are needed as the reflux rises.
         stages = [p["stages"] for p in curve["points"]]
         assert stages == sorted(stages, reverse=True)
+    # The reference curve: at least 15 points, most of them within 5 % of the optimum's reflux.
+    refluxes = [p["reflux_ratio"] for p in data["tac_curves"][0]["points"]]
+    near = [r for r in refluxes if abs(r / data["scenarios"][0]["reflux_ratio"] - 1.0) < 0.05]
+    assert len(refluxes) >= 15 and len(near) > len(refluxes) / 2
     assert (out / "figures" / "tac_vs_reflux_reference.png").stat().st_size > 10_000
 
 

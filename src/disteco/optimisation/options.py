@@ -117,8 +117,8 @@ def _options() -> ConfigDict:
     config.declare("workers", ConfigValue(
         default=None, domain=_optional(COUNT),
         description="worker processes solving independent configurations side by side (neighbours, feed "
-                    "stages tried together, the curve's feed stages); None: the cores available, at most "
-                    "4; 1: all in this process. Results are the same either way"))
+                    "stages tried together, the curve's feed stages); None: the cores not busy with other "
+                    "work, at most 4; 1: all in this process. Results are the same either way"))
     config.declare("tee", ConfigValue(default=False, domain=Bool, description="print solver logs"))
     return config
 

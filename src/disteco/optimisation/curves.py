@@ -19,7 +19,7 @@ from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
-from .options import first_strategy, model_options
+from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
 from .solve import solve_configuration
 
@@ -54,7 +54,7 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
         problem = optimum.problem
     best = optimum.best
     if best.solver.barrier:  # try first the barrier strategy that solved the optimum
-        config.barrier_strategies = first_strategy(best.solver.barrier, config.barrier_strategies)
+        config.barrier_strategies = first_strategy(best.solver.barrier, barrier_order(config, len(problem.z)))
     points = [best]
     for step in BELOW_OPTIMUM:
         left = points[-1]  # each step down needs at least the stages of the one before
@@ -88,8 +88,7 @@ def _best_at_reflux(problem, basis, config, reflux: float, stages: int, feed_rat
         if not (3 <= n <= config.max_stages and 2 <= f <= n - 1):
             return None
         try:
-            return solve_configuration(problem, basis, n, f, config, fixed_reflux=reflux,
-                                       time_limit=config.configuration_time_limit)
+            return solve_configuration(problem, basis, n, f, config, fixed_reflux=reflux)
         except (InfeasibleSpecError, SolverError, ConvergenceError):
             return None
 

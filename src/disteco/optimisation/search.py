@@ -24,14 +24,14 @@ from dataclasses import dataclass, field
 
 import pyomo.environ as pyo
 
-from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
+from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
 from .given import check_stage_bound
 from .basis import CostBasis, SeparationProblem, check_problem
-from .options import first_strategy, model_options
+from .options import barrier_order, first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Shortcut, shortcut
-from .solve import certify, configuration_tac, read_design, solved_model
+from .solve import certify, configuration_tac, read_design, size_factor, solved_model
 
 # The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
 # Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
@@ -57,6 +57,7 @@ class Evaluator:
     failures: dict = field(default_factory=dict)  # (N, NF) -> why the solve failed (not infeasibility)
     profiles: dict = field(default_factory=dict)  # (N, NF) -> its solved profile, to restart it from
     strategies: tuple = ()  # barrier strategies, the one that last worked first
+    kept: tuple | None = None  # ((N, NF), solved model, report) of the cheapest configuration so far
 
     low: int = 3
 
@@ -75,9 +76,10 @@ class Evaluator:
         if remaining <= 0.0:
             raise TimeoutError
         try:
-            tac, profile, report = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
-                                               time_limit=min(remaining, self.config.configuration_time_limit),
-                                               strategies=self.strategies or None)
+            limit = self.config.configuration_time_limit * size_factor(self.problem, stages)
+            tac, profile, report, model = configuration_tac(self.problem, self.basis, stages, feed_stage, self.config,
+                                                     time_limit=min(remaining, limit),
+                                                     strategies=self.strategies or None)
         except InfeasibleSpecError as exc:
             self.steps.append(SearchStep(stages, feed_stage, None, f"{type(exc).__name__}: {exc}"))
             return float("inf")
@@ -90,8 +92,11 @@ class Evaluator:
             return float("inf")
         self.steps.append(SearchStep(stages, feed_stage, tac, report.status))
         self.profiles[(stages, feed_stage)] = profile
+        if self.kept is None or tac < self.designs.get(self.kept[0], float("inf")):
+            self.kept = ((stages, feed_stage), model, report)
         if report.barrier:
-            self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
+            self.strategies = first_strategy(report.barrier, self.strategies
+                                             or barrier_order(self.config, len(self.problem.z)))
         return tac
 
     def neighbours(self, stages: int, feed_stage: int) -> list[tuple[int, int]]:
@@ -106,6 +111,13 @@ class Evaluator:
         """The cheapest feasible configuration seen."""
         feasible = {k: v for k, v in self.designs.items() if v < float("inf")}
         return min(feasible, key=feasible.get) if feasible else None
+
+    def unsolvable(self, stages: int, feed_stage: int, failure: Exception) -> None:
+        """Count a configuration solved before as unsolved after all (its final solve failed)."""
+        reason = f"did not solve again: {type(failure).__name__}: {failure}"
+        self.designs[(stages, feed_stage)] = float("inf")
+        self.failures[(stages, feed_stage)] = reason
+        self.steps.append(SearchStep(stages, feed_stage, None, reason))
 
 
 def default_max_stages(minimum_stages: float) -> int:
@@ -267,7 +279,9 @@ def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: 
     """The error when no configuration gave a design: time, solver failures or infeasibility."""
     tried = "; ".join(f"N={s.stages} NF={s.feed_stage}: {s.status}" for s in evaluator.steps[:4])
     if timed_out:
-        return SolverError(f"time limit of {config.time_limit:g} s reached before any feasible design ({tried})")
+        return SearchTimeLimitError(
+            "time_limit", f"the search's time limit of {config.time_limit:g} s passed before any configuration gave "
+            f"a design ({tried})", "a longer limit, e.g. several times the time one configuration takes")
     if evaluator.failures and len(evaluator.failures) == len(evaluator.designs):
         return SolverError(f"the solver failed on every configuration tried ({len(evaluator.failures)}); "
                            f"none was shown infeasible ({tried})")
@@ -279,12 +293,17 @@ def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: 
 
 
 def final_solve(evaluator: Evaluator, chosen: tuple[int, int]):
-    """Solve the chosen configuration again for the full read-back, from its own solved profile.
+    """The chosen configuration's solved model for the full read-back.
 
-    Restarting from the solution takes a few iterations; a cold re-solve can stall where the
-    search's solve did not (measured: a 25-bar deethaniser with a partial condenser, whose
-    chosen configuration needed the constant-molar-overflow homotopy).
+    The search keeps the model of its cheapest configuration. Otherwise (a configuration
+    it gave up again) it is solved again from its own solved profile, then cold.
+    Solving again can stall where the search's solve did not (measured: a 25-bar
+    deethaniser with a partial condenser, whose chosen configuration needed the
+    constant-molar-overflow homotopy; a twenty-component debutaniser whose restart from its
+    own solution stalled when the machine was loaded).
     """
+    if evaluator.kept is not None and evaluator.kept[0] == chosen:
+        return evaluator.kept[1], evaluator.kept[2]
     problem, basis, config = evaluator.problem, evaluator.basis, evaluator.config
     strategies = evaluator.strategies or None
     start = evaluator.profiles.get(chosen)
@@ -326,10 +345,16 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
             descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
     except TimeoutError:
         timed_out = True
-    chosen = evaluator.best()
-    if chosen is None:
-        raise _nothing_found(evaluator, estimate, config, timed_out)
-    model, local = final_solve(evaluator, chosen)
+    while True:
+        chosen = evaluator.best()
+        if chosen is None:
+            raise _nothing_found(evaluator, estimate, config, timed_out)
+        try:
+            model, local = final_solve(evaluator, chosen)
+            break
+        except (SolverError, InfeasibleSpecError, ConvergenceError) as failure:
+            # The next-best design is reported, and the neighbourhood says this one did not solve.
+            evaluator.unsolvable(*chosen, failure)
     best = read_design(model, local)
     gap, message = None, ""
     if config.certify:

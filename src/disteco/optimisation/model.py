@@ -235,7 +235,7 @@ def _add_sizing(m) -> None:
     mixing rules, so the flooding constraint couples a tray's compositions only through
     them: written over the mole fractions directly it couples every pair of the tray's
     2C fractions in the Hessian. Measured on a twenty-component column with 17 stages:
-    Hessian nonzeros 15980 -> see DEVELOPERS.md.
+    Hessian nonzeros 15980 -> 1996.
     """
     f, trays = m.problem.fitted, m.basis.trays
     m.TRAYS = pyo.RangeSet(1, m.N - 1)
@@ -245,14 +245,15 @@ def _add_sizing(m) -> None:
     masses = (min(f.molar_masses), max(f.molar_masses))
     m.ML = pyo.Var(m.TRAYS, bounds=masses, initialize=masses[0], doc="liquid molar mass [kg/mol]")
     m.MV = pyo.Var(m.TRAYS, bounds=masses, initialize=masses[0], doc="vapour molar mass [kg/mol]")
-    # in m^3/kmol: the barrier's push off a bound (0.01 absolute) would swamp a value of 1e-4 m^3/mol
-    m.vL = pyo.Var(m.TRAYS, bounds=(1e-3, None), initialize=0.1, doc="liquid molar volume [m^3/kmol]")
-    m.sigma = pyo.Var(m.TRAYS, bounds=(SIGMA_FLOOR, None), initialize=0.02, doc="surface tension [N/m]")
+    # in m^3/kmol and mN/m: the barrier's push off a bound (0.01 absolute) would swamp values of
+    # 1e-4 m^3/mol and a few mN/m
+    m.vL = pyo.Var(m.TRAYS, bounds=(1e-3, 10.0), initialize=0.1, doc="liquid molar volume [m^3/kmol]")
+    m.sigma = pyo.Var(m.TRAYS, bounds=(KILO * SIGMA_FLOOR, 1e3), initialize=20.0, doc="surface tension [mN/m]")
     m.liquid_molar_mass = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.ML[j] == _molar_mass(m, m.x, j))
     m.vapour_molar_mass = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.MV[j] == _molar_mass(m, m.y, j))
     m.liquid_volume = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.vL[j] == KILO * f.liquid_molar_volume(
         m.T[j], [m.x[j, i] for i in m.C]))
-    m.surface_tension = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.sigma[j] == f.surface_tension_of(
+    m.surface_tension = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.sigma[j] == KILO * f.surface_tension_of(
         m.T[j], [m.x[j, i] for i in m.C]))
     m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], m.MV[j]))
     m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: density_of(m.ML[j], m.vL[j] / KILO))
@@ -276,7 +277,7 @@ def allowable_velocity_rule(m, j):
     """Allowable vapour velocity of tray j at the design approach to flood: the sizing layer's function."""
     trays, f = m.basis.trays, m.problem.fitted
     return allowable_vapour_velocity(
-        m.flow_parameter[j], m.rho_L[j], m.rho_V[j], m.sigma[j],
+        m.flow_parameter[j], m.rho_L[j], m.rho_V[j], m.sigma[j] / KILO,
         trays.tray_spacing, trays.flooding_fraction, trays.flooding_method, trays.system_factor,
         trays.downcomer_fraction, PYOMO)
 
@@ -373,7 +374,7 @@ def initialise(m, start: Profile) -> None:
     for j in m.TRAYS:
         x, y, T = [pyo.value(m.x[j, i]) for i in m.C], [pyo.value(m.y[j, i]) for i in m.C], pyo.value(m.T[j])
         for var, value in ((m.ML, f.molar_mass(x)), (m.MV, f.molar_mass(y)), (m.vL, KILO * f.liquid_molar_volume(T, x)),
-                           (m.sigma, f.surface_tension_of(T, x))):
+                           (m.sigma, KILO * f.surface_tension_of(T, x))):
             var[j].set_value(_inside(value, var[j]))
     m.diameter.set_value(_inside(_required_diameter(m), m.diameter))
     # The shortfall charge scales with the start's TAC: large enough to be exact, small

@@ -24,14 +24,9 @@ def vapour_density(pressure, temperature, molar_mass):
     return pressure * molar_mass / (GAS_CONSTANT * temperature)
 
 
-def density_of(molar_mass, molar_volume):
-    """Density rho = M / v [kg/m^3] from molar mass [kg/mol] and molar volume [m^3/mol] (floats or Pyomo)."""
-    return molar_mass / molar_volume
-
-
 def liquid_density(fitted: FittedMixture, T, x):
     """Liquid density from the fitted molar volume, M(x) / v_L(T, x) [kg/m^3] (floats or Pyomo)."""
-    return density_of(fitted.molar_mass(x), fitted.liquid_molar_volume(T, x))
+    return fitted.molar_mass(x) / fitted.liquid_molar_volume(T, x)
 
 
 class FittedSizingProperties:

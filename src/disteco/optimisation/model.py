@@ -26,7 +26,7 @@ from ..sizing.auxiliaries import drum_volume, pump_shaft_power
 from ..sizing.exchangers import exchanger_area, mean_temperature_difference, terminal_differences
 from ..sizing.flooding import allowable_vapour_velocity, diameter_of, flow_parameter, required_tray_area, tray_area
 from .basis import CostBasis, SeparationProblem
-from .fitted_sizing import density_of, liquid_density, vapour_density
+from .fitted_sizing import liquid_density, vapour_density
 from .options import model_options
 from .start import Profile, partial_condenser_split
 
@@ -34,7 +34,6 @@ PYOMO = Operations(pyo.exp, pyo.log, pyo.sqrt)
 KILO = 1e3
 TAC_SCALE = 1e3  # objective in thousands of currency per year
 FLOW_FLOOR = 1e-4  # fraction of the feed kept as the smallest internal flow (keeps F_LV**c3 smooth)
-SIGMA_FLOOR = 1e-4  # smallest surface tension the model allows [N/m]; (sigma/0.02)**0.2 needs it positive
 
 
 def build_column_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int,
@@ -229,37 +228,17 @@ def shortfall(m) -> float:
 
 
 def _add_sizing(m) -> None:
-    """Flooding at every tray, on per-tray mixture properties held as variables.
-
-    Molar masses, liquid molar volume and surface tension are variables defined by their
-    mixing rules, so the flooding constraint couples a tray's compositions only through
-    them: written over the mole fractions directly it couples every pair of the tray's
-    2C fractions in the Hessian. Measured on a twenty-component column with 17 stages:
-    Hessian nonzeros 15980 -> 1996.
-    """
     f, trays = m.problem.fitted, m.basis.trays
     m.TRAYS = pyo.RangeSet(1, m.N - 1)
     m.diameter = pyo.Var(bounds=(trays.diameter_min, trays.diameter_max), initialize=1.0, doc="[m]")
     m.real_trays = trays.real_trays(m.N)
     m.height = trays.height(m.N)
-    masses = (min(f.molar_masses), max(f.molar_masses))
-    m.ML = pyo.Var(m.TRAYS, bounds=masses, initialize=masses[0], doc="liquid molar mass [kg/mol]")
-    m.MV = pyo.Var(m.TRAYS, bounds=masses, initialize=masses[0], doc="vapour molar mass [kg/mol]")
-    # in m^3/kmol and mN/m: the barrier's push off a bound (0.01 absolute) would swamp values of
-    # 1e-4 m^3/mol and a few mN/m
-    m.vL = pyo.Var(m.TRAYS, bounds=(1e-3, 10.0), initialize=0.1, doc="liquid molar volume [m^3/kmol]")
-    m.sigma = pyo.Var(m.TRAYS, bounds=(KILO * SIGMA_FLOOR, 1e3), initialize=20.0, doc="surface tension [mN/m]")
-    m.liquid_molar_mass = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.ML[j] == _molar_mass(m, m.x, j))
-    m.vapour_molar_mass = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.MV[j] == _molar_mass(m, m.y, j))
-    m.liquid_volume = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.vL[j] == KILO * f.liquid_molar_volume(
-        m.T[j], [m.x[j, i] for i in m.C]))
-    m.surface_tension = pyo.Constraint(m.TRAYS, rule=lambda m, j: m.sigma[j] == KILO * f.surface_tension_of(
-        m.T[j], [m.x[j, i] for i in m.C]))
-    m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], m.MV[j]))
-    m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: density_of(m.ML[j], m.vL[j] / KILO))
-    m.vapour_volume = pyo.Expression(m.TRAYS, rule=lambda m, j: m.V[j] * m.MV[j] / m.rho_V[j], doc="[m^3/s]")
+    m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], _molar_mass(m, m.y, j)))
+    m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: liquid_density(f, m.T[j], [m.x[j, i] for i in m.C]))
+    m.vapour_volume = pyo.Expression(m.TRAYS, rule=lambda m, j: m.V[j] * _molar_mass(m, m.y, j) / m.rho_V[j],
+                                     doc="[m^3/s]")
     m.flow_parameter = pyo.Expression(m.TRAYS, rule=lambda m, j: flow_parameter(
-        m.L[j] * m.ML[j], m.V[j] * m.MV[j], m.rho_L[j], m.rho_V[j]), doc="F_LV [-]")
+        m.L[j] * _molar_mass(m, m.x, j), m.V[j] * _molar_mass(m, m.y, j), m.rho_L[j], m.rho_V[j]), doc="F_LV [-]")
     m.allowable_velocity = pyo.Expression(m.TRAYS, rule=allowable_velocity_rule,
                                           doc="vapour velocity on the cross-section at the design approach to flood [m/s]")
     m.required_area = pyo.Expression(m.TRAYS, rule=lambda m, j: m.vapour_volume[j] / m.allowable_velocity[j],
@@ -277,7 +256,7 @@ def allowable_velocity_rule(m, j):
     """Allowable vapour velocity of tray j at the design approach to flood: the sizing layer's function."""
     trays, f = m.basis.trays, m.problem.fitted
     return allowable_vapour_velocity(
-        m.flow_parameter[j], m.rho_L[j], m.rho_V[j], m.sigma[j] / KILO,
+        m.flow_parameter[j], m.rho_L[j], m.rho_V[j], f.surface_tension_of(m.T[j], [m.x[j, i] for i in m.C]),
         trays.tray_spacing, trays.flooding_fraction, trays.flooding_method, trays.system_factor,
         trays.downcomer_fraction, PYOMO)
 
@@ -371,11 +350,6 @@ def initialise(m, start: Profile) -> None:
     if m.config.energy_balances:
         m.Qr.set_value(_inside(pyo.value(m.Qc + m.L[m.N] * m.hL[m.N] + m.D * m.h_distillate
                                          - m.problem.feed_flow * m.h_feed), m.Qr))
-    for j in m.TRAYS:
-        x, y, T = [pyo.value(m.x[j, i]) for i in m.C], [pyo.value(m.y[j, i]) for i in m.C], pyo.value(m.T[j])
-        for var, value in ((m.ML, f.molar_mass(x)), (m.MV, f.molar_mass(y)), (m.vL, KILO * f.liquid_molar_volume(T, x)),
-                           (m.sigma, KILO * f.surface_tension_of(T, x))):
-            var[j].set_value(_inside(value, var[j]))
     m.diameter.set_value(_inside(_required_diameter(m), m.diameter))
     # The shortfall charge scales with the start's TAC: large enough to be exact, small
     # enough to keep the problem well conditioned (measured on the five-component example:

@@ -88,7 +88,9 @@ def _best_at_reflux(problem, basis, config, reflux: float, stages: int, feed_rat
         if not (3 <= n <= config.max_stages and 2 <= f <= n - 1):
             return None
         try:
-            return solve_configuration(problem, basis, n, f, config, fixed_reflux=reflux)
+            # the unscaled limit: a curve point is worth less time than a search's configuration
+            return solve_configuration(problem, basis, n, f, config, fixed_reflux=reflux,
+                                       time_limit=config.configuration_time_limit)
         except (InfeasibleSpecError, SolverError, ConvergenceError):
             return None
 

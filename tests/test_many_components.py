@@ -25,16 +25,21 @@ MAX = 30
 STAGES, FEED_STAGE = 17, 8  # the search's start (twice Fenske's 7.9, Kirkbride's feed stage)
 
 
-@pytest.fixture(scope="module")
-def setting():
+def problem_and_basis(max_stages: int = MAX):
+    """The case's separation problem (forms fitted to ``max_stages``) and reference cost basis."""
     case = load_case(CASE)
     mixture = mixture_of(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
-    problem = separation_problem(case, mixture, feed, MAX)
+    problem = separation_problem(case, mixture, feed, max_stages)
     sizing = SizingOptions(light_key=problem.light_key, heavy_key=problem.heavy_key)
     basis, _ = model_cost_basis(problem, mixture, load_cost_data(), sizing, None, case.economics.cost_year,
-                                model_options({"max_stages": MAX}))
+                                model_options({"max_stages": max_stages}))
     return problem, basis
+
+
+@pytest.fixture(scope="module")
+def setting():
+    return problem_and_basis()
 
 
 def test_start_distributes_the_component_between_the_keys(setting):

@@ -121,6 +121,8 @@ def test_attempt_plan_orders_strategies_and_caps_all_but_the_last():
     assert attempts(config, None, retries=True) == [
         (1.0, "monotone", 40), (1.0, "adaptive", 40), (1.5, "adaptive", 40), (3.0, "adaptive", 300)]
     assert attempts(config, ("adaptive", "monotone"), retries=False) == [(1.0, "adaptive", 40), (1.0, "monotone", 300)]
+    # without strategies given, a mixture of more than two components starts with adaptive
+    assert [s for _, s, _ in attempts(config, None, retries=False, components=20)] == ["adaptive", "monotone"]
     assert attempts(model_options({"solver": "scip_direct"}), None, retries=False) == [(1.0, None, 300)]
 
 

@@ -114,7 +114,8 @@ def test_interrupted_run_leaves_the_old_set(result, old_set, monkeypatch, moment
 
 def test_a_run_killed_inside_the_commit_is_rolled_back_by_the_next_run(result, old_set, monkeypatch):
     """Killed outright between two renames of the commit (no roll-back in the dying process):
-    the journal left beside the folder lets the next run restore the old set before it writes."""
+    the journal left beside the folder lets the next run restore the old set as soon as it
+    claims the folder, before any computation."""
     out, before = old_set
     monkeypatch.setattr(files, "_roll_back", lambda *args: None)
     monkeypatch.setattr(os, "replace", _commit_replace(4, out))
@@ -123,8 +124,10 @@ def test_a_run_killed_inside_the_commit_is_rolled_back_by_the_next_run(result, o
     monkeypatch.undo()
     assert snapshot(out) != before  # a mixture, with the aside folder holding the journal
     assert any(name.startswith(files.ASIDE_PREFIX) for name in os.listdir(out))
-    with api.claim_output(out) as claimed:
-        files.recover(claimed.path, api.OUTPUT_SET)
+    with api.claim_output(out):
+        held = snapshot(out)
+        held.pop(files.LOCK_FILE)
+        assert held == before
     assert snapshot(out) == before
 
 

@@ -121,3 +121,65 @@ def test_case_with_components_between_the_keys_designs(tmp_path, recovery, pinne
     assert design.meets_specs
     assert np.abs(spec_residuals(design.profile, case.products, feed)).max() < 1e-6
     assert design.profile.reflux_ratio > design.minimum_reflux
+
+
+# A textbook-style data set (invented numbers; no published worked example is used here): a
+# light non-key far above the light key, one component between the keys, a heavy non-key far
+# below the heavy key; 95 % of each key to its product.
+REF_ALPHA = np.array([8.0, 2.5, 1.6, 1.0, 0.2])
+REF_Z = np.array([0.05, 0.30, 0.20, 0.30, 0.15])
+REF_F = 100.0 * REF_Z
+REF_D = np.array([REF_F[0], 0.95 * REF_F[1], 0.0, 0.05 * REF_F[3], 0.0])
+
+
+def reference_underwood(alpha, z, q, d_fixed, middle, low, high):
+    """Underwood's Class 2 minimum vapour solved from scratch: (V_min, d_middle, roots).
+
+    Independent of the function under test: the roots of the feed equation are the
+    eigenvalue roots of its polynomial form (denominators cleared, numpy.roots), the two
+    second-kind equations are solved by scipy's fsolve from a crude guess.
+    """
+    from numpy.polynomial import polynomial as P
+    from scipy.optimize import fsolve
+
+    # sum_i alpha_i z_i prod_{j != i} (alpha_j - t) - (1 - q) prod_j (alpha_j - t) = 0
+    poly = np.zeros(1)
+    for i in range(len(alpha)):
+        term = np.array([alpha[i] * z[i]])
+        for j in range(len(alpha)):
+            if j != i:
+                term = P.polymul(term, [alpha[j], -1.0])
+        poly = P.polyadd(poly, term)
+    whole = np.array([1.0])
+    for a in alpha:
+        whole = P.polymul(whole, [a, -1.0])
+    poly = P.polysub(poly, (1.0 - q) * whole)
+    roots = sorted(r.real for r in P.polyroots(poly) if abs(r.imag) < 1e-12 and low < r.real < high)
+
+    def equations(unknown):
+        v, dm = unknown
+        d = d_fixed.copy()
+        d[middle] = dm
+        return [np.sum(alpha * d / (alpha - phi)) - v for phi in roots]
+
+    v, dm = fsolve(equations, [np.sum(d_fixed), 0.5 * z[middle] * 100.0], xtol=1e-13)
+    return float(v), float(dm), roots
+
+
+@pytest.mark.parametrize("q", [1.0, 0.6])
+def test_class_2_minimum_reflux_against_an_independent_solution(q):
+    """V_min, the intermediate component's distillate flow and R_min = V_min/D - 1 agree with
+    Underwood's equations solved from scratch (reference_underwood) to 1e-8 relative; the
+    non-keys outside the keys are fixed at their bounds (all of the light one up, none of the
+    heavy one). No published multicomponent worked example is checked here."""
+    v_min, d, roots = underwood_minimum_vapour(REF_ALPHA, REF_Z, q, REF_D, 1, 3, REF_F)
+    v_ref, dm_ref, roots_ref = reference_underwood(REF_ALPHA, REF_Z, q, REF_D.copy(), 2, REF_ALPHA[3], REF_ALPHA[1])
+    assert len(roots_ref) == 2
+    assert np.allclose(roots, roots_ref, rtol=1e-10)
+    assert d[0] == REF_F[0] and d[4] == 0.0
+    assert 0.0 < dm_ref < REF_F[2]
+    assert d[2] == pytest.approx(dm_ref, rel=1e-8)
+    assert v_min == pytest.approx(v_ref, rel=1e-8)
+    d_ref = REF_D.copy()
+    d_ref[2] = dm_ref
+    assert v_min / d.sum() - 1.0 == pytest.approx(v_ref / d_ref.sum() - 1.0, rel=1e-8)

@@ -208,7 +208,7 @@ def claim_output(folder: str | Path, label: str = "output folder",
     cannot be written or another run holds it. Pass the claimed folder to :func:`write_results`.
     """
     owner = f"case {case.source}" if case is not None and case.source is not None else ""
-    return claim_folder(folder, label, owner)
+    return claim_folder(folder, label, owner, OUTPUT_SET)
 
 
 def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figures: bool = True) -> list[Path]:

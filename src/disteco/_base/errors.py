@@ -95,3 +95,11 @@ class SolverError(DistecoError, RuntimeError):
 
 class InfeasibleDesignError(CaseError, InfeasibleSpecError):
     """A given design (reflux, stages, feed stage) that cannot work; ``field`` names the decision at fault."""
+
+
+class SearchTimeLimitError(CaseError, SolverError):
+    """The search's time limit passed before any configuration gave a design; ``field`` names the limit.
+
+    A limit the user sets (or the default) that is too short for the case: exit code 2, with
+    the option named, like any other value that does not suit the case.
+    """

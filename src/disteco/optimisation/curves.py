@@ -24,7 +24,7 @@ from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
-from .options import first_strategy, model_options
+from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
 from .search import Evaluator, stage_floor, worker_pool
 from .start import shortcut
@@ -60,7 +60,7 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
         problem = optimum.problem
     best = optimum.best
     if best.solver.barrier:  # try first the barrier strategy that solved the optimum
-        config.barrier_strategies = first_strategy(best.solver.barrier, config.barrier_strategies)
+        config.barrier_strategies = first_strategy(best.solver.barrier, barrier_order(config, len(problem.z)))
     rows = [row for row in table if any(abs(row.reflux_factor - f) < 1e-9 for f in factors)]
     top = max(rows, key=lambda row: row.reflux_ratio) if rows else None
     highest = top.reflux_ratio if top else HIGHEST_REFLUX_FACTOR * optimum.minimum_reflux_ratio

@@ -32,14 +32,14 @@ from dataclasses import dataclass, field
 import numpy as np
 import pyomo.environ as pyo
 
-from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
+from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
 from .given import check_stage_bound
 from .basis import CostBasis, SeparationProblem, check_problem
-from .options import first_strategy, model_options
+from .options import barrier_order, first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Profile, Shortcut, moved_profile, shortcut
-from .solve import certify, configuration_design, solved_model
+from .solve import certify, configuration_design, size_factor, solved_model
 
 # The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
 # Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
@@ -94,7 +94,7 @@ class Evaluator:
         """
         todo = [key for key in dict.fromkeys(keys) if key not in self.designs]
         if todo:
-            limit = self._limit()
+            limit = self._limit(max(n for n, _ in todo))
             values, strategies = self.config.value(), self.strategies or None
             jobs = [(self.problem, self.basis, values, n, f, self._start(n, f), limit, strategies) for n, f in todo]
             outcomes = self.pool.map(solve_job, jobs) if self.pool is not None and len(jobs) > 1 \
@@ -132,14 +132,15 @@ class Evaluator:
         self.steps.append(SearchStep(*key, design.tac, report.status))
         self.profiles[key], self.evaluations[key] = profile, design
         if report.barrier:
-            self.strategies = first_strategy(report.barrier, self.strategies or self.config.barrier_strategies)
+            self.strategies = first_strategy(report.barrier, self.strategies
+                                             or barrier_order(self.config, len(self.problem.z)))
         return design.tac
 
-    def _limit(self) -> float:
+    def _limit(self, stages: int) -> float:
         remaining = self.deadline - time.perf_counter()
         if remaining <= 0.0:
             raise TimeoutError
-        return min(remaining, self.config.configuration_time_limit)
+        return min(remaining, self.config.configuration_time_limit * size_factor(self.problem, stages))
 
     def nearest(self, stages: int, feed_stage: int) -> tuple[int, int] | None:
         """The solved configuration closest to (N, NF): fewest stage and feed moves, stage moves first."""
@@ -159,6 +160,13 @@ class Evaluator:
         """The cheapest feasible configuration seen."""
         feasible = {k: v for k, v in self.designs.items() if v < float("inf")}
         return min(feasible, key=feasible.get) if feasible else None
+
+    def unsolvable(self, stages: int, feed_stage: int, failure: Exception) -> None:
+        """Count a configuration solved before as unsolved after all (its final solve failed)."""
+        reason = f"did not solve again: {type(failure).__name__}: {failure}"
+        self.designs[(stages, feed_stage)] = float("inf")
+        self.failures[(stages, feed_stage)] = reason
+        self.steps.append(SearchStep(stages, feed_stage, None, reason))
 
 
 def solve_job(job) -> tuple[str, object]:
@@ -389,7 +397,9 @@ def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: 
     """The error when no configuration gave a design: time, solver failures or infeasibility."""
     tried = "; ".join(f"N={s.stages} NF={s.feed_stage}: {s.status}" for s in evaluator.steps[:4])
     if timed_out:
-        return SolverError(f"time limit of {config.time_limit:g} s reached before any feasible design ({tried})")
+        return SearchTimeLimitError(
+            "time_limit", f"the search's time limit of {config.time_limit:g} s passed before any configuration gave "
+            f"a design ({tried})", "a longer limit, e.g. several times the time one configuration takes")
     if evaluator.failures and len(evaluator.failures) == len(evaluator.designs):
         return SolverError(f"the solver failed on every configuration tried ({len(evaluator.failures)}); "
                            f"none was shown infeasible ({tried})")

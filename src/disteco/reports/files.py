@@ -153,17 +153,22 @@ def _signals_held() -> Iterator[None]:
 
 
 @contextmanager
-def claim_folder(folder: str | Path, label: str = "output folder", owner: str = "") -> Iterator[ClaimedFolder]:
+def claim_folder(folder: str | Path, label: str = "output folder", owner: str = "",
+                 managed: tuple[str, ...] = ()) -> Iterator[ClaimedFolder]:
     """Create ``folder`` if needed, prove it writable and lock it for this run.
 
     Raises :class:`OutputFolderError` (naming ``label``) when the folder cannot be
-    created or written, or when another run holds it. A folder created here and left
+    created or written, or when another run holds it. With the lock held, what a killed
+    run left of the ``managed`` set is rolled back at once (:func:`recover`), so a mixture
+    lasts until the next run starts, not until it writes. A folder created here and left
     empty is removed again on the way out.
     """
     path = Path(folder)
     created = _make_folder(path, label)
     try:
         with _locked(path, label, owner):
+            if managed:
+                recover(path, managed)
             yield ClaimedFolder(path, label)
     finally:
         if created:

@@ -10,10 +10,20 @@ def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInpu
     """Map a ``ColumnSizing`` onto ``ColumnCostInput`` (shell costed at its largest diameter).
 
     The reboiler is costed on the curve of the type the sizing chose (kettle when none was).
+    With two shells the first is the upper one and the second the lower (the sizing's own
+    ``height`` and ``vessel``); trays are priced together.
     """
+    split = sizing.split
+    second = {}
+    if split is not None:
+        second = dict(second_shell_height=sizing.height.tangent_length,
+                      second_shell_pressure_gauge=sizing.vessel.design_pressure,
+                      transfer_pump_shaft_power=split.transfer_pump.shaft_power,
+                      vapour_line_surface=split.vapour_line.surface)
+    first = sizing.vessel if split is None else split.upper_vessel
     return ColumnCostInput(
         shell_diameter=sizing.diameter,
-        shell_height=sizing.height.tangent_length,
+        shell_height=first.tangent_length,
         design_pressure_gauge=sizing.vessel.design_pressure,
         trays=sizing.real_trays,
         condenser_area=sizing.condenser.area,
@@ -28,4 +38,5 @@ def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInpu
         tray_type=tray_type,
         reboiler_type=sizing.reboiler.exchanger_type or "kettle",
         shell_material=sizing.vessel.material_class,
+        **second,
     )

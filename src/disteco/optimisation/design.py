@@ -14,6 +14,7 @@ the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times.
 
 from __future__ import annotations
 
+import math
 from dataclasses import replace
 
 from .._base.errors import InfeasibleSpecError, SolverError
@@ -28,6 +29,8 @@ from .options import model_options
 from .pricing import cost_basis_from_data, price_design, size_reference, stage_profile
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
+from .layout import MORE_STAGES, ONE_SHELL, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, choose_layout, layout_option, \
+    spacing_prices, unconstrained_tac
 from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
@@ -134,30 +137,85 @@ def _unsettled(rounds: int, tac_change: float) -> tuple[str, ...]:
 
 def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
                     sizing: SizingOptions = SizingOptions(), scenario: str | None = None) -> OptimumDesign:
-    """Lowest-TAC reflux ratio, stages and feed stage of ``case`` and its sequential price.
+    """Lowest-TAC reflux ratio, stages, feed stage, tray spacing and shells of ``case``, and its sequential price.
 
     ``options``: optimiser options (see :mod:`disteco.optimisation.options`); ``scenario``:
-    utility-price scenario of the cost data (None: the data's default). The constants of the
-    model are re-evaluated at each optimum and the search repeated from it until nothing
-    changes; ``rounds`` of the result counts the optimisations.
+    utility-price scenario of the cost data (None: the data's default). One shell within the
+    height limit is optimised first; where the limit cuts its stage range, two shells in series
+    are optimised too, and where the chosen optimum sits on the search's stage bound, a search
+    with more stages. The cheapest is returned with :attr:`OptimumDesign.layout` saying what was
+    compared and why (see :mod:`disteco.optimisation.layout`).
     """
     config = model_options(options)
-    year = case.economics.cost_year
     resolved_problem(case, mixture, feed, config)  # sets the stage bound
+    year = case.economics.cost_year
+    optima: dict[str, tuple[int, OptimumDesign | None, Exception | None]] = {}
+
+    def attempt(label: str, shells: int, run_config, start=None) -> OptimumDesign | None:
+        try:
+            result = _optimise_rounds(case, mixture, feed, data, run_config, replace(sizing, shells=shells),
+                                      scenario, start)
+        except InfeasibleSpecError as failure:
+            optima[label] = (shells, None, failure)
+            return None
+        optima[label] = (shells, result, None)
+        return result
+
+    single = attempt(ONE_SHELL, 1, config)
+    if single is None and not isinstance(optima[ONE_SHELL][2], HeightLimitError):
+        raise optima[ONE_SHELL][2]
+    if single is None or (single.stage_limit is not None and single.best.stages >= single.stage_limit):
+        attempt(TWO_SHELLS, 2, config, None if single is None else (single.best.stages + 1, single.best.feed_stage))
+    found = [(label, r) for label, (_, r, _) in optima.items() if r is not None]
+    if not found:
+        raise optima[ONE_SHELL][2]
+    label, best = min(found, key=lambda item: item[1].sequential.cost.tac_per_year)
+    if best.best.stages >= config.max_stages:  # the search's bound, not a shell's height, stopped it
+        wider = model_options(config)
+        wider.max_stages = math.ceil(STAGE_BOUND_STEP * config.max_stages)
+        more = attempt(MORE_STAGES, optima[label][0], wider, (best.best.stages, best.best.feed_stage))
+        if more is not None and more.sequential.cost.tac_per_year < best.sequential.cost.tac_per_year:
+            label, best = MORE_STAGES, more
+    records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
+    free = unconstrained_tac([r for _, r, _ in optima.values()], mixture, data, best.sizing_options, scenario, year)
+    return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free))
+
+
+class HeightLimitError(InfeasibleSpecError):
+    """No design of a shell layout: its shells within the height limit hold too few stages."""
+
+
+def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config,
+                     sizing: SizingOptions, scenario: str | None,
+                     start: tuple[int, int] | None = None) -> OptimumDesign:
+    """The optimum of one shell layout (``sizing.shells``), constants and tray spacing re-evaluated per round.
+
+    Each round's search stops at the most stages whose shells stay within ``sizing.max_height``
+    (:meth:`TrayBasis.stage_limit`); the tray spacing is the cheapest candidate at the reference,
+    then at each round's optimum, and a change of spacing counts as an unsettled round.
+    """
+    year = case.economics.cost_year
     problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
-    previous, start, kept = None, None, ()
+    spacings = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
+    sizing = replace(sizing, tray_spacing=best_spacing(spacings, sizing.tray_spacing))
+    previous, kept = None, ()
     visited, wall, solved = (), 0.0, 0  # over all rounds
     for rounds in range(1, ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential
         # price repeats those that hold for the result.
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
+        run = model_options(config)
+        run.max_stages = basis.trays.stage_limit(sizing.max_height, config.max_stages)
+        limit = run.max_stages if run.max_stages < config.max_stages else None
         try:
-            result = optimise(problem, basis, config, start=start)
+            if limit is not None:
+                _check_height_limit(problem, basis, sizing, run.max_stages)
+            result = optimise(problem, basis, run, start=start)
         except (InfeasibleSpecError, SolverError) as failure:
             if previous is None:
                 raise
             # keep the last round that found a design rather than lose the run
-            result, priced, problem, basis = previous, kept[0], kept[1], kept[2]
+            result, priced, problem, basis, sizing, limit = previous, *kept
             result = replace(result, warnings=result.warnings + (
                 f"re-evaluation round {rounds} at the re-evaluated constants found no design ({failure}); "
                 f"the optimum of round {rounds - 1} is reported",))
@@ -174,18 +232,35 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         same = previous is not None and (best.stages, best.feed_stage) == (previous.best.stages,
                                                                            previous.best.feed_stage)
         drop_settled = _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
-        if same and change <= TAC_TOLERANCE and drop_settled:
+        spacings = spacing_prices(best.profile, mixture, data, _keyed(sizing, problem), scenario, year)
+        spacing = best_spacing(spacings, sizing.tray_spacing)
+        if same and change <= TAC_TOLERANCE and drop_settled and spacing == sizing.tray_spacing:
             break
         if rounds == ROUNDS:
             result = replace(result, warnings=result.warnings + _unsettled(ROUNDS, change))
             break
         previous, start, reference = result, (best.stages, best.feed_stage), best.profile
-        kept = (priced, problem, basis)
+        kept = (priced, problem, basis, sizing, limit)
+        sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
-    return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + result.warnings,
-                   problem=problem, basis=basis, visited=visited, solver=solver)
+    warnings = result.warnings
+    if limit is not None:  # the search's "raise max_stages" does not apply to a height limit
+        warnings = tuple(w for w in warnings if "raise max_stages" not in w)
+    return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,
+                   problem=problem, basis=basis, visited=visited, solver=solver, stage_limit=limit,
+                   sizing_options=_keyed(sizing, problem), spacings=spacings)
+
+
+def _check_height_limit(problem: SeparationProblem, basis: CostBasis, sizing: SizingOptions, limit: int) -> None:
+    """Refuse, in engineering words, a layout whose shells cannot hold Fenske's minimum stages."""
+    minimum = shortcut(problem).minimum_stages
+    if limit <= minimum:
+        raise HeightLimitError(
+            f"{sizing.shells} shell(s) of at most {sizing.max_height:g} m hold at most {limit} stages at "
+            f"{sizing.tray_spacing:.2f} m tray spacing and {100 * basis.trays.efficiency:.0f} % tray efficiency, "
+            f"not above the minimum of {minimum:.1f} stages at total reflux")
 
 
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,

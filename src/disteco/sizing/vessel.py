@@ -359,6 +359,8 @@ def least_diameter(tray_section: float, top_space: float, bottom_space: float, s
     >>> round(least_diameter(45.0, 1.2, 1.0, 0.0, 300.0, 30.0), 4)
     1.54
     """
+    if math.isinf(max_height_to_diameter):
+        return 0.0
     fixed = tray_section + top_space + bottom_space
     sump = sump_liquid_flow * residence_time * 4.0 / math.pi  # sump height x D^2 [m^3]
     low = fixed / max_height_to_diameter

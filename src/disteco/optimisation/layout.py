@@ -1,0 +1,110 @@
+"""Shell layout around the search: tray spacing by TAC, and one shell, two shells or more stages.
+
+The limits of one shell (``SizingOptions.max_height`` of tangent length and
+``max_height_to_diameter``; defaults 50 m and 30, common practice, no source) are constraints
+of the search: a configuration whose shells would be taller than the limit is outside the
+search's stage range, and the height-to-diameter limit is a lower bound on the model's
+diameter (the sizing layer applies the same least diameter). The tray spacing is chosen from
+the candidates by the sequential TAC of the design at hand, re-chosen at every round's optimum
+with the model's other constants. :func:`choose_layout` compares the optima of the layouts
+that apply and says why it chose one.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import replace
+
+from ..sizing.column import ColumnSizing
+from ..sizing.options import SizingOptions
+from ..stages.results import StageProfile
+from .pricing import price_profile
+from .results import LayoutChoice, LayoutOption, OptimumDesign, SpacingPrice
+
+ONE_SHELL, TWO_SHELLS, MORE_STAGES = "one shell", "two shells", "more stages"
+STAGE_BOUND_STEP = 1.5  # the search's stage bound is raised by this factor when the optimum sits on it
+
+
+def spacing_prices(profile: StageProfile, mixture, data, sizing: SizingOptions, scenario: str | None,
+                   cost_year: int | None) -> tuple[SpacingPrice, ...]:
+    """The design ``profile`` priced at each candidate tray spacing (sizing and costing layers).
+
+    A spacing at which a shell would be taller than ``sizing.max_height`` has no price (None).
+    """
+    prices = []
+    for spacing in sizing.spacing_candidates:
+        sized, cost = price_profile(profile, mixture, data, replace(sizing, tray_spacing=spacing), scenario,
+                                    cost_year)
+        tall = sized.tallest_shell.tangent_length
+        prices.append(SpacingPrice(spacing, cost.tac_per_year if tall <= sizing.max_height else None, tall,
+                                   sized.diameter))
+    return tuple(prices)
+
+
+def best_spacing(prices: tuple[SpacingPrice, ...], current: float) -> float:
+    """The cheapest priced spacing [m]; ``current`` when none fits the height limit."""
+    priced = [p for p in prices if p.tac is not None]
+    return min(priced, key=lambda p: p.tac).spacing if priced else current
+
+
+def _slenderness(sizing: ColumnSizing) -> float:
+    return sizing.tallest_shell.tangent_length / sizing.diameter
+
+
+def layout_option(label: str, shells: int, optimum: OptimumDesign | None, failure: Exception | None = None
+                  ) -> LayoutOption:
+    """The record of one layout's optimum, or of why it has none."""
+    if optimum is None:
+        return LayoutOption(label, shells, None, note=str(failure) if failure is not None else "not needed")
+    best, sized = optimum.best, optimum.sequential.sizing
+    note = ""
+    if optimum.stage_limit is not None and best.stages >= optimum.stage_limit:
+        note = f"at the most stages ({optimum.stage_limit}) shells of at most the height limit hold"
+    return LayoutOption(label, shells, optimum.sequential.cost.tac_per_year, best.stages, best.feed_stage,
+                        best.reflux_ratio, sized.height.tray_spacing, sized.tallest_shell.tangent_length,
+                        _slenderness(sized), note)
+
+
+def unconstrained_tac(optima, mixture, data, sizing: SizingOptions, scenario, cost_year) -> float | None:
+    """Lowest TAC of the layouts' optima priced as one shell without height or slenderness limits."""
+    free = replace(sizing, shells=1, max_height=math.inf, max_height_to_diameter=math.inf)
+    tacs = []
+    for optimum in optima:
+        if optimum is None:
+            continue
+        spacing = optimum.sequential.sizing.height.tray_spacing
+        _, cost = price_profile(optimum.best.profile, mixture, data, replace(free, tray_spacing=spacing), scenario,
+                                cost_year)
+        tacs.append(cost.tac_per_year)
+    return min(tacs) if tacs else None
+
+
+def _percent(a: float, b: float) -> str:
+    return f"{100.0 * (a / b - 1.0):.1f} %"
+
+
+def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_sizing: ColumnSizing,
+                  spacings: tuple[SpacingPrice, ...], unconstrained: float | None) -> LayoutChoice:
+    """The cheapest layout with a design, the limits that bind and the reasons in words."""
+    priced = [o for o in options if o.tac is not None]
+    chosen = min(priced, key=lambda o: o.tac)
+    others = [o for o in options if o is not chosen]
+    reasons = [f"{chosen.label}: {chosen.stages} stages, {chosen.shells} shell(s) of at most "
+               f"{chosen.tallest_shell:.1f} m, tray spacing {chosen.tray_spacing:.2f} m"]
+    for other in others:
+        if other.tac is None:
+            reasons.append(f"{other.label}: {other.note}")
+        else:
+            reasons.append(f"{other.label} ({other.stages} stages) costs {_percent(other.tac, chosen.tac)} more")
+    binding = []
+    one = next((o for o in options if o.label == ONE_SHELL), None)
+    if one is not None and (one.tac is None or one.note):
+        binding.append("shell height")
+    if chosen_sizing.diameter_basis == "height-to-diameter limit":
+        binding.append("height-to-diameter")
+    return LayoutChoice(chosen.label, "; ".join(reasons), sizing.max_height, sizing.max_height_to_diameter,
+                        tuple(binding), tuple(options), spacings, unconstrained)
+
+
+__all__ = ["MORE_STAGES", "ONE_SHELL", "STAGE_BOUND_STEP", "TWO_SHELLS", "best_spacing", "choose_layout",
+           "layout_option", "spacing_prices", "unconstrained_tac"]

@@ -233,8 +233,8 @@ def _add_sizing(m) -> None:
     m.real_trays = trays.real_trays(m.N)
     m.height = trays.height(m.N)
     # the height-to-diameter limit as the diameter's lower bound: a configuration's height is fixed
-    m.diameter = pyo.Var(bounds=(max(trays.diameter_min, trays.least_diameter(m.N)), trays.diameter_max),
-                         initialize=1.0, doc="[m]")
+    least = max(trays.diameter_min, trays.least_diameter(m.N))
+    m.diameter = pyo.Var(bounds=(least, trays.diameter_max), initialize=max(1.0, least), doc="[m]")
     m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], _molar_mass(m, m.y, j)))
     m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: liquid_density(f, m.T[j], [m.x[j, i] for i in m.C]))
     m.vapour_volume = pyo.Expression(m.TRAYS, rule=lambda m, j: m.V[j] * _molar_mass(m, m.y, j) / m.rho_V[j],

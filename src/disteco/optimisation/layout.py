@@ -89,8 +89,9 @@ def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_siz
     priced = [o for o in options if o.tac is not None]
     chosen = min(priced, key=lambda o: o.tac)
     others = [o for o in options if o is not chosen]
-    reasons = [f"{chosen.label}: {chosen.stages} stages, {chosen.shells} shell(s) of at most "
-               f"{chosen.tallest_shell:.1f} m, tray spacing {chosen.tray_spacing:.2f} m"]
+    shells = "one shell of" if chosen.shells == 1 else f"{chosen.shells} shells of at most"
+    reasons = [f"{chosen.label} chosen: {chosen.stages} stages, {shells} {chosen.tallest_shell:.1f} m "
+               f"(height-to-diameter {chosen.height_to_diameter:.0f}), tray spacing {chosen.tray_spacing:.2f} m"]
     for other in others:
         if other.tac is None:
             reasons.append(f"{other.label}: {other.note}")

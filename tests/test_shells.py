@@ -122,3 +122,28 @@ def test_two_shell_cost_is_the_hand_sum_of_its_items(profile, mixture):
         two.split.transfer_pump.shaft_power * cost.operating_hours_per_year * 3600.0 * price, rel=1e-9)
     assert cost.tac_per_year == pytest.approx(
         cost.capital_charge_factor * cost.capital_installed + sum(u.cost_per_year for u in cost.utilities))
+
+
+def test_swaged_shell_is_priced_on_its_sections(profile, mixture):
+    """Separate sections on one shell: the shell volume is the hand sum pi/4 (D_r^2 H_r + D_s^2 H_s), with the
+    rectifying trays and the top space at the rectifying diameter; each section's trays at its own area."""
+    options = dict(separate_sections=True, diameter_increment=0.01)
+    plain = size(profile, mixture, diameter_increment=0.01)
+    swaged = size(profile, mixture, **options)
+    d_r, d_s = swaged.rectifying_diameter, swaged.stripping_diameter
+    assert d_r < d_s == swaged.diameter == plain.diameter  # more liquid and vapour below the feed
+    h = swaged.height
+    top = swaged.rectifying_real_trays * h.tray_spacing + h.top_space
+    volume = math.pi / 4.0 * (d_r ** 2 * top + d_s ** 2 * (h.tangent_length - top))
+    cost = cost_column(DATA, cost_input(swaged), "reference")
+    items = {e.item: e for e in cost.items}
+    assert items["column shell"].size == pytest.approx(volume, rel=1e-12)
+    assert items["trays"].count == swaged.rectifying_real_trays
+    assert items["trays, lower section"].count == swaged.real_trays - swaged.rectifying_real_trays
+    assert items["trays"].size == pytest.approx(math.pi / 4.0 * d_r ** 2 * items["trays"].count, rel=1e-12)
+    # each section's trays take the quantity factor of their own count (Turton Table A.5 form): fewer
+    # trays per purchase cost more each, so a swaged shell is not always the cheaper
+    for name in ("trays", "trays, lower section"):
+        assert items[name].quantity_factor == pytest.approx(DATA.tray_quantity.factor(items[name].count))
+    one = {e.item: e for e in cost_column(DATA, cost_input(plain), "reference").items}
+    assert items["column shell"].installed < one["column shell"].installed

@@ -58,6 +58,9 @@ class ColumnCostInput:
     pump_material: str = "CS"
     # A second shell in series (None: one shell): its tangent length and design pressure, the
     # transfer pump between the shells and the vapour line's pipe surface (pi D L).
+    # A swaged shell (one shell, two diameters): (diameter m, tangent length m, real trays) of each
+    # section, top first; empty: one diameter, shell_diameter, over shell_height.
+    sections: tuple[tuple[float, float, int], ...] = ()
     second_shell_height: float | None = None  # m, same diameter as the first
     second_shell_pressure_gauge: float = 0.0  # Pa
     transfer_pump_shaft_power: float = 0.0  # W
@@ -127,15 +130,20 @@ def column_capital(data: CostData, inp: ColumnCostInput, cost_index: float,
     """Installed cost of shell, trays, condenser, reboiler, reflux drum and reflux pump."""
     p = inp.design_pressure_gauge
     tray_diameter = inp.tray_diameter if inp.tray_diameter is not None else inp.shell_diameter
-    volume = 0.25 * math.pi * inp.shell_diameter ** 2 * inp.shell_height
-    tray_area = 0.25 * math.pi * tray_diameter ** 2
+    tray_kind = _choose("tray_type", inp.tray_type, TRAY_TYPES)
+    sections = inp.sections or ((tray_diameter, inp.shell_height, inp.trays),)
+    # a swaged shell is priced on its volume, the pressure factor at its larger diameter
+    volume = sum(0.25 * math.pi * d ** 2 * h for d, h, _ in sections) if inp.sections else \
+        0.25 * math.pi * inp.shell_diameter ** 2 * inp.shell_height
+    trays = tuple(cost_trays(data, name, tray_kind, 0.25 * math.pi * d ** 2, count, cost_index,
+                             material=inp.tray_material, policy=policy)
+                  for name, (d, _, count) in zip(("trays", "trays, lower section"), sections) if count > 0)
     condenser_p = max(p, _utility_gauge(data, inp.condenser_utility))
     reboiler_p = max(p, _utility_gauge(data, inp.reboiler_utility))
     return (
         cost_equipment(data, "column shell", "vertical_vessel", volume, cost_index, material=inp.shell_material,
                        pressure_gauge=p, diameter=inp.shell_diameter, policy=policy),
-        cost_trays(data, "trays", _choose("tray_type", inp.tray_type, TRAY_TYPES), tray_area, inp.trays,
-                   cost_index, material=inp.tray_material, policy=policy),
+        *trays,
         cost_equipment(data, "condenser", _choose("condenser_type", inp.condenser_type, CONDENSER_TYPES),
                        inp.condenser_area, cost_index, material=inp.exchanger_material, pressure_gauge=condenser_p,
                        policy=policy),

@@ -30,7 +30,7 @@ from .pricing import cost_basis_from_data, price_design, size_reference, stage_p
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
 from .layout import MORE_STAGES, ONE_SHELL, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, choose_layout, layout_option, \
-    spacing_prices, unconstrained_tac
+    spacing_prices, swaged_design, unconstrained_tac
 from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
@@ -178,7 +178,9 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
             label, best = MORE_STAGES, more
     records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
     free = unconstrained_tac([r for _, r, _ in optima.values()], mixture, data, best.sizing_options, scenario, year)
-    return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free))
+    best, sections = swaged_design(best, mixture, data, scenario, year)
+    return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free,
+                                              sections))
 
 
 class HeightLimitError(InfeasibleSpecError):

@@ -23,6 +23,9 @@ from .results import LayoutChoice, LayoutOption, OptimumDesign, SpacingPrice
 
 ONE_SHELL, TWO_SHELLS, MORE_STAGES = "one shell", "two shells", "more stages"
 STAGE_BOUND_STEP = 1.5  # the search's stage bound is raised by this factor when the optimum sits on it
+# A swaged shell is priced when the section diameters differ by more than this fraction of the
+# larger (common practice, no source: below it the swage and its support ring are not worth it).
+SWAGE_THRESHOLD = 0.20
 
 
 def spacing_prices(profile: StageProfile, mixture, data, sizing: SizingOptions, scenario: str | None,
@@ -79,12 +82,38 @@ def unconstrained_tac(optima, mixture, data, sizing: SizingOptions, scenario, co
     return min(tacs) if tacs else None
 
 
+def swaged_design(optimum: OptimumDesign, mixture, data, scenario, cost_year) -> tuple[OptimumDesign, str]:
+    """``optimum`` with a swaged shell when its section diameters differ enough and that is cheaper; and why.
+
+    The swaged price is the sizing and costing layers' (rectifying and stripping diameters, each
+    section's shell volume and trays); the cone between the sections has no cost row and is not priced.
+    """
+    sized = optimum.sequential.sizing
+    d_top, d_bottom = sized.rectifying_diameter, sized.stripping_diameter
+    gap = abs(d_top - d_bottom) / max(d_top, d_bottom)
+    words = f"section diameters {d_top:.2f} m (rectifying) and {d_bottom:.2f} m (stripping), {100 * gap:.0f} % apart"
+    if sized.split is not None:
+        return optimum, f"{words}: one diameter (a swaged shell is priced for one shell only)"
+    if optimum.sizing_options.separate_sections:
+        return optimum, f"{words}: separate sections as the case asks"
+    if gap <= SWAGE_THRESHOLD:
+        return optimum, f"{words}, within {100 * SWAGE_THRESHOLD:.0f} %: one diameter"
+    options = replace(optimum.sizing_options, separate_sections=True)
+    swaged, cost = price_profile(optimum.best.profile, mixture, data, options, scenario, cost_year)
+    plain = optimum.sequential.cost.tac_per_year
+    verdict = f"swaged shell TAC {cost.tac_per_year:,.0f} against {plain:,.0f} with one diameter"
+    if cost.tac_per_year >= plain:
+        return optimum, f"{words}: {verdict}, one diameter kept"
+    sequential = replace(optimum.sequential, sizing=swaged, cost=cost, model_check=None)
+    return replace(optimum, sequential=sequential, sizing_options=options), f"{words}: {verdict}, swaged chosen"
+
+
 def _percent(a: float, b: float) -> str:
     return f"{100.0 * (a / b - 1.0):.1f} %"
 
 
 def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_sizing: ColumnSizing,
-                  spacings: tuple[SpacingPrice, ...], unconstrained: float | None) -> LayoutChoice:
+                  spacings: tuple[SpacingPrice, ...], unconstrained: float | None, sections: str = "") -> LayoutChoice:
     """The cheapest layout with a design, the limits that bind and the reasons in words."""
     priced = [o for o in options if o.tac is not None]
     chosen = min(priced, key=lambda o: o.tac)
@@ -104,8 +133,8 @@ def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_siz
     if chosen_sizing.diameter_basis == "height-to-diameter limit":
         binding.append("height-to-diameter")
     return LayoutChoice(chosen.label, "; ".join(reasons), sizing.max_height, sizing.max_height_to_diameter,
-                        tuple(binding), tuple(options), spacings, unconstrained)
+                        tuple(binding), tuple(options), spacings, unconstrained, sections)
 
 
-__all__ = ["MORE_STAGES", "ONE_SHELL", "STAGE_BOUND_STEP", "TWO_SHELLS", "best_spacing", "choose_layout",
-           "layout_option", "spacing_prices", "unconstrained_tac"]
+__all__ = ["MORE_STAGES", "ONE_SHELL", "STAGE_BOUND_STEP", "SWAGE_THRESHOLD", "TWO_SHELLS", "best_spacing",
+           "choose_layout", "layout_option", "spacing_prices", "swaged_design", "unconstrained_tac"]

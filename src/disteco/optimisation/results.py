@@ -204,6 +204,7 @@ class LayoutChoice:
     options: tuple[LayoutOption, ...]
     spacings: tuple[SpacingPrice, ...]  # the candidate spacings at the chosen design
     unconstrained_tac: float | None = None  # currency/yr: the designs priced as one shell without limits
+    sections: str = ""  # the section diameters and whether a swaged shell was priced and chosen
 
     @property
     def limit_cost(self) -> float | None:

@@ -14,6 +14,7 @@ from __future__ import annotations
 from .. import __version__
 from .._base.units import to_degC
 from ..costing import CostSummary
+from ..costing.from_sizing import swaged
 from ..optimisation.results import DesignEvaluation, LayoutChoice, OptimumDesign, SequentialPrice, SolverReport
 from ..properties import FeedState, MixtureSummary
 from ..sizing import ColumnSizing
@@ -137,7 +138,7 @@ def sections_json(sizing: ColumnSizing) -> dict:
     return {"rectifying_diameter_m": sizing.rectifying_diameter, "stripping_diameter_m": sizing.stripping_diameter,
             "rectifying_real_trays": sizing.rectifying_real_trays,
             "stripping_real_trays": sizing.real_trays - sizing.rectifying_real_trays,
-            "separate_sections": sizing.separate_sections}
+            "separate_sections": sizing.separate_sections, "swaged_shell": swaged(sizing)}
 
 
 def interconnection_json(sizing: ColumnSizing) -> dict | None:
@@ -162,6 +163,7 @@ def layout_json(layout: LayoutChoice | None) -> dict | None:
                    "source": "common practice, no source (defaults; the case's sizing table may set them)"},
         "binding": list(layout.binding),
         "unconstrained_tac_per_year": layout.unconstrained_tac,
+        "sections": layout.sections,
         "limit_cost_per_year": layout.limit_cost,
         "options": [{"layout": o.label, "shells": o.shells, "tac_per_year": o.tac, "stages": o.stages,
                      "feed_stage": o.feed_stage, "reflux_ratio": o.reflux_ratio, "tray_spacing_m": o.tray_spacing,

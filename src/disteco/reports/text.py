@@ -57,7 +57,7 @@ def _shells_words(sizing) -> str:
 
 def layout_lines(layout, currency: str) -> list[str]:
     """The shell layout chosen, why, and what the limits cost."""
-    lines = [f"Layout: {layout.why}"]
+    lines = [f"Layout: {layout.why}"] + ([f"Sections: {layout.sections}"] if layout.sections else [])
     limits = f"limits {layout.max_height:g} m per shell, height-to-diameter {layout.max_height_to_diameter:g}"
     if layout.binding:
         cost = layout.limit_cost

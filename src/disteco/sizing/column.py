@@ -263,9 +263,9 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
         shells = _split(profile, mixture, options, trays, counts, split, sump_flows[0], top_height, top_vessel,
                         height)
         warnings.extend(shells.transfer_pump.warnings)
-    if options.separate_sections and d_rect != d_strip:
-        warnings.append("separate section diameters: trays sized per section; the shell is taken at the "
-                        "larger diameter (a two-diameter shell is not modelled)")
+    if options.separate_sections and d_rect != d_strip and options.shells == 2:
+        warnings.append("separate section diameters: trays sized per section; two shells are taken at the "
+                        "larger diameter (a swaged shell is priced for one shell only)")
 
     equipment = _equipment(vessel, diameter, d_rect, d_strip, n_real, n_rect, options, condenser, reboiler,
                            drum, pump, top_design_p, top_design_t, shells)

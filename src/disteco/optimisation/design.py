@@ -176,9 +176,10 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         more = attempt(MORE_STAGES, optima[label][0], wider, (best.best.stages, best.best.feed_stage))
         if more is not None and more.sequential.cost.tac_per_year < best.sequential.cost.tac_per_year:
             label, best = MORE_STAGES, more
-    records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
     free = unconstrained_tac([r for _, r, _ in optima.values()], mixture, data, best.sizing_options, scenario, year)
     best, sections = swaged_design(best, mixture, data, scenario, year)
+    optima[label] = (optima[label][0], best, None)
+    records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
     return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free,
                                               sections))
 

@@ -356,8 +356,8 @@ def least_diameter(tray_section: float, top_space: float, bottom_space: float, s
 
     Examples
     --------
-    >>> round(least_diameter(45.0, 1.2, 1.0, 0.0, 300.0, 30.0), 4)
-    1.54
+    >>> round(least_diameter(45.0, 1.2, 1.0, 0.0, 300.0, 30.0), 4)  # (45 + 2.2) / 30 without a sump
+    1.5733
     """
     if math.isinf(max_height_to_diameter):
         return 0.0

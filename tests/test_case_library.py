@@ -110,7 +110,7 @@ def test_chosen_tray_spacing_is_the_cheapest_of_the_list(verified):
     tacs = {}
     for spacing in (0.45, 0.50, 0.60, 0.75):
         sized, cost = price_profile(optimum.best.profile, mixture_of(case), data,
-                                    replace(chosen, tray_spacing=spacing), "reference")
+                                    replace(chosen, tray_spacing=spacing), "reference", case.economics.cost_year)
         if sized.tallest_shell.tangent_length <= chosen.max_height:
             tacs[spacing] = cost.tac_per_year
     reported = optimum.sequential.cost.tac_per_year

@@ -99,7 +99,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     if given is not None:
         report(f"pricing the given design under '{names[0]}'", 1, total)
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
-                                     given.feed_stage, options, sizing, names[0])
+                                     given.feed_stage, options, sizing, names[0], choose_spacing=True)
+        if evaluation.sequential is not None:  # the tray spacing chosen for it
+            sizing = replace(sizing, tray_spacing=evaluation.sequential.sizing.height.tray_spacing)
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
         parts = _checked(_evaluation_parts(evaluation, data), checks)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,

@@ -247,6 +247,9 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+    # the spacing is chosen at the reported design even where the rounds stopped before settling it
+    sizing, priced, spacings = _final_spacing(result.best, priced, mixture, data, _keyed(sizing, problem), scenario,
+                                              year)
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
     warnings = result.warnings
     if limit is not None:  # the search's "raise max_stages" does not apply to a height limit
@@ -254,6 +257,17 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,
                    problem=problem, basis=basis, visited=visited, solver=solver, stage_limit=limit,
                    sizing_options=_keyed(sizing, problem), spacings=spacings)
+
+
+def _final_spacing(design: DesignEvaluation, priced, mixture: Mixture, data: CostData, sizing: SizingOptions,
+                   scenario: str | None, year: int | None):
+    """(sizing, sequential price, spacing prices) with the cheapest spacing at ``design`` (re-priced if it moved)."""
+    spacings = spacing_prices(design.profile, mixture, data, sizing, scenario, year)
+    spacing = best_spacing(spacings, sizing.tray_spacing)
+    if spacing != sizing.tray_spacing:
+        sizing = replace(sizing, tray_spacing=spacing)
+        priced = price_design(design, mixture, data, sizing, scenario, year)
+    return sizing, priced, spacings
 
 
 def _check_height_limit(problem: SeparationProblem, basis: CostBasis, sizing: SizingOptions, limit: int) -> None:
@@ -268,7 +282,8 @@ def _check_height_limit(problem: SeparationProblem, basis: CostBasis, sizing: Si
 
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,
                     stages: int, feed_stage: int, options=None, sizing: SizingOptions = SizingOptions(),
-                    scenario: str | None = None, problem: SeparationProblem | None = None) -> DesignEvaluation:
+                    scenario: str | None = None, problem: SeparationProblem | None = None,
+                    choose_spacing: bool = False) -> DesignEvaluation:
     """Sizes and costs of a given design (reflux ratio [-], stages incl. reboiler, feed stage from the top).
 
     The distillate flow is chosen by the model to meet the specifications at least cost.
@@ -281,7 +296,9 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     ``problem``: the separation problem of an optimum (:attr:`OptimumDesign.problem`) to price
     that same column, pressure profile included, under other prices; None iterates the
     pressure profile from the design's own trays. A reflux that just meets the specifications
-    under one pressure profile can miss them under a slightly higher one.
+    under one pressure profile can miss them under a slightly higher one. ``choose_spacing``:
+    the tray spacing is the cheapest of ``sizing.spacing_candidates`` at the reference and at
+    the priced design, as the optimiser chooses it; otherwise ``sizing.tray_spacing``.
     """
     config = model_options(options)
     # A reported optimum sits on its specifications; priced again on its own pressure profile it
@@ -299,6 +316,9 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     else:
         problem, reference = settled_reference(case, mixture, feed, data, sizing, config, (stages, feed_stage),
                                                reflux_ratio)
+    if choose_spacing:
+        prices = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
+        sizing = replace(sizing, tray_spacing=best_spacing(prices, sizing.tray_spacing))
     previous = None
     for rounds in range(1, ROUNDS + 1):
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
@@ -318,6 +338,8 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         previous, reference = design, design.profile
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+    if choose_spacing:
+        sizing, priced, _ = _final_spacing(design, priced, mixture, data, _keyed(sizing, problem), scenario, year)
     short = ()
     if design.shortfall > SPEC_SHORTFALL:
         short = (f"the given design falls {100 * design.shortfall:.2g} % short of a product specification on the "

@@ -201,7 +201,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
     spacings = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
     sizing = replace(sizing, tray_spacing=best_spacing(spacings, sizing.tray_spacing))
-    previous, kept = None, ()
+    previous, kept, previous_at_limit = None, (), False
     visited, wall, solved = (), 0.0, 0  # over all rounds
     for rounds in range(1, ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential
@@ -232,8 +232,11 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
             break  # the time limit holds for each round; a stopped search is reported as it stands
         drop = stage_pressure_drop(case, priced.sizing)
         change = abs(best.tac / previous.best.tac - 1.0) if previous else float("inf")
-        same = previous is not None and (best.stages, best.feed_stage) == (previous.best.stages,
-                                                                           previous.best.feed_stage)
+        at_limit = limit is not None and best.stages >= limit  # the limit moves with the efficiency
+        same = previous is not None and ((best.stages, best.feed_stage) == (previous.best.stages,
+                                                                            previous.best.feed_stage)
+                                         or (at_limit and previous_at_limit))
+        previous_at_limit = at_limit
         drop_settled = _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
         spacings = spacing_prices(best.profile, mixture, data, _keyed(sizing, problem), scenario, year)
         spacing = best_spacing(spacings, sizing.tray_spacing)

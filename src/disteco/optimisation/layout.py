@@ -114,13 +114,17 @@ def swaged_design(optimum: OptimumDesign, mixture, data, scenario, cost_year) ->
     if gap <= SWAGE_THRESHOLD:
         return optimum, f"{words}, within {100 * SWAGE_THRESHOLD:.0f} %: one diameter"
     options = replace(optimum.sizing_options, separate_sections=True)
+    # the spacing is chosen again for the swaged shell: each section's diameter moves with it
+    prices = spacing_prices(optimum.best.profile, mixture, data, options, scenario, cost_year)
+    options = replace(options, tray_spacing=best_spacing(prices, options.tray_spacing))
     swaged, cost = price_profile(optimum.best.profile, mixture, data, options, scenario, cost_year)
     plain = optimum.sequential.cost.tac_per_year
     verdict = f"swaged shell TAC {cost.tac_per_year:,.0f} against {plain:,.0f} with one diameter"
     if cost.tac_per_year >= plain:
         return optimum, f"{words}: {verdict}, one diameter kept"
     sequential = replace(optimum.sequential, sizing=swaged, cost=cost, model_check=None)
-    return replace(optimum, sequential=sequential, sizing_options=options), f"{words}: {verdict}, swaged chosen"
+    return (replace(optimum, sequential=sequential, sizing_options=options, spacings=prices),
+            f"{words}: {verdict}, swaged chosen")
 
 
 def _percent(a: float, b: float) -> str:

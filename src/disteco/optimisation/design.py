@@ -9,7 +9,8 @@ coefficients, utility levels, height allowances and the pressure profile (a drop
 equilibrium stage). They are first taken at a reference design, then re-evaluated at the
 answer and the solve repeated, starting from the previous answer, until the configuration
 and the TAC no longer change (:data:`TAC_TOLERANCE`) and the pressure profile agrees with
-the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times.
+the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times (one more for each
+change of tray spacing, which moves the trays' pressure drop, up to :data:`SPACING_ROUNDS`).
 """
 
 from __future__ import annotations
@@ -36,6 +37,7 @@ from .solve import solve_configuration, start_profile
 from .start import shortcut
 
 ROUNDS = 4  # most optimisations with re-evaluated constants
+SPACING_ROUNDS = 2  # more rounds allowed, one per change of tray spacing between rounds
 TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
 DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
 SPEC_SHORTFALL = 1e-4  # relative shortfall below which a given design is said to meet its specifications [-]
@@ -200,10 +202,14 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     year = case.economics.cost_year
     problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
     spacings = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
-    sizing = replace(sizing, tray_spacing=best_spacing(spacings, sizing.tray_spacing))
+    spacing = best_spacing(spacings, sizing.tray_spacing)
+    if spacing != sizing.tray_spacing:  # the trays' pressure drop moves with the diameter the spacing gives
+        sizing = replace(sizing, tray_spacing=spacing)
+        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
     previous, kept, previous_at_limit = None, (), False
     visited, wall, solved = (), 0.0, 0  # over all rounds
-    for rounds in range(1, ROUNDS + 1):
+    allowed = ROUNDS
+    for rounds in range(1, ROUNDS + SPACING_ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential
         # price repeats those that hold for the result.
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
@@ -242,11 +248,13 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         spacing = best_spacing(spacings, sizing.tray_spacing)
         if same and change <= TAC_TOLERANCE and drop_settled and spacing == sizing.tray_spacing:
             break
-        if rounds == ROUNDS:
-            result = replace(result, warnings=result.warnings + _unsettled(ROUNDS, change))
+        if rounds >= allowed:
+            result = replace(result, warnings=result.warnings + _unsettled(rounds, change))
             break
         previous, start, reference = result, (best.stages, best.feed_stage), best.profile
         kept = (priced, problem, basis, sizing, limit)
+        if spacing != sizing.tray_spacing:  # a new spacing restarts the pressure drop's settling
+            allowed = min(allowed + 1, ROUNDS + SPACING_ROUNDS)
         sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)

@@ -10,7 +10,7 @@ equilibrium stage). They are first taken at a reference design, then re-evaluate
 answer and the solve repeated, starting from the previous answer, until the configuration
 and the TAC no longer change (:data:`TAC_TOLERANCE`) and the pressure profile agrees with
 the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times (one more for each
-change of tray spacing, which moves the trays' pressure drop, up to :data:`SPACING_ROUNDS`).
+when the tray spacing changes at the first optimum: it moves the trays' pressure drop).
 """
 
 from __future__ import annotations
@@ -37,7 +37,7 @@ from .solve import solve_configuration, start_profile
 from .start import shortcut
 
 ROUNDS = 4  # most optimisations with re-evaluated constants
-SPACING_ROUNDS = 2  # more rounds allowed, one per change of tray spacing between rounds
+SPACING_ROUNDS = 1  # one more round allowed when the spacing changes at the first optimum
 TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
 DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
 SPEC_SHORTFALL = 1e-4  # relative shortfall below which a given design is said to meet its specifications [-]
@@ -245,7 +245,9 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         previous_at_limit = at_limit
         drop_settled = _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
         spacings = spacing_prices(best.profile, mixture, data, _keyed(sizing, problem), scenario, year)
-        spacing = best_spacing(spacings, sizing.tray_spacing)
+        # chosen again at the first optimum only: a spacing moves the diameter and so the trays'
+        # pressure drop, and later swaps kept the vacuum example from settling
+        spacing = best_spacing(spacings, sizing.tray_spacing) if rounds == 1 else sizing.tray_spacing
         if same and change <= TAC_TOLERANCE and drop_settled and spacing == sizing.tray_spacing:
             break
         if rounds >= allowed:
@@ -258,9 +260,6 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
-    # the spacing is chosen at the reported design even where the rounds stopped before settling it
-    sizing, priced, spacings = _final_spacing(result.best, priced, mixture, data, _keyed(sizing, problem), scenario,
-                                              year)
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
     warnings = result.warnings
     if limit is not None:  # the search's "raise max_stages" does not apply to a height limit

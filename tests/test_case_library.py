@@ -11,12 +11,15 @@ The super-fractionator (`tests/test_super_fractionator.py`) and the vacuum colum
 (`tests/test_vacuum_column.py`) have their own tests.
 """
 
+from dataclasses import replace
+
 import numpy as np
 import pytest
 
 from disteco.api import cost_data_of, load_case, mixture_of
 from disteco.optimisation.design import optimise_design
 from disteco.optimisation.verification import SPEC_TOLERANCE, verify_design
+from disteco.optimisation.pricing import price_profile
 from disteco.properties import feed_state
 from disteco.sizing.options import SizingOptions
 from disteco.stages import shortcut_design, spec_residuals
@@ -39,7 +42,8 @@ def verified(request):
     sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
     optimum = optimise_design(case, mixture, feed, data, {"time_limit": LIBRARY[name]}, sizing, "reference")
     shortcut = shortcut_design(mixture, feed, case.products, case.column)
-    verification = verify_design(case, mixture, feed, optimum.best, shortcut, data, sizing, "reference")
+    verification = verify_design(case, mixture, feed, optimum.best, shortcut, data, optimum.sizing_options,
+                                 "reference")
     return name, case, feed, optimum, verification, mixture.warnings
 
 
@@ -79,3 +83,39 @@ def test_near_critical_components_are_named(verified):
         assert not critical
     else:
         assert any(expected in w for w in critical)
+
+
+def test_reported_shells_keep_the_height_and_slenderness_limits(verified):
+    """No reported shell is taller than 50 m or more slender than 30 (common practice, no source);
+    the layout chosen is the cheapest of those compared, and says which limits bind."""
+    name, case, feed, optimum, *_ = verified
+    sizing = optimum.sequential.sizing
+    for shell in ((sizing.height,) if sizing.split is None else (sizing.height, sizing.split.upper_height)):
+        assert shell.tangent_length <= 50.0, name
+        assert shell.tangent_length / sizing.diameter <= 30.0 + 1e-9, name
+    layout = optimum.layout
+    priced = [o.tac for o in layout.options if o.tac is not None]
+    chosen = next(o for o in layout.options if o.label == layout.chosen)
+    assert chosen.tac == min(priced) == pytest.approx(optimum.sequential.cost.tac_per_year)
+    assert ("height-to-diameter" in layout.binding) == (sizing.diameter_basis == "height-to-diameter limit")
+
+
+def test_chosen_tray_spacing_is_the_cheapest_of_the_list(verified):
+    """The reported design priced by the sizing and costing layers at every candidate spacing
+    (0.45, 0.50, 0.60, 0.75 m, common practice, no source): the reported spacing is the cheapest
+    within 0.1 % of TAC, and the spacings the optimiser recorded agree with this enumeration."""
+    name, case, feed, optimum, *_ = verified
+    chosen = optimum.sizing_options
+    data = cost_data_of(case)
+    tacs = {}
+    for spacing in (0.45, 0.50, 0.60, 0.75):
+        sized, cost = price_profile(optimum.best.profile, mixture_of(case), data,
+                                    replace(chosen, tray_spacing=spacing), "reference", case.economics.cost_year)
+        if sized.tallest_shell.tangent_length <= chosen.max_height:
+            tacs[spacing] = cost.tac_per_year
+    reported = optimum.sequential.cost.tac_per_year
+    assert optimum.sequential.sizing.height.tray_spacing == chosen.tray_spacing
+    assert reported <= min(tacs.values()) * 1.001, name
+    recorded = {p.spacing: p.tac for p in optimum.spacings if p.tac is not None}
+    assert recorded.keys() == tacs.keys()
+    assert all(recorded[k] == pytest.approx(tacs[k], rel=1e-9) for k in tacs)

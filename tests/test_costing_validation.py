@@ -33,6 +33,9 @@ TABLE_A1 = {
     "thermosiphon_reboiler": (100.0, 4.3247, -0.3030, 0.1634, 4.3723, 23567),  # costed as fixed tube sheet
     "u_tube_exchanger": (100.0, 4.1884, -0.2503, 0.1974, 4.4774, 30019),
     "centrifugal_pump": (10e3, 3.3892, 0.0536, 0.1538, 3.5966, 3950),  # 10 kW shaft power
+    # not [T]: the vapour line's rule of thumb, 150 USD per inch of diameter per metre (from memory),
+    # is 150/(pi 0.0254) = 1880 USD per m2 of pi D L; 50 m2 (a 0.4 m line 40 m long)
+    "vapour_line": (50.0, 3.2741, 1.0, 0.0, 4.97307, 93987),
 }
 
 

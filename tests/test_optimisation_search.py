@@ -99,7 +99,7 @@ def test_case_level_optimum_and_evaluation_agree():
     found = optimise_design(case, mixture, feed, data, options)
     best = found.best
     priced = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages, best.feed_stage, options,
-                             problem=found.problem)
+                             found.sizing_options, problem=found.problem)
     assert priced.tac == pytest.approx(best.tac, rel=1e-4)
     assert found.sequential.cost.tac_per_year == pytest.approx(best.tac, rel=0.01)
     assert priced.sizes.real_trays == found.sequential.sizing.real_trays

@@ -29,7 +29,7 @@ def result(tmp_path_factory):
 def test_designs_with_exit_0_in_settled_rounds(result):
     code, data = result
     assert code == 0
-    assert 2 <= data["solver"]["rounds"] <= 4
+    assert 2 <= data["solver"]["rounds"] <= 5  # 4, and one more when the tray spacing changes after the first
     assert not any("had not settled" in w for w in data["warnings"])
 
 
@@ -62,6 +62,21 @@ def test_shell_designed_for_full_vacuum(result):
     _, data = result
     design = data["design"]
     inside = design["diameter_m"] + 2 * CORROSION_ALLOWANCE
-    needed = external_pressure_thickness(ATMOSPHERE, inside, design["height_m"] + design["diameter_m"] / 6.0)
-    assert design["shell_thickness_mm"] == pytest.approx(math.ceil((needed + CORROSION_ALLOWANCE) * 1e3 - 1e-6))
+    for shell in design["shells"]:  # each shell over its own tangent length
+        needed = external_pressure_thickness(ATMOSPHERE, inside, shell["tangent_length_m"] + design["diameter_m"] / 6.0)
+        assert shell["shell_thickness_mm"] == pytest.approx(math.ceil((needed + CORROSION_ALLOWANCE) * 1e3 - 1e-6))
+    assert design["shells"][-1]["shell_thickness_mm"] == design["shell_thickness_mm"]
+
+
+def test_no_shell_exceeds_the_limits(result):
+    """Every shell at most 50 m of tangent length and 30 times its diameter (common practice, no source);
+    the layout says which layouts were compared and which one was chosen."""
+    _, data = result
+    design, layout = data["design"], data["layout"]
+    for shell in design["shells"]:
+        assert shell["tangent_length_m"] <= 50.0 and shell["height_to_diameter"] <= 30.0 + 1e-9
+    assert design["shell_count"] == len(design["shells"])
+    chosen = [o for o in layout["options"] if o["layout"] == layout["chosen"]]
+    assert chosen and chosen[0]["tac_per_year"] == min(o["tac_per_year"] for o in layout["options"]
+                                                        if o["tac_per_year"] is not None)
     assert any("full vacuum" in w and "not done" in w for w in data["warnings"])

@@ -106,7 +106,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     if given is not None:
         report(f"pricing the given design under '{names[0]}'", 1, total)
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
-                                     given.feed_stage, options, sizing, names[0])
+                                     given.feed_stage, options, sizing, names[0], choose_spacing=True)
+        if evaluation.sequential is not None:  # the tray spacing chosen for it
+            sizing = replace(sizing, tray_spacing=evaluation.sequential.sizing.height.tray_spacing)
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
         parts = _checked(_evaluation_parts(evaluation, data), checks)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
@@ -117,11 +119,12 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
         optima.append((name, optimum))
-        checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name,
+        chosen = optimum.sizing_options or sizing  # the tray spacing and shells the optimiser chose
+        checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
                                             full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)))
         report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
         curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
-                                                 sizing, name)))
+                                                 chosen, name)))
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
     best = optima[0][1]
     checks = checked[0][1]
@@ -185,7 +188,8 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, report, don
             report(f"pricing the '{name_i}' design under '{name_j}'", done, total)
             done += 1
             evaluation = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages,
-                                         best.feed_stage, options, sizing, name_j, problem=optimum_i.problem)
+                                         best.feed_stage, options, optimum_i.sizing_options or sizing, name_j,
+                                         problem=optimum_i.problem)
             row.append(evaluation.tac)
         rows.append(tuple(row))
     return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)

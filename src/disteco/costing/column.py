@@ -56,6 +56,15 @@ class ColumnCostInput:
     exchanger_material: str = "CS/CS"  # shell/tube
     drum_material: str = "CS"
     pump_material: str = "CS"
+    # A second shell in series (None: one shell): its tangent length and design pressure, the
+    # transfer pump between the shells and the vapour line's pipe surface (pi D L).
+    # A swaged shell (one shell, two diameters): (diameter m, tangent length m, real trays) of each
+    # section, top first; empty: one diameter, shell_diameter, over shell_height.
+    sections: tuple[tuple[float, float, int], ...] = ()
+    second_shell_height: float | None = None  # m, same diameter as the first
+    second_shell_pressure_gauge: float = 0.0  # Pa
+    transfer_pump_shaft_power: float = 0.0  # W
+    vapour_line_surface: float = 0.0  # m2
 
 
 @dataclass(frozen=True)
@@ -121,15 +130,20 @@ def column_capital(data: CostData, inp: ColumnCostInput, cost_index: float,
     """Installed cost of shell, trays, condenser, reboiler, reflux drum and reflux pump."""
     p = inp.design_pressure_gauge
     tray_diameter = inp.tray_diameter if inp.tray_diameter is not None else inp.shell_diameter
-    volume = 0.25 * math.pi * inp.shell_diameter ** 2 * inp.shell_height
-    tray_area = 0.25 * math.pi * tray_diameter ** 2
+    tray_kind = _choose("tray_type", inp.tray_type, TRAY_TYPES)
+    sections = inp.sections or ((tray_diameter, inp.shell_height, inp.trays),)
+    # a swaged shell is priced on its volume, the pressure factor at its larger diameter
+    volume = sum(0.25 * math.pi * d ** 2 * h for d, h, _ in sections) if inp.sections else \
+        0.25 * math.pi * inp.shell_diameter ** 2 * inp.shell_height
+    trays = tuple(cost_trays(data, name, tray_kind, 0.25 * math.pi * d ** 2, count, cost_index,
+                             material=inp.tray_material, policy=policy)
+                  for name, (d, _, count) in zip(("trays", "trays, lower section"), sections) if count > 0)
     condenser_p = max(p, _utility_gauge(data, inp.condenser_utility))
     reboiler_p = max(p, _utility_gauge(data, inp.reboiler_utility))
     return (
         cost_equipment(data, "column shell", "vertical_vessel", volume, cost_index, material=inp.shell_material,
                        pressure_gauge=p, diameter=inp.shell_diameter, policy=policy),
-        cost_trays(data, "trays", _choose("tray_type", inp.tray_type, TRAY_TYPES), tray_area, inp.trays,
-                   cost_index, material=inp.tray_material, policy=policy),
+        *trays,
         cost_equipment(data, "condenser", _choose("condenser_type", inp.condenser_type, CONDENSER_TYPES),
                        inp.condenser_area, cost_index, material=inp.exchanger_material, pressure_gauge=condenser_p,
                        policy=policy),
@@ -140,6 +154,23 @@ def column_capital(data: CostData, inp: ColumnCostInput, cost_index: float,
                        material=inp.drum_material, pressure_gauge=p, diameter=inp.drum_diameter, policy=policy),
         cost_equipment(data, "reflux pump", "centrifugal_pump", inp.pump_shaft_power, cost_index,
                        material=inp.pump_material, pressure_gauge=p, policy=policy),
+    ) + second_shell_capital(data, inp, cost_index, policy)
+
+
+def second_shell_capital(data: CostData, inp: ColumnCostInput, cost_index: float,
+                         policy: OutOfRange = OutOfRange.WARN) -> tuple[EquipmentCost, ...]:
+    """Installed cost of a second shell (its own heads and nozzles: the vessel curve prices a whole
+    vessel), the transfer pump between the shells and the vapour line; none for one shell."""
+    if inp.second_shell_height is None:
+        return ()
+    p = inp.second_shell_pressure_gauge
+    volume = 0.25 * math.pi * inp.shell_diameter ** 2 * inp.second_shell_height
+    return (
+        cost_equipment(data, "second column shell", "vertical_vessel", volume, cost_index,
+                       material=inp.shell_material, pressure_gauge=p, diameter=inp.shell_diameter, policy=policy),
+        cost_equipment(data, "transfer pump", "centrifugal_pump", inp.transfer_pump_shaft_power, cost_index,
+                       material=inp.pump_material, pressure_gauge=p, policy=policy),
+        cost_equipment(data, "vapour line", "vapour_line", inp.vapour_line_surface, cost_index, policy=policy),
     )
 
 
@@ -159,6 +190,9 @@ def column_utilities(data: CostData, inp: ColumnCostInput, scenario: str) -> tup
         power = inp.pump_shaft_power
         warnings.append("reflux pump: electricity taken at the shaft power (motor and drive losses ignored)")
     costs.append(utility_cost("reflux pump", power, data.price(scenario, ELECTRICITY), hours))
+    if inp.second_shell_height is not None:  # transfer pump at its shaft power, as the reflux pump
+        costs.append(utility_cost("transfer pump", inp.transfer_pump_shaft_power, data.price(scenario, ELECTRICITY),
+                                  hours))
     return tuple(costs), warnings
 
 

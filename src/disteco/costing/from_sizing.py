@@ -6,14 +6,37 @@ from ..sizing.column import ColumnSizing
 from .column import ColumnCostInput
 
 
+def swaged(sizing: ColumnSizing) -> bool:
+    """Whether the shell is priced with two diameters: separate sections asked for, one shell, diameters differ."""
+    return sizing.separate_sections and sizing.split is None and sizing.rectifying_diameter != sizing.stripping_diameter
+
+
 def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInput:
     """Map a ``ColumnSizing`` onto ``ColumnCostInput`` (shell costed at its largest diameter).
 
     The reboiler is costed on the curve of the type the sizing chose (kettle when none was).
+    With two shells the first is the upper one and the second the lower (the sizing's own
+    ``height`` and ``vessel``); trays are priced together. With separate sections (one shell) the
+    shell is swaged: the rectifying trays and the top space at their diameter, the rest at the
+    stripping diameter, each section's trays at its own area.
     """
+    split = sizing.split
+    second = {}
+    if split is not None:
+        second = dict(second_shell_height=sizing.height.tangent_length,
+                      second_shell_pressure_gauge=sizing.vessel.design_pressure,
+                      transfer_pump_shaft_power=split.transfer_pump.shaft_power,
+                      vapour_line_surface=split.vapour_line.surface)
+    if swaged(sizing):
+        h = sizing.height
+        top = sizing.rectifying_real_trays * h.tray_spacing + h.top_space
+        second["sections"] = ((sizing.rectifying_diameter, top, sizing.rectifying_real_trays),
+                              (sizing.stripping_diameter, h.tangent_length - top,
+                               sizing.real_trays - sizing.rectifying_real_trays))
+    first = sizing.vessel if split is None else split.upper_vessel
     return ColumnCostInput(
         shell_diameter=sizing.diameter,
-        shell_height=sizing.height.tangent_length,
+        shell_height=first.tangent_length,
         design_pressure_gauge=sizing.vessel.design_pressure,
         trays=sizing.real_trays,
         condenser_area=sizing.condenser.area,
@@ -28,4 +51,5 @@ def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInpu
         tray_type=tray_type,
         reboiler_type=sizing.reboiler.exchanger_type or "kettle",
         shell_material=sizing.vessel.material_class,
+        **second,
     )

@@ -7,6 +7,7 @@ that the model does not depend on how the sizing and costing layers load their d
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -104,14 +105,27 @@ class TrayBasis:
     downcomer_fraction: float | None = None  # [-] of the cross-section; None: rule from the flow parameter
     diameter_min: float = 0.3  # m
     diameter_max: float = 12.0  # m
+    shells: int = 1  # shells in series, trays split evenly between them
+    max_height_to_diameter: float = math.inf  # [-] of a shell's tangent length over the diameter
 
     def real_trays(self, stages: int) -> int:
         """Real trays for ``stages`` equilibrium stages (the reboiler is not a tray) [-]."""
         return real_trays(stages, self.efficiency)
 
     def height(self, stages: int) -> float:
-        """Shell height (tangent to tangent) [m]."""
-        return self.real_trays(stages) * self.tray_spacing + self.extra_height
+        """Height (tangent to tangent) of the taller shell [m]: its share of the trays and the allowances."""
+        return math.ceil(self.real_trays(stages) / self.shells) * self.tray_spacing + self.extra_height
+
+    def least_diameter(self, stages: int) -> float:
+        """Least diameter the height-to-diameter limit allows a shell of :meth:`height` [m]."""
+        return self.height(stages) / self.max_height_to_diameter
+
+    def stage_limit(self, max_height: float, bound: int) -> int:
+        """Most stages, up to ``bound``, whose shells are at most ``max_height`` tall [-] (at least 3)."""
+        stages = bound
+        while stages > 3 and self.height(stages) > max_height:
+            stages -= 1
+        return stages
 
 
 @dataclass(frozen=True)

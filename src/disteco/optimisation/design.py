@@ -9,11 +9,13 @@ coefficients, utility levels, height allowances and the pressure profile (a drop
 equilibrium stage). They are first taken at a reference design, then re-evaluated at the
 answer and the solve repeated, starting from the previous answer, until the configuration
 and the TAC no longer change (:data:`TAC_TOLERANCE`) and the pressure profile agrees with
-the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times.
+the real trays (:data:`DROP_TOLERANCE`), at most :data:`ROUNDS` times (one more for each
+when the tray spacing changes at the first optimum: it moves the trays' pressure drop).
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import replace
 
 from .._base.errors import InfeasibleSpecError, SolverError
@@ -28,11 +30,14 @@ from .options import model_options
 from .pricing import cost_basis_from_data, price_design, size_reference, stage_profile
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
+from .layout import MORE_STAGES, ONE_SHELL, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, choose_layout, layout_option, \
+    spacing_prices, swaged_design, unconstrained_tac
 from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
 
 ROUNDS = 4  # most optimisations with re-evaluated constants
+SPACING_ROUNDS = 1  # one more round allowed when the spacing changes at the first optimum
 TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
 DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
 SPEC_SHORTFALL = 1e-4  # relative shortfall below which a given design is said to meet its specifications [-]
@@ -134,30 +139,92 @@ def _unsettled(rounds: int, tac_change: float) -> tuple[str, ...]:
 
 def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
                     sizing: SizingOptions = SizingOptions(), scenario: str | None = None) -> OptimumDesign:
-    """Lowest-TAC reflux ratio, stages and feed stage of ``case`` and its sequential price.
+    """Lowest-TAC reflux ratio, stages, feed stage, tray spacing and shells of ``case``, and its sequential price.
 
     ``options``: optimiser options (see :mod:`disteco.optimisation.options`); ``scenario``:
-    utility-price scenario of the cost data (None: the data's default). The constants of the
-    model are re-evaluated at each optimum and the search repeated from it until nothing
-    changes; ``rounds`` of the result counts the optimisations.
+    utility-price scenario of the cost data (None: the data's default). One shell within the
+    height limit is optimised first; where the limit cuts its stage range, two shells in series
+    are optimised too, and where the chosen optimum sits on the search's stage bound, a search
+    with more stages. The cheapest is returned with :attr:`OptimumDesign.layout` saying what was
+    compared and why (see :mod:`disteco.optimisation.layout`).
     """
     config = model_options(options)
-    year = case.economics.cost_year
     resolved_problem(case, mixture, feed, config)  # sets the stage bound
+    year = case.economics.cost_year
+    optima: dict[str, tuple[int, OptimumDesign | None, Exception | None]] = {}
+
+    def attempt(label: str, shells: int, run_config, start=None) -> OptimumDesign | None:
+        try:
+            result = _optimise_rounds(case, mixture, feed, data, run_config, replace(sizing, shells=shells),
+                                      scenario, start)
+        except InfeasibleSpecError as failure:
+            optima[label] = (shells, None, failure)
+            return None
+        optima[label] = (shells, result, None)
+        return result
+
+    single = attempt(ONE_SHELL, 1, config)
+    if single is None and not isinstance(optima[ONE_SHELL][2], HeightLimitError):
+        raise optima[ONE_SHELL][2]
+    if single is None or (single.stage_limit is not None and single.best.stages >= single.stage_limit):
+        attempt(TWO_SHELLS, 2, config, None if single is None else (single.best.stages + 1, single.best.feed_stage))
+    found = [(label, r) for label, (_, r, _) in optima.items() if r is not None]
+    if not found:
+        raise optima[ONE_SHELL][2]
+    label, best = min(found, key=lambda item: item[1].sequential.cost.tac_per_year)
+    if best.best.stages >= config.max_stages:  # the search's bound, not a shell's height, stopped it
+        wider = model_options(config)
+        wider.max_stages = math.ceil(STAGE_BOUND_STEP * config.max_stages)
+        more = attempt(MORE_STAGES, optima[label][0], wider, (best.best.stages, best.best.feed_stage))
+        if more is not None and more.sequential.cost.tac_per_year < best.sequential.cost.tac_per_year:
+            label, best = MORE_STAGES, more
+    free = unconstrained_tac([r for _, r, _ in optima.values()], mixture, data, best.sizing_options, scenario, year)
+    best, sections = swaged_design(best, mixture, data, scenario, year)
+    optima[label] = (optima[label][0], best, None)
+    records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
+    return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free,
+                                              sections))
+
+
+class HeightLimitError(InfeasibleSpecError):
+    """No design of a shell layout: its shells within the height limit hold too few stages."""
+
+
+def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config,
+                     sizing: SizingOptions, scenario: str | None,
+                     start: tuple[int, int] | None = None) -> OptimumDesign:
+    """The optimum of one shell layout (``sizing.shells``), constants and tray spacing re-evaluated per round.
+
+    Each round's search stops at the most stages whose shells stay within ``sizing.max_height``
+    (:meth:`TrayBasis.stage_limit`); the tray spacing is the cheapest candidate at the reference,
+    then at each round's optimum, and a change of spacing counts as an unsettled round.
+    """
+    year = case.economics.cost_year
     problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
-    previous, start, kept = None, None, ()
+    spacings = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
+    spacing = best_spacing(spacings, sizing.tray_spacing)
+    if spacing != sizing.tray_spacing:  # the trays' pressure drop moves with the diameter the spacing gives
+        sizing = replace(sizing, tray_spacing=spacing)
+        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+    previous, kept, previous_at_limit = None, (), False
     visited, wall, solved = (), 0.0, 0  # over all rounds
-    for rounds in range(1, ROUNDS + 1):
+    allowed = ROUNDS
+    for rounds in range(1, ROUNDS + SPACING_ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential
         # price repeats those that hold for the result.
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
+        run = model_options(config)
+        run.max_stages = basis.trays.stage_limit(sizing.max_height, config.max_stages)
+        limit = run.max_stages if run.max_stages < config.max_stages else None
         try:
-            result = optimise(problem, basis, config, start=start)
+            if limit is not None:
+                _check_height_limit(problem, basis, sizing, run.max_stages)
+            result = optimise(problem, basis, run, start=start)
         except (InfeasibleSpecError, SolverError) as failure:
             if previous is None:
                 raise
             # keep the last round that found a design rather than lose the run
-            result, priced, problem, basis = previous, kept[0], kept[1], kept[2]
+            result, priced, problem, basis, sizing, limit = previous, *kept
             result = replace(result, warnings=result.warnings + (
                 f"re-evaluation round {rounds} at the re-evaluated constants found no design ({failure}); "
                 f"the optimum of round {rounds - 1} is reported",))
@@ -171,26 +238,62 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
             break  # the time limit holds for each round; a stopped search is reported as it stands
         drop = stage_pressure_drop(case, priced.sizing)
         change = abs(best.tac / previous.best.tac - 1.0) if previous else float("inf")
-        same = previous is not None and (best.stages, best.feed_stage) == (previous.best.stages,
-                                                                           previous.best.feed_stage)
+        at_limit = limit is not None and best.stages >= limit  # the limit moves with the efficiency
+        same = previous is not None and ((best.stages, best.feed_stage) == (previous.best.stages,
+                                                                            previous.best.feed_stage)
+                                         or (at_limit and previous_at_limit))
+        previous_at_limit = at_limit
         drop_settled = _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
-        if same and change <= TAC_TOLERANCE and drop_settled:
+        spacings = spacing_prices(best.profile, mixture, data, _keyed(sizing, problem), scenario, year)
+        # chosen again at the first optimum only: a spacing moves the diameter and so the trays'
+        # pressure drop, and later swaps kept the vacuum example from settling
+        spacing = best_spacing(spacings, sizing.tray_spacing) if rounds == 1 else sizing.tray_spacing
+        if same and change <= TAC_TOLERANCE and drop_settled and spacing == sizing.tray_spacing:
             break
-        if rounds == ROUNDS:
-            result = replace(result, warnings=result.warnings + _unsettled(ROUNDS, change))
+        if rounds >= allowed:
+            result = replace(result, warnings=result.warnings + _unsettled(rounds, change))
             break
         previous, start, reference = result, (best.stages, best.feed_stage), best.profile
-        kept = (priced, problem, basis)
+        kept = (priced, problem, basis, sizing, limit)
+        if spacing != sizing.tray_spacing:  # a new spacing restarts the pressure drop's settling
+            allowed = min(allowed + 1, ROUNDS + SPACING_ROUNDS)
+        sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
-    return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + result.warnings,
-                   problem=problem, basis=basis, visited=visited, solver=solver)
+    warnings = result.warnings
+    if limit is not None:  # the search's "raise max_stages" does not apply to a height limit
+        warnings = tuple(w for w in warnings if "raise max_stages" not in w)
+    return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,
+                   problem=problem, basis=basis, visited=visited, solver=solver, stage_limit=limit,
+                   sizing_options=_keyed(sizing, problem), spacings=spacings)
+
+
+def _final_spacing(design: DesignEvaluation, priced, mixture: Mixture, data: CostData, sizing: SizingOptions,
+                   scenario: str | None, year: int | None):
+    """(sizing, sequential price, spacing prices) with the cheapest spacing at ``design`` (re-priced if it moved)."""
+    spacings = spacing_prices(design.profile, mixture, data, sizing, scenario, year)
+    spacing = best_spacing(spacings, sizing.tray_spacing)
+    if spacing != sizing.tray_spacing:
+        sizing = replace(sizing, tray_spacing=spacing)
+        priced = price_design(design, mixture, data, sizing, scenario, year)
+    return sizing, priced, spacings
+
+
+def _check_height_limit(problem: SeparationProblem, basis: CostBasis, sizing: SizingOptions, limit: int) -> None:
+    """Refuse, in engineering words, a layout whose shells cannot hold Fenske's minimum stages."""
+    minimum = shortcut(problem).minimum_stages
+    if limit <= minimum:
+        raise HeightLimitError(
+            f"{sizing.shells} shell(s) of at most {sizing.max_height:g} m hold at most {limit} stages at "
+            f"{sizing.tray_spacing:.2f} m tray spacing and {100 * basis.trays.efficiency:.0f} % tray efficiency, "
+            f"not above the minimum of {minimum:.1f} stages at total reflux")
 
 
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,
                     stages: int, feed_stage: int, options=None, sizing: SizingOptions = SizingOptions(),
-                    scenario: str | None = None, problem: SeparationProblem | None = None) -> DesignEvaluation:
+                    scenario: str | None = None, problem: SeparationProblem | None = None,
+                    choose_spacing: bool = False) -> DesignEvaluation:
     """Sizes and costs of a given design (reflux ratio [-], stages incl. reboiler, feed stage from the top).
 
     The distillate flow is chosen by the model to meet the specifications at least cost.
@@ -203,7 +306,9 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     ``problem``: the separation problem of an optimum (:attr:`OptimumDesign.problem`) to price
     that same column, pressure profile included, under other prices; None iterates the
     pressure profile from the design's own trays. A reflux that just meets the specifications
-    under one pressure profile can miss them under a slightly higher one.
+    under one pressure profile can miss them under a slightly higher one. ``choose_spacing``:
+    the tray spacing is the cheapest of ``sizing.spacing_candidates`` at the reference and at
+    the priced design, as the optimiser chooses it; otherwise ``sizing.tray_spacing``.
     """
     config = model_options(options)
     # A reported optimum sits on its specifications; priced again on its own pressure profile it
@@ -221,6 +326,9 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     else:
         problem, reference = settled_reference(case, mixture, feed, data, sizing, config, (stages, feed_stage),
                                                reflux_ratio)
+    if choose_spacing:
+        prices = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
+        sizing = replace(sizing, tray_spacing=best_spacing(prices, sizing.tray_spacing))
     previous = None
     for rounds in range(1, ROUNDS + 1):
         basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
@@ -240,6 +348,8 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         previous, reference = design, design.profile
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+    if choose_spacing:
+        sizing, priced, _ = _final_spacing(design, priced, mixture, data, _keyed(sizing, problem), scenario, year)
     short = ()
     if design.shortfall > SPEC_SHORTFALL:
         short = (f"the given design falls {100 * design.shortfall:.2g} % short of a product specification on the "

@@ -230,9 +230,11 @@ def shortfall(m) -> float:
 def _add_sizing(m) -> None:
     f, trays = m.problem.fitted, m.basis.trays
     m.TRAYS = pyo.RangeSet(1, m.N - 1)
-    m.diameter = pyo.Var(bounds=(trays.diameter_min, trays.diameter_max), initialize=1.0, doc="[m]")
     m.real_trays = trays.real_trays(m.N)
     m.height = trays.height(m.N)
+    # the height-to-diameter limit as the diameter's lower bound: a configuration's height is fixed
+    least = max(trays.diameter_min, trays.least_diameter(m.N))
+    m.diameter = pyo.Var(bounds=(least, trays.diameter_max), initialize=max(1.0, least), doc="[m]")
     m.rho_V = pyo.Expression(m.TRAYS, rule=lambda m, j: vapour_density(m.P[j], m.T[j], _molar_mass(m, m.y, j)))
     m.rho_L = pyo.Expression(m.TRAYS, rule=lambda m, j: liquid_density(f, m.T[j], [m.x[j, i] for i in m.C]))
     m.vapour_volume = pyo.Expression(m.TRAYS, rule=lambda m, j: m.V[j] * _molar_mass(m, m.y, j) / m.rho_V[j],
@@ -280,7 +282,7 @@ def _add_costs(m) -> None:
     m.reboiler_area = pyo.Expression(
         expr=exchanger_area(m.Qr * KILO, reb.U, mean_temperature_difference(*ends["reboiler"])))
     m.shell_volume = pyo.Expression(expr=m.tray_area * m.height)
-    m.cost_shell = pyo.Expression(expr=b.shell.installed(m.shell_volume, PYOMO))
+    m.cost_shell = pyo.Expression(expr=b.trays.shells * b.shell.installed(m.shell_volume, PYOMO))
     m.tray_pricing = b.tray_cost.with_count(m.real_trays, b.tray_quantity_factor(m.real_trays))
     m.cost_trays = pyo.Expression(expr=m.tray_pricing.installed(m.tray_area, PYOMO))
     m.cost_condenser = pyo.Expression(expr=cond.cost.installed(m.condenser_area, PYOMO))

@@ -18,7 +18,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 from .._base.errors import InfeasibleSpecError, PropertyError
-from ..costing.column import cost_column
+from ..costing.column import CostSummary, cost_column
 from ..costing.data import CostData, HeatTransferCoefficient
 from ..costing.from_sizing import cost_input
 from ..costing.operating import ELECTRICITY
@@ -152,7 +152,8 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
         tray_spacing=options.tray_spacing, flooding_fraction=options.flood_fraction,
         efficiency=ref.efficiency.value, extra_height=height.top_space + height.bottom_space + height.sump_liquid,
         flooding_method=options.flooding_method, system_factor=options.system_factor,
-        downcomer_fraction=options.downcomer_area_fraction)
+        downcomer_fraction=options.downcomer_area_fraction, shells=options.shells,
+        max_height_to_diameter=options.max_height_to_diameter)
     basis = CostBasis(
         trays=trays, shell=costs["column shell"], tray_cost=costs["trays"],
         condenser=ExchangerBasis(exchangers.condenser_U.value, condenser.supply_temperature,
@@ -178,8 +179,7 @@ def price_design(design: DesignEvaluation, mixture, data: CostData, options: Siz
     exchangers = exchanger_data(data, mixture, design.profile, options)
 
     def priced(rounded: bool):
-        sizing = _size(mixture, data, design.profile, options, exchangers, rounded)
-        return sizing, cost_column(data, cost_input(sizing, options.tray_type), scenario, cost_year)
+        return price_profile(design.profile, mixture, data, options, scenario, cost_year, rounded, exchangers)
 
     sizing, cost = priced(round_diameter)
     check = None
@@ -188,3 +188,12 @@ def price_design(design: DesignEvaluation, mixture, data: CostData, options: Siz
         check = ModelCheck(design.tac, cost.tac_per_year, exact_cost.tac_per_year, design.sizes.diameter,
                            sizing.diameter, exact_sizing.diameter)
     return SequentialPrice(sizing, cost, exchangers.rows, check)
+
+
+def price_profile(profile: StageProfile, mixture, data: CostData, options: SizingOptions,
+                  scenario: str | None = None, cost_year: int | None = None, round_diameter: bool = True,
+                  exchangers: ExchangerData | None = None) -> tuple[ColumnSizing, CostSummary]:
+    """Sizing and cost of a stage profile by the sizing and costing layers (``exchangers`` None: looked up)."""
+    exchangers = exchanger_data(data, mixture, profile, options) if exchangers is None else exchangers
+    sizing = _size(mixture, data, profile, options, exchangers, round_diameter)
+    return sizing, cost_column(data, cost_input(sizing, options.tray_type), scenario, cost_year)

@@ -162,3 +162,56 @@ class OptimumDesign:
     basis: object | None = field(default=None, compare=False, repr=False)
     # every configuration the search solved (the last round's), each at its own lowest-TAC reflux
     solved: tuple[DesignEvaluation, ...] = field(default=(), compare=False, repr=False)
+    sizing_options: object | None = None  # SizingOptions of the result: tray spacing and shells chosen
+    stage_limit: int | None = None  # most stages one shell within the height limit holds, when below the search's bound
+    layout: "LayoutChoice | None" = None  # the layouts compared and the one chosen
+    spacings: tuple = ()  # SpacingPrice of each candidate tray spacing at the optimum
+
+
+@dataclass(frozen=True)
+class SpacingPrice:
+    """A candidate tray spacing priced at a fixed design: TAC [currency/yr], None when a shell is too tall."""
+
+    spacing: float  # m
+    tac: float | None
+    tallest_shell: float  # m, tangent length
+    diameter: float  # m
+
+
+@dataclass(frozen=True)
+class LayoutOption:
+    """One layout the optimiser compared: its optimum, or why it has none."""
+
+    label: str  # "one shell", "two shells", "more stages"
+    shells: int
+    tac: float | None  # currency/yr, the sequential price; None: no design
+    stages: int | None = None
+    feed_stage: int | None = None
+    reflux_ratio: float | None = None
+    tray_spacing: float | None = None  # m
+    tallest_shell: float | None = None  # m, tangent length
+    height_to_diameter: float | None = None  # [-], of the tallest shell
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class LayoutChoice:
+    """Which shell layout was chosen among those compared, and what the limits cost."""
+
+    chosen: str  # label of the chosen LayoutOption
+    why: str
+    max_height: float  # m, of one shell
+    max_height_to_diameter: float  # [-]
+    binding: tuple[str, ...]  # "shell height", "height-to-diameter"
+    options: tuple[LayoutOption, ...]
+    spacings: tuple[SpacingPrice, ...]  # the candidate spacings at the chosen design
+    unconstrained_tac: float | None = None  # currency/yr: the designs priced as one shell without limits
+    sections: str = ""  # the section diameters and whether a swaged shell was priced and chosen
+
+    @property
+    def limit_cost(self) -> float | None:
+        """Chosen TAC minus the unconstrained TAC [currency/yr]; None without both."""
+        chosen = next(o for o in self.options if o.label == self.chosen)
+        if chosen.tac is None or self.unconstrained_tac is None:
+            return None
+        return chosen.tac - self.unconstrained_tac

@@ -14,7 +14,8 @@ from __future__ import annotations
 from .. import __version__
 from .._base.units import to_degC
 from ..costing import CostSummary
-from ..optimisation.results import DesignEvaluation, OptimumDesign, SequentialPrice, SolverReport
+from ..costing.from_sizing import swaged
+from ..optimisation.results import DesignEvaluation, LayoutChoice, OptimumDesign, SequentialPrice, SolverReport
 from ..properties import FeedState, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages import StageDesign, StageProfile
@@ -101,7 +102,15 @@ def design_json(profile: StageProfile, minimum_reflux: float | None, sizing: Col
             "tray_pressure_drop_hydraulics_kPa": sizing.tray_pressure_drop / 1e3 if sizing.pressure_drops else None,
             "tray_efficiency": sizing.efficiency.value,
             "diameter_m": sizing.diameter,
-            "height_m": sizing.height.tangent_length,
+            "height_m": sizing.tallest_shell.tangent_length,
+            "height_to_diameter": sizing.tallest_shell.tangent_length / sizing.diameter,
+            "diameter_basis": sizing.diameter_basis,
+            "flooding_diameter_m": sizing.flooding_diameter,
+            "tray_spacing_m": sizing.height.tray_spacing,
+            "shell_count": sizing.shells,
+            "shells": shells_json(sizing),
+            "sections": sections_json(sizing),
+            "interconnection": interconnection_json(sizing),
             "shell_thickness_mm": sizing.vessel.shell_thickness * 1e3,
             "condenser_area_m2": sizing.condenser.area,
             "reboiler_area_m2": sizing.reboiler.area,
@@ -109,6 +118,60 @@ def design_json(profile: StageProfile, minimum_reflux: float | None, sizing: Col
             "reboiler_utility": sizing.reboiler.utility.name,
         })
     return data
+
+
+def shells_json(sizing: ColumnSizing) -> list[dict]:
+    """Each shell, top first: trays, heights, slenderness and design pressure."""
+    split = sizing.split
+    shells = [("single", sizing.real_trays, sizing.height, sizing.vessel)] if split is None else [
+        ("upper", split.upper_trays, split.upper_height, split.upper_vessel),
+        ("lower", split.lower_trays, sizing.height, sizing.vessel)]
+    return [{"position": position, "real_trays": trays, "tangent_length_m": h.tangent_length,
+             "overall_height_m": h.overall, "height_to_diameter": h.tangent_length / sizing.diameter,
+             "design_pressure_kPa_gauge": vessel.design_pressure / 1e3,
+             "shell_thickness_mm": vessel.shell_thickness * 1e3}
+            for position, trays, h, vessel in shells]
+
+
+def sections_json(sizing: ColumnSizing) -> dict:
+    """Diameters the rectifying and stripping trays need, and whether the column is priced with two."""
+    return {"rectifying_diameter_m": sizing.rectifying_diameter, "stripping_diameter_m": sizing.stripping_diameter,
+            "rectifying_real_trays": sizing.rectifying_real_trays,
+            "stripping_real_trays": sizing.real_trays - sizing.rectifying_real_trays,
+            "separate_sections": sizing.separate_sections, "swaged_shell": swaged(sizing)}
+
+
+def interconnection_json(sizing: ColumnSizing) -> dict | None:
+    """Transfer pump and vapour line between two shells; None for one shell."""
+    split = sizing.split
+    if split is None:
+        return None
+    pump, line = split.transfer_pump, split.vapour_line
+    return {"split_after_stage": split.split_stage, "transfer_pump_shaft_power_kW": pump.shaft_power / 1e3,
+            "transfer_pump_head_m": pump.head, "transfer_pump_flow_m3_per_h": pump.volume_flow * 3600.0,
+            "vapour_line_diameter_m": line.diameter, "vapour_line_length_m": line.length,
+            "vapour_line_velocity_m_per_s": line.velocity}
+
+
+def layout_json(layout: LayoutChoice | None) -> dict | None:
+    """The shell layouts compared, the one chosen and why, the limits and what they cost."""
+    if layout is None:
+        return None
+    return {
+        "chosen": layout.chosen, "why": layout.why,
+        "limits": {"max_height_m": layout.max_height, "max_height_to_diameter": layout.max_height_to_diameter,
+                   "source": "common practice, no source (defaults; the case's sizing table may set them)"},
+        "binding": list(layout.binding),
+        "unconstrained_tac_per_year": layout.unconstrained_tac,
+        "sections": layout.sections,
+        "limit_cost_per_year": layout.limit_cost,
+        "options": [{"layout": o.label, "shells": o.shells, "tac_per_year": o.tac, "stages": o.stages,
+                     "feed_stage": o.feed_stage, "reflux_ratio": o.reflux_ratio, "tray_spacing_m": o.tray_spacing,
+                     "tallest_shell_m": o.tallest_shell, "height_to_diameter": o.height_to_diameter,
+                     "note": o.note} for o in layout.options],
+        "tray_spacings": [{"tray_spacing_m": p.spacing, "tac_per_year": p.tac, "tallest_shell_m": p.tallest_shell,
+                           "diameter_m": p.diameter} for p in layout.spacings],
+    }
 
 
 def cost_json(cost: CostSummary) -> dict:
@@ -190,7 +253,10 @@ def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | Non
         "cost": cost_json(sequential.cost) if sequential else None,
         "model_check": model_check_json(sequential),
         "diameter_m": sequential.sizing.diameter if sequential else best.sizes.diameter,
-        "height_m": sequential.sizing.height.tangent_length if sequential else best.sizes.height,
+        "height_m": sequential.sizing.tallest_shell.tangent_length if sequential else best.sizes.height,
+        "shell_count": sequential.sizing.shells if sequential else None,
+        "tray_spacing_m": sequential.sizing.height.tray_spacing if sequential else None,
+        "layout": layout_json(optimum.layout),
         "verification": scenario_verification_json(checks),
     }
 
@@ -232,6 +298,7 @@ def result_json(result: DesignResult) -> dict:
         "solver": solver,
         "model_check": model_check_json(sequential),
         "equipment": equipment_json(parts.sizing) if parts.sizing else None,
+        "layout": layout_json(parts.optimum.layout if parts.optimum is not None else None),
         "stage_profile": profile_json(profile) if profile else None,
         "shortcut_table": stages_json(stages) if stages else None,
         "scenarios": [scenario_json(name, optimum, r_min, dict(parts.scenario_checks).get(name))

@@ -45,6 +45,30 @@ def cautions_text() -> str:
     return "\n".join(f"Caution: {c}" for c in CAUTIONS)
 
 
+def _shells_words(sizing) -> str:
+    """Shells and their tangent lengths (height-to-diameter in brackets), and what set the diameter."""
+    split = sizing.split
+    heights = [sizing.height] if split is None else [split.upper_height, sizing.height]
+    words = " and ".join(f"{h.tangent_length:.1f} m (H/D {h.tangent_length / sizing.diameter:.0f})" for h in heights)
+    shells = "one shell" if split is None else f"two shells in series (split after stage {split.split_stage})"
+    basis = "" if sizing.diameter_basis == "flooding" else ", diameter set by the height-to-diameter limit"
+    return f"{shells}, {words} tangent to tangent{basis}"
+
+
+def layout_lines(layout, currency: str) -> list[str]:
+    """The shell layout chosen, why, and what the limits cost."""
+    lines = [f"Layout: {layout.why}"] + ([f"Sections: {layout.sections}"] if layout.sections else [])
+    limits = f"limits {layout.max_height:g} m per shell, height-to-diameter {layout.max_height_to_diameter:g}"
+    if layout.binding:
+        cost = layout.limit_cost
+        extra = "" if cost is None else (f"; {cost:,.0f} {currency} per year above the same designs priced as "
+                                         "one shell without limits")
+        lines.append(f"Binding: {', '.join(layout.binding)} ({limits}, common practice, no source){extra}")
+    else:
+        lines.append(f"No shell limit binds ({limits}, common practice, no source)")
+    return lines
+
+
 def design_text(result: DesignResult) -> str:
     """The chosen (or priced) design in a few lines, units on every number."""
     lines = []
@@ -67,7 +91,8 @@ def design_text(result: DesignResult) -> str:
     if parts.sizing is not None:
         s = parts.sizing
         lines.append(f"Column: {s.diameter:.2f} m diameter, {s.real_trays} real trays "
-                     f"(efficiency {s.efficiency.value:.2f}), {s.height.tangent_length:.1f} m tangent to tangent; "
+                     f"(efficiency {s.efficiency.value:.2f}) at {s.height.tray_spacing:.2f} m spacing, "
+                     f"{_shells_words(s)}; "
                      f"condenser {s.condenser.area:,.0f} m2 on {s.condenser.utility.name}, "
                      f"reboiler {s.reboiler.area:,.0f} m2 on {s.reboiler.utility.name}")
     if parts.cost is not None:
@@ -76,6 +101,8 @@ def design_text(result: DesignResult) -> str:
                      f"{c.capital_installed:,.0f}, utilities {c.utilities_per_year:,.0f} per year, "
                      f"TAC {c.tac_per_year:,.0f} per year")
     optimum = parts.optimum
+    if optimum is not None and optimum.layout is not None:
+        lines += layout_lines(optimum.layout, parts.cost.currency if parts.cost is not None else "")
     if optimum is not None:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
         failed = f" ({len(optimum.solver.unsolved)} did not solve)" if optimum.solver.unsolved else ""

@@ -22,8 +22,9 @@ from .flooding import FLOW_PARAMETER_RANGE
 from .tray_pressure_drop import TrayPressureDrop, sieve_tray_pressure_drop, weir_height_for
 from .trays import TrayHydraulics, round_up, tray_hydraulics
 from .options import SizingOptions
+from .shells import ShellSplit, shell_trays, split_stage, vapour_line
 from .utilities import UtilityLevel
-from .vessel import ColumnHeight, VesselDesign, column_height, design_pressure, design_vessel
+from .vessel import ColumnHeight, VesselDesign, column_height, design_pressure, design_vessel, least_diameter
 
 
 class SizingProperties(Protocol):
@@ -79,6 +80,21 @@ class ColumnSizing:
     equipment: tuple[EquipmentItem, ...]
     warnings: tuple[str, ...]
     pressure_drops: tuple[TrayPressureDrop, ...] = ()  # one per tray at the shell diameter, top first
+    diameter_basis: str = "flooding"  # what set the diameter: "flooding" or "height-to-diameter limit"
+    flooding_diameter: float = 0.0  # m, largest tray's by flooding alone, not rounded
+    split: ShellSplit | None = None  # the upper shell and its connections when there are two shells
+
+    @property
+    def shells(self) -> int:
+        """Shells in series [-]; with two, ``height`` and ``vessel`` are the lower shell's."""
+        return 1 if self.split is None else 2
+
+    @property
+    def tallest_shell(self) -> ColumnHeight:
+        """Heights of the tallest shell."""
+        if self.split is None:
+            return self.height
+        return max(self.height, self.split.upper_height, key=lambda h: h.tangent_length)
 
     @property
     def tray_pressure_drop(self) -> float:
@@ -185,29 +201,48 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     def rounded(value: float) -> float:
         return round_up(value, step) if round_diameter else value
 
-    diameter = rounded(max(t.diameter for t in trays))
+    efficiency = _efficiency(profile, mixture, options, warnings)
+    n_real = real_trays(n, efficiency.value)
+    n_rect = min(n_real, math.ceil((profile.feed_stage - 1) / efficiency.value - 1e-9))
+    if options.shells == 2 and n_real < 4:
+        raise CaseError("sizing.shells", f"{options.shells} shells for {n_real} real trays",
+                        "one shell, or two for a column of at least four trays")
+    counts = shell_trays(n_real, options.shells)
+    split = split_stage(counts[0], efficiency.value, n) if len(counts) == 2 else n - 1
+    # liquid held in each shell's bottom: the split tray's (upper shell) and the reboiler feed
+    sump_flows = tuple(profile.L[i - 1] * mixture.molar_mass(profile.x[i - 1]) / trays[i - 1].liquid_density
+                       for i in ((split, n - 1) if len(counts) == 2 else (n - 1,)))
+    slender = max(least_diameter(k * options.tray_spacing, options.top_space, options.bottom_space, flow,
+                                 options.sump_residence_time, options.max_height_to_diameter)
+                  for k, flow in zip(counts, sump_flows))
+    flooding = max(t.diameter for t in trays)
+    diameter = rounded(max(flooding, slender))
+    basis = "flooding" if flooding >= slender else "height-to-diameter limit"
     rectifying = [t.diameter for t in trays if t.stage < profile.feed_stage]
     stripping = [t.diameter for t in trays if t.stage >= profile.feed_stage]
-    d_rect = rounded(max(rectifying or stripping))
-    d_strip = rounded(max(stripping or rectifying))
+    d_rect = rounded(max(max(rectifying or stripping), slender))
+    d_strip = rounded(max(max(stripping or rectifying), slender))
     if diameter < 0.6:
         warnings.append(f"column diameter {diameter:.2f} m is below 0.6 m (common practice, no source): "
                         "trays are hard to install; consider packing")
 
-    efficiency = _efficiency(profile, mixture, options, warnings)
-    n_real = real_trays(n, efficiency.value)
-    n_rect = min(n_real, math.ceil((profile.feed_stage - 1) / efficiency.value - 1e-9))
-    bottom = trays[-1]
-    sump_flow = profile.L[n - 2] * mixture.molar_mass(profile.x[n - 2]) / bottom.liquid_density
-    height = column_height(n_real, options.tray_spacing, diameter, sump_flow, options.sump_residence_time,
-                           options.top_space, options.bottom_space, options.skirt_height, options.max_height,
-                           options.max_height_to_diameter)
-    warnings.extend(height.warnings)
-    vessel = design_vessel(diameter, height.tangent_length, max(profile.P), max(profile.T), options.material,
-                           options.joint_efficiency, options.corrosion_allowance,
-                           options.pressure_margin_fraction, options.pressure_margin_minimum,
-                           options.temperature_margin, min(profile.P))
-    warnings.extend(vessel.warnings)
+    def shell(trays_in: int, sump_flow: float, first: int, last: int) -> tuple[ColumnHeight, VesselDesign]:
+        height = column_height(trays_in, options.tray_spacing, diameter, sump_flow, options.sump_residence_time,
+                               options.top_space, options.bottom_space, options.skirt_height, options.max_height,
+                               options.max_height_to_diameter)
+        warnings.extend(height.warnings)
+        P, T = profile.P[first:last], profile.T[first:last]
+        vessel = design_vessel(diameter, height.tangent_length, max(P), max(T), options.material,
+                               options.joint_efficiency, options.corrosion_allowance,
+                               options.pressure_margin_fraction, options.pressure_margin_minimum,
+                               options.temperature_margin, min(P))
+        warnings.extend(vessel.warnings)
+        return height, vessel
+
+    height, vessel = shell(counts[-1], sump_flows[-1], split if len(counts) == 2 else 0, n)
+    top_height = height
+    if len(counts) == 2:
+        top_height, top_vessel = shell(counts[0], sump_flows[0], 0, split)
 
     condenser = size_exchanger("condenser", "cooling", profile.condenser_duty, profile.T[0],
                                profile.condenser_temperature, utilities, U_condenser, options.min_approach,
@@ -220,29 +255,49 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     volume_flow, density = _condenser_liquid(profile, mixture)
     drum = size_drum(volume_flow, options.drum_holdup_time, options.drum_fill_fraction,
                      options.drum_length_to_diameter, top_design_p, top_design_t)
-    pump = size_pump(volume_flow, density, height.overall + options.pump_head_allowance, options.pump_efficiency,
-                     top_design_p, top_design_t, options.out_of_range)
+    pump = size_pump(volume_flow, density, top_height.overall + options.pump_head_allowance,
+                     options.pump_efficiency, top_design_p, top_design_t, options.out_of_range)
     warnings.extend(pump.warnings)
-    if options.separate_sections and d_rect != d_strip:
-        warnings.append("separate section diameters: trays sized per section; the shell is taken at the "
-                        "larger diameter (a two-diameter shell is not modelled)")
+    shells = None
+    if len(counts) == 2:
+        shells = _split(profile, mixture, options, trays, counts, split, sump_flows[0], top_height, top_vessel,
+                        height)
+        warnings.extend(shells.transfer_pump.warnings)
+    if options.separate_sections and d_rect != d_strip and options.shells == 2:
+        warnings.append("separate section diameters: trays sized per section; two shells are taken at the "
+                        "larger diameter (a swaged shell is priced for one shell only)")
 
     equipment = _equipment(vessel, diameter, d_rect, d_strip, n_real, n_rect, options, condenser, reboiler,
-                           drum, pump, top_design_p, top_design_t)
+                           drum, pump, top_design_p, top_design_t, shells)
     weir = weir_height_for(profile.P[0])
     drops = tuple(sieve_tray_pressure_drop(t, diameter, weir) for t in trays)
     return ColumnSizing(trays, options.flood_fraction, diameter, d_rect, d_strip, options.separate_sections,
                         efficiency, n_real, n_rect, height, vessel, condenser, reboiler, drum, pump, equipment,
-                        tuple(warnings), drops)
+                        tuple(warnings), drops, basis, flooding, shells)
+
+
+def _split(profile: StageProfile, mixture: SizingProperties, options: SizingOptions, trays, counts, split: int,
+           liquid_flow: float, upper_height: ColumnHeight, upper_vessel: VesselDesign,
+           lower_height: ColumnHeight) -> ShellSplit:
+    """The upper shell, the transfer pump (upper bottom to lower top) and the vapour line of two shells."""
+    liquid = trays[split - 1]
+    pump = size_pump(liquid_flow, liquid.liquid_density, lower_height.overall + options.pump_head_allowance,
+                     options.pump_efficiency, upper_vessel.design_pressure,
+                     upper_vessel.design_temperature, options.out_of_range)
+    line = vapour_line(trays[split].vapour_volume_flow, lower_height.overall)
+    return ShellSplit(counts[0], counts[1], split, upper_height, upper_vessel, pump, line)
 
 
 def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: float, n_real: int, n_rect: int,
                options: SizingOptions, condenser: ExchangerSizing, reboiler: ExchangerSizing,
-               drum: DrumSizing, pump: PumpSizing, top_p: float, top_t: float) -> tuple[EquipmentItem, ...]:
+               drum: DrumSizing, pump: PumpSizing, top_p: float, top_t: float,
+               split: ShellSplit | None) -> tuple[EquipmentItem, ...]:
     common = dict(material=vessel.material, material_class=vessel.material_class)
     column_design = dict(design_pressure=vessel.design_pressure, design_temperature=vessel.design_temperature)
-    items = [EquipmentItem("column", "vertical pressure vessel", vessel.mass, "kg", "shell and heads mass",
-                           **common, **column_design, diameter=diameter, length=vessel.tangent_length)]
+    shells = [("column", vessel)] if split is None else [("column", split.upper_vessel), ("column_lower", vessel)]
+    items = [EquipmentItem(tag, "vertical pressure vessel", v.mass, "kg", "shell and heads mass", **common,
+                           design_pressure=v.design_pressure, design_temperature=v.design_temperature,
+                           diameter=diameter, length=v.tangent_length) for tag, v in shells]
     if options.separate_sections and d_rect != d_strip:
         sections = (("trays_rectifying", d_rect, n_rect), ("trays_stripping", d_strip, n_real - n_rect))
     else:
@@ -261,6 +316,16 @@ def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: fl
         EquipmentItem("reflux_pump", "centrifugal pump", pump.shaft_power, "W", "shaft power", **common,
                       design_pressure=pump.design_pressure, design_temperature=pump.design_temperature),
     ]
+    if split is not None:
+        transfer, line = split.transfer_pump, split.vapour_line
+        upper = split.upper_vessel
+        items += [
+            EquipmentItem("transfer_pump", "centrifugal pump", transfer.shaft_power, "W", "shaft power", **common,
+                          design_pressure=transfer.design_pressure, design_temperature=transfer.design_temperature),
+            EquipmentItem("vapour_line", "process pipe", line.surface, "m^2", "pipe surface (pi D L)", **common,
+                          design_pressure=upper.design_pressure, design_temperature=vessel.design_temperature,
+                          diameter=line.diameter, length=line.length),
+        ]
     return tuple(items)
 
 

@@ -14,6 +14,9 @@ from .materials import material
 
 INCH = 0.0254  # m
 TRAY_TYPES = ("sieve", "valve")  # tray cost curves of the costing layer (sieve_tray, valve_tray)
+# Candidate tray spacings the optimiser chooses from by TAC (common practice, no source) [m]
+STANDARD_TRAY_SPACINGS = (0.45, 0.50, 0.60, 0.75)
+SHELL_COUNTS = (1, 2)  # one shell, or two in series split where their heights balance
 
 # Fields that must be strictly positive, and fractions in (0, 1].
 _POSITIVE = ("diameter_increment", "system_factor", "sump_residence_time", "max_height",
@@ -29,6 +32,7 @@ class SizingOptions:
     """Choices of the designer; SI units (m, s, K, Pa, h/yr for operating hours)."""
 
     tray_spacing: float = 24 * INCH  # m; 24 in is usual above about 1.5 m diameter
+    tray_spacings: tuple[float, ...] | None = None  # m; candidates the optimiser chooses from (None: standard list)
     flood_fraction: float = 0.80  # - of flooding velocity
     flooding_method: str = "lygeros-magoulas"  # key of FLOODING_METHODS
     tray_type: str = "sieve"  # one of TRAY_TYPES: which tray cost curve prices the trays
@@ -43,8 +47,9 @@ class SizingOptions:
     bottom_space: float = 1.0  # m between sump liquid level and bottom tray
     sump_residence_time: float = 300.0  # s of reboiler feed held in the sump
     skirt_height: float = 3.0  # m
-    max_height: float = 50.0  # m tangent length before a warning
-    max_height_to_diameter: float = 30.0  # - before a warning
+    max_height: float = 50.0  # m, largest tangent length of one shell: a limit of the optimisation
+    max_height_to_diameter: float = 30.0  # - largest tangent length over diameter of a shell: sets a least diameter
+    shells: int = 1  # shells in series (SHELL_COUNTS), split at the tray that balances their heights
     material: str = "SA-516 Grade 70"  # a row name of cost_data/allowable_stress.csv
     joint_efficiency: float = 0.85  # - ; spot-radiographed double-welded butt joint (UW-12)
     corrosion_allowance: float = 3e-3  # m
@@ -72,6 +77,13 @@ class SizingOptions:
             if f.name in _FRACTIONS and not 0.0 < value <= 1.0:
                 raise CaseError(f"sizing.{f.name}", f"{value!r} is not a fraction", "above 0 and at most 1", value)
         TRAY_SPACING_RANGE.check(self.tray_spacing, OutOfRange.RAISE)
+        if self.tray_spacings is not None:
+            if not self.tray_spacings:
+                raise CaseError("sizing.tray_spacings", "an empty list", "one or more tray spacings [m]")
+            for spacing in self.tray_spacings:
+                TRAY_SPACING_RANGE.check(spacing, OutOfRange.RAISE)
+        if self.shells not in SHELL_COUNTS:
+            raise CaseError("sizing.shells", f"{self.shells!r}", " or ".join(map(str, SHELL_COUNTS)))
         if self.flooding_method not in FLOODING_METHODS:
             raise CaseError("sizing.flooding_method", f"unknown method {self.flooding_method!r}",
                             ", ".join(FLOODING_METHODS))
@@ -88,3 +100,8 @@ class SizingOptions:
             raise CaseError("sizing.heavy_key", f"keys {self.light_key} and {self.heavy_key}",
                             "two different component indices")
         material(self.material)
+
+    @property
+    def spacing_candidates(self) -> tuple[float, ...]:
+        """The tray spacings the optimiser compares [m]: the given list, else the standard one."""
+        return self.tray_spacings if self.tray_spacings is not None else STANDARD_TRAY_SPACINGS

@@ -13,6 +13,7 @@ import math
 from dataclasses import dataclass
 
 from fluids.geometry import SA_ellipsoidal_head
+from scipy.optimize import brentq
 
 from .._base.errors import CorrelationRangeError
 from .._base.units import ATMOSPHERE
@@ -342,6 +343,31 @@ class ColumnHeight:
     overall: float  # tangent length + skirt
     height_to_diameter: float  # tangent length / diameter [-]
     warnings: tuple[str, ...]
+
+
+def least_diameter(tray_section: float, top_space: float, bottom_space: float, sump_liquid_flow: float,
+                   residence_time: float, max_height_to_diameter: float) -> float:
+    """Least shell diameter [m] whose tangent length over diameter is at most ``max_height_to_diameter``.
+
+    Tangent length L(D) = tray section + top space + bottom space + 4 Q t / (pi D^2) (the sump of
+    :func:`column_height`, shorter on a wider shell); L(D)/D falls with D, so the limit holds from
+    the root of r D = L(D) up. The limit itself is common practice, no source (slender shells
+    need wind and seismic design that a screening estimate does not make).
+
+    Examples
+    --------
+    >>> round(least_diameter(45.0, 1.2, 1.0, 0.0, 300.0, 30.0), 4)  # (45 + 2.2) / 30 without a sump
+    1.5733
+    """
+    if math.isinf(max_height_to_diameter):
+        return 0.0
+    fixed = tray_section + top_space + bottom_space
+    sump = sump_liquid_flow * residence_time * 4.0 / math.pi  # sump height x D^2 [m^3]
+    low = fixed / max_height_to_diameter
+    if sump <= 0.0:
+        return low
+    high = low + (sump / max_height_to_diameter) ** (1.0 / 3.0)
+    return brentq(lambda d: max_height_to_diameter * d - fixed - sump / d ** 2, low, high, xtol=1e-9)
 
 
 def column_height(real_trays: int, tray_spacing: float, diameter: float, sump_liquid_flow: float,

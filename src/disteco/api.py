@@ -13,9 +13,11 @@ from typing import Callable
 from ._base.errors import CaseError, CostDataError
 from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
+from .costing.from_sizing import check_tray_material
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.given import check_decisions
+from .optimisation.margin import hold_margin
 from .optimisation.results import DesignEvaluation, OptimumDesign
 from .optimisation.thermo_checks import ThermoChecks, thermo_checks
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
@@ -26,7 +28,7 @@ from .reports.json_result import result_json
 from .reports.tables_design import ReportParts, optimum_parts
 from .reports.tables_scenarios import CrossTable
 from .reports.workbook import write_workbook
-from .sizing.options import SizingOptions
+from .sizing.options import sizing_options
 from .stages import StageDesign, design_stages, step_stages
 
 RESULT_FILE = "result.json"
@@ -61,6 +63,7 @@ def check(case: Case) -> MixtureSummary:
     data = cost_data_of(case)
     resolve_scenarios(data, case.economics.scenarios)
     resolve_cost_year(data, case.economics.cost_year)
+    check_tray_material(data, sizing_options(case))
     mixture = mixture_of(case)
     return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
                              case.products.light_key, case.products.heavy_key)
@@ -95,7 +98,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
     report("shortcut design and stage profile", 0, total)
     stages = design_stages(mixture, feed, case.products, case.column)
-    sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
+    sizing = sizing_options(case)
     if given is not None:
         report(f"pricing the given design under '{names[0]}'", 1, total)
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
@@ -105,21 +108,32 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings, parts))
-    optima, curves, checked = [], [], []
+    optima, curves, checked, margins = [], [], [], []
+    minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
+        checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name, full=k == 0,
+                               fitted=optimum.problem.fitted if optimum.problem else None)
+        minimum = checks.minimum if k == 0 else minimum
+        optimum, margin = hold_margin(case, mixture, feed, data, optimum, checks.reflux_ratio,
+                                      minimum.reflux_ratio if minimum else None, options, sizing, name)
+        if margin.binds:  # the reported design's own checks, its minimum reflux on its own pressures
+            checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name,
+                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
         optima.append((name, optimum))
-        checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name,
-                                            full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)))
+        checked.append((name, checks))
+        margins.append((name, margin))
         report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
-        curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
-                                                 sizing, name)))
+        # the curve around the economic optimum, which the margin's floor lies to the right of
+        curves.append((name, reflux_curve(case, mixture, feed, data, margin.unconstrained or optimum, stages.table,
+                                          options, sizing, name)))
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
     best = optima[0][1]
     checks = checked[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
-                          scenario_checks=tuple(checked), **_binary_parts(stages, checks.reflux_ratio, case))
+                          scenario_checks=tuple(checked), margins=tuple(margins),
+                          **_binary_parts(stages, checks.reflux_ratio, case))
     extra = tuple(cross.below_zero()) if cross is not None else ()
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)

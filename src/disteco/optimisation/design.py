@@ -133,19 +133,26 @@ def _unsettled(rounds: int, tac_change: float) -> tuple[str, ...]:
 
 
 def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
-                    sizing: SizingOptions = SizingOptions(), scenario: str | None = None) -> OptimumDesign:
+                    sizing: SizingOptions = SizingOptions(), scenario: str | None = None,
+                    warm: OptimumDesign | None = None) -> OptimumDesign:
     """Lowest-TAC reflux ratio, stages and feed stage of ``case`` and its sequential price.
 
     ``options``: optimiser options (see :mod:`disteco.optimisation.options`); ``scenario``:
     utility-price scenario of the cost data (None: the data's default). The constants of the
     model are re-evaluated at each optimum and the search repeated from it until nothing
-    changes; ``rounds`` of the result counts the optimisations.
+    changes; ``rounds`` of the result counts the optimisations. ``warm``: an optimum of the
+    same case under other options (a reflux bound), whose pressure profile, reference profile
+    and configuration the search starts from.
     """
     config = model_options(options)
     year = case.economics.cost_year
     resolved_problem(case, mixture, feed, config)  # sets the stage bound
-    problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
-    previous, start, kept = None, None, ()
+    if warm is not None and warm.problem is not None:
+        problem, reference, start = warm.problem, warm.best.profile, (warm.best.stages, warm.best.feed_stage)
+    else:
+        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+        start = None
+    previous, kept = None, ()
     visited, wall, solved = (), 0.0, 0  # over all rounds
     for rounds in range(1, ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential

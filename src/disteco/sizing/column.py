@@ -203,7 +203,7 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
                            options.top_space, options.bottom_space, options.skirt_height, options.max_height,
                            options.max_height_to_diameter)
     warnings.extend(height.warnings)
-    vessel = design_vessel(diameter, height.tangent_length, max(profile.P), max(profile.T), options.material,
+    vessel = design_vessel(diameter, height.tangent_length, max(profile.P), max(profile.T), options.shell_material,
                            options.joint_efficiency, options.corrosion_allowance,
                            options.pressure_margin_fraction, options.pressure_margin_minimum,
                            options.temperature_margin, min(profile.P))

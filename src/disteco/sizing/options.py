@@ -9,6 +9,7 @@ from dataclasses import dataclass, fields
 
 from .._base.errors import CaseError
 from .._base.validity import OutOfRange
+from ..case import Case
 from .flooding import FLOODING_METHODS, TRAY_SPACING_RANGE
 from .materials import material
 
@@ -29,6 +30,7 @@ class SizingOptions:
     """Choices of the designer; SI units (m, s, K, Pa, h/yr for operating hours)."""
 
     tray_spacing: float = 24 * INCH  # m; 24 in is usual above about 1.5 m diameter
+    tray_spacings: tuple[float, ...] | None = None  # m; standard spacings to choose from; None: tray_spacing only
     flood_fraction: float = 0.80  # - of flooding velocity
     flooding_method: str = "lygeros-magoulas"  # key of FLOODING_METHODS
     tray_type: str = "sieve"  # one of TRAY_TYPES: which tray cost curve prices the trays
@@ -43,9 +45,10 @@ class SizingOptions:
     bottom_space: float = 1.0  # m between sump liquid level and bottom tray
     sump_residence_time: float = 300.0  # s of reboiler feed held in the sump
     skirt_height: float = 3.0  # m
-    max_height: float = 50.0  # m tangent length before a warning
-    max_height_to_diameter: float = 30.0  # - before a warning
-    material: str = "SA-516 Grade 70"  # a row name of cost_data/allowable_stress.csv
+    max_height: float = 50.0  # m tangent length before a warning (common practice, no source)
+    max_height_to_diameter: float = 30.0  # - before a warning (common practice, no source)
+    shell_material: str = "SA-516 Grade 70"  # a row name of cost_data/allowable_stress.csv
+    tray_material: str = "CS"  # a material of the trays' group in cost_data/material_factors.csv
     joint_efficiency: float = 0.85  # - ; spot-radiographed double-welded butt joint (UW-12)
     corrosion_allowance: float = 3e-3  # m
     pressure_margin_fraction: float = 0.10  # - above the highest operating gauge pressure
@@ -71,7 +74,13 @@ class SizingOptions:
                 raise CaseError(f"sizing.{f.name}", f"{value!r}", "zero or above", value)
             if f.name in _FRACTIONS and not 0.0 < value <= 1.0:
                 raise CaseError(f"sizing.{f.name}", f"{value!r} is not a fraction", "above 0 and at most 1", value)
-        TRAY_SPACING_RANGE.check(self.tray_spacing, OutOfRange.RAISE)
+        _spacing_in_range("sizing.tray_spacing", self.tray_spacing)
+        if self.tray_spacings is not None:
+            if not self.tray_spacings or len(set(self.tray_spacings)) != len(self.tray_spacings):
+                raise CaseError("sizing.tray_spacings", f"{self.tray_spacings!r}",
+                                "one or more different spacings, e.g. [\"0.45 m\", \"0.6 m\"]")
+            for spacing in self.tray_spacings:
+                _spacing_in_range("sizing.tray_spacings", spacing)
         if self.flooding_method not in FLOODING_METHODS:
             raise CaseError("sizing.flooding_method", f"unknown method {self.flooding_method!r}",
                             ", ".join(FLOODING_METHODS))
@@ -87,4 +96,21 @@ class SizingOptions:
         if self.light_key == self.heavy_key or min(self.light_key, self.heavy_key) < 0:
             raise CaseError("sizing.heavy_key", f"keys {self.light_key} and {self.heavy_key}",
                             "two different component indices")
-        material(self.material)
+        material(self.shell_material)
+        if not isinstance(self.tray_material, str) or not self.tray_material.strip():
+            raise CaseError("sizing.tray_material", f"{self.tray_material!r}", "a material name of the cost data")
+
+
+def _spacing_in_range(field: str, spacing) -> None:
+    if isinstance(spacing, bool) or not isinstance(spacing, (int, float)) or not TRAY_SPACING_RANGE.contains(spacing):
+        raise CaseError(field, f"{spacing!r} m is outside the range of the flooding correlations",
+                        f"{TRAY_SPACING_RANGE.low:.4g} to {TRAY_SPACING_RANGE.high:.4g} m (6 to 36 in)", spacing)
+
+
+def sizing_options(case: Case) -> SizingOptions:
+    """The case's [sizing] choices over the defaults, with the case's key components.
+
+    Raises :class:`CaseError` naming the ``sizing.`` field of a value out of range.
+    """
+    return SizingOptions(**case.sizing.as_dict(), light_key=case.products.light_key,
+                         heavy_key=case.products.heavy_key)

@@ -155,8 +155,13 @@ def test_margin_defaults_and_keeps_a_design_above_its_floor():
     optimum = object()  # a search would fail on it: proves none is run
     kept, margin = hold_margin(case, None, None, None, optimum, reflux_ratio=2.0, minimum_reflux=1.8)
     assert kept is optimum and not margin.binds and margin.reflux_floor == pytest.approx(1.98)
+    assert margin.warnings == ()
     kept, margin = hold_margin(case, None, None, None, optimum, reflux_ratio=1.0, minimum_reflux=None)
     assert kept is optimum and margin.reflux_floor is None
+    assert "column.min_reflux_ratio_factor" in margin.warnings[0]  # said, not silently dropped
+    off = case_with(column="min_reflux_ratio_factor = 1")
+    kept, margin = hold_margin(off, None, None, None, optimum, reflux_ratio=1.0, minimum_reflux=1.8)
+    assert kept is optimum and not margin.binds and margin.warnings == ()
 
 
 def test_sizing_table_reaches_a_priced_design(tmp_path, capsys):

@@ -86,7 +86,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
-    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
+    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done. The
+    sizing options are the case's ``[sizing]`` choices; an optimum below the case's control
+    margin (``column.min_reflux_ratio_factor``) is searched again above it (:mod:`.optimisation.margin`).
     """
     report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
@@ -137,6 +139,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     extra = tuple(cross.below_zero()) if cross is not None else ()
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
+    extra += tuple(w for _, margin in margins[:1] for w in margin.warnings)
     extra += mixture.warnings
     parts = _checked(parts, checks)
     return DesignResult(case, summary, feed, stages=stages, parts=parts,

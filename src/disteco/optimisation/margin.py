@@ -41,6 +41,13 @@ class ControlMargin:
     def binds(self) -> bool:
         return self.unconstrained is not None
 
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        if self.minimum_reflux is not None or self.factor <= 1.0:
+            return ()
+        return (f"control margin not applied: the energy-balance minimum reflux was not found, so the least "
+                f"R/Rmin of {self.factor:g} (column.min_reflux_ratio_factor) could not be set as a floor",)
+
 
 def hold_margin(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,
                 reflux_ratio: float, minimum_reflux: float | None, options=None,

@@ -585,7 +585,8 @@ def _sizing(table) -> Sizing:
         value = _get(table, key, kind, "sizing.")
         if kind is list:
             if not value:
-                raise CaseError(field_name, "empty list", f"a list of {quantity}s with units, e.g. [\"0.45 m\", \"0.6 m\"]")
+                raise CaseError(field_name, "empty list", f"a list of {quantity}s with units, "
+                                "e.g. [\"0.45 m\", \"0.6 m\"]")
             value = tuple(parse_quantity(v, quantity, field_name)[0] for v in value)
         elif quantity is not None:
             value = parse_quantity(value, quantity, field_name)[0]

@@ -58,6 +58,8 @@ def design_text(result: DesignResult) -> str:
     if profile is None:
         return "\n".join(lines)
     heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
+    if parts.margin is not None and parts.margin.binds:
+        heading = "Lowest-TAC design holding the control margin"
     if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:
         heading = "Best design found (search incomplete, see the warnings)"
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""

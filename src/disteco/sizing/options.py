@@ -77,7 +77,7 @@ class SizingOptions:
         _spacing_in_range("sizing.tray_spacing", self.tray_spacing)
         if self.tray_spacings is not None:
             if not self.tray_spacings or len(set(self.tray_spacings)) != len(self.tray_spacings):
-                raise CaseError("sizing.tray_spacings", f"{self.tray_spacings!r}",
+                raise CaseError("sizing.tray_spacings", ", ".join(f"{s:.4g} m" for s in self.tray_spacings) or "none",
                                 "one or more different spacings, e.g. [\"0.45 m\", \"0.6 m\"]")
             for spacing in self.tray_spacings:
                 _spacing_in_range("sizing.tray_spacings", spacing)

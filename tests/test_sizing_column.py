@@ -104,7 +104,7 @@ def test_user_efficiency_and_separate_sections(mixture):
 
 
 def test_tray_spacing_outside_correlation_range():
-    with pytest.raises(CorrelationRangeError, match="tray spacing = 0.1 m is outside"):
+    with pytest.raises(CaseError, match="sizing.tray_spacing: 0.1 m is outside the range of the flooding"):
         SizingOptions(tray_spacing=0.1)
 
 
@@ -112,7 +112,7 @@ def test_tray_spacing_outside_correlation_range():
     ("flood_fraction", 1.2, "sizing.flood_fraction: 1.2 is not a fraction"),
     ("flood_fraction", 0.0, "sizing.flood_fraction"),
     ("flooding_method", "chart", "unknown method 'chart'"),
-    ("material", "wood", "unknown material 'wood'"),
+    ("shell_material", "wood", "sizing.shell_material: unknown material 'wood'"),
     ("corrosion_allowance", -1e-3, "sizing.corrosion_allowance"),
     ("heavy_key", 0, "two different component indices"),
 ])

@@ -60,6 +60,10 @@ def check(case: Case) -> MixtureSummary:
     data = cost_data_of(case)
     resolve_scenarios(data, case.economics.scenarios)
     resolve_cost_year(data, case.economics.cost_year)
+    from .costing.from_sizing import check_tray_material
+    from .sizing.options import sizing_options
+
+    check_tray_material(data, sizing_options(case))
     mixture = mixture_of(case)
     return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
                              case.products.light_key, case.products.heavy_key)
@@ -82,14 +86,17 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
-    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
+    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done. The
+    sizing options are the case's ``[sizing]`` choices; an optimum below the case's control
+    margin (``column.min_reflux_ratio_factor``) is searched again above it (:mod:`.optimisation.margin`).
     """
     from .optimisation.curves import reflux_curve
     from .optimisation.design import evaluate_design, optimise_design
+    from .optimisation.margin import hold_margin
     from .optimisation.thermo_checks import thermo_checks
     from .reports.design_result import DesignResult
     from .reports.tables_design import optimum_parts
-    from .sizing.options import SizingOptions
+    from .sizing.options import sizing_options
     from .stages import design_stages
 
     report = progress or (lambda what, done, total: None)
@@ -102,7 +109,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
     report("shortcut design and stage profile", 0, total)
     stages = design_stages(mixture, feed, case.products, case.column)
-    sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
+    sizing = sizing_options(case)
     if given is not None:
         report(f"pricing the given design under '{names[0]}'", 1, total)
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
@@ -114,25 +121,38 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings, parts))
-    optima, curves, checked = [], [], []
+    optima, curves, checked, margins = [], [], [], []
+    minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
     for k, name in enumerate(names):
         report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
-        optima.append((name, optimum))
         chosen = optimum.sizing_options or sizing  # the tray spacing and shells the optimiser chose
-        checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
-                                            full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)))
+        checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name, full=k == 0,
+                               fitted=optimum.problem.fitted if optimum.problem else None)
+        minimum = checks.minimum if k == 0 else minimum
+        optimum, margin = hold_margin(case, mixture, feed, data, optimum, checks.reflux_ratio,
+                                      minimum.reflux_ratio if minimum else None, options, sizing, name)
+        if margin.binds:  # the reported design's own checks, its minimum reflux on its own pressures
+            chosen = optimum.sizing_options or sizing
+            checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
+                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
+        optima.append((name, optimum))
+        checked.append((name, checks))
+        margins.append((name, margin))
         report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
-        curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
-                                                 chosen, name)))
+        # the curve around the economic optimum, which the margin's floor lies to the right of
+        curves.append((name, reflux_curve(case, mixture, feed, data, margin.unconstrained or optimum, stages.table,
+                                          options, chosen, name)))
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
     best = optima[0][1]
     checks = checked[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
-                          scenario_checks=tuple(checked), **_binary_parts(stages, checks.reflux_ratio, case))
+                          scenario_checks=tuple(checked), margins=tuple(margins),
+                          **_binary_parts(stages, checks.reflux_ratio, case))
     extra = tuple(cross.below_zero()) if cross is not None else ()
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
+    extra += tuple(w for _, margin in margins[:1] for w in margin.warnings)
     extra += mixture.warnings
     parts = _checked(parts, checks)
     return DesignResult(case, summary, feed, stages=stages, parts=parts,

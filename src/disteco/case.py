@@ -6,6 +6,7 @@ feed flow is put on a molar basis by the properties layer, which knows the chemi
 
 from __future__ import annotations
 
+import difflib
 import math
 import tomllib
 import unicodedata
@@ -54,6 +55,10 @@ class Feed:
     pressure: float | None  # Pa; None means the feed-stage pressure
 
 
+# Least reflux ratio over the energy-balance minimum: a margin for control and for the
+# uncertainty of the equilibrium data near the pinch (common practice, no source).
+MIN_REFLUX_RATIO_FACTOR = 1.1  # [-]
+MIN_REFLUX_RATIO_FACTOR_RANGE = (1.0, 5.0)  # [-]; 1 holds no margin
 PRELIMINARY_TRAY_DROP = 0.7e3  # Pa per real tray before the hydraulics are known (common practice, no source)
 PRELIMINARY_EFFICIENCY = 0.6  # [-] before O'Connell is evaluated (common practice, no source)
 MAX_TRAY_DROP = 5e3  # Pa per real tray
@@ -68,6 +73,7 @@ class Column:
     condenser: str  # "total" or "partial"
     subcooling: float  # K below the bubble point of the reflux and distillate
     warnings: tuple[str, ...] = field(default=(), compare=False)  # deprecation notes from reading the case
+    min_reflux_ratio_factor: float = MIN_REFLUX_RATIO_FACTOR  # least R over the energy-balance minimum [-]
 
     def stage_pressure_drop(self, efficiency: float = PRELIMINARY_EFFICIENCY,
                             tray_drop: float | None = None) -> float:
@@ -131,6 +137,38 @@ class Economics:
     currency: str = "USD"
 
 
+# The [sizing] table: case key -> (TOML kind, quantity of its unit or None for a plain number or text).
+SIZING_KEYS = {
+    "tray_type": (str, None),
+    "tray_spacing": (str, "length"),
+    "tray_spacings": (list, "length"),
+    "flood_fraction": (float, None),
+    "downcomer_area_fraction": (float, None),
+    "system_factor": (float, None),
+    "tray_efficiency": (float, None),
+    "shell_material": (str, None),
+    "tray_material": (str, None),
+    "pressure_margin_fraction": (float, None),
+    "pressure_margin_minimum": (str, "pressure difference"),
+    "temperature_margin": (str, "temperature difference"),
+    "max_height": (str, "length"),
+    "max_height_to_diameter": (float, None),
+}
+
+
+@dataclass(frozen=True)
+class Sizing:
+    """The [sizing] table as given, in SI: pairs of (key of :data:`SIZING_KEYS`, value).
+
+    Keys left out keep the sizing layer's defaults; the sizing layer checks the ranges.
+    """
+
+    given: tuple[tuple[str, object], ...] = ()
+
+    def as_dict(self) -> dict:
+        return dict(self.given)
+
+
 @dataclass(frozen=True)
 class Case:
     title: str
@@ -141,6 +179,7 @@ class Case:
     thermo: Thermo
     economics: Economics
     source: Path | None = field(default=None, compare=False)
+    sizing: Sizing = Sizing()
 
 
 def load_case(path: str | Path) -> Case:
@@ -168,7 +207,7 @@ def load_case(path: str | Path) -> Case:
 
 def parse_case(data: dict) -> Case:
     """Validate a case given as the dict read from TOML."""
-    _only_keys(data, "", {"title", "mixture", "feed", "column", "products", "economics"})
+    _only_keys(data, "", {"title", "mixture", "feed", "column", "products", "economics", "sizing"})
     title = _text(data, "title", "", "untitled case")
     mixture = _table(data, "mixture")
     components = _components(mixture)
@@ -180,6 +219,7 @@ def parse_case(data: dict) -> Case:
         products=_products(_table(data, "products"), components),
         thermo=_thermo(mixture, components),
         economics=_economics(data.get("economics", {})),
+        sizing=_sizing(data.get("sizing", {})),
     )
 
 
@@ -189,7 +229,9 @@ def parse_case(data: dict) -> Case:
 def _only_keys(table: dict, prefix: str, allowed: set[str]) -> None:
     for key in table:
         if key not in allowed:
-            raise CaseError(_key_name(prefix, key), "unknown field", ", ".join(sorted(allowed)))
+            close = difflib.get_close_matches(str(key), sorted(allowed), n=1)
+            problem = f"unknown field; did you mean {prefix}{close[0]}?" if close else "unknown field"
+            raise CaseError(_key_name(prefix, key), problem, ", ".join(sorted(allowed)))
 
 
 def _key_name(prefix: str, key: str) -> str:
@@ -339,7 +381,7 @@ def _pressure(table: dict, key: str, prefix: str) -> float:
 
 def _column(column: dict) -> Column:
     _only_keys(column, "column.", {"top_pressure", "pressure_drop_per_tray", "pressure_drop_per_stage",
-                                   "condenser", "subcooling"})
+                                   "condenser", "subcooling", "min_reflux_ratio_factor"})
     top = _pressure(column, "top_pressure", "column.")
     drop, warnings = _tray_drop(column)
     condenser = _get(column, "condenser", str, "column.", "total")
@@ -351,7 +393,12 @@ def _column(column: dict) -> Column:
         raise CaseError("column.subcooling", f"{subcooling:.4g} K", "0 to 50 K")
     if condenser == "partial" and subcooling > 0.0:
         raise CaseError("column.subcooling", "a partial condenser has no subcooling", "0 K with a partial condenser")
-    return Column(top, drop, condenser, subcooling, warnings)
+    factor = _get(column, "min_reflux_ratio_factor", float, "column.", MIN_REFLUX_RATIO_FACTOR)
+    low, high = MIN_REFLUX_RATIO_FACTOR_RANGE
+    if not low <= factor <= high:
+        raise CaseError("column.min_reflux_ratio_factor", f"{factor:g}",
+                        f"{low:g} to {high:g} times the energy-balance minimum reflux ratio (1: no margin)", factor)
+    return Column(top, drop, condenser, subcooling, warnings, factor)
 
 
 def _tray_drop(column: dict) -> tuple[float | None, tuple[str, ...]]:
@@ -525,5 +572,29 @@ def _economics(table) -> Economics:
     return Economics(Path(cost_data) if cost_data else None, year, tuple(scenarios), currency)
 
 
+def _sizing(table) -> Sizing:
+    """The [sizing] table: units read and kinds checked here; ranges by the sizing layer's options."""
+    if not isinstance(table, dict):
+        raise CaseError("sizing", "must be a table", "[sizing]")
+    _only_keys(table, "sizing.", set(SIZING_KEYS))
+    given = []
+    for key, (kind, quantity) in SIZING_KEYS.items():
+        if key not in table:
+            continue
+        field_name = "sizing." + key
+        value = _get(table, key, kind, "sizing.")
+        if kind is list:
+            if not value:
+                raise CaseError(field_name, "empty list", f"a list of {quantity}s with units, "
+                                "e.g. [\"0.45 m\", \"0.6 m\"]")
+            value = tuple(parse_quantity(v, quantity, field_name)[0] for v in value)
+        elif quantity is not None:
+            value = parse_quantity(value, quantity, field_name)[0]
+        elif kind is str:
+            value = _text(table, key, "sizing.")
+        given.append((key, value))
+    return Sizing(tuple(given))
+
+
 __all__ = ["Case", "Column", "Economics", "EndSpec", "Feed", "FeedFlow", "Products",
-           "ThermalCondition", "Thermo", "load_case", "parse_case", "ATMOSPHERE", "METHODS"]
+           "Sizing", "SIZING_KEYS", "ThermalCondition", "Thermo", "load_case", "parse_case", "ATMOSPHERE", "METHODS"]

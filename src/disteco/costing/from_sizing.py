@@ -2,8 +2,11 @@
 
 from __future__ import annotations
 
+from .._base.errors import CaseError
 from ..sizing.column import ColumnSizing
-from .column import ColumnCostInput
+from ..sizing.options import SizingOptions
+from .column import TRAY_TYPES, ColumnCostInput
+from .data import CostData
 
 
 def swaged(sizing: ColumnSizing) -> bool:
@@ -11,14 +14,15 @@ def swaged(sizing: ColumnSizing) -> bool:
     return sizing.separate_sections and sizing.split is None and sizing.rectifying_diameter != sizing.stripping_diameter
 
 
-def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInput:
+def cost_input(sizing: ColumnSizing, options: SizingOptions = SizingOptions()) -> ColumnCostInput:
     """Map a ``ColumnSizing`` onto ``ColumnCostInput`` (shell costed at its largest diameter).
 
     The reboiler is costed on the curve of the type the sizing chose (kettle when none was).
     With two shells the first is the upper one and the second the lower (the sizing's own
     ``height`` and ``vessel``); trays are priced together. With separate sections (one shell) the
     shell is swaged: the rectifying trays and the top space at their diameter, the rest at the
-    stripping diameter, each section's trays at its own area.
+    stripping diameter, each section's trays at its own area. Tray type and material are the
+    designer's ``options``.
     """
     split = sizing.split
     second = {}
@@ -48,8 +52,18 @@ def cost_input(sizing: ColumnSizing, tray_type: str = "sieve") -> ColumnCostInpu
         drum_volume=sizing.reflux_drum.volume,
         drum_diameter=sizing.reflux_drum.diameter,
         pump_shaft_power=sizing.reflux_pump.shaft_power,
-        tray_type=tray_type,
+        tray_type=options.tray_type,
+        tray_material=options.tray_material,
         reboiler_type=sizing.reboiler.exchanger_type or "kettle",
         shell_material=sizing.vessel.material_class,
         **second,
     )
+
+
+def check_tray_material(data: CostData, options: SizingOptions) -> None:
+    """``CaseError`` on ``sizing.tray_material`` when the cost data has no factor for it."""
+    group = data.curve(TRAY_TYPES[options.tray_type]).material_group
+    known = [row.material for row in data.material_factors if row.material_group == group]
+    if options.tray_material not in known:
+        raise CaseError("sizing.tray_material", f"no material factor for {options.tray_material!r} trays",
+                        ", ".join(known), options.tray_material)

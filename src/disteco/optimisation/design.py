@@ -138,7 +138,8 @@ def _unsettled(rounds: int, tac_change: float) -> tuple[str, ...]:
 
 
 def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
-                    sizing: SizingOptions = SizingOptions(), scenario: str | None = None) -> OptimumDesign:
+                    sizing: SizingOptions = SizingOptions(), scenario: str | None = None,
+                    warm: OptimumDesign | None = None) -> OptimumDesign:
     """Lowest-TAC reflux ratio, stages, feed stage, tray spacing and shells of ``case``, and its sequential price.
 
     ``options``: optimiser options (see :mod:`disteco.optimisation.options`); ``scenario``:
@@ -146,24 +147,26 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     height limit is optimised first; where the limit cuts its stage range, two shells in series
     are optimised too, and where the chosen optimum sits on the search's stage bound, a search
     with more stages. The cheapest is returned with :attr:`OptimumDesign.layout` saying what was
-    compared and why (see :mod:`disteco.optimisation.layout`).
+    compared and why (see :mod:`disteco.optimisation.layout`). ``warm``: an optimum of the
+    same case under other options (a reflux bound), whose pressure profile, reference profile,
+    tray spacing and configuration the one-shell search starts from.
     """
     config = model_options(options)
     resolved_problem(case, mixture, feed, config)  # sets the stage bound
     year = case.economics.cost_year
     optima: dict[str, tuple[int, OptimumDesign | None, Exception | None]] = {}
 
-    def attempt(label: str, shells: int, run_config, start=None) -> OptimumDesign | None:
+    def attempt(label: str, shells: int, run_config, start=None, warm=None) -> OptimumDesign | None:
         try:
             result = _optimise_rounds(case, mixture, feed, data, run_config, replace(sizing, shells=shells),
-                                      scenario, start)
+                                      scenario, start, warm)
         except InfeasibleSpecError as failure:
             optima[label] = (shells, None, failure)
             return None
         optima[label] = (shells, result, None)
         return result
 
-    single = attempt(ONE_SHELL, 1, config)
+    single = attempt(ONE_SHELL, 1, config, warm=warm)
     if single is None and not isinstance(optima[ONE_SHELL][2], HeightLimitError):
         raise optima[ONE_SHELL][2]
     if single is None or (single.stage_limit is not None and single.best.stages >= single.stage_limit):
@@ -192,7 +195,7 @@ class HeightLimitError(InfeasibleSpecError):
 
 def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config,
                      sizing: SizingOptions, scenario: str | None,
-                     start: tuple[int, int] | None = None) -> OptimumDesign:
+                     start: tuple[int, int] | None = None, warm: OptimumDesign | None = None) -> OptimumDesign:
     """The optimum of one shell layout (``sizing.shells``), constants and tray spacing re-evaluated per round.
 
     Each round's search stops at the most stages whose shells stay within ``sizing.max_height``
@@ -200,7 +203,12 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     then at each round's optimum, and a change of spacing counts as an unsettled round.
     """
     year = case.economics.cost_year
-    problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+    if warm is not None and warm.problem is not None and warm.sizing_options is not None:
+        sizing = replace(sizing, tray_spacing=warm.sizing_options.tray_spacing)
+        problem, reference = warm.problem, warm.best.profile
+        start = (warm.best.stages, warm.best.feed_stage)
+    else:
+        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
     spacings = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
     spacing = best_spacing(spacings, sizing.tray_spacing)
     if spacing != sizing.tray_spacing:  # the trays' pressure drop moves with the diameter the spacing gives

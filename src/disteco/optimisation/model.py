@@ -63,7 +63,8 @@ def _add_stages(m) -> None:
     flow_max = (config.reflux_max + 1.0) * F + F
     m.C = pyo.RangeSet(0, f.size - 1)
     m.J = pyo.RangeSet(1, m.N)
-    m.R = pyo.Var(bounds=(config.reflux_min, config.reflux_max), initialize=1.0, doc="reflux ratio [-]")
+    m.R = pyo.Var(bounds=(config.reflux_min, config.reflux_max),  # a control margin can raise the lower bound
+                  initialize=min(max(1.0, config.reflux_min), config.reflux_max), doc="reflux ratio [-]")
     m.D = pyo.Var(bounds=(FLOW_FLOOR * F, F * (1 - FLOW_FLOOR)), initialize=0.5 * F, doc="distillate [mol/s]")
     m.T = pyo.Var(m.J, bounds=(f.T_low, f.T_high), initialize=0.5 * (f.T_low + f.T_high), doc="[K]")
     m.TD = pyo.Var(bounds=(f.T_low, f.T_high), initialize=f.T_low, doc="distillate bubble point [K]")

@@ -144,7 +144,7 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
     exchangers = exchanger_data(data, mixture, profile, options)
     condenser, reboiler = exchangers.condenser_level, exchangers.reboiler_level
     ref = _size(mixture, data, profile, options, exchangers, round_diameter=False)
-    cost = cost_column(data, cost_input(ref, options.tray_type), scenario, cost_year)
+    cost = cost_column(data, cost_input(ref, options), scenario, cost_year)
     warnings = list(ref.warnings) + list(cost.warnings)
     costs = {e.item: e.pricing for e in cost.items}
     height = ref.height
@@ -196,4 +196,4 @@ def price_profile(profile: StageProfile, mixture, data: CostData, options: Sizin
     """Sizing and cost of a stage profile by the sizing and costing layers (``exchangers`` None: looked up)."""
     exchangers = exchanger_data(data, mixture, profile, options) if exchangers is None else exchangers
     sizing = _size(mixture, data, profile, options, exchangers, round_diameter)
-    return sizing, cost_column(data, cost_input(sizing, options.tray_type), scenario, cost_year)
+    return sizing, cost_column(data, cost_input(sizing, options), scenario, cost_year)

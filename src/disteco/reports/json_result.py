@@ -4,7 +4,9 @@ Top-level keys (schema_version 1): ``schema_version``, ``disteco_version``, ``ca
 ``case_file``, ``mode`` ("optimise" or "evaluate"), ``minimum_reflux_ratio``,
 ``minimum_stages``, ``design``, ``cost``, ``solver``, ``model_check``, ``equipment``, ``stage_profile``,
 ``shortcut_table``, ``scenarios``, ``cross_table``, ``tac_curves``, ``mixture``, ``feed``, ``warnings``,
-``cautions``, and the thermo checks of the reported design (``reports.json_checks``):
+``cautions``, ``inputs`` (the sizing options the run used and the least R/Rmin asked for),
+``control_margin`` (the floor on the reflux ratio and, where it binds, the optimum without it),
+and the thermo checks of the reported design (``reports.json_checks``):
 ``verification``, ``minimum_reflux_energy_balance``, ``fit_check``. A part that was not computed is ``null``. Money is in ``cost.currency`` of
 ``cost.cost_year``; ``_per_year`` means per operating year.
 """
@@ -20,6 +22,7 @@ from ..properties import FeedState, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages import StageDesign, StageProfile
 from .cautions import CAUTIONS
+from .choices import inputs_json, margin_json
 from .design_result import SCHEMA_VERSION, DesignResult
 from .json_checks import checks_json, scenario_verification_json
 
@@ -301,7 +304,8 @@ def result_json(result: DesignResult) -> dict:
         "layout": layout_json(parts.optimum.layout if parts.optimum is not None else None),
         "stage_profile": profile_json(profile) if profile else None,
         "shortcut_table": stages_json(stages) if stages else None,
-        "scenarios": [scenario_json(name, optimum, r_min, dict(parts.scenario_checks).get(name))
+        "scenarios": [{**scenario_json(name, optimum, r_min, dict(parts.scenario_checks).get(name)),
+                       "control_margin": margin_json(dict(parts.margins).get(name))}
                       for name, optimum in parts.scenarios],
         "cross_table": None if cross is None else {
             "scenarios": list(cross.scenarios), "currency": cross.currency,
@@ -317,6 +321,8 @@ def result_json(result: DesignResult) -> dict:
             for name, designs in parts.tac_curves],
         "mixture": mixture_json(result.mixture),
         "feed": feed_json(result.feed),
+        "inputs": inputs_json(result.case),
+        "control_margin": margin_json(parts.margin),
         "warnings": list(result.warnings),
         "cautions": list(CAUTIONS),
         **checks_json(parts.checks, profile.reflux_ratio if profile else None),

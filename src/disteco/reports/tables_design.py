@@ -6,11 +6,13 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from ..costing import CostData, CostSummary, HeatTransferCoefficient
+from ..optimisation.margin import ControlMargin
 from ..optimisation.results import DesignEvaluation, OptimumDesign
 from ..properties import BinaryDiagram, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
+from .choices import margin_items
 from .tables import (Cell, Plot, Table, composition_profile_plot, design_items, quantity_table,
                      temperature_profile_plot, xy_plot)
 from .tables_scenarios import CrossTable, stages_duty_plot, tac_curve_plot
@@ -31,7 +33,8 @@ class ReportParts:
     ``cross``: each scenario's design under every scenario's prices; ``tac_curves``:
     (scenario, designs along the reflux ratio with stages and feed re-optimised); ``checks``:
     the reported design on thermo (verification, energy-balance minimum reflux, fit check),
-    ``scenario_checks`` (scenario, checks) of every scenario's optimum.
+    ``scenario_checks`` (scenario, checks) of every scenario's optimum; ``margins`` (scenario,
+    control margin: the least R/Rmin and, where it binds, the optimum without it).
     """
 
     profile: StageProfile | None = None
@@ -47,6 +50,12 @@ class ReportParts:
     tac_curves: tuple[tuple[str, tuple[DesignEvaluation, ...]], ...] = ()
     checks: ThermoChecks | None = None
     scenario_checks: tuple[tuple[str, ThermoChecks], ...] = ()
+    margins: tuple[tuple[str, ControlMargin], ...] = ()
+
+    @property
+    def margin(self) -> ControlMargin | None:
+        """The control margin of the reported (first) scenario."""
+        return self.margins[0][1] if self.margins else None
 
 
 def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:
@@ -68,6 +77,7 @@ def summary_table(title: str, parts: ReportParts) -> Table:
         items += [("Minimum reflux ratio [-]", o.minimum_reflux_ratio),
                   ("Reflux ratio / minimum [-]", o.best.reflux_ratio / o.minimum_reflux_ratio),
                   ("Optimiser status", o.solver.status)]
+        items += margin_items(parts.margin, o.best.cost.currency)
     if parts.sizing is not None:
         s = parts.sizing
         items += [("Column diameter [m]", s.diameter), ("Real trays [-]", s.real_trays),

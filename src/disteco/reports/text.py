@@ -5,6 +5,7 @@ from __future__ import annotations
 from .._base.units import to_degC
 from ..properties import MixtureSummary
 from .cautions import CAUTIONS
+from .choices import margin_text, sizing_text
 from .design_result import DesignResult
 from .text_checks import checks_lines
 
@@ -81,13 +82,20 @@ def design_text(result: DesignResult) -> str:
     if profile is None:
         return "\n".join(lines)
     heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
+    if parts.margin is not None and parts.margin.binds:
+        heading = "Lowest-TAC design holding the control margin"
     if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:
         heading = "Best design found (search incomplete, see the warnings)"
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
+    margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
+                         parts.cost.tac_per_year if parts.cost else None)
+    lines += [margin] if margin else []
     lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)
+    chosen = sizing_text(result.case)
+    lines += [chosen] if chosen else []
     if parts.sizing is not None:
         s = parts.sizing
         lines.append(f"Column: {s.diameter:.2f} m diameter, {s.real_trays} real trays "

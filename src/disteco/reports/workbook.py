@@ -17,6 +17,7 @@ from pathlib import Path
 
 from openpyxl import Workbook
 
+from .choices import sizing_table
 from .design_result import DesignResult
 from .files import write_atomically
 from .tables import (Plot, Table, cautions_table, case_table, components_table, feed_table, mixture_table,
@@ -59,8 +60,8 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     if parts.checks is not None and parts.profile is not None:
         minimum = result.stages.minimum_reflux if result.stages is not None else None
         summary.append(checks_table(parts.checks, parts.profile.reflux_ratio, minimum))
-    inputs = [case_table(result.case), mixture_table(result.mixture), components_table(result.mixture),
-              feed_table(result.feed, names)]
+    inputs = [case_table(result.case), sizing_table(result.case), mixture_table(result.mixture),
+              components_table(result.mixture), feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:
         inputs.append(provenance_table(parts.cost_data, parts.cost, parts.coefficients))
     cautions = cautions_table(parts.cost.accuracy_band.cautions if parts.cost is not None else ())

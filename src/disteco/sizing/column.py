@@ -232,7 +232,7 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
                                options.max_height_to_diameter)
         warnings.extend(height.warnings)
         P, T = profile.P[first:last], profile.T[first:last]
-        vessel = design_vessel(diameter, height.tangent_length, max(P), max(T), options.material,
+        vessel = design_vessel(diameter, height.tangent_length, max(P), max(T), options.shell_material,
                                options.joint_efficiency, options.corrosion_allowance,
                                options.pressure_margin_fraction, options.pressure_margin_minimum,
                                options.temperature_margin, min(P))

@@ -48,7 +48,7 @@ class Material:
         """
         low, high = self.temperatures[0], self.temperatures[-1]
         if not low <= temperature <= high:
-            raise CaseError("sizing.material",
+            raise CaseError("sizing.shell_material",
                             f"design temperature {temperature - 273.15:.1f} degC is outside the "
                             f"allowable-stress table of {self.name}",
                             f"{low - 273.15:.1f} to {high - 273.15:.1f} degC, or another material")
@@ -124,5 +124,5 @@ def material(name: str) -> Material:
     """The material called ``name``; ``CaseError`` listing the known names otherwise."""
     table = load_materials()
     if name not in table:
-        raise CaseError("sizing.material", f"unknown material {name!r}", ", ".join(table))
+        raise CaseError("sizing.shell_material", f"unknown material {name!r}", ", ".join(table))
     return table[name]

@@ -9,6 +9,7 @@ from dataclasses import dataclass, fields
 
 from .._base.errors import CaseError
 from .._base.validity import OutOfRange
+from ..case import Case
 from .flooding import FLOODING_METHODS, TRAY_SPACING_RANGE
 from .materials import material
 
@@ -50,7 +51,8 @@ class SizingOptions:
     max_height: float = 50.0  # m, largest tangent length of one shell: a limit of the optimisation
     max_height_to_diameter: float = 30.0  # - largest tangent length over diameter of a shell: sets a least diameter
     shells: int = 1  # shells in series (SHELL_COUNTS), split at the tray that balances their heights
-    material: str = "SA-516 Grade 70"  # a row name of cost_data/allowable_stress.csv
+    shell_material: str = "SA-516 Grade 70"  # a row name of cost_data/allowable_stress.csv
+    tray_material: str = "CS"  # a material of the trays' group in cost_data/material_factors.csv
     joint_efficiency: float = 0.85  # - ; spot-radiographed double-welded butt joint (UW-12)
     corrosion_allowance: float = 3e-3  # m
     pressure_margin_fraction: float = 0.10  # - above the highest operating gauge pressure
@@ -76,12 +78,13 @@ class SizingOptions:
                 raise CaseError(f"sizing.{f.name}", f"{value!r}", "zero or above", value)
             if f.name in _FRACTIONS and not 0.0 < value <= 1.0:
                 raise CaseError(f"sizing.{f.name}", f"{value!r} is not a fraction", "above 0 and at most 1", value)
-        TRAY_SPACING_RANGE.check(self.tray_spacing, OutOfRange.RAISE)
+        _spacing_in_range("sizing.tray_spacing", self.tray_spacing)
         if self.tray_spacings is not None:
-            if not self.tray_spacings:
-                raise CaseError("sizing.tray_spacings", "an empty list", "one or more tray spacings [m]")
+            if not self.tray_spacings or len(set(self.tray_spacings)) != len(self.tray_spacings):
+                raise CaseError("sizing.tray_spacings", ", ".join(f"{s:.4g} m" for s in self.tray_spacings) or "none",
+                                "one or more different spacings, e.g. [\"0.45 m\", \"0.6 m\"]")
             for spacing in self.tray_spacings:
-                TRAY_SPACING_RANGE.check(spacing, OutOfRange.RAISE)
+                _spacing_in_range("sizing.tray_spacings", spacing)
         if self.shells not in SHELL_COUNTS:
             raise CaseError("sizing.shells", f"{self.shells!r}", " or ".join(map(str, SHELL_COUNTS)))
         if self.flooding_method not in FLOODING_METHODS:
@@ -99,9 +102,26 @@ class SizingOptions:
         if self.light_key == self.heavy_key or min(self.light_key, self.heavy_key) < 0:
             raise CaseError("sizing.heavy_key", f"keys {self.light_key} and {self.heavy_key}",
                             "two different component indices")
-        material(self.material)
+        material(self.shell_material)
+        if not isinstance(self.tray_material, str) or not self.tray_material.strip():
+            raise CaseError("sizing.tray_material", f"{self.tray_material!r}", "a material name of the cost data")
 
     @property
     def spacing_candidates(self) -> tuple[float, ...]:
         """The tray spacings the optimiser compares [m]: the given list, else the standard one."""
         return self.tray_spacings if self.tray_spacings is not None else STANDARD_TRAY_SPACINGS
+
+
+def _spacing_in_range(field: str, spacing) -> None:
+    if isinstance(spacing, bool) or not isinstance(spacing, (int, float)) or not TRAY_SPACING_RANGE.contains(spacing):
+        raise CaseError(field, f"{spacing!r} m is outside the range of the flooding correlations",
+                        f"{TRAY_SPACING_RANGE.low:.4g} to {TRAY_SPACING_RANGE.high:.4g} m (6 to 36 in)", spacing)
+
+
+def sizing_options(case: Case) -> SizingOptions:
+    """The case's [sizing] choices over the defaults, with the case's key components.
+
+    Raises :class:`CaseError` naming the ``sizing.`` field of a value out of range.
+    """
+    return SizingOptions(**case.sizing.as_dict(), light_key=case.products.light_key,
+                         heavy_key=case.products.heavy_key)

@@ -1,0 +1,73 @@
+"""The control margin: the least reflux ratio over the energy-balance minimum.
+
+The economic optimum of a column often lies within a few per cent of the minimum reflux,
+where small changes of feed or equilibrium cost the specification. The case's
+``column.min_reflux_ratio_factor`` sets the least R/Rmin (against the energy-balance
+minimum of :mod:`.minimum_reflux`). Where the optimum lies below it, the search is repeated
+with the reflux ratio bounded from below (the model's ``reflux_min``), starting from the
+optimum without the margin, which is kept beside the result.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+from .._base.errors import InfeasibleSpecError
+from ..case import Case
+from ..costing.data import CostData
+from ..properties import FeedState, Mixture
+from ..sizing.options import SizingOptions
+from .design import optimise_design
+from .options import model_options
+from .results import OptimumDesign
+
+RELATIVE_TOLERANCE = 1e-3  # a design this close below the floor counts as holding the margin [-]
+
+
+@dataclass(frozen=True)
+class ControlMargin:
+    """The least R/Rmin asked for and, where it binds, the lowest-TAC design without it."""
+
+    factor: float  # least reflux ratio over the energy-balance minimum [-]
+    minimum_reflux: float | None  # energy-balance minimum [-]; None: not found, the margin not applied
+    unconstrained: OptimumDesign | None = None  # the optimum without the margin, where the margin binds
+
+    @property
+    def reflux_floor(self) -> float | None:
+        """The least reflux ratio the margin allows [-]."""
+        return None if self.minimum_reflux is None else self.factor * self.minimum_reflux
+
+    @property
+    def binds(self) -> bool:
+        return self.unconstrained is not None
+
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        if self.minimum_reflux is not None or self.factor <= 1.0:
+            return ()
+        return (f"control margin not applied: the energy-balance minimum reflux was not found, so the least "
+                f"R/Rmin of {self.factor:g} (column.min_reflux_ratio_factor) could not be set as a floor",)
+
+
+def hold_margin(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,
+                reflux_ratio: float, minimum_reflux: float | None, options=None,
+                sizing: SizingOptions = SizingOptions(), scenario: str | None = None
+                ) -> tuple[OptimumDesign, ControlMargin]:
+    """``optimum`` if its ``reflux_ratio`` (as reported, on thermo) holds the case's margin, else the
+    lowest-TAC design with the reflux ratio at or above the floor, and the margin either way."""
+    margin = ControlMargin(case.column.min_reflux_ratio_factor, minimum_reflux)
+    floor = margin.reflux_floor
+    if floor is None or margin.factor <= 1.0 or reflux_ratio >= floor * (1.0 - RELATIVE_TOLERANCE):
+        return optimum, margin
+    config = model_options(options)
+    if floor > config.reflux_max:
+        raise InfeasibleSpecError(
+            f"the control margin asks for a reflux ratio of at least {floor:.4g} "
+            f"({margin.factor:g} x the energy-balance minimum {minimum_reflux:.4g}), above the optimiser's "
+            f"highest reflux ratio {config.reflux_max:g}: lower column.min_reflux_ratio_factor or raise reflux_max")
+    config.reflux_min = max(config.reflux_min, floor)
+    bounded = optimise_design(case, mixture, feed, data, config, sizing, scenario, warm=optimum)
+    return bounded, replace(margin, unconstrained=optimum)
+
+
+__all__ = ["ControlMargin", "hold_margin"]

@@ -11,8 +11,10 @@ from pathlib import Path
 from typing import Callable
 
 from ._base.errors import CaseError, CostDataError
+from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
+from .costing.prices import apply_prices
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.given import check_decisions
@@ -58,9 +60,8 @@ def mixture_of(case: Case) -> Mixture:
 def check(case: Case) -> MixtureSummary:
     """Load the case's cost data and scenarios, resolve the components and summarise the
     mixture at the column's top pressure."""
-    data = cost_data_of(case)
+    data = priced_cost_data(case)
     resolve_scenarios(data, case.economics.scenarios)
-    resolve_cost_year(data, case.economics.cost_year)
     mixture = mixture_of(case)
     return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
                              case.products.light_key, case.products.heavy_key)
@@ -78,18 +79,33 @@ def cost_data_of(case: Case) -> CostData:
                         "a copy of the bundled cost_data folder, edited") from None
 
 
+def priced_cost_data(case: Case, prices: tuple[PriceSetting | str, ...] = ()) -> CostData:
+    """The case's cost data with its ``[prices]`` tables and then ``prices`` applied.
+
+    ``prices`` are :class:`PriceSetting` records or texts ``"[SCENARIO.]UTILITY=PRICE"``
+    (``"lp_steam=20 USD/GJ"``); errors on a text name the argument ``prices``.
+    """
+    data = cost_data_of(case)
+    year, _ = resolve_cost_year(data, case.economics.cost_year)
+    settings = tuple(p if isinstance(p, PriceSetting) else parse_price_option(p) for p in prices)
+    return apply_prices(data, case.prices, settings, year)
+
+
 def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
-           options: dict | None = None, progress: Progress | None = None) -> DesignResult:
+           options: dict | None = None, progress: Progress | None = None,
+           prices: tuple[PriceSetting | str, ...] = ()) -> DesignResult:
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
-    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
+    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done;
+    ``prices`` set utility prices on top of the case's (see :func:`priced_cost_data`).
     """
     report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
     mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
-    data = cost_data_of(case)
-    names = resolve_scenarios(data, scenarios or case.economics.scenarios)
+    data = priced_cost_data(case, prices)
+    names = resolve_scenarios(data, scenarios, "scenarios") if scenarios else \
+        resolve_scenarios(data, case.economics.scenarios)
     summary = check(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
@@ -216,5 +232,5 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
         folder.path / FIGURE_FOLDER / p.name for p in drawn]
 
 
-__all__ = ["GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of", "design", "load_case",
-           "mixture_of", "write_results"]
+__all__ = ["GivenDesign", "OptimumDesign", "PriceSetting", "check", "claim_output", "cost_data_of", "design",
+           "load_case", "mixture_of", "priced_cost_data", "write_results"]

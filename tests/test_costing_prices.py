@@ -8,7 +8,7 @@ from pathlib import Path
 
 import pytest
 
-from disteco._base.errors import CaseError
+from disteco._base.errors import CaseError, CostDataError
 from disteco._base.prices import parse_price, parse_price_option, parse_price_table
 from disteco.case import parse_case
 from disteco.costing.column import ColumnCostInput, cost_column
@@ -80,7 +80,6 @@ def test_unknown_price_index_names_file_row_and_column(folder):
     path = folder / "utility_prices.csv"
     path.write_text(path.read_text(encoding="utf-8").replace(",2006,industrial_natural_gas,", ",2006,gas,", 1),
                     encoding="utf-8")
-    from disteco._base.errors import CostDataError
     with pytest.raises(CostDataError, match=r"utility_prices.csv, row 6, column 'price_index': 'gas' is not one of"):
         load_cost_data(folder)
 

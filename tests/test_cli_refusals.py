@@ -40,6 +40,10 @@ CASE = str(EXAMPLES / "aromatics_binary.toml")
     ("--reflux 2 --stages 5 --feed-stage 3", "--stages", "fewer than the minimum of 9.40 (Fenske/McCabe-Thiele"),
     ("--reflux 100 --stages 6 --feed-stage 3", "--stages", "fewer than the minimum of 9.40"),
     ("--reflux 2 --stages 30", "--reflux/--stages/--feed-stage", "only some of the three"),
+    ("--scenario nope", "--scenario", "(allowed: reference, cheap-steam-demo, expensive-power-demo)"),
+    ("--price lp_stem=20USD/GJ", "--price", "unknown utility 'lp_stem'; did you mean 'lp_steam'?"),
+    ("--price lp_steam=20", "--price", "a unit is missing in '20'"),
+    ("--price lp_steam=20USD/MJ", "--price", "per GJ, kWh, t, m3"),
 ])
 def test_refused_with_exit_2_and_the_option_named(tmp_path, capsys, arguments, option, fragment):
     """Benzene-toluene example (minimum stages 9.40 by Fenske on the fitted forms, minimum reflux 1.59

@@ -112,7 +112,7 @@ def test_price_per_joule_is_the_linear_utility_coefficient():
     summary = cost_column(DATA, INPUT, "cheap-steam-demo", 2020)
     hours = DATA.settings.operating_hours_per_year
     for use in summary.utilities:
-        coefficient = DATA.price_per_joule("cheap-steam-demo", use.utility)
+        coefficient = DATA.price_per_joule("cheap-steam-demo", use.utility, 2020)
         assert use.duty * hours * 3600.0 * coefficient == pytest.approx(use.cost_per_year, rel=1e-12)
 
 
@@ -146,12 +146,17 @@ def test_correlation_functions_document_every_parameter_with_a_unit():
 
 
 def test_whole_column_pin():
-    """Regression pin of the demo column at CEPCI 2020 (596.2), reference prices; guards against change only."""
+    """Regression pin of the demo column at CEPCI 2020 (596.2), reference prices; guards against change only.
+
+    The reference prices are of 2006 and are moved to 2020 with the utility price indices
+    (before they were not: utilities 2,156,222 and TAC 2,342,204 USD/year mixed 2006 prices
+    with 2020 capital)."""
     summary = cost_column(DATA, INPUT, "reference", 2020)
     installed = {e.item: e.installed for e in summary.items}
     assert installed["column shell"] == pytest.approx(339_643, rel=1e-4)
     assert installed["trays"] == pytest.approx(124_005, rel=1e-4)
     assert summary.capital_installed == pytest.approx(1_142_780, rel=1e-4)
-    assert summary.utilities_per_year == pytest.approx(2_156_222, rel=1e-4)
-    assert summary.tac_per_year == pytest.approx(2_342_204, rel=1e-4)
+    assert summary.utilities_per_year == pytest.approx(944_425, rel=1e-4)
+    assert summary.tac_per_year == pytest.approx(944_425 + 1_142_780 * 0.1627453948825, rel=1e-4)
+    assert {u.price_year for u in summary.utilities} == {2020}
     assert math.isclose(summary.capital_charge_factor, 0.1627453948825, rel_tol=1e-9)

@@ -30,6 +30,7 @@ FINGERPRINT = {
     "utility_levels.csv": (8, ("name",)),
     "scenarios.csv": (3, ("scenario",)),
     "utility_prices.csv": (27, ("scenario", "utility")),
+    "utility_price_index.csv": (46, ("index_name", "year")),
 }
 
 
@@ -125,7 +126,8 @@ MALFORMED = [
      r"cost_index.csv, row 4, column 'source': empty cell"),
     ("purchased_cost_correlations.csv", "parallel,pump_centrifugal,", "parallel,pump_rotary,",
      r"row 11, column 'material_group': 'pump_rotary' is not one of"),
-    ("utility_prices.csv", 'expensive-power-demo,electricity,0.25,USD,kWh,2023,"demo, invented"\n', "",
+    ("utility_prices.csv", 'expensive-power-demo,electricity,0.25,USD,kWh,2023,industrial_electricity,"demo, invented"\n',
+     "",
      r"scenario 'expensive-power-demo' has no price for electricity"),
     ("annualisation.toml", 'method = "capital_recovery"\n', 'method = "annuity"\n',
      r"annualisation.toml, column 'method': 'annuity' is not one of"),

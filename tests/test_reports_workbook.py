@@ -203,6 +203,23 @@ def test_cost_sheets_equal_the_cost_summary(book):
     assert len(_column_below(book["Inputs"], provenance, 1)) >= len(cost.items) + len(cost.utilities)
 
 
+def test_inputs_list_the_prices_on_the_cost_year(book):
+    """The Inputs sheet lists every price of the scenario run as given and on the cost year, with
+    the factor and its index: the reference steam of 2006 moved to 2023 by the gas index."""
+    _, parts = design_parts()
+    ws = book["Inputs"]
+    header = _header_row(ws, f"Utility prices (USD of {parts.cost.cost_year})")
+    columns = {ws.cell(header, j).value: j for j in range(1, ws.max_column + 1)}
+    rows = {ws.cell(c.row, 2).value: c.row for c in _column_below(ws, header, 1)}
+    assert set(rows) == {p.utility for p in parts.cost_data.prices if p.scenario == parts.cost.scenario}
+    steam = parts.cost_data.price(parts.cost.scenario, "lp_steam", parts.cost.cost_year)
+    row = rows["lp_steam"]
+    assert ws.cell(row, columns["Year given [year]"]).value == 2006
+    assert _same(ws.cell(row, columns["Price in cost year [unit in Unit]"]).value, steam.price)
+    assert _same(ws.cell(row, columns["Escalation factor [-]"]).value * 13.28, steam.price)
+    assert ws.cell(row, columns["Set by"]).value == "cost data"
+
+
 def test_chart_data_equal_plot_data(book):
     result, parts = design_parts()
     plots = workbook_content(result, parts).plots

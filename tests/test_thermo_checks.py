@@ -168,15 +168,21 @@ def test_verification_costs_one_rigorous_solve(benzene, monkeypatch):
 
 def test_given_design_is_verified_on_thermo(tmp_path):
     """A given design (--reflux/--stages/--feed-stage) gets the same checks in result.json: R 1.9
-    lies above both minima of the benzene column, so nothing below a minimum is warned."""
+    lies above both minima of the benzene column, so nothing below a minimum is warned. The
+    steam price set with --price is what the reboiler's steam costs (duty x 8000 h x 20 USD/GJ)."""
     import json
 
     from disteco.cli import main
 
     code = main(["design", str(EXAMPLES / "aromatics_binary.toml"), "-o", str(tmp_path), "-q", "--no-figures",
-                 "--reflux", "1.9", "--stages", "30", "--feed-stage", "15"])
+                 "--reflux", "1.9", "--stages", "30", "--feed-stage", "15", "--price", "lp_steam=20USD/GJ"])
     assert code == 0
     data = json.loads((tmp_path / "result.json").read_text())
+    (steam,) = [u for u in data["cost"]["utilities"] if u["item"] == "reboiler"]
+    assert (steam["utility"], steam["price"], steam["set_by"]) == ("lp_steam", 20.0, "--price")
+    assert steam["cost_per_year"] == pytest.approx(steam["duty_kW"] * 1e3 * 8000 * 3600 * 20e-9, rel=1e-9)
+    assert data["economics"]["cost_year"] == data["cost"]["cost_year"] == 2023
+    assert {p["year"] for p in data["economics"]["prices"]} == {2023}
     assert data["mode"] == "evaluate"
     assert data["verification"]["specifications_met"] is True
     m = data["minimum_reflux_energy_balance"]

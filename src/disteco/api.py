@@ -13,8 +13,10 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Callable
 
 from ._base.errors import CaseError, CostDataError
+from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
+from .costing.prices import apply_prices
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
 from .reports.files import ClaimedFolder, claim_folder, write_json
 
@@ -57,9 +59,8 @@ def mixture_of(case: Case) -> Mixture:
 def check(case: Case) -> MixtureSummary:
     """Load the case's cost data and scenarios, resolve the components and summarise the
     mixture at the column's top pressure."""
-    data = cost_data_of(case)
+    data = priced_cost_data(case)
     resolve_scenarios(data, case.economics.scenarios)
-    resolve_cost_year(data, case.economics.cost_year)
     from .costing.from_sizing import check_tray_material
     from .sizing.options import sizing_options
 
@@ -81,14 +82,28 @@ def cost_data_of(case: Case) -> CostData:
                         "a copy of the bundled cost_data folder, edited") from None
 
 
+def priced_cost_data(case: Case, prices: tuple[PriceSetting | str, ...] = ()) -> CostData:
+    """The case's cost data with its ``[prices]`` tables and then ``prices`` applied.
+
+    ``prices`` are :class:`PriceSetting` records or texts ``"[SCENARIO.]UTILITY=PRICE"``
+    (``"lp_steam=20 USD/GJ"``); errors on a text name the argument ``prices``.
+    """
+    data = cost_data_of(case)
+    year, _ = resolve_cost_year(data, case.economics.cost_year)
+    settings = tuple(p if isinstance(p, PriceSetting) else parse_price_option(p) for p in prices)
+    return apply_prices(data, case.prices, settings, year)
+
+
 def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
-           options: dict | None = None, progress: Progress | None = None) -> DesignResult:
+           options: dict | None = None, progress: Progress | None = None,
+           prices: tuple[PriceSetting | str, ...] = ()) -> DesignResult:
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
     (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done. The
     sizing options are the case's ``[sizing]`` choices; an optimum below the case's control
-    margin (``column.min_reflux_ratio_factor``) is searched again above it (:mod:`.optimisation.margin`).
+    margin (``column.min_reflux_ratio_factor``) is searched again above it (:mod:`.optimisation.margin`);
+    ``prices`` set utility prices on top of the case's (see :func:`priced_cost_data`).
     """
     from .optimisation.curves import reflux_curve
     from .optimisation.design import evaluate_design, optimise_design
@@ -102,8 +117,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
     mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
-    data = cost_data_of(case)
-    names = resolve_scenarios(data, scenarios or case.economics.scenarios)
+    data = priced_cost_data(case, prices)
+    names = resolve_scenarios(data, scenarios, "scenarios") if scenarios else \
+        resolve_scenarios(data, case.economics.scenarios)
     summary = check(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
@@ -271,5 +287,5 @@ def __getattr__(name: str):
     return value
 
 
-__all__ = ["GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of", "design", "load_case",
-           "mixture_of", "write_results"]
+__all__ = ["GivenDesign", "OptimumDesign", "PriceSetting", "check", "claim_output", "cost_data_of", "design", "load_case",
+           "mixture_of", "priced_cost_data", "write_results"]

@@ -16,6 +16,7 @@ from pathlib import Path
 from ._base.errors import CaseError
 from ._base.interaction import KIJ_RANGE, LN_GAMMA_INF_RANGE, NRTL_ALPHA_RANGE, TEMPERATURES, nrtl_outside, \
     wilson_outside
+from ._base.prices import ScenarioPrices, parse_price_table
 from ._base.units import ATMOSPHERE, parse_quantity
 
 METHODS = ("ideal", "unifac-dortmund", "nrtl", "wilson", "peng-robinson")
@@ -180,6 +181,7 @@ class Case:
     economics: Economics
     source: Path | None = field(default=None, compare=False)
     sizing: Sizing = Sizing()
+    prices: tuple[ScenarioPrices, ...] = ()  # the [prices] table: overrides and inline scenarios
 
 
 def load_case(path: str | Path) -> Case:
@@ -207,7 +209,7 @@ def load_case(path: str | Path) -> Case:
 
 def parse_case(data: dict) -> Case:
     """Validate a case given as the dict read from TOML."""
-    _only_keys(data, "", {"title", "mixture", "feed", "column", "products", "economics", "sizing"})
+    _only_keys(data, "", {"title", "mixture", "feed", "column", "products", "economics", "sizing", "prices"})
     title = _text(data, "title", "", "untitled case")
     mixture = _table(data, "mixture")
     components = _components(mixture)
@@ -220,6 +222,7 @@ def parse_case(data: dict) -> Case:
         thermo=_thermo(mixture, components),
         economics=_economics(data.get("economics", {})),
         sizing=_sizing(data.get("sizing", {})),
+        prices=parse_price_table(data.get("prices", {})),
     )
 
 

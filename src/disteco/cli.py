@@ -19,7 +19,8 @@ from . import __version__
 EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
 # Option of the command line behind each field of the given design and of the optimiser's options.
 OPTION_OF = {"reflux_ratio": "--reflux", "stages": "--stages", "feed_stage": "--feed-stage",
-             "max_stages": "--max-stages", "time_limit": "--time-limit", "relative_gap": "--gap"}
+             "max_stages": "--max-stages", "time_limit": "--time-limit", "relative_gap": "--gap",
+             "scenarios": "--scenario"}
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -39,6 +40,10 @@ def _parser() -> argparse.ArgumentParser:
     design.add_argument("--scenario", action="append", default=[], metavar="NAME",
                         help="utility-price scenario to design for; repeat to compare several "
                              "(default: the case's [economics] scenarios)")
+    design.add_argument("--price", action="append", default=[], metavar="[SCENARIO.]UTILITY=PRICE",
+                        help="set a utility price, e.g. lp_steam=20USD/GJ (per GJ, kWh, t or m3; utility names "
+                             "as in the cost data; money of the cost year); repeatable; without SCENARIO it "
+                             "applies to every scenario")
     given = design.add_argument_group("price a given design instead of optimising (all three together)")
     given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
     given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")
@@ -106,10 +111,13 @@ def _as_option(exc):
 
 def _run(args) -> int:
     from . import api
+    from ._base.prices import parse_price_option
     from .reports.text import cautions_text, console_title, design_text, mixture_text
+    from .reports.tables_prices import prices_text
 
     if args.command == "design":  # option mistakes are found before the case is read
         given, options = _given(args), _options(args)
+        prices = tuple(parse_price_option(text, "--price") for text in args.price)
     case = api.load_case(args.case)
     if args.command == "check":
         print(f"Case: {console_title(case.title)}")
@@ -119,11 +127,13 @@ def _run(args) -> int:
     progress = None if args.quiet else ProgressLine()
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
         result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
-                            progress=progress)
+                            progress=progress, prices=prices)
         print(f"Case: {console_title(case.title)}")
         print(mixture_text(result.mixture))
         print()
         print(design_text(result))
+        for line in prices_text(result.parts):
+            print(line)
         for warning in result.warnings:
             print(f"Warning: {warning}")
         for path in api.write_results(result, out, figures=not args.no_figures):

@@ -174,26 +174,33 @@ def second_shell_capital(data: CostData, inp: ColumnCostInput, cost_index: float
     )
 
 
-def column_utilities(data: CostData, inp: ColumnCostInput, scenario: str) -> tuple[tuple[UtilityCost, ...], list[str]]:
-    """Yearly cost of condenser coolant, reboiler heating medium and pump electricity."""
+def column_utilities(data: CostData, inp: ColumnCostInput, scenario: str,
+                     year: int | None = None) -> tuple[tuple[UtilityCost, ...], list[str]]:
+    """Yearly cost of condenser coolant, reboiler heating medium and pump electricity, at prices
+    moved to money of ``year`` (None: the prices' own years)."""
     hours = data.settings.operating_hours_per_year
     warnings = []
     costs = []
+    prices = {}
+
+    def price(name: str):
+        prices[name] = data.price(scenario, name, year)
+        return prices[name]
+
     for item, duty, name, service in (("condenser", inp.condenser_duty, inp.condenser_utility, "cooling"),
                                       ("reboiler", inp.reboiler_duty, inp.reboiler_utility, "heating")):
         level = data.level(name)
         if level.service != service:
             raise CaseError(f"{item} utility", f"{name!r} is a {level.service} utility", f"a {service} level")
-        costs.append(utility_cost(item, duty, data.price(scenario, name), hours, level, data.density(name)))
+        costs.append(utility_cost(item, duty, price(name), hours, level, data.density(name)))
     power = inp.pump_electric_power
     if power is None:
         power = inp.pump_shaft_power
         warnings.append("reflux pump: electricity taken at the shaft power (motor and drive losses ignored)")
-    costs.append(utility_cost("reflux pump", power, data.price(scenario, ELECTRICITY), hours))
+    costs.append(utility_cost("reflux pump", power, price(ELECTRICITY), hours))
     if inp.second_shell_height is not None:  # transfer pump at its shaft power, as the reflux pump
-        costs.append(utility_cost("transfer pump", inp.transfer_pump_shaft_power, data.price(scenario, ELECTRICITY),
-                                  hours))
-    return tuple(costs), warnings
+        costs.append(utility_cost("transfer pump", inp.transfer_pump_shaft_power, price(ELECTRICITY), hours))
+    return tuple(costs), warnings + [p.note for p in prices.values() if p.note]
 
 
 def cost_column(data: CostData, inp: ColumnCostInput, scenario: str | None = None, cost_year: int | None = None,
@@ -201,13 +208,14 @@ def cost_column(data: CostData, inp: ColumnCostInput, scenario: str | None = Non
     """Capital, yearly utilities and TAC of one column in one price scenario.
 
     ``scenario`` None means the data's default; ``cost_year`` None the newest year of the
-    index table; ``currency`` (from the case) must match the data's.
+    index table; ``currency`` (from the case) must match the data's. Capital and utility
+    prices are both in money of the cost year (prices escalated with their price index).
     """
     scenario = data.settings.default_scenario if scenario is None else data.scenario(scenario).name
     currency = check_currency(data, currency)
     year, index = resolve_cost_year(data, cost_year)
     items = column_capital(data, inp, index, policy)
-    utilities, warnings = column_utilities(data, inp, scenario)
+    utilities, warnings = column_utilities(data, inp, scenario, year)
     capital = sum(e.installed for e in items)
     yearly = sum(u.cost_per_year for u in utilities)
     factor = data.settings.capital_charge_factor()

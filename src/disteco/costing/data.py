@@ -17,15 +17,16 @@ from ..sizing.utilities import UtilityLevel
 from .annual import AccuracyBand, AnnualisationSettings
 from .curves import (BAR, BareModuleFactor, CostCurve, MaterialFactor, PressureFactorCurve, TrayQuantityFactor,
                      VesselPressureFactor)
-from .indices import CostIndexTable
+from .indices import CostIndexTable, PriceIndexTable, price_on_year
 from .operating import ELECTRICITY, UtilityPrice, price_per_joule
 from .tables import Folder, bundled_folder, user_folder
 from .validation import (FILES, check_curves, check_levels, check_prices, read_accuracy,
                          read_annualisation, read_bare_module, read_curves, read_heat_transfer, read_index,
-                         read_levels, read_material, read_pressure, read_prices, read_scenarios, read_tray_factor,
-                         read_vessel_pressure)
+                         read_levels, read_material, read_pressure, read_price_index, read_prices, read_scenarios,
+                         read_tray_factor, read_vessel_pressure)
 
 KILO = 1e3
+CASE_BASIS = "case file"  # Scenario.basis of a scenario defined in the case's [prices] table
 
 
 @dataclass(frozen=True)
@@ -68,6 +69,7 @@ class CostData:
     prices: tuple[UtilityPrice, ...]
     settings: AnnualisationSettings
     accuracy: AccuracyBand
+    price_indices: tuple[PriceIndexTable, ...] = ()
 
     def curve(self, item: str) -> CostCurve:
         """The cost curve of ``item`` (a key of ``purchased_cost_correlations.csv``)."""
@@ -110,27 +112,33 @@ class CostData:
         """Density of a level's utility [kg/m^3], None where not given."""
         return self.level_densities[self.levels.index(self.level(name))]
 
-    def scenario(self, name: str) -> Scenario:
+    def scenario(self, name: str, field: str = "economics.scenarios") -> Scenario:
+        """The scenario ``name``; CaseError on ``field`` naming the scenarios there are."""
         for scenario in self.scenarios:
             if scenario.name == name:
                 return scenario
-        raise CaseError("economics.scenarios", f"unknown scenario {name!r} in {self._file('scenarios.csv')}",
-                        ", ".join(s.name for s in self.scenarios))
+        inline = [s.name for s in self.scenarios if s.basis == CASE_BASIS]
+        where = self._file("scenarios.csv") + (" or the case's [prices] tables" if inline else "")
+        raise CaseError(field, f"unknown scenario {name!r} in {where}", ", ".join(s.name for s in self.scenarios),
+                        name)
 
-    def price(self, scenario: str, utility: str) -> UtilityPrice:
+    def price(self, scenario: str, utility: str, year: int | None = None) -> UtilityPrice:
+        """The price of ``utility`` in ``scenario``; with ``year``, moved to money of that year
+        (:func:`~disteco.costing.indices.price_on_year`)."""
         self.scenario(scenario)
         for price in self.prices:
             if price.scenario == scenario and price.utility == utility:
-                return price
+                return price if year is None else price_on_year(price, year, self.price_indices)
         raise CostDataError(self._file("utility_prices.csv"), f"scenario '{scenario}' has no price for '{utility}'",
                             column="utility")
 
-    def price_per_joule(self, scenario: str, utility: str) -> float:
-        """Price of one joule of duty of a level (or of electricity) in a scenario [currency/J].
+    def price_per_joule(self, scenario: str, utility: str, year: int | None = None) -> float:
+        """Price of one joule of duty of a level (or of electricity) in a scenario [currency/J],
+        in money of ``year`` (None: the price's own year).
 
         The linear coefficient of a utility's yearly cost: cost = duty x hours x 3600 x this.
         """
-        price = self.price(scenario, utility)
+        price = self.price(scenario, utility, year)
         if utility == ELECTRICITY:
             return price_per_joule(price.price, price.per)
         return price_per_joule(price.price, price.per, self.level(utility), self.density(utility))
@@ -169,12 +177,15 @@ class CostData:
         return f"{self.folder}/{filename}"
 
 
-def resolve_scenarios(data: CostData, requested: tuple[str, ...] = ()) -> tuple[str, ...]:
-    """Scenario names to cost: the requested ones (checked), or the data's default."""
+def resolve_scenarios(data: CostData, requested: tuple[str, ...] = (),
+                      field: str = "economics.scenarios") -> tuple[str, ...]:
+    """Scenario names to cost: the requested ones (checked; errors name ``field``), or the
+    data's default followed by the scenarios the case's [prices] table defines."""
     if not requested:
-        return (data.settings.default_scenario,)
+        inline = tuple(s.name for s in data.scenarios if s.basis == CASE_BASIS)
+        return tuple(dict.fromkeys((data.settings.default_scenario,) + inline))
     for name in requested:
-        data.scenario(name)
+        data.scenario(name, field)
     return tuple(requested)
 
 
@@ -211,7 +222,8 @@ def _load(folder: Folder) -> CostData:
     check_levels(folder, levels)
     scenarios = read_scenarios(folder)
     prices = read_prices(folder)
-    check_prices(folder, prices, levels, scenarios, settings)
+    indices = read_price_index(folder)
+    check_prices(folder, prices, levels, scenarios, settings, indices)
     return CostData(
         folder=folder.label,
         curves=tuple(CostCurve(**{k: row[k] for k in _fields(CostCurve)}) for _, row in curves),
@@ -236,10 +248,22 @@ def _load(folder: Folder) -> CostData:
         level_densities=tuple(r["density_kg_per_m3"] for _, r in levels),
         scenarios=tuple(Scenario(r["scenario"], r["basis"], r["description"], r["source"]) for _, r in scenarios),
         prices=tuple(UtilityPrice(r["scenario"], r["utility"], r["price"], r["currency"], r["per"], r["year"],
-                                  r["source"]) for _, r in prices),
+                                  r["source"], r["price_index"]) for _, r in prices),
         settings=AnnualisationSettings(**{k: settings[k] for k in _fields(AnnualisationSettings)}),
         accuracy=read_accuracy(folder),
+        price_indices=_price_indices(indices),
     )
+
+
+def _price_indices(rows) -> tuple[PriceIndexTable, ...]:
+    """One table per index name (rows sorted by name and year)."""
+    names = dict.fromkeys(r["index_name"] for _, r in rows)
+    tables = []
+    for name in names:
+        own = [r for _, r in rows if r["index_name"] == name]
+        tables.append(PriceIndexTable(name, own[0]["unit"], tuple(r["year"] for r in own),
+                                      tuple(r["value"] for r in own), own[0]["source"]))
+    return tuple(tables)
 
 
 def _fields(cls) -> tuple[str, ...]:
@@ -258,4 +282,4 @@ def _level(r: dict) -> UtilityLevel:
                         pressure=barg * BAR + ATMOSPHERE if barg is not None else None)
 
 
-__all__ = ["CostData", "HeatTransferCoefficient", "Scenario", "load_cost_data", "resolve_scenarios"]
+__all__ = ["CASE_BASIS", "CostData", "HeatTransferCoefficient", "Scenario", "load_cost_data", "resolve_scenarios"]

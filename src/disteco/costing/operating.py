@@ -4,14 +4,24 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from .._base.prices import PRICE_UNITS
 from .._base.units import HOUR
 from ..sizing.utilities import UtilityLevel
 
 GIGAJOULE = 1e9  # J
 KILOWATT_HOUR = 3.6e6  # J
 TONNE = 1e3  # kg
-PRICE_BASES = ("GJ", "kWh", "t", "m3")  # what a price is per
+PRICE_BASES = PRICE_UNITS  # what a price is per
 ELECTRICITY = "electricity"
+NO_PRICE_INDEX = "none"  # utility_prices.csv: a price kept as given in every cost year
+
+
+def price_units(electricity: bool, carries_energy: bool = True, density_known: bool = True) -> tuple[str, ...]:
+    """What a price of a utility may be per: electricity per GJ or kWh; a level per t when the
+    energy of a kilogram is known (latent heat or heat capacity), per m3 when its density is too."""
+    if electricity:
+        return ("GJ", "kWh")
+    return ("GJ", "kWh") + (("t",) if carries_energy else ()) + (("m3",) if carries_energy and density_known else ())
 
 
 def energy_per_mass(level: UtilityLevel) -> float:
@@ -98,8 +108,14 @@ class UtilityPrice:
     price: float  # [currency per `per`]
     currency: str
     per: str  # "GJ", "kWh", "t" or "m3"
-    year: int
+    year: int  # of the money `price` is in
     source: str
+    price_index: str = NO_PRICE_INDEX  # the utility price index that escalates it, or "none"
+    given_price: float | None = None  # before escalation (None: not moved to a cost year yet)
+    given_year: int | None = None
+    escalation_factor: float = 1.0  # price / given_price [-]
+    set_by: str | None = None  # the case field or option that set it; None: the cost data
+    note: str | None = None  # a price kept as given in an estimate of another year
 
     @property
     def unit(self) -> str:
@@ -121,6 +137,11 @@ class UtilityCost:
     price_year: int
     cost_per_year: float  # currency/year
     source: str
+    given_price: float | None = None  # the price before escalation to price_year, in price_unit
+    given_year: int | None = None
+    escalation_factor: float = 1.0  # [-]
+    price_index: str = NO_PRICE_INDEX
+    set_by: str | None = None  # case field or option that set the price; None: the cost data
 
 
 def yearly_cost(duty, per_joule: float, hours_per_year: float):
@@ -182,5 +203,8 @@ def utility_cost(item: str, duty: float, price: UtilityPrice, hours_per_year: fl
     cost = yearly_cost(duty, per_joule, hours_per_year)
     amount = energy * price_per_joule(1.0, price.per, level, density)  # price 1 per unit gives units
     return UtilityCost(item, price.utility, level.kind if level else ELECTRICITY, duty, amount, price.per,
-                       price.price, price.unit, price.year, cost, price.source)
+                       price.price, price.unit, price.year, cost, price.source,
+                       price.price if price.given_price is None else price.given_price,
+                       price.year if price.given_year is None else price.given_year,
+                       price.escalation_factor, price.price_index, price.set_by)
 

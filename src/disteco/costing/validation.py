@@ -9,7 +9,7 @@ from __future__ import annotations
 from .._base.errors import CostDataError
 from .annual import AccuracyBand
 from .curves import SI_PER_SIZE_UNIT, TrayQuantityFactor
-from .operating import ELECTRICITY, PRICE_BASES
+from .operating import ELECTRICITY, NO_PRICE_INDEX, price_units
 from .tables import Field, Folder, read_csv, read_toml, unique
 
 FILES = {
@@ -24,6 +24,7 @@ FILES = {
     "levels": "utility_levels.csv",
     "scenarios": "scenarios.csv",
     "prices": "utility_prices.csv",
+    "price_index": "utility_price_index.csv",
     "annualisation": "annualisation.toml",
     "accuracy": "estimate_accuracy.toml",
 }
@@ -199,22 +200,39 @@ def read_scenarios(folder: Folder):
 
 def read_prices(folder: Folder):
     fields = (_str("scenario", "utility") + (Field("price", minimum=0.0),) + _str("currency", "per")
-              + (Field("year", "int", minimum=1900), SOURCE))
+              + (Field("year", "int", minimum=1900), Field("price_index", "str"), SOURCE))
     rows = read_csv(folder, FILES["prices"], fields)
     unique(folder, FILES["prices"], rows, "scenario", "utility")
     return rows
 
 
-def check_prices(folder: Folder, prices, levels, scenarios, settings) -> None:
+def read_price_index(folder: Folder):
+    """Utility price indices by name and year, each name with one unit."""
+    rows = read_csv(folder, FILES["price_index"], _str("index_name") + (Field("year", "int", minimum=1900),
+                    Field("value", positive=True)) + _str("unit", "basis") + (SOURCE,))
+    unique(folder, FILES["price_index"], rows, "index_name", "year")
+    for line, r in rows:
+        if r["index_name"] == NO_PRICE_INDEX:
+            raise CostDataError(folder.name_of(FILES["price_index"]), f"'{NO_PRICE_INDEX}' is kept for prices "
+                                "that are not escalated", row=line, column="index_name")
+        units = {u["unit"] for _, u in rows if u["index_name"] == r["index_name"]}
+        if len(units) > 1:
+            raise CostDataError(folder.name_of(FILES["price_index"]), f"index '{r['index_name']}' has several "
+                                f"units ({', '.join(sorted(units))}); one index has one unit", row=line, column="unit")
+    return sorted(rows, key=lambda lr: (lr[1]["index_name"], lr[1]["year"]))
+
+
+def check_prices(folder: Folder, prices, levels, scenarios, settings, indices=()) -> None:
     name = FILES["prices"]
     by_name = {r["name"]: r for _, r in levels}
     utilities = sorted(by_name) + [ELECTRICITY]
+    index_names = sorted({r["index_name"] for _, r in indices}) + [NO_PRICE_INDEX]
     for line, r in prices:
         _choice(folder, name, line, "scenario", r["scenario"], [s["scenario"] for _, s in scenarios])
         _choice(folder, name, line, "utility", r["utility"], utilities)
         _choice(folder, name, line, "currency", r["currency"], (settings["currency"],))
-        allowed = ("GJ", "kWh") if r["utility"] == ELECTRICITY else PRICE_BASES
-        _choice(folder, name, line, "per", r["per"], allowed)
+        _choice(folder, name, line, "price_index", r["price_index"], index_names)
+        _choice(folder, name, line, "per", r["per"], price_units(r["utility"] == ELECTRICITY))
         level = by_name.get(r["utility"])
         if r["per"] in ("t", "m3") and level["latent_heat_kJ_per_kg"] is None \
                 and level["heat_capacity_kJ_per_kg_K"] is None:

@@ -158,13 +158,13 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
         trays=trays, shell=costs["column shell"], tray_cost=costs["trays"],
         condenser=ExchangerBasis(exchangers.condenser_U.value, condenser.supply_temperature,
                                  condenser.return_temperature, options.min_approach,
-                                 data.price_per_joule(scenario, condenser.name), costs["condenser"], "cooling"),
+                                 data.price_per_joule(scenario, condenser.name, cost.cost_year), costs["condenser"], "cooling"),
         reboiler=ExchangerBasis(exchangers.reboiler_U.value, reboiler.supply_temperature,
                                 reboiler.return_temperature, options.min_approach,
-                                data.price_per_joule(scenario, reboiler.name), costs["reboiler"], "heating"),
+                                data.price_per_joule(scenario, reboiler.name, cost.cost_year), costs["reboiler"], "heating"),
         annualisation=cost.capital_charge_factor, operating_hours=cost.operating_hours_per_year,
         currency=cost.currency, cost_year=cost.cost_year, tray_quantity=data.tray_quantity,
-        condensate=condensate_basis(ref, profile, costs, data.price_per_joule(scenario, ELECTRICITY)))
+        condensate=condensate_basis(ref, profile, costs, data.price_per_joule(scenario, ELECTRICITY, cost.cost_year)))
     return basis, warnings
 
 

@@ -25,6 +25,7 @@ from .cautions import CAUTIONS
 from .choices import inputs_json, margin_json
 from .design_result import SCHEMA_VERSION, DesignResult
 from .json_checks import checks_json, scenario_verification_json
+from .tables_prices import economics_json
 
 KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
 
@@ -200,8 +201,9 @@ def cost_json(cost: CostSummary) -> dict:
             for i in cost.items],
         "utilities": [
             {"item": u.item, "utility": u.utility, "duty_kW": u.duty / 1e3, "amount_per_year": u.amount_per_year,
-             "amount_unit": u.amount_unit, "price": u.price, "price_unit": u.price_unit,
-             "cost_per_year": u.cost_per_year, "source": u.source}
+             "amount_unit": u.amount_unit, "price": u.price, "price_unit": u.price_unit, "price_year": u.price_year,
+             "given_price": u.given_price, "given_year": u.given_year, "escalation_factor": u.escalation_factor,
+             "price_index": u.price_index, "set_by": u.set_by, "cost_per_year": u.cost_per_year, "source": u.source}
             for u in cost.utilities],
     }
 
@@ -298,6 +300,7 @@ def result_json(result: DesignResult) -> dict:
         "minimum_stages": stages.minimum_stages if stages else None,
         "design": design_json(profile, r_min, parts.sizing) if profile else None,
         "cost": cost_json(parts.cost) if parts.cost else None,
+        "economics": economics_json(parts),
         "solver": solver,
         "model_check": model_check_json(sequential),
         "equipment": equipment_json(parts.sizing) if parts.sizing else None,

@@ -26,6 +26,7 @@ from .tables_checks import checks_table
 from .tables_costs import (capital_table, column_table, equipment_table, exchangers_table, provenance_table,
                            tac_breakdown_table, tac_table, utilities_table)
 from .tables_design import ReportParts, design_plots, summary_table
+from .tables_prices import prices_table
 from .tables_scenarios import cross_tables, optimum_table, scenario_table, search_table, tac_curve_table
 from .workbook_cells import write_tables
 from .workbook_charts import write_charts
@@ -64,6 +65,7 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
               components_table(result.mixture), feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:
         inputs.append(provenance_table(parts.cost_data, parts.cost, parts.coefficients))
+        inputs.append(prices_table(parts))
     cautions = cautions_table(parts.cost.accuracy_band.cautions if parts.cost is not None else ())
     sheets = [Sheet("Summary", tuple(summary) + (cautions,)), Sheet("Inputs", tuple(inputs))]
     if parts.profile is not None:

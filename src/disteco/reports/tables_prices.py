@@ -1,0 +1,84 @@
+"""The utility prices a run used, on its cost year: console lines, a workbook table, result.json.
+
+Every price is shown as given (value and year), the escalation factor that moved it to the
+run's cost year and its price index, and who set it (the cost data, a case field, an option).
+"""
+
+from __future__ import annotations
+
+from ..costing.operating import UtilityPrice
+from .tables import Column, Table, text
+from .tables_design import ReportParts
+
+
+def run_scenarios(parts: ReportParts) -> tuple[str, ...]:
+    """The scenarios the run priced: every optimised one, or the one a given design was priced in."""
+    if parts.scenarios:
+        return tuple(name for name, _ in parts.scenarios)
+    return (parts.cost.scenario,) if parts.cost is not None else ()
+
+
+def run_prices(parts: ReportParts) -> tuple[UtilityPrice, ...]:
+    """Every price of the scenarios run, moved to the run's cost year."""
+    if parts.cost_data is None or parts.cost is None:
+        return ()
+    data, year = parts.cost_data, parts.cost.cost_year
+    return tuple(data.price(name, p.utility, year) for name in run_scenarios(parts)
+                 for p in data.prices if p.scenario == name)
+
+
+def _as_given(p: UtilityPrice) -> str:
+    if p.escalation_factor == 1.0 and p.given_year == p.year:
+        return f"{p.price:.4g} {p.unit}"
+    return f"{p.given_price:.4g} {p.unit} of {p.given_year} x {p.escalation_factor:.3f} ({p.price_index})"
+
+
+def prices_text(parts: ReportParts) -> list[str]:
+    """Console lines: the cost year, each price the user set, and each escalated price the design uses."""
+    prices = run_prices(parts)
+    if not prices:
+        return []
+    used = {u.utility for u in parts.cost.utilities}
+    shown = [p for p in prices if p.set_by is not None or p.utility in used and (p.given_year != p.year or p.note)]
+    lines = [f"Utility prices in {parts.cost.currency} of {parts.cost.cost_year} (the capital's cost year)"
+             + (":" if shown else "; all given in that year.")]
+    for p in shown:
+        by = f", set by {p.set_by}" if p.set_by else ""
+        kept = " KEPT AS GIVEN (no index fits)" if p.note else ""
+        lines.append(f"  {p.scenario} / {p.utility}: {p.price:.4g} {p.unit} = {_as_given(p)}{by}{kept}")
+    return lines
+
+
+def prices_table(parts: ReportParts) -> Table | None:
+    """Workbook (Inputs): every price of the scenarios run, as given and on the cost year."""
+    prices = run_prices(parts)
+    if not prices:
+        return None
+    columns = (text("Scenario", 22.0), text("Utility", 22.0), Column("Price as given", "unit in Unit", "0.0000"),
+               text("Unit", 10.0), Column("Year given", "year", "0", 10.0),
+               Column("Escalation factor", "-", "0.000", 12.0), text("Price index", 24.0),
+               Column("Price in cost year", "unit in Unit", "0.0000"), Column("Cost year", "year", "0", 10.0),
+               text("Set by", 30.0), text("Source", 80.0))
+    rows = tuple((p.scenario, p.utility, p.given_price, p.unit, p.given_year, p.escalation_factor, p.price_index,
+                  p.price, p.year, p.set_by or "cost data", p.source) for p in prices)
+    return Table(f"Utility prices ({parts.cost.currency} of {parts.cost.cost_year})", columns, rows)
+
+
+def economics_json(parts: ReportParts) -> dict | None:
+    """result.json ``economics``: the one cost year of capital and utilities, and every price used."""
+    if parts.cost is None:
+        return None
+    return {
+        "cost_year": parts.cost.cost_year,
+        "currency": parts.cost.currency,
+        "cost_index": {"name": parts.cost.index_name, "value": parts.cost.cost_index},
+        "scenarios": list(run_scenarios(parts)),
+        "prices": [{"scenario": p.scenario, "utility": p.utility, "price": p.price, "unit": p.unit, "year": p.year,
+                    "given_price": p.given_price, "given_year": p.given_year,
+                    "escalation_factor": p.escalation_factor, "price_index": p.price_index,
+                    "kept_as_given": p.note is not None, "set_by": p.set_by, "source": p.source}
+                   for p in run_prices(parts)],
+    }
+
+
+__all__ = ["economics_json", "prices_table", "prices_text", "run_prices", "run_scenarios"]

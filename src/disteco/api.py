@@ -12,13 +12,16 @@ from typing import Callable
 
 from ._base.errors import CaseError, CostDataError
 from .case import Case, load_case
-from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
+from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
 from .optimisation.curves import reflux_curve
-from .optimisation.design import evaluate_design, optimise_design
-from .optimisation.given import check_decisions
+from .optimisation.design import evaluate_design, optimise_design, resolved_problem
+from .optimisation.given import check_decisions, check_given_design, check_stage_bound
+from .optimisation.options import model_options
 from .optimisation.results import DesignEvaluation, OptimumDesign
 from .optimisation.thermo_checks import ThermoChecks, thermo_checks
-from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
+from .optimisation.start import shortcut
+from .properties import Mixture, build_mixture, feed_state, summarise_mixture
+from .reports.check_result import CaseCheck
 from .reports.design_result import DesignResult
 from .reports.figures import write_design_figures
 from .reports.files import ClaimedFolder, claim_folder, write_json
@@ -55,15 +58,61 @@ def mixture_of(case: Case) -> Mixture:
     return build_mixture(case.components, case.thermo, case.column.top_pressure)
 
 
-def check(case: Case) -> MixtureSummary:
-    """Load the case's cost data and scenarios, resolve the components and summarise the
-    mixture at the column's top pressure."""
+def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
+          options: dict | None = None) -> CaseCheck:
+    """Every check :func:`design` runs before it optimises, with the same arguments.
+
+    Cost data, scenarios, cost year and currency; the components and a mixture summary at the
+    top pressure; the specifications against the feed and any azeotrope, the key order and
+    volatility (the stages layer's minimum reflux, minimum stages and stage profile); the
+    optimiser options, the stage bound or a given design against the minima on the fitted
+    forms. Raises what ``design`` would raise before optimising; returns what it found.
+    """
+    return _prepare(case, given, scenarios, options).check
+
+
+@dataclass(frozen=True)
+class _Prepared:
+    """A case that passed :func:`check`: the report, and the mixture and cost data a design goes on with."""
+
+    check: CaseCheck
+    mixture: Mixture
+    data: CostData
+
+
+def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], options: dict | None) -> _Prepared:
+    """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
+    config = model_options(options)
     data = cost_data_of(case)
-    resolve_scenarios(data, case.economics.scenarios)
-    resolve_cost_year(data, case.economics.cost_year)
+    names = _scenario_names(data, scenarios, case)
+    year, _ = resolve_cost_year(data, case.economics.cost_year)
+    currency = check_currency(data, case.economics.currency)
     mixture = mixture_of(case)
-    return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
-                             case.products.light_key, case.products.heavy_key)
+    mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
+    products = case.products
+    summary = summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
+                                products.light_key, products.heavy_key)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    stages = design_stages(mixture, feed, products, case.column)
+    estimate = shortcut(resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0))
+    if given is None:
+        check_stage_bound(estimate, config.max_stages)
+    else:
+        check_given_design(estimate, given.reflux_ratio, given.stages, given.feed_stage, config.reflux_max)
+    found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
+                      estimate.minimum_stages, estimate.minimum_reflux,
+                      None if given is None else (given.reflux_ratio, given.stages, given.feed_stage))
+    return _Prepared(found, mixture, data)
+
+
+def _scenario_names(data: CostData, scenarios: tuple[str, ...], case: Case) -> tuple[str, ...]:
+    """The scenarios to run: ``scenarios`` (named as the field ``scenario`` when wrong) or the case's."""
+    if not scenarios:
+        return resolve_scenarios(data, case.economics.scenarios)
+    try:
+        return resolve_scenarios(data, scenarios)
+    except CaseError as exc:
+        raise CaseError("scenario", exc.problem, exc.allowed, exc.value) from None
 
 
 def cost_data_of(case: Case) -> CostData:
@@ -86,15 +135,11 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
     """
     report = progress or (lambda what, done, total: None)
-    mixture = mixture_of(case)
-    mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
-    data = cost_data_of(case)
-    names = resolve_scenarios(data, scenarios or case.economics.scenarios)
-    summary = check(case)
-    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    prepared = _prepare(case, given, scenarios, options)
+    mixture, data, found = prepared.mixture, prepared.data, prepared.check
+    names, summary, feed, stages = found.scenarios, found.mixture, found.feed, found.stages
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
     report("shortcut design and stage profile", 0, total)
-    stages = design_stages(mixture, feed, case.products, case.column)
     sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
     if given is not None:
         report(f"pricing the given design under '{names[0]}'", 1, total)

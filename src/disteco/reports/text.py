@@ -5,6 +5,7 @@ from __future__ import annotations
 from .._base.units import to_degC
 from ..properties import MixtureSummary
 from .cautions import CAUTIONS
+from .check_result import CaseCheck
 from .design_result import DesignResult
 from .text_checks import checks_lines
 
@@ -38,6 +39,28 @@ def mixture_text(summary: MixtureSummary) -> str:
                          f"at {to_degC(a.T):.2f} degC")
     else:
         lines.append("Azeotropes: none found between any pair at top pressure")
+    return "\n".join(lines)
+
+
+def check_text(found: CaseCheck) -> str:
+    """What `check` found: the mixture report, the minima, and what a design run will use."""
+    stages = found.stages
+    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture), "",
+             f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   minimum stages: {stages.minimum_stages:.2f} [-] "
+             f"({stages.basis})",
+             f"Stage profile{' meeting both specifications' if stages.meets_specs else ''}: {stages.profile.stages} "
+             f"stages (the {stages.reflux_factor:g} x minimum-reflux row), feed on stage {stages.profile.feed_stage}, "
+             f"reflux ratio {stages.profile.reflux_ratio:.3f} [-]",
+             f"Scenarios: {', '.join(found.scenarios)}; cost year {found.cost_year}, {found.currency}"]
+    if found.given is None:
+        lines.append(f"Stage bound of the search: {found.stage_bound} stages (Fenske minimum on the fitted forms "
+                     f"{found.fitted_minimum_stages:.2f})")
+    else:
+        reflux, n, feed_stage = found.given
+        lines.append(f"Given design: reflux ratio {reflux:.4g} [-], {n} stages, feed on stage {feed_stage}: above the "
+                     f"minima on the fitted forms ({found.fitted_minimum_reflux:.4g}, {found.fitted_minimum_stages:.2f} "
+                     "stages)")
+    lines.append("Case file is valid: design will not refuse it before optimising.")
     return "\n".join(lines)
 
 

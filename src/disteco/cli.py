@@ -113,7 +113,7 @@ def _as_option(exc):
 
 def _run(args) -> int:
     from . import api
-    from .reports.text import cautions_text, console_title, design_text, mixture_text
+    from .reports.text import cautions_text
 
     given, options = _given(args), _options(args)  # option mistakes are found before the case is read
     case = api.load_case(args.case)
@@ -124,12 +124,7 @@ def _run(args) -> int:
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
         result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
                             progress=progress)
-        print(f"Case: {console_title(case.title)}")
-        print(mixture_text(result.mixture))
-        print()
-        print(design_text(result))
-        for warning in result.warnings:
-            print(f"Warning: {warning}")
+        print(result)
         for path in api.write_results(result, out, figures=not args.no_figures):
             print(f"Wrote {path}")
     print(cautions_text())

@@ -64,6 +64,13 @@ def check_text(found: CaseCheck) -> str:
     return "\n".join(lines)
 
 
+def result_text(result: DesignResult) -> str:
+    """A design run as the command line prints it: case, mixture, design, warnings."""
+    lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture), "", design_text(result)]
+    lines += [f"Warning: {w}" for w in result.warnings]
+    return "\n".join(lines)
+
+
 def cautions_text() -> str:
     return "\n".join(f"Caution: {c}" for c in CAUTIONS)
 

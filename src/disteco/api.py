@@ -26,6 +26,7 @@ from .reports.design_result import DesignResult
 from .reports.figures import write_design_figures
 from .reports.files import ClaimedFolder, claim_folder, write_json
 from .reports.json_result import result_json
+from .reports.notes import ordered_warnings
 from .reports.tables_design import ReportParts, optimum_parts
 from .reports.tables_scenarios import CrossTable
 from .reports.workbook import write_workbook
@@ -228,7 +229,7 @@ def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:
         found += parts.sizing.warnings
     if parts.cost is not None:
         found += parts.cost.warnings
-    return tuple(dict.fromkeys(found))  # in order, without repeats
+    return ordered_warnings(found, bound=bool(parts.optimum and parts.optimum.limits))
 
 
 def claim_output(folder: str | Path, label: str = "output folder",

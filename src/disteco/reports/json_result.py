@@ -214,6 +214,8 @@ def result_json(result: DesignResult) -> dict:
     solver = None
     if parts.optimum is not None:
         solver = solver_json(parts.optimum.solver, parts.optimum.rounds)
+        solver["limited_by"] = [{"option": b.option, "value": b.value, "bound": b.text}
+                                for b in parts.optimum.limits]
     elif chosen is not None:
         solver = solver_json(chosen.solver)
     sequential = parts.optimum.sequential if parts.optimum is not None else \

@@ -7,9 +7,14 @@ from ..properties import MixtureSummary
 from .cautions import CAUTIONS
 from .check_result import CaseCheck
 from .design_result import DesignResult
+from .notes import console_warnings
 from .text_checks import checks_lines
 
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
+# What to do about a bound the optimum sits on (OptimumDesign.limits), by the option that sets it.
+RAISE_ADVICE = {"max_stages": "raise --max-stages (option max_stages) to look further",
+                "reflux_max": "the optimiser option reflux_max caps it; raise it to look further",
+                "reflux_min": "the optimiser option reflux_min holds it; lower it to look further"}
 
 
 def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
@@ -67,7 +72,11 @@ def check_text(found: CaseCheck) -> str:
 def result_text(result: DesignResult) -> str:
     """A design run as the command line prints it: case, mixture, design, warnings."""
     lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture), "", design_text(result)]
-    lines += [f"Warning: {w}" for w in result.warnings]
+    shown, more = console_warnings(result.warnings)
+    lines += [f"Warning: {w}" for w in shown]
+    if more:
+        lines.append(f"and {more} more note{'s' if more != 1 else ''} in result.json and the workbook's Warnings sheet "
+                     "(cost data, correlation ranges, reflux advice a bound explains)")
     return "\n".join(lines)
 
 
@@ -87,11 +96,15 @@ def design_text(result: DesignResult) -> str:
     if profile is None:
         return "\n".join(lines)
     heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
+    limits = parts.optimum.limits if parts.optimum is not None else ()
+    if limits:
+        heading = "Lowest-TAC design within the bounds"
     if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:
         heading = "Best design found (search incomplete, see the warnings)"
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
+              *(f"Limited by {limit.text}: {RAISE_ADVICE[limit.option]}" for limit in limits),
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
     lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)
     if parts.sizing is not None:

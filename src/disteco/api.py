@@ -27,7 +27,7 @@ from .reports.figures import write_design_figures
 from .reports.files import ClaimedFolder, claim_folder, write_json
 from .reports.json_result import result_json
 from .reports.notes import ordered_warnings
-from .reports.tables_design import ReportParts, optimum_parts
+from .reports.tables_design import GivenDesignReport, ReportParts, optimum_parts
 from .reports.tables_scenarios import CrossTable
 from .reports.workbook import write_workbook
 from .sizing.options import SizingOptions
@@ -60,7 +60,7 @@ def mixture_of(case: Case) -> Mixture:
 
 
 def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
-          options: dict | None = None) -> CaseCheck:
+          options: dict | None = None, compare: bool = True) -> CaseCheck:
     """Every check :func:`design` runs before it optimises, with the same arguments.
 
     Cost data, scenarios, cost year and currency; the components and a mixture summary at the
@@ -69,7 +69,7 @@ def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ..
     optimiser options, the stage bound or a given design against the minima on the fitted
     forms. Raises what ``design`` would raise before optimising; returns what it found.
     """
-    return _prepare(case, given, scenarios, options).check
+    return _prepare(case, given, scenarios, options, compare).check
 
 
 @dataclass(frozen=True)
@@ -81,9 +81,11 @@ class _Prepared:
     data: CostData
 
 
-def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], options: dict | None) -> _Prepared:
+def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], options: dict | None,
+             compare: bool) -> _Prepared:
     """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
     config = model_options(options)
+    asked_bound = config.max_stages  # a given design raises the bound of its own pricing to its stages
     data = cost_data_of(case)
     names = _scenario_names(data, scenarios, case)
     year, _ = resolve_cost_year(data, case.economics.cost_year)
@@ -96,9 +98,9 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     stages = design_stages(mixture, feed, products, case.column)
     estimate = shortcut(resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0))
-    if given is None:
-        check_stage_bound(estimate, config.max_stages)
-    else:
+    if given is None or compare:  # the optimum is searched for within the bound asked for
+        check_stage_bound(estimate, config.max_stages if given is None or asked_bound is None else asked_bound)
+    if given is not None:
         check_given_design(estimate, given.reflux_ratio, given.stages, given.feed_stage, config.reflux_max)
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
@@ -129,14 +131,15 @@ def cost_data_of(case: Case) -> CostData:
 
 
 def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
-           options: dict | None = None, progress: Progress | None = None) -> DesignResult:
+           options: dict | None = None, progress: Progress | None = None, compare: bool = True) -> DesignResult:
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
-    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
+    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done;
+    ``compare``: with ``given``, also find the optimum under the same prices to compare with.
     """
     report = progress or (lambda what, done, total: None)
-    prepared = _prepare(case, given, scenarios, options)
+    prepared = _prepare(case, given, scenarios, options, compare)
     mixture, data, found = prepared.mixture, prepared.data, prepared.check
     names, summary, feed, stages = found.scenarios, found.mixture, found.feed, found.stages
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
@@ -147,7 +150,13 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
                                      given.feed_stage, options, sizing, names[0])
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
-        parts = _checked(_evaluation_parts(evaluation, data), checks)
+        optimum = None
+        if compare:
+            report(f"the optimum under '{names[0]}' to compare with", 2, total)
+            optimum = optimise_design(case, mixture, feed, data, options, sizing, names[0])
+        held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optimum)
+        parts = replace(_checked(_evaluation_parts(evaluation, data), checks), given=held,
+                        **_binary_parts(stages, checks.reflux_ratio, case))
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings, parts))

@@ -55,6 +55,8 @@ def _run_options(sub: argparse.ArgumentParser) -> None:
     given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
     given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")
     given.add_argument("--feed-stage", type=int, metavar="F", help="feed stage counted from the top [-]")
+    given.add_argument("--no-compare", action="store_true",
+                       help="skip finding the optimum under the same prices to compare the given design with")
     sub.add_argument("--max-stages", type=int, metavar="N",
                      help="most equilibrium stages searched, at least 3 (default: 4.5 x the Fenske minimum, "
                           "at least 60)")
@@ -118,12 +120,13 @@ def _run(args) -> int:
     given, options = _given(args), _options(args)  # option mistakes are found before the case is read
     case = api.load_case(args.case)
     if args.command == "check":
-        print(api.check(case, given=given, scenarios=tuple(args.scenario), options=options))
+        print(api.check(case, given=given, scenarios=tuple(args.scenario), options=options,
+                        compare=not args.no_compare))
         return EXIT_OK
     progress = None if args.quiet else ProgressLine()
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
         result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
-                            progress=progress)
+                            progress=progress, compare=not args.no_compare)
         print(result)
         for path in api.write_results(result, out, figures=not args.no_figures):
             print(f"Wrote {path}")

@@ -21,6 +21,7 @@ from ..stages import StageDesign, StageProfile
 from .cautions import CAUTIONS
 from .design_result import SCHEMA_VERSION, DesignResult
 from .json_checks import checks_json, scenario_verification_json
+from .tables_design import GivenDesignReport
 
 KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
 
@@ -204,6 +205,21 @@ def stages_json(stages: StageDesign) -> dict:
     }
 
 
+def given_json(given: GivenDesignReport | None, cost: CostSummary | None) -> dict | None:
+    """A priced given design: the decisions held, and the optimum under the same prices (None: not compared)."""
+    if given is None:
+        return None
+    held = {"reflux_ratio": given.reflux_ratio, "stages": given.stages, "feed_stage": given.feed_stage}
+    extra = given.extra_tac(cost.tac_per_year) if cost is not None else None
+    if extra is None:
+        return {"held": held, "optimum": None}
+    best = given.optimum.best
+    return {"held": held, "optimum": {
+        "reflux_ratio": best.reflux_ratio, "stages": best.stages, "feed_stage": best.feed_stage,
+        "tac_per_year": cost.tac_per_year - extra, "scenario": cost.scenario},
+        "extra_tac_per_year": extra, "extra_tac_fraction": extra / (cost.tac_per_year - extra)}
+
+
 def result_json(result: DesignResult) -> dict:
     """The whole result as a JSON-ready dict."""
     parts = result.parts
@@ -252,6 +268,7 @@ def result_json(result: DesignResult) -> dict:
             for name, designs in parts.tac_curves],
         "mixture": mixture_json(result.mixture),
         "feed": feed_json(result.feed),
+        "given_design": given_json(parts.given, parts.cost),
         "warnings": list(result.warnings),
         "cautions": list(CAUTIONS),
         **checks_json(parts.checks, profile.reflux_ratio if profile else None),

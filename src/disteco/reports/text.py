@@ -3,11 +3,16 @@
 from __future__ import annotations
 
 from .._base.units import to_degC
-from ..properties import MixtureSummary
+from ..case import Products
+from ..costing import CostSummary
+from ..properties import FeedState, MixtureSummary
+from ..stages.results import StageProfile
 from .cautions import CAUTIONS
 from .check_result import CaseCheck
 from .design_result import DesignResult
 from .notes import console_warnings
+from .tables import KMOL_PER_H
+from .tables_design import GivenDesignReport
 from .text_checks import checks_lines
 
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
@@ -69,6 +74,49 @@ def check_text(found: CaseCheck) -> str:
     return "\n".join(lines)
 
 
+def products_lines(products: Products, feed: FeedState, profile: StageProfile, names: tuple[str, ...]) -> list[str]:
+    """The product compositions a priced design reaches, each against its specification."""
+    light, heavy = products.light_key, products.heavy_key
+    x_d, x_b = profile.distillate_composition, profile.bottoms_composition
+    reached = []
+    if products.light_key_spec.kind == "recovery":
+        recovery = profile.distillate_flow * x_d[light] / (feed.molar_flow * feed.z[light])
+        reached.append(f"{names[light]} recovery to the distillate {recovery:.4f} (specification at least "
+                       f"{products.light_key_spec.value:.4g})")
+    else:
+        reached.append(f"{names[light]} in the bottoms {x_b[light]:.4g} (specification at most "
+                       f"{products.light_key_spec.value:.4g})")
+    if products.heavy_key_spec.kind == "recovery":
+        recovery = profile.bottoms_flow * x_b[heavy] / (feed.molar_flow * feed.z[heavy])
+        reached.append(f"{names[heavy]} recovery to the bottoms {recovery:.4f} (specification at least "
+                       f"{products.heavy_key_spec.value:.4g})")
+    elif len(names) == 2:  # a binary's distillate is specified by its light-key fraction
+        reached.append(f"{names[light]} in the distillate {x_d[light]:.4f} (specification at least "
+                       f"{1.0 - products.heavy_key_spec.value:.4g})")
+    else:
+        reached.append(f"{names[heavy]} in the distillate {x_d[heavy]:.4g} (specification at most "
+                       f"{products.heavy_key_spec.value:.4g})")
+    return [f"Held: reflux ratio {profile.reflux_ratio:.4g} [-], {profile.stages} stages, feed on stage "
+            f"{profile.feed_stage}; the distillate flow ({profile.distillate_flow * KMOL_PER_H:,.2f} kmol/h) is "
+            "chosen to meet both specifications at least cost",
+            "Products reached (mole fractions): " + "; ".join(reached)]
+
+
+def given_lines(given: GivenDesignReport, cost: CostSummary | None) -> list[str]:
+    """The given design's TAC against the optimum's under the same prices."""
+    if given.optimum is None:
+        return ["Not compared with the optimum (--no-compare)"]
+    extra = given.extra_tac(cost.tac_per_year) if cost is not None else None
+    best = given.optimum.best
+    line = (f"Optimum under the same prices: reflux ratio {best.reflux_ratio:.3f} [-], {best.stages} stages, "
+            f"feed on stage {best.feed_stage}")
+    if extra is not None:
+        optimum_tac = cost.tac_per_year - extra
+        line += (f", TAC {optimum_tac:,.0f} per year; the given design costs {extra:+,.0f} {cost.currency} per year "
+                 f"({100 * extra / optimum_tac:+.1f} %)")
+    return [line]
+
+
 def result_text(result: DesignResult) -> str:
     """A design run as the command line prints it: case, mixture, design, warnings."""
     lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture), "", design_text(result)]
@@ -95,7 +143,7 @@ def design_text(result: DesignResult) -> str:
     profile = parts.profile
     if profile is None:
         return "\n".join(lines)
-    heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
+    heading = "Given design (priced)" if result.evaluation is not None else "Lowest-TAC design"
     limits = parts.optimum.limits if parts.optimum is not None else ()
     if limits:
         heading = "Lowest-TAC design within the bounds"
@@ -106,6 +154,8 @@ def design_text(result: DesignResult) -> str:
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
               *(f"Limited by {limit.text}: {RAISE_ADVICE[limit.option]}" for limit in limits),
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
+    if parts.given is not None:
+        lines += products_lines(result.case.products, result.feed, profile, result.case.components)
     lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)
     if parts.sizing is not None:
         s = parts.sizing
@@ -118,6 +168,8 @@ def design_text(result: DesignResult) -> str:
         lines.append(f"Cost ({c.currency} {c.cost_year}, scenario '{c.scenario}'): installed capital "
                      f"{c.capital_installed:,.0f}, utilities {c.utilities_per_year:,.0f} per year, "
                      f"TAC {c.tac_per_year:,.0f} per year")
+    if parts.given is not None:
+        lines += given_lines(parts.given, parts.cost)
     optimum = parts.optimum
     if optimum is not None:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""

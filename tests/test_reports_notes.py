@@ -14,7 +14,8 @@ def extrapolated(area: float) -> str:
 
 
 MODEL_PRICE, REPORTED_PRICE = extrapolated(13.01), extrapolated(13.2)
-PUMP = "reflux pump: pump efficiency taken at 0.0004 m^3/s, the nearer end of the Corripio range"
+PUMP = ("reflux pump: extrapolated: Corripio pump efficiency: volumetric flow = 0.0004 m^3/s is outside the valid "
+        "range 0.003155 to 0.3155 m^3/s; the efficiency is taken at 0.003155 m^3/s, the nearer end of the range")
 SHORT = "the given design falls 1.6 % short of a product specification on the optimiser's fitted forms"
 TALL = "column tangent length 62 m is above a practical single shell of 50 m"
 

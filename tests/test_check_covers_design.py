@@ -64,4 +64,4 @@ def test_a_valid_case_and_design_pass_check(tmp_path, capsys):
     assert code == 0
     assert "Given design: reflux ratio 2 [-], 25 stages, feed on stage 12" in out
     assert "(1.59, 9.40 stages)" in out
-    assert "design will not refuse it before optimising" in out
+    assert "Case file is valid. design with these options will not refuse it before optimising." in out

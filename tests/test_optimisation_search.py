@@ -83,7 +83,8 @@ def test_a_binding_stage_bound_is_the_headline(problem, cheap_steam, optimum):
     text = design_text(DesignResult(None, None, None, parts=optimum_parts(bounded)))
     lines = text.splitlines()
     assert lines[0].startswith("Lowest-TAC design within the bounds: ")
-    assert lines[1] == f"Limited by the stage bound of {bound} stages: raise --max-stages (option max_stages) to look further"
+    assert lines[1] == (f"Limited by the stage bound of {bound} stages: raise --max-stages (option max_stages) "
+                        "to look further")
 
 
 def test_dearer_steam_never_raises_the_optimum_reflux(problem, cheap_steam, optimum):

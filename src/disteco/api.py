@@ -271,5 +271,5 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
         folder.path / FIGURE_FOLDER / p.name for p in drawn]
 
 
-__all__ = ["GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of", "design", "load_case",
-           "mixture_of", "write_results"]
+__all__ = ["CaseCheck", "DesignResult", "GivenDesign", "OptimumDesign", "check", "claim_output", "cost_data_of",
+           "design", "load_case", "mixture_of", "write_results"]

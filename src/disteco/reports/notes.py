@@ -18,7 +18,7 @@ _NUMBER = re.compile(r"[-+]?\d[\d,]*(?:\.\d+)?(?:[eE][-+]?\d+)?")
 
 @dataclass(frozen=True)
 class Kind:
-    """A kind of warning: its name, its rank (0 most important), whether the console shows it, the words that mark it."""
+    """A kind of warning: its name, rank (0 most important), whether the console shows it, the words marking it."""
 
     name: str
     rank: int

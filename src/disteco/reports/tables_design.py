@@ -30,7 +30,7 @@ class GivenDesignReport:
     optimum: OptimumDesign | None = None
 
     def extra_tac(self, tac: float) -> float | None:
-        """The given design's TAC ``tac`` above the optimum's, both priced by the sizing and costing layers [currency/yr]."""
+        """The given design's TAC ``tac`` above the optimum's [currency/yr]; both are the sequential prices."""
         if self.optimum is None or self.optimum.sequential is None:
             return None
         return tac - self.optimum.sequential.cost.tac_per_year

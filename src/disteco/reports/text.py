@@ -68,8 +68,8 @@ def check_text(found: CaseCheck) -> str:
     else:
         reflux, n, feed_stage = found.given
         lines.append(f"Given design: reflux ratio {reflux:.4g} [-], {n} stages, feed on stage {feed_stage}: above the "
-                     f"minima on the fitted forms ({found.fitted_minimum_reflux:.4g}, {found.fitted_minimum_stages:.2f} "
-                     "stages)")
+                     f"minima on the fitted forms ({found.fitted_minimum_reflux:.4g}, "
+                     f"{found.fitted_minimum_stages:.2f} stages)")
     lines.append("Case file is valid. design with these options will not refuse it before optimising.")
     return "\n".join(lines)
 

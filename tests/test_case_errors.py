@@ -28,6 +28,10 @@ def run_cli(tmp_path, text, capsys, command="check"):
     (("1.15 bar", "900 bar"), "column.top_pressure", "900 bar absolute"),
     (("1.15 bar", "0.001 bar"), "column.top_pressure", "allowed: 0.01 to 50 bar"),
     (("1.15 bar", "1.15 furlongs"), "column.top_pressure", "unknown pressure unit"),
+    (('"180 kmol/h"', '"100"'), "feed.flow", "a unit is missing in '100' (allowed: the number followed by a flow "
+                                             "unit, e.g. \"120 kmol/h\"; units: mol/s, kmol/s"),
+    (('"180 kmol/h"', "100"), "feed.flow", "a unit is missing: 100 is a bare number"),
+    (('"1.15 bar"', '"1.15"'), "column.top_pressure", "a unit is missing in '1.15'"),
     (("q = 1.0", "q = 1.0\ntemperature = \"90 degC\""), "feed", "2 thermal conditions"),
     (("0.985", "1.5"), "products.distillate_light_key_fraction", "not a fraction"),
     (('"auto"', '"9 kPa"'), "column.pressure_drop_per_tray", "0 to 5 kPa per real tray"),

@@ -20,7 +20,7 @@ from conftest import EXAMPLES
 CASE = str(EXAMPLES / "aromatics_binary.toml")
 
 
-@pytest.mark.parametrize("arguments, option, fragment", [
+REFUSALS = [  # (arguments of design and check on the benzene example, option named, fragment of the message)
     ("--time-limit 0", "--time-limit", "a finite number above 0 s"),
     ("--time-limit -1", "--time-limit", "a finite number above 0 s"),
     ("--time-limit nan", "--time-limit", "a finite number above 0 s"),
@@ -44,7 +44,11 @@ CASE = str(EXAMPLES / "aromatics_binary.toml")
     ("--price lp_stem=20USD/GJ", "--price", "unknown utility 'lp_stem'; did you mean 'lp_steam'?"),
     ("--price lp_steam=20", "--price", "a unit is missing in '20'"),
     ("--price lp_steam=20USD/MJ", "--price", "per GJ, kWh, t, m3"),
-])
+    ("--scenario no-such-prices", "--scenario", "unknown scenario 'no-such-prices'"),
+]
+
+
+@pytest.mark.parametrize("arguments, option, fragment", REFUSALS)
 def test_refused_with_exit_2_and_the_option_named(tmp_path, capsys, arguments, option, fragment):
     """Benzene-toluene example (minimum stages 9.40 by Fenske on the fitted forms, minimum reflux 1.59
     by Underwood; regression values that only guard against change): each bad option or given design

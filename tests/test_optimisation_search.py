@@ -62,6 +62,29 @@ def test_optimum_is_interior_and_above_minimum_reflux(optimum):
     assert best.stages < MAX
     assert best.reflux_ratio > optimum.minimum_reflux_ratio
     assert best.stages > optimum.minimum_stages
+    assert optimum.limits == ()
+
+
+def test_a_binding_stage_bound_is_the_headline(problem, cheap_steam, optimum):
+    """Two stages below the free optimum the bound binds: the optimum sits on it, ``limits`` names
+    it with its option, the console headline says so in one line, and no warning repeats it."""
+    from disteco.optimisation.results import Limit
+    from disteco.reports.design_result import DesignResult
+    from disteco.reports.tables_design import optimum_parts
+    from disteco.reports.text import design_text
+
+    bound = optimum.best.stages - 2
+    bounded = optimise(problem, cheap_steam, {"max_stages": bound},
+                       start=(bound, min(optimum.best.feed_stage, bound - 1)))
+    assert bounded.best.stages == bound
+    assert bounded.best.reflux_ratio > optimum.best.reflux_ratio  # fewer stages need more reflux
+    assert bounded.limits == (Limit("max_stages", bound, f"the stage bound of {bound} stages"),)
+    assert not any("stage" in w and "bound" in w for w in bounded.warnings)
+    text = design_text(DesignResult(None, None, None, parts=optimum_parts(bounded)))
+    lines = text.splitlines()
+    assert lines[0].startswith("Lowest-TAC design within the bounds: ")
+    assert lines[1] == (f"Limited by the stage bound of {bound} stages: raise --max-stages (option max_stages) "
+                        "to look further")
 
 
 def test_dearer_steam_never_raises_the_optimum_reflux(problem, cheap_steam, optimum):

@@ -15,14 +15,15 @@ from typing import TYPE_CHECKING, Callable
 from ._base.errors import CaseError, CostDataError
 from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
-from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenarios
+from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
 from .costing.prices import apply_prices
-from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
+from .properties import Mixture, build_mixture, feed_state, summarise_mixture
 from .reports.files import ClaimedFolder, claim_folder, write_json
 
 if TYPE_CHECKING:  # the solver interfaces, plotting and the workbook are imported where used (quick `check`)
     from .optimisation.results import DesignEvaluation, OptimumDesign
     from .optimisation.thermo_checks import ThermoChecks
+    from .reports.check_result import CaseCheck
     from .reports.design_result import DesignResult
     from .reports.tables_design import ReportParts
     from .reports.tables_scenarios import CrossTable
@@ -56,18 +57,73 @@ def mixture_of(case: Case) -> Mixture:
     return build_mixture(case.components, case.thermo, case.column.top_pressure)
 
 
-def check(case: Case) -> MixtureSummary:
-    """Load the case's cost data and scenarios, resolve the components and summarise the
-    mixture at the column's top pressure."""
-    data = priced_cost_data(case)
-    resolve_scenarios(data, case.economics.scenarios)
-    from .costing.from_sizing import check_tray_material
-    from .sizing.options import sizing_options
+def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
+          options: dict | None = None, compare: bool = True, prices: tuple[PriceSetting | str, ...] = ()) -> CaseCheck:
+    """Every check :func:`design` runs before it optimises, with the same arguments.
 
+    Cost data, scenarios, cost year and currency; the components and a mixture summary at the
+    top pressure; the specifications against the feed and any azeotrope, the key order and
+    volatility (the stages layer's minimum reflux, minimum stages and stage profile); the
+    optimiser options, the stage bound or a given design against the minima on the fitted
+    forms. Raises what ``design`` would raise before optimising; returns what it found.
+    """
+    return _prepare(case, given, scenarios, options, compare, prices).check
+
+
+@dataclass(frozen=True)
+class _Prepared:
+    """A case that passed :func:`check`: the report, and the mixture and cost data a design goes on with."""
+
+    check: CaseCheck
+    mixture: Mixture
+    data: CostData
+
+
+def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], options: dict | None,
+             compare: bool, prices: tuple[PriceSetting | str, ...] = ()) -> _Prepared:
+    """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
+    from .costing.from_sizing import check_tray_material
+    from .optimisation.design import resolved_problem
+    from .optimisation.given import check_given_design, check_stage_bound
+    from .optimisation.options import model_options
+    from .optimisation.start import shortcut
+    from .reports.check_result import CaseCheck
+    from .sizing.options import sizing_options
+    from .stages import design_stages
+
+    config = model_options(options)
+    asked_bound = config.max_stages  # a given design raises the bound of its own pricing to its stages
+    data = priced_cost_data(case, prices)
+    names = _scenario_names(data, scenarios, case)
+    year, _ = resolve_cost_year(data, case.economics.cost_year)
+    currency = check_currency(data, case.economics.currency)
     check_tray_material(data, sizing_options(case))
     mixture = mixture_of(case)
-    return summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
-                             case.products.light_key, case.products.heavy_key)
+    mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
+    products = case.products
+    summary = summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
+                                products.light_key, products.heavy_key)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    stages = design_stages(mixture, feed, products, case.column)
+    estimate = shortcut(resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0))
+    if given is None or compare:  # the optimum is searched for within the bound asked for
+        check_stage_bound(estimate, config.max_stages if given is None or asked_bound is None else asked_bound)
+    if given is not None:
+        check_given_design(estimate, given.reflux_ratio, given.stages, given.feed_stage, config.reflux_max)
+    found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
+                      estimate.minimum_stages, estimate.minimum_reflux,
+                      None if given is None else (given.reflux_ratio, given.stages, given.feed_stage))
+    return _Prepared(found, mixture, data)
+
+
+def _scenario_names(data: CostData, scenarios: tuple[str, ...], case: Case) -> tuple[str, ...]:
+    """The scenarios to run: ``scenarios`` (named as the field ``scenario`` when wrong) or the case's."""
+    if not scenarios:
+        return resolve_scenarios(data, case.economics.scenarios)
+    try:
+        return resolve_scenarios(data, scenarios)
+    except CaseError as exc:
+        raise CaseError("scenario", exc.problem, exc.allowed, exc.value) from None
 
 
 def cost_data_of(case: Case) -> CostData:
@@ -95,7 +151,7 @@ def priced_cost_data(case: Case, prices: tuple[PriceSetting | str, ...] = ()) ->
 
 
 def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ...] = (),
-           options: dict | None = None, progress: Progress | None = None,
+           options: dict | None = None, progress: Progress | None = None, compare: bool = True,
            prices: tuple[PriceSetting | str, ...] = ()) -> DesignResult:
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
@@ -103,28 +159,23 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done. The
     sizing options are the case's ``[sizing]`` choices; an optimum below the case's control
     margin (``column.min_reflux_ratio_factor``) is searched again above it (:mod:`.optimisation.margin`);
-    ``prices`` set utility prices on top of the case's (see :func:`priced_cost_data`).
+    ``prices`` set utility prices on top of the case's (see :func:`priced_cost_data`);
+    ``compare``: with ``given``, also find the optimum under the same prices to compare with.
     """
     from .optimisation.curves import reflux_curve
     from .optimisation.design import evaluate_design, optimise_design
     from .optimisation.margin import hold_margin
     from .optimisation.thermo_checks import thermo_checks
     from .reports.design_result import DesignResult
-    from .reports.tables_design import optimum_parts
+    from .reports.tables_design import GivenDesignReport, optimum_parts
     from .sizing.options import sizing_options
-    from .stages import design_stages
 
     report = progress or (lambda what, done, total: None)
-    mixture = mixture_of(case)
-    mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
-    data = priced_cost_data(case, prices)
-    names = resolve_scenarios(data, scenarios, "scenarios") if scenarios else \
-        resolve_scenarios(data, case.economics.scenarios)
-    summary = check(case)
-    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    prepared = _prepare(case, given, scenarios, options, compare, prices)
+    mixture, data, found = prepared.mixture, prepared.data, prepared.check
+    names, summary, feed, stages = found.scenarios, found.mixture, found.feed, found.stages
     total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
     report("shortcut design and stage profile", 0, total)
-    stages = design_stages(mixture, feed, case.products, case.column)
     sizing = sizing_options(case)
     if given is not None:
         report(f"pricing the given design under '{names[0]}'", 1, total)
@@ -133,7 +184,13 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         if evaluation.sequential is not None:  # the tray spacing chosen for it
             sizing = replace(sizing, tray_spacing=evaluation.sequential.sizing.height.tray_spacing)
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
-        parts = _checked(_evaluation_parts(evaluation, data), checks)
+        optimum = None
+        if compare:
+            report(f"the optimum under '{names[0]}' to compare with", 2, total)
+            optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), names[0])
+        held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optimum)
+        parts = replace(_checked(_evaluation_parts(evaluation, data), checks), given=held,
+                        **_binary_parts(stages, checks.reflux_ratio, case))
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings, parts))
@@ -232,12 +289,14 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, report, don
 
 
 def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:
+    from .reports.notes import ordered_warnings
+
     found = list(own)
     if parts.sizing is not None:
         found += parts.sizing.warnings
     if parts.cost is not None:
         found += parts.cost.warnings
-    return tuple(dict.fromkeys(found))  # in order, without repeats
+    return ordered_warnings(found, bound=bool(parts.optimum and parts.optimum.limits))
 
 
 def claim_output(folder: str | Path, label: str = "output folder",
@@ -275,7 +334,8 @@ def write_results(result: DesignResult, folder: str | Path | ClaimedFolder, figu
 
 # Offered here but imported on first use (see ``__getattr__``): the writers pull in openpyxl and
 # matplotlib. ``write_results`` looks them up on this module, so replacing one here takes effect.
-_LAZY = {"OptimumDesign": ".optimisation.results", "write_workbook": ".reports.workbook",
+_LAZY = {"OptimumDesign": ".optimisation.results", "CaseCheck": ".reports.check_result",
+         "DesignResult": ".reports.design_result", "write_workbook": ".reports.workbook",
          "write_design_figures": ".reports.figures", "result_json": ".reports.json_result"}
 
 
@@ -287,5 +347,5 @@ def __getattr__(name: str):
     return value
 
 
-__all__ = ["GivenDesign", "OptimumDesign", "PriceSetting", "check", "claim_output", "cost_data_of", "design", "load_case",
+__all__ = ["CaseCheck", "DesignResult", "GivenDesign", "OptimumDesign", "PriceSetting", "check", "claim_output", "cost_data_of", "design", "load_case",
            "mixture_of", "priced_cost_data", "write_results"]

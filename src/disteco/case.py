@@ -262,6 +262,10 @@ def _kind_name(kind) -> str:
     return " or ".join(_KIND_NAMES.get(k, k.__name__) for k in kinds)
 
 
+# A quantity is text with its unit; a bare number is let through to be told that its unit is missing.
+QUANTITY = (str, int, float)
+
+
 def _get(table: dict, key: str, kind, prefix: str = "", default=_MISSING):
     if key not in table:
         if default is _MISSING:
@@ -343,7 +347,7 @@ def _composition(feed: dict, components: tuple[str, ...]) -> tuple[float, ...]:
 
 def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
     _only_keys(feed, "feed.", {"flow", "composition", "temperature", "vapour_fraction", "q", "pressure"})
-    flow_si, unit = parse_quantity(_get(feed, "flow", str, "feed."), "flow", "feed.flow")
+    flow_si, unit = parse_quantity(_get(feed, "flow", QUANTITY, "feed."), "flow", "feed.flow")
     if flow_si <= 0.0:
         raise CaseError("feed.flow", f"{feed['flow']!r} is not positive", "a flow above zero")
     low, high, si_unit = FLOW_RANGES[unit.basis]
@@ -375,7 +379,7 @@ def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
 
 
 def _pressure(table: dict, key: str, prefix: str) -> float:
-    value, _ = parse_quantity(_get(table, key, str, prefix), "pressure", prefix + key)
+    value, _ = parse_quantity(_get(table, key, QUANTITY, prefix), "pressure", prefix + key)
     if not MIN_PRESSURE <= value <= MAX_PRESSURE:
         raise CaseError(prefix + key, f"{table[key]!r} is {value / 1e5:.4g} bar absolute",
                         f"{MIN_PRESSURE / 1e5:g} to {MAX_PRESSURE / 1e5:g} bar absolute")
@@ -390,7 +394,7 @@ def _column(column: dict) -> Column:
     condenser = _get(column, "condenser", str, "column.", "total")
     if condenser not in CONDENSERS:
         raise CaseError("column.condenser", f"{condenser!r}", ", ".join(CONDENSERS))
-    subcooling, _ = parse_quantity(_get(column, "subcooling", str, "column.", "0 K"),
+    subcooling, _ = parse_quantity(_get(column, "subcooling", QUANTITY, "column.", "0 K"),
                                    "temperature difference", "column.subcooling")
     if not 0.0 <= subcooling <= 50.0:
         raise CaseError("column.subcooling", f"{subcooling:.4g} K", "0 to 50 K")
@@ -415,8 +419,8 @@ def _tray_drop(column: dict) -> tuple[float | None, tuple[str, ...]]:
         warnings = ("column.pressure_drop_per_stage is deprecated and will be removed in the next release: "
                     "its value is read as column.pressure_drop_per_tray (per real tray; the drop per "
                     "equilibrium stage is the per-tray drop over the tray efficiency); rename the field",)
-    raw = _get(column, key, str, "column.", "auto")
-    if raw.strip().lower() == "auto":
+    raw = _get(column, key, QUANTITY, "column.", "auto")
+    if isinstance(raw, str) and raw.strip().lower() == "auto":
         return None, warnings
     drop, _ = parse_quantity(raw, "pressure difference", "column." + key)
     if not 0.0 <= drop <= MAX_TRAY_DROP:

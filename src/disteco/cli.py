@@ -20,7 +20,7 @@ EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
 # Option of the command line behind each field of the given design and of the optimiser's options.
 OPTION_OF = {"reflux_ratio": "--reflux", "stages": "--stages", "feed_stage": "--feed-stage",
              "max_stages": "--max-stages", "time_limit": "--time-limit", "relative_gap": "--gap",
-             "scenarios": "--scenario"}
+             "scenarios": "--scenario", "scenario": "--scenario"}
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -29,35 +29,43 @@ def _parser() -> argparse.ArgumentParser:
         description="Economic design of continuous distillation columns (screening estimates).")
     parser.add_argument("--version", action="version", version=f"disteco {__version__}")
     commands = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
-    check = commands.add_parser("check", help="validate a case file and print a mixture report")
-    check.add_argument("case", type=Path, help="case file (TOML)")
+    check = commands.add_parser(
+        "check", help="run every check design runs before optimising (same options) and print a mixture report")
     design = commands.add_parser(
         "design", help="find the lowest-TAC design (or price a given one) and write result.json, "
                        "design.xlsx and figures")
-    design.add_argument("case", type=Path, help="case file (TOML)")
+    for sub in (check, design):
+        _run_options(sub)
     design.add_argument("-o", "--out", type=Path, default=Path("disteco-out"),
                         help="output folder (default: ./disteco-out)")
-    design.add_argument("--scenario", action="append", default=[], metavar="NAME",
-                        help="utility-price scenario to design for; repeat to compare several "
-                             "(default: the case's [economics] scenarios)")
-    design.add_argument("--price", action="append", default=[], metavar="[SCENARIO.]UTILITY=PRICE",
-                        help="set a utility price, e.g. lp_steam=20USD/GJ (per GJ, kWh, t or m3; utility names "
-                             "as in the cost data; money of the cost year); repeatable; without SCENARIO it "
-                             "applies to every scenario")
-    given = design.add_argument_group("price a given design instead of optimising (all three together)")
-    given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
-    given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")
-    given.add_argument("--feed-stage", type=int, metavar="F", help="feed stage counted from the top [-]")
-    design.add_argument("--max-stages", type=int, metavar="N",
-                        help="most equilibrium stages searched, at least 3 (default: 4.5 x the Fenske minimum, "
-                             "at least 60)")
-    design.add_argument("--time-limit", type=float, metavar="S", help="wall-clock limit of each search [s]")
-    design.add_argument("--gap", type=float, metavar="G", help="relative optimality gap asked of a certifying solver [-]")
     design.add_argument("--no-figures", action="store_true", help="skip the PNG figures")
     design.add_argument("-q", "--quiet", action="store_true", help="no progress messages")
     for sub in (check, design):
         sub.add_argument("--debug", action="store_true", help="show a traceback on internal failures")
     return parser
+
+
+def _run_options(sub: argparse.ArgumentParser) -> None:
+    """The case and the options that decide what a design run does (check validates the same ones)."""
+    sub.add_argument("case", type=Path, help="case file (TOML)")
+    sub.add_argument("--scenario", action="append", default=[], metavar="NAME",
+                     help="utility-price scenario to design for; repeat to compare several "
+                          "(default: the case's [economics] scenarios)")
+    sub.add_argument("--price", action="append", default=[], metavar="[SCENARIO.]UTILITY=PRICE",
+                     help="set a utility price, e.g. lp_steam=20USD/GJ (per GJ, kWh, t or m3; utility names "
+                          "as in the cost data; money of the cost year); repeatable; without SCENARIO it "
+                          "applies to every scenario")
+    given = sub.add_argument_group("price a given design instead of optimising (all three together)")
+    given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
+    given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")
+    given.add_argument("--feed-stage", type=int, metavar="F", help="feed stage counted from the top [-]")
+    given.add_argument("--no-compare", action="store_true",
+                       help="skip finding the optimum under the same prices to compare the given design with")
+    sub.add_argument("--max-stages", type=int, metavar="N",
+                     help="most equilibrium stages searched, at least 3 (default: 4.5 x the Fenske minimum, "
+                          "at least 60)")
+    sub.add_argument("--time-limit", type=float, metavar="S", help="wall-clock limit of each search [s]")
+    sub.add_argument("--gap", type=float, metavar="G", help="relative optimality gap asked of a certifying solver [-]")
 
 
 class ProgressLine:
@@ -112,30 +120,23 @@ def _as_option(exc):
 def _run(args) -> int:
     from . import api
     from ._base.prices import parse_price_option
-    from .reports.text import cautions_text, console_title, design_text, mixture_text
     from .reports.tables_prices import prices_text
+    from .reports.text import cautions_text
 
-    if args.command == "design":  # option mistakes are found before the case is read
-        given, options = _given(args), _options(args)
-        prices = tuple(parse_price_option(text, "--price") for text in args.price)
+    given, options = _given(args), _options(args)  # option mistakes are found before the case is read
+    prices = tuple(parse_price_option(text, "--price") for text in args.price)
     case = api.load_case(args.case)
     if args.command == "check":
-        print(f"Case: {console_title(case.title)}")
-        print(mixture_text(api.check(case)))
-        print("Case file is valid.")
+        print(api.check(case, given=given, scenarios=tuple(args.scenario), options=options,
+                        compare=not args.no_compare, prices=prices))
         return EXIT_OK
     progress = None if args.quiet else ProgressLine()
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
         result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
-                            progress=progress, prices=prices)
-        print(f"Case: {console_title(case.title)}")
-        print(mixture_text(result.mixture))
-        print()
-        print(design_text(result))
+                            progress=progress, compare=not args.no_compare, prices=prices)
+        print(result)
         for line in prices_text(result.parts):
             print(line)
-        for warning in result.warnings:
-            print(f"Warning: {warning}")
         for path in api.write_results(result, out, figures=not args.no_figures):
             print(f"Wrote {path}")
     print(cautions_text())

@@ -72,7 +72,9 @@ KINDS = {
     "time": TIME,
 }
 
-_QUANTITY = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
+_NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
+_QUANTITY = re.compile(rf"^\s*({_NUMBER})\s*(\S.*?)\s*$")
+_BARE_NUMBER = re.compile(rf"^\s*{_NUMBER}\s*$")
 
 
 def _normalise_unit(text: str) -> str:
@@ -88,9 +90,15 @@ def parse_quantity(text, kind: str, field: str) -> tuple[float, Unit]:
     """
     table = KINDS[kind]
     allowed = ", ".join(table)
+    if isinstance(text, (int, float)) and not isinstance(text, bool):
+        raise CaseError(field, f"a unit is missing: {text!r} is a bare number",
+                        f"text with a {kind} unit, e.g. \"{_example(kind)}\"; units: {allowed}", text)
     if isinstance(text, bool) or not isinstance(text, str):
         raise CaseError(field, f"expected a {kind} written as text with its unit, got {text!r}",
                         f"e.g. \"{_example(kind)}\"; units: {allowed}", text)
+    if _BARE_NUMBER.match(text):  # else "100" reads as 10 in a unit "0"
+        raise CaseError(field, f"a unit is missing in {text!r}",
+                        f"the number followed by a {kind} unit, e.g. \"{_example(kind)}\"; units: {allowed}", text)
     match = _QUANTITY.match(text)
     if not match:
         raise CaseError(field, f"cannot read {text!r} as a number followed by a unit",

@@ -145,6 +145,18 @@ class DesignEvaluation:
         return self.cost.tac_per_year
 
 
+BOUND_TOLERANCE = 1e-6  # relative distance from a bound of the reflux ratio that counts as on it [-]
+
+
+@dataclass(frozen=True)
+class Limit:
+    """A bound of the search that the optimum sits on: the option that sets it, its value, in words."""
+
+    option: str
+    value: float
+    text: str
+
+
 @dataclass(frozen=True)
 class OptimumDesign:
     """The lowest-TAC design found, the shortcut bounds and the search trail."""
@@ -166,6 +178,27 @@ class OptimumDesign:
     stage_limit: int | None = None  # most stages one shell within the height limit holds, when below the search's bound
     layout: "LayoutChoice | None" = None  # the layouts compared and the one chosen
     spacings: tuple = ()  # SpacingPrice of each candidate tray spacing at the optimum
+
+    stage_bound: int | None = None  # most stages the search could use
+    reflux_range: tuple[float, float] = (0.0, float("inf"))  # lowest and highest reflux ratio of the model [-]
+
+    @property
+    def limits(self) -> tuple[Limit, ...]:
+        """The bounds the optimum sits on: the optimum within them is not the unconstrained one."""
+        found = []
+        best = self.best
+        if self.stage_bound is not None and best.stages >= self.stage_bound:
+            if self.stage_limit is not None and self.stage_bound >= self.stage_limit:
+                found.append(Limit("max_height", self.stage_limit, f"the {self.stage_limit} stages one shell within "
+                                   "the height limit holds"))
+            else:
+                found.append(Limit("max_stages", self.stage_bound, f"the stage bound of {self.stage_bound} stages"))
+        low, high = self.reflux_range
+        if best.reflux_ratio >= high * (1.0 - BOUND_TOLERANCE):
+            found.append(Limit("reflux_max", high, f"the highest reflux ratio of the model ({high:g})"))
+        if best.reflux_ratio <= low * (1.0 + BOUND_TOLERANCE):
+            found.append(Limit("reflux_min", low, f"the lowest reflux ratio of the model ({low:g})"))
+        return tuple(found)
 
 
 @dataclass(frozen=True)

@@ -468,9 +468,8 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
     report = SolverReport(config.solver, status, termination or best.solver.termination, gap, wall,
                           len(evaluator.designs), message, unsolved=evaluator.unsolved(),
                           neighbours=len(neighbours), neighbours_unsolved=len(missing))
-    warnings = best.warnings + warnings
-    if best.stages == config.max_stages:
-        warnings += (f"the optimum lies at the largest stage count allowed ({config.max_stages}); "
-                     "raise max_stages to look further",)
+    # A bound the optimum sits on is reported in its headline (OptimumDesign.limits), not as a warning.
     return OptimumDesign(best, estimate.minimum_reflux, estimate.minimum_stages, report,
-                         tuple(evaluator.steps), warnings, solved=tuple(evaluator.evaluations.values()))
+                         tuple(evaluator.steps), best.warnings + warnings, stage_bound=config.max_stages,
+                         reflux_range=(config.reflux_min, config.reflux_max),
+                         solved=tuple(evaluator.evaluations.values()))

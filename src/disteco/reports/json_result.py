@@ -26,6 +26,7 @@ from .choices import inputs_json, margin_json
 from .design_result import SCHEMA_VERSION, DesignResult
 from .json_checks import checks_json, scenario_verification_json
 from .tables_prices import economics_json
+from .tables_design import GivenDesignReport
 
 KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
 
@@ -275,6 +276,21 @@ def stages_json(stages: StageDesign) -> dict:
     }
 
 
+def given_json(given: GivenDesignReport | None, cost: CostSummary | None) -> dict | None:
+    """A priced given design: the decisions held, and the optimum under the same prices (None: not compared)."""
+    if given is None:
+        return None
+    held = {"reflux_ratio": given.reflux_ratio, "stages": given.stages, "feed_stage": given.feed_stage}
+    extra = given.extra_tac(cost.tac_per_year) if cost is not None else None
+    if extra is None:
+        return {"held": held, "optimum": None}
+    best = given.optimum.best
+    return {"held": held, "optimum": {
+        "reflux_ratio": best.reflux_ratio, "stages": best.stages, "feed_stage": best.feed_stage,
+        "tac_per_year": cost.tac_per_year - extra, "scenario": cost.scenario},
+        "extra_tac_per_year": extra, "extra_tac_fraction": extra / (cost.tac_per_year - extra)}
+
+
 def result_json(result: DesignResult) -> dict:
     """The whole result as a JSON-ready dict."""
     parts = result.parts
@@ -285,6 +301,8 @@ def result_json(result: DesignResult) -> dict:
     solver = None
     if parts.optimum is not None:
         solver = solver_json(parts.optimum.solver, parts.optimum.rounds)
+        solver["limited_by"] = [{"option": b.option, "value": b.value, "bound": b.text}
+                                for b in parts.optimum.limits]
     elif chosen is not None:
         solver = solver_json(chosen.solver)
     sequential = parts.optimum.sequential if parts.optimum is not None else \
@@ -326,6 +344,7 @@ def result_json(result: DesignResult) -> dict:
         "feed": feed_json(result.feed),
         "inputs": inputs_json(result.case),
         "control_margin": margin_json(parts.margin),
+        "given_design": given_json(parts.given, parts.cost),
         "warnings": list(result.warnings),
         "cautions": list(CAUTIONS),
         **checks_json(parts.checks, profile.reflux_ratio if profile else None),

@@ -76,6 +76,14 @@ class Table:
         index = [c.header for c in self.columns].index(header)
         return tuple(row[index] for row in self.rows)
 
+    def frame(self):
+        """The table as a pandas DataFrame: one column per header (label and unit), empty cells NaN."""
+        import pandas  # imported when asked for: it adds about half a second to the command line's start
+
+        frame = pandas.DataFrame(list(self.rows), columns=[c.header for c in self.columns])
+        frame.attrs["title"] = self.title
+        return frame
+
 
 def is_number(value: Cell) -> bool:
     """True for a finite int or float (bool excluded)."""

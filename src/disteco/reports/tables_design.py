@@ -22,6 +22,26 @@ if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver i
 
 
 @dataclass(frozen=True)
+class GivenDesignReport:
+    """A priced given design: the decisions held and the optimum under the same prices to compare with.
+
+    The reflux ratio, stages and feed stage are held; the distillate flow is the model's choice
+    that meets both specifications at least cost. ``optimum`` is None when no comparison was asked for.
+    """
+
+    reflux_ratio: float  # [-]
+    stages: int  # equilibrium stages, reboiler included
+    feed_stage: int  # from the top
+    optimum: OptimumDesign | None = None
+
+    def extra_tac(self, tac: float) -> float | None:
+        """The given design's TAC ``tac`` above the optimum's [currency/yr]; both are the sequential prices."""
+        if self.optimum is None or self.optimum.sequential is None:
+            return None
+        return tac - self.optimum.sequential.cost.tac_per_year
+
+
+@dataclass(frozen=True)
 class ReportParts:
     """The typed results the reports draw on; a part that is None (or empty) leaves its sheet or chart out.
 
@@ -34,7 +54,8 @@ class ReportParts:
     (scenario, designs along the reflux ratio with stages and feed re-optimised); ``checks``:
     the reported design on thermo (verification, energy-balance minimum reflux, fit check),
     ``scenario_checks`` (scenario, checks) of every scenario's optimum; ``margins`` (scenario,
-    control margin: the least R/Rmin and, where it binds, the optimum without it).
+    control margin: the least R/Rmin and, where it binds, the optimum without it); ``given``:
+    what a priced given design held and the optimum it is compared with.
     """
 
     profile: StageProfile | None = None
@@ -51,6 +72,7 @@ class ReportParts:
     checks: ThermoChecks | None = None
     scenario_checks: tuple[tuple[str, ThermoChecks], ...] = ()
     margins: tuple[tuple[str, ControlMargin], ...] = ()
+    given: GivenDesignReport | None = None  # set when a given design was priced
 
     @property
     def margin(self) -> ControlMargin | None:
@@ -88,7 +110,13 @@ def summary_table(title: str, parts: ReportParts) -> Table:
         items += [("Price scenario", c.scenario), (f"Installed capital [{c.currency}]", c.capital_installed),
                   (f"Utilities [{c.currency}/year]", c.utilities_per_year),
                   (f"Total annualised cost [{c.currency}/year]", c.tac_per_year)]
-    return quantity_table("Chosen design", items)
+        extra = parts.given.extra_tac(c.tac_per_year) if parts.given is not None else None
+        if extra is not None:
+            best = parts.given.optimum.best
+            items += [(f"Optimum's TAC, same prices [{c.currency}/year]", c.tac_per_year - extra),
+                      ("Optimum's reflux ratio [-]", best.reflux_ratio), ("Optimum's stages [-]", best.stages),
+                      (f"Given design's extra TAC [{c.currency}/year]", extra)]
+    return quantity_table("Given design" if parts.given is not None else "Chosen design", items)
 
 
 def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...]:

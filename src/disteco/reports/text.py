@@ -3,13 +3,25 @@
 from __future__ import annotations
 
 from .._base.units import to_degC
-from ..properties import MixtureSummary
+from ..case import Products
+from ..costing import CostSummary
+from ..properties import FeedState, MixtureSummary
+from ..stages.results import StageProfile
 from .cautions import CAUTIONS
 from .choices import margin_text, sizing_text
+from .check_result import CaseCheck
 from .design_result import DesignResult
+from .notes import console_warnings
+from .tables import KMOL_PER_H
+from .tables_design import GivenDesignReport
 from .text_checks import checks_lines
 
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
+# What to do about a bound the optimum sits on (OptimumDesign.limits), by the option that sets it.
+RAISE_ADVICE = {"max_stages": "raise --max-stages (option max_stages) to look further",
+                "reflux_max": "the optimiser option reflux_max caps it; raise it to look further",
+                "reflux_min": "the optimiser option reflux_min holds it; lower it to look further",
+                "max_height": "raise [sizing] max_height, or let the column go to two shells"}
 
 
 def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
@@ -39,6 +51,82 @@ def mixture_text(summary: MixtureSummary) -> str:
                          f"at {to_degC(a.T):.2f} degC")
     else:
         lines.append("Azeotropes: none found between any pair at top pressure")
+    return "\n".join(lines)
+
+
+def check_text(found: CaseCheck) -> str:
+    """What `check` found: the mixture report, the minima, and what a design run will use."""
+    stages = found.stages
+    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture), "",
+             f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   minimum stages: {stages.minimum_stages:.2f} [-] "
+             f"({stages.basis})",
+             f"Stage profile{' meeting both specifications' if stages.meets_specs else ''}: {stages.profile.stages} "
+             f"stages (the {stages.reflux_factor:g} x minimum-reflux row), feed on stage {stages.profile.feed_stage}, "
+             f"reflux ratio {stages.profile.reflux_ratio:.3f} [-]",
+             f"Scenarios: {', '.join(found.scenarios)}; cost year {found.cost_year}, {found.currency}"]
+    if found.given is None:
+        lines.append(f"Stage bound of the search: {found.stage_bound} stages (Fenske minimum on the fitted forms "
+                     f"{found.fitted_minimum_stages:.2f})")
+    else:
+        reflux, n, feed_stage = found.given
+        lines.append(f"Given design: reflux ratio {reflux:.4g} [-], {n} stages, feed on stage {feed_stage}: above the "
+                     f"minima on the fitted forms ({found.fitted_minimum_reflux:.4g}, "
+                     f"{found.fitted_minimum_stages:.2f} stages)")
+    lines.append("Case file is valid. design with these options will not refuse it before optimising.")
+    return "\n".join(lines)
+
+
+def products_lines(products: Products, feed: FeedState, profile: StageProfile, names: tuple[str, ...]) -> list[str]:
+    """The product compositions a priced design reaches, each against its specification."""
+    light, heavy = products.light_key, products.heavy_key
+    x_d, x_b = profile.distillate_composition, profile.bottoms_composition
+    reached = []
+    if products.light_key_spec.kind == "recovery":
+        recovery = profile.distillate_flow * x_d[light] / (feed.molar_flow * feed.z[light])
+        reached.append(f"{names[light]} recovery to the distillate {recovery:.4f} (specification at least "
+                       f"{products.light_key_spec.value:.4g})")
+    else:
+        reached.append(f"{names[light]} in the bottoms {x_b[light]:.4g} (specification at most "
+                       f"{products.light_key_spec.value:.4g})")
+    if products.heavy_key_spec.kind == "recovery":
+        recovery = profile.bottoms_flow * x_b[heavy] / (feed.molar_flow * feed.z[heavy])
+        reached.append(f"{names[heavy]} recovery to the bottoms {recovery:.4f} (specification at least "
+                       f"{products.heavy_key_spec.value:.4g})")
+    elif len(names) == 2:  # a binary's distillate is specified by its light-key fraction
+        reached.append(f"{names[light]} in the distillate {x_d[light]:.4f} (specification at least "
+                       f"{1.0 - products.heavy_key_spec.value:.4g})")
+    else:
+        reached.append(f"{names[heavy]} in the distillate {x_d[heavy]:.4g} (specification at most "
+                       f"{products.heavy_key_spec.value:.4g})")
+    return [f"Held: reflux ratio {profile.reflux_ratio:.4g} [-], {profile.stages} stages, feed on stage "
+            f"{profile.feed_stage}; the distillate flow ({profile.distillate_flow * KMOL_PER_H:,.2f} kmol/h) is "
+            "chosen to meet both specifications at least cost",
+            "Products reached (mole fractions): " + "; ".join(reached)]
+
+
+def given_lines(given: GivenDesignReport, cost: CostSummary | None) -> list[str]:
+    """The given design's TAC against the optimum's under the same prices."""
+    if given.optimum is None:
+        return ["Not compared with the optimum (--no-compare)"]
+    extra = given.extra_tac(cost.tac_per_year) if cost is not None else None
+    best = given.optimum.best
+    line = (f"Optimum under the same prices: reflux ratio {best.reflux_ratio:.3f} [-], {best.stages} stages, "
+            f"feed on stage {best.feed_stage}")
+    if extra is not None:
+        optimum_tac = cost.tac_per_year - extra
+        line += (f", TAC {optimum_tac:,.0f} per year; the given design costs {extra:+,.0f} {cost.currency} per year "
+                 f"({100 * extra / optimum_tac:+.1f} %)")
+    return [line]
+
+
+def result_text(result: DesignResult) -> str:
+    """A design run as the command line prints it: case, mixture, design, warnings."""
+    lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture), "", design_text(result)]
+    shown, more = console_warnings(result.warnings)
+    lines += [f"Warning: {w}" for w in shown]
+    if more:
+        lines.append(f"and {more} more note{'s' if more != 1 else ''} in result.json and the workbook's Warnings sheet "
+                     "(cost data, correlation ranges, reflux advice a bound explains)")
     return "\n".join(lines)
 
 
@@ -81,18 +169,26 @@ def design_text(result: DesignResult) -> str:
     profile = parts.profile
     if profile is None:
         return "\n".join(lines)
-    heading = "Priced design" if result.evaluation is not None else "Lowest-TAC design"
-    if parts.margin is not None and parts.margin.binds:
+    heading = "Given design (priced)" if result.evaluation is not None else "Lowest-TAC design"
+    held = parts.margin is not None and parts.margin.binds
+    limits = parts.optimum.limits if parts.optimum is not None else ()
+    if held:  # the control margin's floor is the reflux bound the second search ran with
+        limits = tuple(limit for limit in limits if limit.option != "reflux_min")
         heading = "Lowest-TAC design holding the control margin"
+    if limits:
+        heading = "Lowest-TAC design within the bounds"
     if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:
         heading = "Best design found (search incomplete, see the warnings)"
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
+              *(f"Limited by {limit.text}: {RAISE_ADVICE[limit.option]}" for limit in limits),
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)
     lines += [margin] if margin else []
+    if parts.given is not None:
+        lines += products_lines(result.case.products, result.feed, profile, result.case.components)
     lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)
     chosen = sizing_text(result.case)
     lines += [chosen] if chosen else []
@@ -108,6 +204,8 @@ def design_text(result: DesignResult) -> str:
         lines.append(f"Cost ({c.currency} {c.cost_year}, scenario '{c.scenario}'): installed capital "
                      f"{c.capital_installed:,.0f}, utilities {c.utilities_per_year:,.0f} per year, "
                      f"TAC {c.tac_per_year:,.0f} per year")
+    if parts.given is not None:
+        lines += given_lines(parts.given, parts.cost)
     optimum = parts.optimum
     if optimum is not None and optimum.layout is not None:
         lines += layout_lines(optimum.layout, parts.cost.currency if parts.cost is not None else "")

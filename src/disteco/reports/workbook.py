@@ -20,6 +20,7 @@ from openpyxl import Workbook
 from .choices import sizing_table
 from .design_result import DesignResult
 from .files import write_atomically
+from .notes import ordered_warnings
 from .tables import (Plot, Table, cautions_table, case_table, components_table, feed_table, mixture_table,
                      products_table, stage_profile_table, warnings_table)
 from .tables_checks import checks_table
@@ -98,11 +99,12 @@ def _scenario_tables(parts: ReportParts) -> tuple[Table, ...]:
 
 def _all_warnings(result: DesignResult, parts: ReportParts) -> tuple[str, ...]:
     """The run's warnings, then those of sizing, costing, the optimiser and the cross table not yet listed."""
-    found = list(result.warnings)
-    for extra in (parts.sizing.warnings if parts.sizing else (), parts.cost.warnings if parts.cost else (),
-                  parts.optimum.warnings if parts.optimum else (), parts.cross.below_zero() if parts.cross else ()):
-        found += [w for w in extra if w not in found]
-    return tuple(found)
+    extra = []
+    for more in (parts.sizing.warnings if parts.sizing else (), parts.cost.warnings if parts.cost else (),
+                 parts.optimum.warnings if parts.optimum else (), parts.cross.below_zero() if parts.cross else ()):
+        extra += more
+    # the run's own texts come last, so where one differs from an extra only in its numbers, the run's is kept
+    return ordered_warnings(extra + list(result.warnings), bound=bool(parts.optimum and parts.optimum.limits))
 
 
 def build_workbook(content: WorkbookContent) -> Workbook:

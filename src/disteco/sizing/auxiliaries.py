@@ -145,7 +145,8 @@ def size_pump(volume_flow: float, density: float, head: float, efficiency: float
         if not CORRIPIO_RANGE.contains(volume_flow):
             CORRIPIO_RANGE.check(volume_flow, policy, warnings)
             flow = min(max(volume_flow, CORRIPIO_RANGE.low), CORRIPIO_RANGE.high)
-            warnings.append(f"pump efficiency taken at {flow:.4g} m^3/s, the nearer end of the Corripio range")
+            # one warning for one condition: the range and what was done about it
+            warnings[-1] += f"; the efficiency is taken at {flow:.4g} m^3/s, the nearer end of the range"
         efficiency = Corripio_pump_efficiency(flow)
     power = pump_shaft_power(volume_flow, density, head, efficiency)
     return PumpSizing(volume_flow, density, head, efficiency, method, power,

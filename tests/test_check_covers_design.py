@@ -1,0 +1,67 @@
+"""`check` exits 2 on every input `design` refuses before optimising: both commands run the one
+validation (`api.check`), so exit 0 from `check` means `design` will not refuse the input.
+
+The bad case files of tests/test_case_errors.py and tests/test_case_limits.py are run through
+`check` there; here the given designs and options of tests/test_cli_refusals.py, and the
+cases `check` once passed."""
+
+import pytest
+
+from disteco.cli import main
+
+from conftest import EXAMPLES
+from test_cli_refusals import REFUSALS
+
+BENZENE = (EXAMPLES / "aromatics_binary.toml").read_text()
+ETHANOL = (EXAMPLES / "ethanol_water.toml").read_text()
+
+# Cases `check` once passed and `design` refused (text, fragment of the message): design is run
+# on these too, and both must print the same error line.
+BEFORE_OPTIMISING = [
+    (BENZENE.replace("distillate_light_key_fraction = 0.985", "distillate_light_key_fraction = 0.3"),
+     "at or below the feed's 0.42"),
+    (BENZENE.replace("distillate_light_key_fraction = 0.985",
+                     'light_key = "toluene"\ndistillate_light_key_fraction = 0.985'), "swap the keys"),
+    (ETHANOL.replace("distillate_light_key_fraction = 0.80", "distillate_light_key_fraction = 0.95"),
+     "beyond the minimum-boiling azeotrope of ethanol and water"),
+    (BENZENE.replace("cost_year = 2023", "cost_year = 2030"), "economics.cost_year: 2030"),
+    (BENZENE.replace("cost_year = 2023", 'cost_year = 2023\ncurrency = "EUR"'), "economics.currency"),
+]
+
+
+def _run(tmp_path, capsys, command, text, *arguments):
+    case = tmp_path / "case.toml"
+    case.write_text(text)
+    out = ["-o", str(tmp_path / "out"), "-q"] if command == "design" else []
+    code = main([command, str(case), *out, *arguments])
+    return code, capsys.readouterr().err.strip().splitlines()
+
+
+@pytest.mark.parametrize("text, fragment", BEFORE_OPTIMISING, ids=range(len(BEFORE_OPTIMISING)))
+def test_check_refuses_what_design_refuses_with_the_same_line(tmp_path, capsys, text, fragment):
+    design_code, design_err = _run(tmp_path, capsys, "design", text)
+    check_code, check_err = _run(tmp_path, capsys, "check", text)
+    assert design_code == check_code == 2
+    assert check_err == design_err and len(check_err) == 1
+    assert fragment in check_err[0]
+
+
+@pytest.mark.parametrize("arguments, option, fragment", REFUSALS)
+def test_check_takes_designs_options_and_names_them(tmp_path, capsys, arguments, option, fragment):
+    """The given designs and optimiser options that design refuses (tests/test_cli_refusals.py)."""
+    code, err = _run(tmp_path, capsys, "check", BENZENE, *arguments.split())
+    assert code == 2
+    assert len(err) == 1 and err[0].startswith(f"error: {option}: ") and fragment in err[0]
+
+
+def test_a_valid_case_and_design_pass_check(tmp_path, capsys):
+    """Exit 0 with the minima, the stage bound and the given design against the fitted minima
+    (regression values of the benzene example that guard against change: Fenske 9.40 stages,
+    Underwood 1.59 on the fitted forms)."""
+    code = main(["check", str(EXAMPLES / "aromatics_binary.toml"), "--reflux", "2", "--stages", "25",
+                 "--feed-stage", "12", "--scenario", "reference"])
+    out = capsys.readouterr().out
+    assert code == 0
+    assert "Given design: reflux ratio 2 [-], 25 stages, feed on stage 12" in out
+    assert "(1.59, 9.40 stages)" in out
+    assert "Case file is valid. design with these options will not refuse it before optimising." in out

@@ -1,0 +1,44 @@
+"""Warnings once: repeats that differ only in their numbers are one (the reported design's kept),
+grouped by kind in order of importance; the console shows what bears on the design and counts the rest."""
+
+from disteco._base.validity import OutOfRange, ValidityRange
+from disteco.reports.notes import BOUND_NOTE, console_warnings, kind_of, ordered_warnings
+
+TRAY_AREA = ValidityRange("sieve trays (cost curve)", "tray area", 0.07, 12.3, "m^2", "cost data")
+
+
+def extrapolated(area: float) -> str:
+    found: list[str] = []
+    TRAY_AREA.check(area, OutOfRange.WARN, found)
+    return "trays: " + found[0]
+
+
+MODEL_PRICE, REPORTED_PRICE = extrapolated(13.01), extrapolated(13.2)
+PUMP = ("reflux pump: extrapolated: Corripio pump efficiency: volumetric flow = 0.0004 m^3/s is outside the valid "
+        "range 0.003155 to 0.3155 m^3/s; the efficiency is taken at 0.003155 m^3/s, the nearer end of the range")
+SHORT = "the given design falls 1.6 % short of a product specification on the optimiser's fitted forms"
+TALL = "column tangent length 62 m is above a practical single shell of 50 m"
+
+
+def test_repeats_differing_in_numbers_are_one_with_the_last_number():
+    """The model's price (13.01 m2) and the reported re-price (13.2 m2) of the same trays: one
+    warning, the reported one; the pump rule of two scenarios' optima: one."""
+    assert MODEL_PRICE != REPORTED_PRICE
+    found = ordered_warnings([MODEL_PRICE, PUMP, PUMP.replace("0.0004", "0.0005"), REPORTED_PRICE])
+    assert found == (REPORTED_PRICE, PUMP.replace("0.0004", "0.0005"))
+
+
+def test_ordered_by_importance_and_the_console_counts_the_notes():
+    found = ordered_warnings([PUMP, TALL, REPORTED_PRICE, SHORT])
+    assert found == (SHORT, TALL, PUMP, REPORTED_PRICE)  # within a kind, in the order found
+    assert [kind_of(w).name for w in found[:2]] == ["design not vouched for", "sizing and mechanical"]
+    shown, more = console_warnings(found)
+    assert shown == (SHORT, TALL) and more == 2
+
+
+def test_reflux_advice_a_bound_explains_is_a_note_not_advice():
+    advice = "design at 3.15 x the energy-balance minimum reflux; consider more stages for a control margin"
+    assert ordered_warnings([advice]) == (advice,)
+    found = ordered_warnings([advice, TALL], bound=True)
+    assert found == (TALL, BOUND_NOTE + advice)
+    assert console_warnings(found) == ((TALL,), 1)

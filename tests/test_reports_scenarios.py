@@ -155,3 +155,20 @@ def test_workbook_and_plots_carry_the_scenarios(tmp_path):
     assert titles[:3] == ["Optimum design of each price scenario",
                           "TAC of each scenario's design under each scenario's prices",
                           "Extra TAC of building for the wrong prices"]
+
+
+def test_console_shows_each_optimum_and_the_cross_table():
+    from disteco.reports.text_scenarios import cross_lines, scenario_lines
+
+    optima, cross, _ = scenario_study()
+    lines = scenario_lines(optimum_parts(optima[0][1], scenarios=optima, cross=cross))
+    optimum_rows = lines[3:3 + len(SCENARIOS)]
+    rows = {line.split()[0]: line.split() for line in optimum_rows}
+    for name, o in optima:
+        assert float(rows[name][1]) == pytest.approx(o.best.reflux_ratio, abs=5e-4)
+        assert int(rows[name][3]) == o.best.stages
+    assert lines[lines.index(next(l for l in lines if l.startswith("Extra TAC"))) + 2].split()[1] == "0"
+    tac_rows = cross_lines(cross)[3:3 + len(SCENARIOS)]
+    assert [float(v.replace(",", "")) for v in tac_rows[1].split()[1:]] == pytest.approx(cross.tac[1], abs=0.5)
+    assert scenario_lines(optimum_parts(optima[0][1], scenarios=optima[:1])) == []
+    assert "-0" not in "".join(cross_lines(CrossTable(("a", "b"), ((100.0, 200.0), (99.9999, 200.0)), "USD")))

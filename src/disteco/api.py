@@ -8,7 +8,6 @@ from __future__ import annotations
 from contextlib import AbstractContextManager
 from dataclasses import dataclass, replace
 from pathlib import Path
-from typing import Callable
 
 from ._base.errors import CaseError, CostDataError
 from .case import Case, load_case
@@ -23,6 +22,7 @@ from .reports.design_result import DesignResult
 from .reports.figures import write_design_figures
 from .reports.files import ClaimedFolder, claim_folder, write_json
 from .reports.json_result import result_json
+from .reports.progress import Progress, ProgressPlan, run_steps
 from .reports.tables_design import ReportParts, optimum_parts
 from .reports.tables_scenarios import CrossTable
 from .reports.workbook import write_workbook
@@ -33,8 +33,6 @@ RESULT_FILE = "result.json"
 WORKBOOK_FILE = "design.xlsx"
 FIGURE_FOLDER = "figures"
 OUTPUT_SET = (RESULT_FILE, WORKBOOK_FILE, FIGURE_FOLDER)  # what a run owns in its output folder
-
-Progress = Callable[[str, int, int], None]  # (what is being done, steps done, steps in all)
 
 
 @dataclass(frozen=True)
@@ -83,39 +81,49 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
-    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done.
+    (see :mod:`disteco.optimisation.options`); ``progress`` is called with a
+    :class:`~disteco.reports.progress.ProgressStep` as each step of work starts, and once at the end.
     """
-    report = progress or (lambda what, done, total: None)
     mixture = mixture_of(case)
     mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
     data = cost_data_of(case)
     names = resolve_scenarios(data, scenarios or case.economics.scenarios)
     summary = check(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
-    total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
-    report("shortcut design and stage profile", 0, total)
+    plan = ProgressPlan(run_steps(len(names), given is not None), progress)
+    plan.start("shortcut design and stage profile")
     stages = design_stages(mixture, feed, case.products, case.column)
+    plan.finish()
     sizing = SizingOptions(light_key=case.products.light_key, heavy_key=case.products.heavy_key)
     if given is not None:
-        report(f"pricing the given design under '{names[0]}'", 1, total)
+        plan.start(f"pricing the given design under '{names[0]}'")
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
                                      given.feed_stage, options, sizing, names[0])
+        plan.finish()
+        plan.start("checking the design on thermo (energy balances, minimum reflux)")
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
+        plan.finish()
+        plan.end()
         parts = _checked(_evaluation_parts(evaluation, data), checks)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings, parts))
     optima, curves, checked = [], [], []
     for k, name in enumerate(names):
-        report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
+        plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
+        plan.finish(optimum.solver.configurations_solved)
         optima.append((name, optimum))
+        plan.start(f"checking the '{name}' optimum on thermo" + (" (with minimum reflux and fit)" if k == 0 else ""))
         checked.append((name, thermo_checks(case, mixture, feed, data, optimum.best, stages, options, sizing, name,
                                             full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)))
-        report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
+        plan.finish()
+        plan.start(f"TAC against reflux ratio under '{name}'")
         curves.append((name, reflux_curve(case, mixture, feed, data, optimum, stages.table, options,
                                                  sizing, name)))
-    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
+        plan.finish()
+    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
+    plan.end()
     best = optima[0][1]
     checks = checked[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
@@ -155,7 +163,7 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
                        coefficients=sequential.coefficients if sequential else ())
 
 
-def _cross_table(case, mixture, feed, data, options, sizing, optima, report, done, total) -> CrossTable | None:
+def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: ProgressPlan) -> CrossTable | None:
     """Each scenario's optimum priced by the model under every other scenario's prices."""
     if len(optima) < 2:
         return None
@@ -168,10 +176,10 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, report, don
             if i == j:
                 row.append(best.tac)
                 continue
-            report(f"pricing the '{name_i}' design under '{name_j}'", done, total)
-            done += 1
+            plan.start(f"pricing the '{name_i}' design under the prices of '{name_j}'")
             evaluation = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages,
                                          best.feed_stage, options, sizing, name_j, problem=optimum_i.problem)
+            plan.finish()
             row.append(evaluation.tac)
         rows.append(tuple(row))
     return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)

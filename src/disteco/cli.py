@@ -9,7 +9,6 @@ import argparse
 import signal
 import sys
 import threading
-import time
 import traceback
 from contextlib import contextmanager
 from pathlib import Path
@@ -55,18 +54,6 @@ def _parser() -> argparse.ArgumentParser:
     return parser
 
 
-class ProgressLine:
-    """Prints which step a run is on, how far it is and an estimate of the time left (to stderr)."""
-
-    def __init__(self):
-        self.start = time.monotonic()
-
-    def __call__(self, what: str, done: int, total: int) -> None:
-        elapsed = time.monotonic() - self.start
-        left = f", about {elapsed / done * (total - done):.0f} s left" if done else ""
-        print(f"[{done}/{total}] {what} (elapsed {elapsed:.0f} s{left})", file=sys.stderr, flush=True)
-
-
 def _given(args):
     from ._base.errors import CaseError
     from .api import GivenDesign
@@ -106,6 +93,7 @@ def _as_option(exc):
 
 def _run(args) -> int:
     from . import api
+    from .reports.progress import ProgressDisplay
     from .reports.text import cautions_text, console_title, design_text, mixture_text
 
     if args.command == "design":  # option mistakes are found before the case is read
@@ -116,10 +104,10 @@ def _run(args) -> int:
         print(mixture_text(api.check(case)))
         print("Case file is valid.")
         return EXIT_OK
-    progress = None if args.quiet else ProgressLine()
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
-        result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
-                            progress=progress)
+        with ProgressDisplay() as display:
+            result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
+                                progress=None if args.quiet else display)
         print(f"Case: {console_title(case.title)}")
         print(mixture_text(result.mixture))
         print()

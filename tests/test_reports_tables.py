@@ -20,8 +20,9 @@ from disteco.costing import cost_column, load_cost_data
 from disteco.costing.from_sizing import cost_input
 from disteco.properties import build_mixture, feed_state, summarise_mixture
 from disteco.reports.design_result import DesignResult
+from disteco.reports.plots import operating_series
 from disteco.reports.tables import (Column, Series, Table, case_table, components_table, feed_table,
-                                    mixture_table, operating_series, stage_profile_table, text)
+                                    mixture_table, stage_profile_table, text)
 from disteco.reports.tables_costs import (capital_table, column_table, equipment_table, exchangers_table,
                                           provenance_table, tac_breakdown_table, tac_table, utilities_table)
 from disteco.reports.tables_design import ReportParts, design_plots, summary_table

@@ -11,9 +11,9 @@ from ..properties import BinaryDiagram, MixtureSummary
 from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
-from .tables import (Cell, Plot, Table, composition_profile_plot, design_items, quantity_table,
-                     temperature_profile_plot, xy_plot)
-from .tables_scenarios import CrossTable, stages_duty_plot, tac_curve_plot
+from .plots import composition_profile_plot, stages_duty_plot, tac_curve_plot, temperature_profile_plot, xy_plot
+from .tables import Cell, Plot, Table, design_items, quantity_table
+from .tables_scenarios import CrossTable
 
 
 @dataclass(frozen=True)
@@ -85,22 +85,10 @@ def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...
     if parts.profile is not None:
         plots += [temperature_profile_plot(parts.profile), composition_profile_plot(parts.profile, names)]
     if parts.curve is not None:
-        plots.append(xy_plot(parts.curve, mixture.light_key, parts.stepped))
-    for scenario, designs in parts.tac_curves:
-        if designs:
-            plots += [tac_curve_plot(designs, scenario), stages_duty_plot(designs, scenario)]
-    return _distinct(plots)
-
-
-def _distinct(plots: list[Plot]) -> tuple[Plot, ...]:
-    """Number repeated plot names (two scenario names can give one file name)."""
-    seen: dict[str, int] = {}
-    out = []
-    for plot in plots:
-        count = seen.get(plot.name, 0)
-        seen[plot.name] = count + 1
-        if count:
-            plot = Plot(f"{plot.name}_{count + 1}", plot.title, plot.x_label, plot.y_label, plot.series,
-                        plot.x_limits, plot.y_limits, plot.stage_axis)
-        out.append(plot)
-    return tuple(out)
+        plots.append(xy_plot(parts.curve, mixture, parts.stepped, parts.profile))
+    if parts.optimum is not None and any(designs for _, designs in parts.tac_curves):
+        minimum = parts.checks.minimum if parts.checks is not None else None
+        energy_balance = minimum.reflux_ratio if minimum is not None else None
+        plots += [tac_curve_plot(parts.tac_curves, parts.optimum, energy_balance),
+                  stages_duty_plot(parts.tac_curves, parts.optimum, energy_balance)]
+    return tuple(plots)

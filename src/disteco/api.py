@@ -15,6 +15,7 @@ from .costing import CostData, load_cost_data, resolve_cost_year, resolve_scenar
 from .optimisation.curves import reflux_curve
 from .optimisation.design import evaluate_design, optimise_design
 from .optimisation.given import check_decisions
+from .optimisation.options import OPTIONS
 from .optimisation.results import DesignEvaluation, OptimumDesign
 from .optimisation.thermo_checks import ThermoChecks, thermo_checks
 from .properties import Mixture, MixtureSummary, build_mixture, feed_state, summarise_mixture
@@ -107,7 +108,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         parts = _checked(_evaluation_parts(evaluation, data), checks)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
-                                               + mixture.warnings, parts))
+                                               + mixture.warnings, parts), options=_given_options(options))
     optima, curves, checked = [], [], []
     for k, name in enumerate(names):
         plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
@@ -134,7 +135,17 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     extra += mixture.warnings
     parts = _checked(parts, checks)
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
-                        warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts))
+                        warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts),
+                        options=_given_options(options))
+
+
+def _given_options(options) -> tuple[tuple[str, object], ...]:
+    """The optimiser options the caller set, for the reports (the others kept their defaults)."""
+    if not options:
+        return ()
+    if isinstance(options, dict):
+        return tuple(sorted(options.items()))
+    return tuple(sorted((name, value) for name, value in options.value().items() if value != OPTIONS[name]))
 
 
 def _checked(parts: ReportParts, checks: ThermoChecks) -> ReportParts:

@@ -196,7 +196,7 @@ def case_table(case: Case) -> Table:
         ("Heavy-key specification", _end_spec(p.heavy_key_spec, names[p.heavy_key], "distillate")),
         ("Cost data", str(case.economics.cost_data) if case.economics.cost_data else "bundled"),
         ("Cost year [year]", case.economics.cost_year if case.economics.cost_year is not None else "newest"),
-        ("Scenarios", ", ".join(case.economics.scenarios) or "default"),
+        ("Scenarios named in the case file", ", ".join(case.economics.scenarios) or "none named (reference)"),
         ("Currency", case.economics.currency),
     ]
     return quantity_table("Case", items)

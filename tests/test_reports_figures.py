@@ -119,13 +119,27 @@ def test_tac_figure_overlays_the_scenarios(scenario_plots):
             == best.reflux_ratio
     r_min = optima[0][1].minimum_reflux_ratio
     assert tuple(lines[f"Minimum reflux, Underwood ({r_min:.3f})"].get_xdata()) == (r_min, r_min)
-    counts = [t.get_text() for t in axes.texts]
-    assert counts == [str(d.stages) for _, designs in curves for d in sorted(designs, key=lambda d: d.reflux_ratio)]
+    assert [(n.x, n.y, n.text) for n in plot.notes] == [(d.reflux_ratio, d.cost.tac_per_year, str(d.stages))
+                                                     for _, designs in curves
+                                                     for d in sorted(designs, key=lambda d: d.reflux_ratio)]
+    drawn = [(t.xy, t.get_text()) for t in axes.texts]  # crowded labels are left out, none invented
+    assert drawn and set(drawn) <= {((n.x, n.y), n.text) for n in plot.notes}
     (top,) = axes.child_axes
     assert top.get_xlabel() == "R / R_min, Underwood [-]"
     forward, inverse = top._functions  # R -> R/R_min and back (matplotlib keeps them on the secondary axis)
     assert forward(np.array([r_min, 2.0 * r_min])) == pytest.approx([1.0, 2.0], rel=1e-12)
     assert inverse(np.array([1.5])) == pytest.approx([1.5 * r_min], rel=1e-12)
+
+
+def test_crowded_notes_are_thinned_per_series():
+    from disteco.reports.figures import readable_notes
+    from disteco.reports.tables import Note, Plot, Series
+
+    notes = (Note(1.0, 5.0, "30", "aaaaaa"), Note(1.01, 5.0, "29", "aaaaaa"), Note(1.5, 5.0, "20", "aaaaaa"),
+             Note(1.01, 3.0, "29", "bbbbbb"))
+    plot = Plot("p", "t", "R [-]", "TAC [USD/year]", (Series("s", (1.0, 2.0), (1.0, 2.0)),), x_limits=(1.0, 2.0),
+                notes=notes)
+    assert [n.text for n in readable_notes(plot)] == ["30", "20", "29"]  # 1.01 is 1 % of the range from 1.0
 
 
 def test_tac_figure_takes_the_energy_balance_minimum_for_its_top_scale(scenario_plots):

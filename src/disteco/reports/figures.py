@@ -18,12 +18,13 @@ from matplotlib.ticker import MaxNLocator, StrMethodFormatter  # noqa: E402
 
 from .files import write_atomically  # noqa: E402
 from ..properties import MixtureSummary  # noqa: E402
-from .tables import Plot, Series  # noqa: E402
+from .tables import Note, Plot, Series  # noqa: E402
 from .tables_design import ReportParts, design_plots  # noqa: E402
 
 FIGURE_SIZE = (6.4, 4.6)  # inch, without a legend below the axes
 LEGEND_INSIDE = 6  # series a legend inside the axes holds; a longer one goes below
 LEGEND_ROW = 0.17  # inch of figure height per legend row below the axes
+NOTE_GAP = 0.025  # least distance between two notes of one series, as a fraction of the x range
 DPI = 150
 
 
@@ -31,6 +32,23 @@ def literal(text: str) -> str:
     """``text`` with every dollar sign escaped, so matplotlib draws it as written and never reads
     a pair of them (in a scenario name or a currency, say) as mathematical text."""
     return text.replace("$", r"\$")
+
+
+def readable_notes(plot: Plot, gap: float = NOTE_GAP) -> list[Note]:
+    """The notes that do not crowd one another: along each colour, a note closer than ``gap``
+    (a fraction of the x range) to the last one kept is left out; the data table holds them all."""
+    if not plot.notes:
+        return []
+    low, high = plot.x_limits or (min(n.x for n in plot.notes), max(n.x for n in plot.notes))
+    span = (high - low) or 1.0
+    kept: list[Note] = []
+    last: dict[str | None, float] = {}
+    for note in sorted(plot.notes, key=lambda n: (n.colour or "", n.x)):
+        if note.colour in last and (note.x - last[note.colour]) / span < gap:
+            continue
+        kept.append(note)
+        last[note.colour] = note.x
+    return kept
 
 
 def _draw_series(axes, series: Series, colour: str, dots: bool) -> None:
@@ -59,7 +77,7 @@ def draw(plot: Plot) -> Figure:
     axes = figure.add_subplot()
     for k, series in enumerate(plot.series):
         _draw_series(axes, series, "#" + plot.colour_of(k), plot.stage_axis)
-    for note in plot.notes:
+    for note in readable_notes(plot):
         # upright text above the point: neighbouring points close in x keep their labels apart
         axes.annotate(literal(note.text), (note.x, note.y), xytext=(0, 6), textcoords="offset points",
                       ha="center", va="bottom", rotation=90, fontsize=6.5, color="#" + (note.colour or "333333"))

@@ -34,6 +34,20 @@ def round_up(value: float) -> float:
     return math.ceil(value / quarter) * quarter
 
 
+def padded_limits(values, pad: float = 0.04) -> tuple[float, float]:
+    """Axis limits a little beyond ``values``, on steps of a tenth of their span's power of ten.
+
+    >>> padded_limits([1.59, 3.18])
+    (1.5, 3.3)
+    """
+    low, high = min(values), max(values)
+    span = high - low if high > low else max(abs(high), 1.0)
+    step = 10.0 ** math.floor(math.log10(span)) / 10.0
+    digits = max(0, -math.floor(math.log10(step)))
+    return (round(math.floor((low - pad * span) / step) * step, digits),
+            round(math.ceil((high + pad * span) / step) * step, digits))
+
+
 def _feed_stage_line(profile: StageProfile, low: float, high: float) -> Series:
     return Series(f"Feed stage {profile.feed_stage}", (low, high), (float(profile.feed_stage),) * 2, "guide", GUIDE)
 
@@ -175,7 +189,7 @@ def tac_curve_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], opt
     all_R = [v for s in series for v in s.x]
     return Plot("tac_vs_reflux", "Total annualised cost against reflux ratio" + (" by price scenario" if several
                 else f" ({first_name})"), "Reflux ratio R [-]", f"Cost [{currency}/year]", tuple(series),
-                x_limits=nice_limits(all_R), y_limits=y_limits, notes=tuple(notes),
+                x_limits=padded_limits(all_R), y_limits=y_limits, notes=tuple(notes),
                 top_axis=SecondAxis(f"R / R_min, {basis} [-]", reference))
 
 
@@ -220,7 +234,7 @@ def stages_duty_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], o
     q_min = duty_at_reflux(curves[0][1], reference)
     if q_min is not None and q_min > 0.0:
         duties.append(q_min / KW)
-    x_limits = nice_limits(duties)
+    x_limits = padded_limits(duties)
     y_limits = (0.0, round_up(max(stages) * 1.1))
     series.append(Series(f"Minimum stages, Fenske ({optimum.minimum_stages:.1f})", x_limits,
                          (optimum.minimum_stages,) * 2, "guide", GUIDE))

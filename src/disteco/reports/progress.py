@@ -13,6 +13,7 @@ line per step otherwise (a log file, a pipe), as before.
 
 from __future__ import annotations
 
+import shutil
 import sys
 import threading
 import time
@@ -153,7 +154,10 @@ class ProgressDisplay:
         if self._bar is None:
             from tqdm import tqdm
 
-            self._bar = tqdm(total=step.total, file=self.stream, unit="step", dynamic_ncols=True, leave=True,
+            # A terminal that reports no size (some pseudo-terminals) would get no bar at all: 100 x 24 then.
+            size = shutil.get_terminal_size((100, 24))
+            self._bar = tqdm(total=step.total, file=self.stream, unit="step", ncols=size.columns, nrows=size.lines,
+                             desc=step.what, initial=step.done, postfix=self.left_text(), leave=True,
                              bar_format="{desc} |{bar}| {n_fmt}/{total_fmt} steps [{elapsed}{postfix}]")
             self._ticker = threading.Thread(target=self._tick, daemon=True)
             self._ticker.start()

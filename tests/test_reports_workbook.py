@@ -318,6 +318,18 @@ def test_capital_fits_one_screen_and_keeps_its_sources_apart(book):
     assert len(first_headers) <= 9 and "Source" not in first_headers
 
 
+def test_chart_data_formats_follow_the_axis_units(tmp_path):
+    from disteco.reports.tables import Plot, Series
+    from disteco.reports.workbook import WorkbookContent
+
+    plot = Plot("tac", "TAC", "Reflux ratio R [-]", "Cost [USD/year]", (Series("TAC", (1.6, 1.8), (873048.4, -0.3)),))
+    path = save_workbook(WorkbookContent((), (plot,)), tmp_path / "charts.xlsx")
+    ws = openpyxl.load_workbook(path)[DATA_SHEET]
+    assert [ws.cell(r, 1).number_format for r in (4, 5)] == ["0.000", "0.000"]
+    assert [ws.cell(r, 2).number_format for r in (4, 5)] == ["#,##0", "#,##0"]
+    assert ws.cell(5, 2).value == 0.0  # no "-0"
+
+
 def test_a_tiny_negative_is_written_as_zero(tmp_path):
     from disteco.reports.tables import Column, Table
     from disteco.reports.workbook import Sheet, WorkbookContent

@@ -12,8 +12,8 @@ from openpyxl.chart.layout import Layout, ManualLayout
 from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.worksheet import Worksheet
 
-from .tables import Plot, Series
-from .workbook_cells import TITLE_FONT, put_text, put_value
+from .tables import MIXED, Plot, Series
+from .workbook_cells import LABEL_UNIT, MONEY_UNIT, TITLE_FONT, put_text, put_value
 
 CHART_WIDTH = 17.0  # cm
 CHART_HEIGHT = 11.0  # cm
@@ -32,8 +32,8 @@ def write_plot_data(ws: Worksheet, plot: Plot, left: int) -> list[tuple[Referenc
         put_text(ws, 3, column, plot.x_label)
         put_text(ws, 3, column + 1, plot.y_label)
         for i, (x, y) in enumerate(zip(series.x, series.y)):
-            put_value(ws, 4 + i, column, x, "0.0000")
-            put_value(ws, 4 + i, column + 1, y, "0.0000")
+            put_value(ws, 4 + i, column, x, MIXED, axis_unit(plot.x_label))
+            put_value(ws, 4 + i, column + 1, y, MIXED, axis_unit(plot.y_label))
         last = 3 + max(len(series.x), 1)
         refs.append((Reference(ws, min_col=column, min_row=4, max_row=last),
                      Reference(ws, min_col=column + 1, min_row=4, max_row=last)))
@@ -41,6 +41,18 @@ def write_plot_data(ws: Worksheet, plot: Plot, left: int) -> list[tuple[Referenc
         ws.column_dimensions[get_column_letter(column + 1)].width = 16.0
         column += 2
     return refs
+
+
+def axis_unit(label: str) -> str | None:
+    """The unit in brackets at the end of an axis label."""
+    found = LABEL_UNIT.search(label)
+    return found.group(1) if found else None
+
+
+def axis_format(label: str) -> str:
+    """Axis numbers: money and duties with thousands separators, others as the spreadsheet sees fit."""
+    unit = axis_unit(label)
+    return "#,##0" if unit is not None and (MONEY_UNIT.fullmatch(unit) or unit == "kW") else "General"
 
 
 def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> ScatterChart:
@@ -59,8 +71,8 @@ def scatter_chart(plot: Plot, refs: list[tuple[Reference, Reference]]) -> Scatte
     chart.y_axis.delete = False
     chart.x_axis.majorGridlines = None
     # Axis labels in a general format, not the four decimals of the data cells.
-    chart.x_axis.number_format = "General"
-    chart.y_axis.number_format = "General"
+    chart.x_axis.number_format = axis_format(plot.x_label)
+    chart.y_axis.number_format = axis_format(plot.y_label)
     chart.x_axis.axPos = "b"
     if plot.x_limits:
         chart.x_axis.scaling.min, chart.x_axis.scaling.max = plot.x_limits

@@ -179,14 +179,16 @@ def test_scenario_figures_are_not_blank(scenario_plots, tmp_path):
         assert float(np.var(imread(path)[..., :3])) > 1e-3, path.name
 
 
-def test_user_text_is_drawn_literally():
-    from disteco.reports.tables import Note, Plot, Series
+def test_notes_and_the_second_scale_are_drawn_literally():
+    """Dollar signs in notes and in the top axis's label are drawn as written, never as mathematics
+    (titles and series names: tests/test_output_set.py)."""
+    from disteco.reports.tables import Note, Plot, SecondAxis, Series
 
-    plot = Plot("p", "$x$ costs $5", "a [-]", "b [-]", (Series("$1 and $2", (0.0, 1.0), (0.0, 1.0)),),
-                notes=(Note(0.5, 0.5, "$3$"),))
+    plot = Plot("p", "t", "a [-]", "b [-]", (Series("s", (0.0, 1.0), (0.0, 1.0)),), notes=(Note(0.5, 0.5, "$3$"),),
+                top_axis=SecondAxis("$R$ / $R_min$ [-]", 2.0))
     axes = draw(plot).axes[0]
-    assert axes.get_title() == r"\$x\$ costs \$5"
-    assert axes.get_lines()[0].get_label() == r"\$1 and \$2" and axes.texts[0].get_text() == r"\$3\$"
+    assert axes.texts[0].get_text() == r"\$3\$"
+    assert axes.child_axes[0].get_xlabel() == r"\$R\$ / \$R_min\$ [-]"
 
 
 def test_design_figures_follow_the_parts(tmp_path):

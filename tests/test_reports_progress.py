@@ -6,8 +6,8 @@ import io
 
 import pytest
 
-from disteco.reports.progress import (CHECKS, CURVE, PRICING, SEARCH, SHORTCUT, ProgressDisplay, ProgressPlan,
-                                      ProgressStep, run_steps)
+from disteco.reports.progress import (CHECKS, CURVE, PRICING, SEARCH, SHORTCUT, VERIFY, ProgressDisplay,
+                                      ProgressPlan, ProgressStep, run_steps)
 
 
 class Clock:
@@ -23,6 +23,7 @@ class Clock:
 def test_steps_of_a_run():
     assert run_steps(1, given=False) == [SHORTCUT, SEARCH, CHECKS, CURVE]
     assert run_steps(3, given=False).count(PRICING) == 6  # every design under the other two price sets
+    assert run_steps(2, given=False)[4:7] == [SEARCH, VERIFY, CURVE]  # the full checks on the first only
     assert run_steps(2, given=True) == [SHORTCUT, PRICING, CHECKS]
 
 
@@ -43,8 +44,8 @@ def test_estimate_from_measured_times_and_counter_reaching_total():
     clock.now += 30.0
     plan.finish()
     plan.start("search b")
-    # search 40 + checks 10 + curve 30 + two cross pricings of one configuration (2 s) each
-    assert seen[-1].seconds_left == pytest.approx(40.0 + 10.0 + 30.0 + 2 * 2.0)
+    # search 40 + verification (no estimate needed) + curve 30 + two cross pricings of one configuration (2 s)
+    assert seen[-1].seconds_left == pytest.approx(40.0 + 0.0 + 30.0 + 2 * 2.0)
     for what in ("search b", "checks b", "curve b", "cross 1", "cross 2"):
         if what != "search b":
             plan.start(what)

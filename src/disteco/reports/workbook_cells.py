@@ -21,6 +21,7 @@ HEADER_FILL = PatternFill("solid", fgColor="2E6A80")
 WRAP = Alignment(wrap_text=True, vertical="top")
 LABEL_UNIT = re.compile(r"\[([^\]]+)\]$")
 MONEY_UNIT = re.compile(r"[A-Z]{3}(/year)?")  # a currency code, per year for running costs
+SMALL_POWER = 100.0  # kW; below it a power or duty is shown to a tenth
 # Precision of labelled values by unit: what the quantity is known to, not what the float holds.
 UNIT_FORMATS = {"kW": "#,##0", "MW": "#,##0.00", "h/year": "#,##0", "year": "0", "kPa": "0.00",
                 "kPa gauge": "0.0", "degC": "0.0", "kmol/h": "0.00", "m": "0.00", "m^2": "0.0", "m^3": "0.00",
@@ -56,6 +57,8 @@ def number_format_of(value: float | int, unit: str | None = None) -> str:
     if unit is not None:
         if MONEY_UNIT.fullmatch(unit):
             return "#,##0"
+        if unit == "kW" and abs(value) < SMALL_POWER:
+            return "0.0"  # a pump's few kW keep their tenth
         if unit in UNIT_FORMATS:
             return UNIT_FORMATS[unit]
     size = abs(value)

@@ -19,7 +19,7 @@ CHART_WIDTH = 17.0  # cm
 CHART_HEIGHT = 11.0  # cm
 GRID_COLUMNS = 2  # charts side by side on the charts sheet
 ROWS_PER_CHART = 24  # spreadsheet rows (0.53 cm each) a chart of CHART_HEIGHT covers, with a gap
-COLUMNS_PER_CHART = 10  # spreadsheet columns (1.7 cm each at the default width) a chart covers, with a gap
+COLUMNS_PER_CHART = 11  # spreadsheet columns (1.69 cm each at the default width) a 17 cm chart covers, with a gap
 
 
 def write_plot_data(ws: Worksheet, plot: Plot, left: int) -> list[tuple[Reference, Reference]]:

@@ -354,3 +354,19 @@ def test_inputs_show_what_was_run(tmp_path):
     assert run["Optimiser option max_stages"] == 40 and run["Optimiser option time_limit"] == 30.0
     assert run["Cost year of capital and utilities [year]"] == parts.cost.cost_year
     assert _quantities(book["Inputs"], "Case")["Scenarios named in the case file"] == "reference"
+
+
+def test_inputs_of_a_priced_design_show_the_design_given():
+    from dataclasses import replace
+
+    from disteco.reports.tables_design import run_table
+
+    from test_reports_scenarios import scenario_study
+
+    _, parts = design_parts()
+    given = scenario_study()[2][0][1][0]  # a design of the reflux grid, as if given on the command line
+    rows = dict(run_table(replace(parts, scenarios=()), (), given).rows)
+    assert rows["Mode"] == "a given design priced" and rows["Price scenarios run"] == "reference"
+    assert (rows["Given reflux ratio [-]"], rows["Given stages, reboiler included [-]"],
+            rows["Given feed stage, from the top [-]"]) == (given.reflux_ratio, given.stages, given.feed_stage)
+    assert rows["Optimiser options"] == "defaults"

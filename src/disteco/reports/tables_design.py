@@ -78,21 +78,22 @@ def summary_table(title: str, parts: ReportParts) -> Table:
     return quantity_table("Chosen design", items)
 
 
-def run_table(parts: ReportParts, options: tuple[tuple[str, object], ...], given: bool) -> Table:
-    """What was run: the mode, the price scenarios run, the cost year and the optimiser options set."""
+def run_table(parts: ReportParts, options: tuple[tuple[str, object], ...],
+              given: DesignEvaluation | None = None) -> Table:
+    """What was run: the mode (with the ``given`` design priced), the price scenarios run, the cost
+    year and the optimiser options set."""
     if parts.scenarios:
         scenarios = ", ".join(name for name, _ in parts.scenarios)
     else:
         scenarios = parts.cost.scenario if parts.cost is not None else "none priced"
     items: list[tuple[str, Cell]] = [
-        ("Mode", "a given design priced" if given else "lowest-TAC design searched for each price scenario"),
+        ("Mode", "a given design priced" if given is not None else "lowest-TAC design searched for each price scenario"),
         ("Price scenarios run", scenarios)]
     if parts.cost is not None:
         items.append(("Cost year of capital and utilities [year]", parts.cost.cost_year))
-    if given and parts.profile is not None:
-        items += [("Given reflux ratio [-]", parts.profile.reflux_ratio),
-                  ("Given stages, reboiler included [-]", parts.profile.stages),
-                  ("Given feed stage, from the top [-]", parts.profile.feed_stage)]
+    if given is not None:
+        items += [("Given reflux ratio [-]", given.reflux_ratio), ("Given stages, reboiler included [-]", given.stages),
+                  ("Given feed stage, from the top [-]", given.feed_stage)]
     items += [(f"Optimiser option {name}", value if isinstance(value, (int, float)) and not isinstance(value, bool)
                else str(value)) for name, value in options]
     if not options:

@@ -60,7 +60,7 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     if parts.checks is not None and parts.profile is not None:
         minimum = result.stages.minimum_reflux if result.stages is not None else None
         summary.append(checks_table(parts.checks, parts.profile.reflux_ratio, minimum))
-    inputs = [run_table(parts, result.options, result.evaluation is not None), case_table(result.case),
+    inputs = [run_table(parts, result.options, result.evaluation), case_table(result.case),
               mixture_table(result.mixture), components_table(result.mixture), feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:
         inputs.append(provenance_table(parts.cost_data, parts.cost, parts.coefficients))

@@ -65,7 +65,7 @@ def test_plain_lines_when_not_a_terminal():
         display(ProgressStep("TAC against reflux ratio under 'reference'", 3, 4, 130.0))
         display(ProgressStep("done", 4, 4, 0.0))
     lines = stream.getvalue().splitlines()
-    assert lines[0] == "[1/4] searching under 'reference' (elapsed 0 s, time left: estimated after the first search)"
+    assert lines[0] == "[1/4] searching under 'reference' (elapsed 0 s, time left not known yet)"
     assert lines[1] == "[3/4] TAC against reflux ratio under 'reference' (elapsed 1 min 15 s, about 2 min 10 s left)"
     assert lines[2] == "[4/4] done (elapsed 1 min 15 s)"
 

@@ -140,7 +140,7 @@ class ProgressDisplay:
         if step is None or step.done >= step.total:
             return ""
         if step.seconds_left is None:
-            return "time left: estimated after the first search"
+            return "time left not known yet"  # nothing measured for a step still to come
         left = step.seconds_left - (self.clock() - self._step_start)
         return f"about {_duration(left)} left" if left >= 1.0 else "taking longer than estimated"
 

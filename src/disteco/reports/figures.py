@@ -55,6 +55,9 @@ def _draw_series(axes, series: Series, colour: str, dots: bool) -> None:
     label = literal(series.name)
     if series.style == "markers":
         axes.plot(series.x, series.y, linestyle="", marker="o", markersize=4.5, color=colour, label=label)
+    elif series.style == "open_markers":
+        axes.plot(series.x, series.y, linestyle="", marker="o", markersize=7, markerfacecolor="none",
+                  markeredgewidth=1.2, color=colour, label=label)
     elif series.style == "highlight":
         axes.plot(series.x, series.y, linestyle="", marker="D", markersize=8, markerfacecolor=colour,
                   markeredgecolor="#222222", markeredgewidth=0.8, color=colour, label=label, zorder=5)

@@ -223,7 +223,7 @@ def stages_duty_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], o
         ordered = sorted(designs, key=lambda d: d.stages)
         series.append(Series(f"Designs, {name}" if several else "Designs along the reflux ratio",
                              tuple(d.sizes.reboiler_duty / KW for d in ordered),
-                             tuple(float(d.stages) for d in ordered), "markers",
+                             tuple(float(d.stages) for d in ordered), "markers" if k == 0 else "open_markers",
                              PALETTE[(0, 1, 2, 3, 4, 7)[k % 6]]))
     best = optimum.best
     series.append(Series(f"Chosen design: N = {best.stages}, {best.sizes.reboiler_duty / KW:,.0f} kW",

@@ -96,8 +96,9 @@ def _check_cell(title: str, number: int, column: Column, value: Cell) -> None:
 
 # Our own palette (hex RGB), used in turn by the series of a chart and of a PNG figure.
 PALETTE = ("1F5A7A", "D9822B", "3E8E41", "B23A48", "6C4F9C", "8C6D1F", "2A9D8F", "5C5C5C")
-# "guide": a thin dotted reference line (a minimum, an asymptote); "highlight": one large marker (an optimum).
-STYLES = ("line", "markers", "line_markers", "dashed", "guide", "highlight")
+# "guide": a thin dotted reference line (a minimum, an asymptote); "highlight": one large marker (an optimum);
+# "open_markers": rings, so a second set of points on top of a first leaves it visible.
+STYLES = ("line", "markers", "open_markers", "line_markers", "dashed", "guide", "highlight")
 
 
 @dataclass(frozen=True)

@@ -93,14 +93,17 @@ def _chart_series(series: Series, colour: str, x_ref: Reference, y_ref: Referenc
     """One series drawn in its style: line, markers, both, dashed, a dotted guide or one large marker."""
     line = ChartSeries(y_ref, x_ref, title=series.name)
     line.smooth = False
-    if series.style in ("markers", "line_markers", "highlight"):
+    if series.style in ("markers", "open_markers", "line_markers", "highlight"):
         line.marker.symbol = "diamond" if series.style == "highlight" else "circle"
-        line.marker.size = {"markers": 6, "line_markers": 4, "highlight": 9}[series.style]
-        line.marker.graphicalProperties.solidFill = colour
+        line.marker.size = {"markers": 6, "open_markers": 8, "line_markers": 4, "highlight": 9}[series.style]
+        if series.style == "open_markers":
+            line.marker.graphicalProperties.noFill = True
+        else:
+            line.marker.graphicalProperties.solidFill = colour
         line.marker.graphicalProperties.line.solidFill = colour
     else:
         line.marker.symbol = "none"
-    if series.style in ("markers", "highlight"):
+    if series.style in ("markers", "open_markers", "highlight"):
         line.graphicalProperties.line.noFill = True
     else:
         line.graphicalProperties.line.solidFill = colour

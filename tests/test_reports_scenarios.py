@@ -18,8 +18,9 @@ from disteco.optimisation.results import (ColumnSizes, CostBreakdown, CostItem, 
 from disteco.properties import build_mixture
 from disteco.reports.figures import draw
 from disteco.reports.tables_design import design_plots, optimum_parts
+from disteco.reports.plots import tac_curve_plot
 from disteco.reports.tables_scenarios import (CrossTable, cross_tables, optimum_table, scenario_table,
-                                              search_table, tac_curve_plot, tac_curve_table)
+                                              search_table, tac_curve_table)
 from disteco.reports.workbook import write_workbook
 from disteco.sizing import size_column
 from disteco.stages.binary import minimum_reflux, step_stages, total_reflux_stages
@@ -119,13 +120,14 @@ def test_scenario_table_holds_each_optimum():
 
 
 def test_tac_curve_is_capital_plus_utilities():
-    _, _, curves = scenario_study()
+    optima, _, curves = scenario_study()
     name, designs = curves[0]
-    plot = tac_curve_plot(designs, name)
-    capital, utilities, total, lowest = plot.series
+    plot = tac_curve_plot(curves[:1], optima[0][1])
+    capital, utilities, total, lowest = plot.series[:4]
     assert capital.x == tuple(sorted(d.reflux_ratio for d in designs))
     assert [c + u for c, u in zip(capital.y, utilities.y)] == pytest.approx(total.y, rel=1e-12)
     assert lowest.y == (min(total.y),) and lowest.x == (total.x[total.y.index(min(total.y))],)
+    assert plot.title == f"Total annualised cost against reflux ratio ({name})"
     table = tac_curve_table(designs, name)
     assert table.column("TAC [USD/year]") == total.y
     lines = draw(plot).axes[0].get_lines()
@@ -148,8 +150,7 @@ def test_workbook_and_plots_carry_the_scenarios(tmp_path):
                          cross=cross, tac_curves=curves)
     assert full.cost is optima[0][1].sequential.cost and full.profile is optima[0][1].best.profile
     names = [plot.name for plot in design_plots(result.mixture, full)]
-    assert names[3:] == ["tac_vs_reflux_expensive_power_demo", "stages_vs_duty_expensive_power_demo",
-                         "tac_vs_reflux_cheap_steam_demo", "stages_vs_duty_cheap_steam_demo"]
+    assert names[3:] == ["tac_vs_reflux", "stages_vs_duty"]  # every scenario on one figure
     book = openpyxl.load_workbook(write_workbook(result, tmp_path / "design.xlsx", full))
     assert {"Optimiser", "Scenarios"} <= set(book.sheetnames)
     ws = book["Scenarios"]
@@ -157,3 +158,20 @@ def test_workbook_and_plots_carry_the_scenarios(tmp_path):
     assert titles[:3] == ["Optimum design of each price scenario",
                           "TAC of each scenario's design under each scenario's prices",
                           "Extra TAC of building for the wrong prices"]
+
+
+def test_console_shows_each_optimum_and_the_cross_table():
+    from disteco.reports.text_scenarios import cross_lines, scenario_lines
+
+    optima, cross, _ = scenario_study()
+    lines = scenario_lines(optimum_parts(optima[0][1], scenarios=optima, cross=cross))
+    optimum_rows = lines[3:3 + len(SCENARIOS)]
+    rows = {line.split()[0]: line.split() for line in optimum_rows}
+    for name, o in optima:
+        assert float(rows[name][1]) == pytest.approx(o.best.reflux_ratio, abs=5e-4)
+        assert int(rows[name][3]) == o.best.stages
+    assert lines[lines.index(next(l for l in lines if l.startswith("Extra TAC"))) + 2].split()[1] == "0"
+    tac_rows = cross_lines(cross)[3:3 + len(SCENARIOS)]
+    assert [float(v.replace(",", "")) for v in tac_rows[1].split()[1:]] == pytest.approx(cross.tac[1], abs=0.5)
+    assert scenario_lines(optimum_parts(optima[0][1], scenarios=optima[:1])) == []
+    assert "-0" not in "".join(cross_lines(CrossTable(("a", "b"), ((100.0, 200.0), (99.9999, 200.0)), "USD")))

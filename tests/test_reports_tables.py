@@ -20,10 +20,12 @@ from disteco.costing import cost_column, load_cost_data
 from disteco.costing.from_sizing import cost_input
 from disteco.properties import build_mixture, feed_state, summarise_mixture
 from disteco.reports.design_result import DesignResult
+from disteco.reports.plots import operating_series
 from disteco.reports.tables import (Column, Series, Table, case_table, components_table, feed_table,
-                                    mixture_table, operating_series, stage_profile_table, text)
-from disteco.reports.tables_costs import (capital_table, column_table, equipment_table, exchangers_table,
-                                          provenance_table, tac_breakdown_table, tac_table, utilities_table)
+                                    mixture_table, stage_profile_table, text)
+from disteco.reports.tables_costs import (capital_factors_table, capital_sources_table, capital_table, column_table,
+                                          equipment_table, exchangers_table, provenance_table, tac_breakdown_table,
+                                          tac_table, utilities_table)
 from disteco.reports.tables_design import ReportParts, design_plots, summary_table
 from disteco.sizing import size_column
 from disteco.stages.binary import equilibrium_curve, step_stages
@@ -97,7 +99,8 @@ def _tables():
     return [case_table(result.case), components_table(result.mixture), feed_table(result.feed, names),
             stage_profile_table(parts.profile, names), summary_table(result.case.title, parts),
             column_table(parts.sizing), equipment_table(parts.sizing), exchangers_table(parts.sizing),
-            capital_table(cost), utilities_table(cost), tac_table(cost), tac_breakdown_table(cost),
+            capital_table(cost), capital_factors_table(cost), capital_sources_table(cost), utilities_table(cost),
+            tac_table(cost), tac_breakdown_table(cost),
             provenance_table(parts.cost_data, cost, parts.coefficients)]
 
 
@@ -106,7 +109,9 @@ def test_every_number_column_names_its_unit():
         for j, column in enumerate(table.columns):
             if column.is_text:
                 continue
-            if column.is_mixed:  # labelled values: the label on the left of every number carries the unit
+            if column.is_mixed and column.unit == "unit in next column":  # sizes in several units
+                assert all(isinstance(row[j + 1], str) for row in table.rows), table.title
+            elif column.is_mixed:  # labelled values: the label on the left of every number carries the unit
                 for row in table.rows:
                     if not isinstance(row[j], str) and row[j] is not None:
                         assert UNIT.search(row[j - 1]), (table.title, row[j - 1])
@@ -180,11 +185,18 @@ def test_cost_tables_add_up_to_the_cost_summary():
     _, parts = design_parts()
     cost = parts.cost
     capital = capital_table(cost)
+    assert len(capital.columns) <= 9  # one screen wide
     installed = capital.column("Installed cost [USD]")
     assert installed[:-1] == tuple(e.installed for e in cost.items)
     assert installed[-1] == pytest.approx(sum(installed[:-1]), rel=1e-12) == cost.capital_installed
-    assert capital.column("Bare-module factor F_BM [-]")[:-1] == tuple(e.bare_module_factor for e in cost.items)
-    assert all(capital.column("Source")[:-1])
+    assert sum(capital.column("Share of capital [-]")[:-1]) == pytest.approx(1.0, rel=1e-12)
+    factors = capital_factors_table(cost)
+    assert factors.column("Bare-module factor F_BM [-]") == tuple(e.bare_module_factor for e in cost.items)
+    sources = capital_sources_table(cost)
+    assert all(sources.column("Source"))
+    assert sources.column(f"Index {cost.cost_year} [-]") == tuple(e.cost_index for e in cost.items)
+    assert sources.column(f"Purchased cost, {cost.cost_year} [USD]") == capital.column(
+        f"Purchased cost, {cost.cost_year} [USD]")[:-1]
     utilities = utilities_table(cost)
     assert utilities.column("Cost [USD/year]")[-1] == cost.utilities_per_year
     shares = tac_breakdown_table(cost).column("Share of TAC [USD/year]")

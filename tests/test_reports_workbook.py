@@ -116,9 +116,23 @@ def test_chart_parts_present(workbook_path):
         trees = [ElementTree.fromstring(archive.read(name)) for name in charts]
     assert all(len(tree.findall(f".//{CHART}scatterChart")) == 1 for tree in trees)
     series = [len(tree.findall(f".//{CHART}ser")) for tree in trees]
-    assert series == [1, 2, 6]  # the x-y diagram: curve, diagonal, two operating lines, feed line, steps
+    # profiles: their lines and the feed stage; the x-y diagram: curve, diagonal, two operating lines,
+    # feed line, constant-molar-overflow steps, the design's stages, products and feed
+    assert series == [2, 3, 9]
     orientation = trees[0].findall(f".//{CHART}valAx/{CHART}scaling/{CHART}orientation")
     assert "maxMin" in [o.get("val") for o in orientation]  # stage 1 at the top
+
+
+def test_charts_have_titles_and_sit_in_a_grid(book):
+    result, parts = design_parts()
+    plots = workbook_content(result, parts).plots
+    charts = book[CHART_SHEET]._charts
+    assert len(charts) == len(plots) == 3
+    titles = ["".join(run.t for p in chart.title.tx.rich.p for run in (p.r or [])) for chart in charts]
+    assert titles == [plot.title for plot in plots]
+    anchors = [(chart.anchor._from.row, chart.anchor._from.col) for chart in charts]
+    assert anchors[0][0] == anchors[1][0] and anchors[0][1] < anchors[1][1]  # side by side
+    assert anchors[2][0] > anchors[0][0] and anchors[2][1] == anchors[0][1]  # the next row of the grid
 
 
 def test_no_cell_is_a_formula(book, workbook_path):
@@ -278,4 +292,98 @@ def test_five_component_column_has_a_column_per_component_and_no_xy_chart(tmp_pa
     with zipfile.ZipFile(path) as archive:
         charts = [ElementTree.fromstring(archive.read(n)) for n in sorted(archive.namelist())
                   if re.fullmatch(r"xl/charts/chart\d+\.xml", n)]
-    assert [len(tree.findall(f".//{CHART}ser")) for tree in charts] == [1, 5]
+    assert [len(tree.findall(f".//{CHART}ser")) for tree in charts] == [2, 6]  # each with its feed stage line
+
+
+def _format_of(ws, title: str, label: str) -> str:
+    start = next(r for r in range(1, ws.max_row + 1) if ws.cell(r, 1).value == title)
+    cell = next(c for c in _column_below(ws, start + 1, 1) if c.value == label)
+    return ws.cell(cell.row, 2).number_format
+
+
+def test_number_formats_follow_each_quantity(book):
+    """Duties in whole kW, money with thousands separators, hours and years as whole numbers."""
+    summary = book["Summary"]
+    assert _format_of(summary, "Chosen design", "Reboiler duty [kW]") == "#,##0"
+    assert _format_of(summary, "Chosen design", "Total annualised cost [USD/year]") == "#,##0"
+    assert _format_of(summary, "Total annualised cost", "Operating hours [h/year]") == "#,##0"
+    assert _format_of(summary, "Total annualised cost", "Cost year [year]") == "0"
+    assert _format_of(summary, "Chosen design", "Reflux ratio [-]") == "0.000"
+    expected = {"Capital": {"Installed cost [USD]": "#,##0", "Bare-module factor F_BM [-]": "0.000",
+                            "Pieces [-]": "0", "Share of capital [-]": "0%"},
+                "Utilities": {"Duty or power [kW]": "#,##0.0", "Cost [USD/year]": "#,##0",
+                              "Price year [year]": "0"},
+                "Equipment": {"Duty [kW]": "#,##0"}}
+    for sheet, columns in expected.items():
+        ws = book[sheet]
+        for row, column, header in _headers(ws):
+            if header in columns:
+                numbers = [c for c in _column_below(ws, row, column) if c.data_type == "n" and c.value is not None]
+                assert numbers and {c.number_format for c in numbers} == {columns[header]}, (sheet, header)
+    equipment = book["Equipment"]
+    headers = {ws_header: col for _, col, ws_header in _headers(equipment)}
+    sizes = {equipment.cell(c.row, headers["Size unit"]).value: c.number_format
+             for c in _column_below(equipment, 2, headers["Size [unit in next column]"]) if c.value is not None}
+    assert sizes["kW"] == "0.0" and sizes["m^2"] == "0.0"  # the reflux pump's few kW keep their tenth
+
+
+def test_capital_fits_one_screen_and_keeps_its_sources_apart(book):
+    ws = book["Capital"]
+    titles = [c.value for c in ws["A"] if isinstance(c.value, str) and c.font.bold and c.font.size == 12]
+    assert titles[0].startswith("Capital cost (USD") and titles[-1].startswith("Capital cost sources")
+    first_headers = [c.value for c in ws[2] if c.value is not None]
+    assert len(first_headers) <= 9 and "Source" not in first_headers
+
+
+def test_chart_data_formats_follow_the_axis_units(tmp_path):
+    from disteco.reports.tables import Plot, Series
+    from disteco.reports.workbook import WorkbookContent
+
+    plot = Plot("tac", "TAC", "Reflux ratio R [-]", "Cost [USD/year]", (Series("TAC", (1.6, 1.8), (873048.4, -0.3)),))
+    path = save_workbook(WorkbookContent((), (plot,)), tmp_path / "charts.xlsx")
+    ws = openpyxl.load_workbook(path)[DATA_SHEET]
+    assert [ws.cell(r, 1).number_format for r in (4, 5)] == ["0.000", "0.000"]
+    assert [ws.cell(r, 2).number_format for r in (4, 5)] == ["#,##0", "#,##0"]
+    assert ws.cell(5, 2).value == 0.0  # no "-0"
+
+
+def test_a_tiny_negative_is_written_as_zero(tmp_path):
+    from disteco.reports.tables import Column, Table
+    from disteco.reports.workbook import Sheet, WorkbookContent
+    from disteco.reports.workbook_cells import without_negative_zero
+
+    table = Table("Extra TAC", (Column("Extra", "USD/year", "#,##0"), Column("Share", "-", "0.0%")),
+                  ((-0.4, -0.0004), (-0.6, 0.5)))
+    path = save_workbook(WorkbookContent((Sheet("S", (table,)),)), tmp_path / "zero.xlsx")
+    ws = openpyxl.load_workbook(path)["S"]
+    assert [(ws.cell(r, 1).value, ws.cell(r, 2).value) for r in (3, 4)] == [(0.0, 0.0), (-0.6, 0.5)]
+    assert without_negative_zero(-0.004, "0.00") == 0.0 and without_negative_zero(-0.006, "0.00") == -0.006
+
+
+def test_inputs_show_what_was_run(tmp_path):
+    from dataclasses import replace
+
+    result, parts = design_parts()
+    ran = replace(result, options=(("max_stages", 40), ("time_limit", 30.0)))
+    book = openpyxl.load_workbook(write_workbook(ran, tmp_path / "run.xlsx", parts))
+    run = _quantities(book["Inputs"], "Run")
+    assert run["Price scenarios run"] == "reference"
+    assert run["Optimiser option max_stages"] == 40 and run["Optimiser option time_limit"] == 30.0
+    assert run["Cost year of capital and utilities [year]"] == parts.cost.cost_year
+    assert _quantities(book["Inputs"], "Case")["Scenarios named in the case file"] == "reference"
+
+
+def test_inputs_of_a_priced_design_show_the_design_given():
+    from dataclasses import replace
+
+    from disteco.reports.tables_design import run_table
+
+    from test_reports_scenarios import scenario_study
+
+    _, parts = design_parts()
+    given = scenario_study()[2][0][1][0]  # a design of the reflux grid, as if given on the command line
+    rows = dict(run_table(replace(parts, scenarios=()), (), given).rows)
+    assert rows["Mode"] == "a given design priced" and rows["Price scenarios run"] == "reference"
+    assert (rows["Given reflux ratio [-]"], rows["Given stages, reboiler included [-]"],
+            rows["Given feed stage, from the top [-]"]) == (given.reflux_ratio, given.stages, given.feed_stage)
+    assert rows["Optimiser options"] == "defaults"

@@ -10,7 +10,7 @@ import sys
 from contextlib import AbstractContextManager
 from dataclasses import dataclass, replace
 from pathlib import Path
-from typing import TYPE_CHECKING, Callable
+from typing import TYPE_CHECKING
 
 from ._base.errors import CaseError, CostDataError
 from ._base.prices import PriceSetting, parse_price_option
@@ -27,14 +27,13 @@ if TYPE_CHECKING:  # the solver interfaces, plotting and the workbook are import
     from .reports.design_result import DesignResult
     from .reports.tables_design import ReportParts
     from .reports.tables_scenarios import CrossTable
+    from .reports.progress import Progress, ProgressPlan
     from .stages import StageDesign
 
 RESULT_FILE = "result.json"
 WORKBOOK_FILE = "design.xlsx"
 FIGURE_FOLDER = "figures"
 OUTPUT_SET = (RESULT_FILE, WORKBOOK_FILE, FIGURE_FOLDER)  # what a run owns in its output folder
-
-Progress = Callable[[str, int, int], None]  # (what is being done, steps done, steps in all)
 
 
 @dataclass(frozen=True)
@@ -156,49 +155,59 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """Design ``case``: stages, then the lowest-TAC design for every price scenario (or price ``given``).
 
     ``scenarios`` overrides the case's scenario names; ``options`` are optimiser options
-    (see :mod:`disteco.optimisation.options`); ``progress`` is told what is being done. The
-    sizing options are the case's ``[sizing]`` choices; an optimum below the case's control
-    margin (``column.min_reflux_ratio_factor``) is searched again above it (:mod:`.optimisation.margin`);
-    ``prices`` set utility prices on top of the case's (see :func:`priced_cost_data`);
-    ``compare``: with ``given``, also find the optimum under the same prices to compare with.
+    (see :mod:`disteco.optimisation.options`); ``progress`` is called with a
+    :class:`~disteco.reports.progress.ProgressStep` as each step of work starts, and once at the
+    end. The sizing options are the case's ``[sizing]`` choices; an optimum below the case's
+    control margin (``column.min_reflux_ratio_factor``) is searched again above it
+    (:mod:`.optimisation.margin`); ``prices`` set utility prices on top of the case's (see
+    :func:`priced_cost_data`); ``compare``: with ``given``, also find the optimum under the same
+    prices to compare with.
     """
     from .optimisation.curves import reflux_curve
     from .optimisation.design import evaluate_design, optimise_design
     from .optimisation.margin import hold_margin
     from .optimisation.thermo_checks import thermo_checks
     from .reports.design_result import DesignResult
+    from .reports.progress import ProgressPlan, run_steps
     from .reports.tables_design import GivenDesignReport, optimum_parts
     from .sizing.options import sizing_options
 
-    report = progress or (lambda what, done, total: None)
     prepared = _prepare(case, given, scenarios, options, compare, prices)
     mixture, data, found = prepared.mixture, prepared.data, prepared.check
     names, summary, feed, stages = found.scenarios, found.mixture, found.feed, found.stages
-    total = 1 + 2 * len(names) + (len(names) * (len(names) - 1) if given is None else 0)
-    report("shortcut design and stage profile", 0, total)
+    plan = ProgressPlan(run_steps(len(names), given is not None, compare), progress)
+    plan.start("shortcut design and stage profile")
+    plan.finish()  # the stage design ran in the checks above
     sizing = sizing_options(case)
     if given is not None:
-        report(f"pricing the given design under '{names[0]}'", 1, total)
+        plan.start(f"pricing the given design under '{names[0]}'")
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
                                      given.feed_stage, options, sizing, names[0], choose_spacing=True)
         if evaluation.sequential is not None:  # the tray spacing chosen for it
             sizing = replace(sizing, tray_spacing=evaluation.sequential.sizing.height.tray_spacing)
+        plan.finish()
+        plan.start("checking the design on thermo (energy balances, minimum reflux)")
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
+        plan.finish()
         optimum = None
         if compare:
-            report(f"the optimum under '{names[0]}' to compare with", 2, total)
+            plan.start(f"the optimum under '{names[0]}' to compare with")
             optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), names[0])
+            plan.finish(optimum.solver.configurations_solved)
+        plan.end()
         held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optimum)
         parts = replace(_checked(_evaluation_parts(evaluation, data), checks), given=held,
                         **_binary_parts(stages, checks.reflux_ratio, case))
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
-                                               + mixture.warnings, parts))
+                                               + mixture.warnings, parts), options=_given_options(options))
     optima, curves, checked, margins = [], [], [], []
     minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
     for k, name in enumerate(names):
-        report(f"optimising under scenario '{name}' ({k + 1} of {len(names)})", 1 + 2 * k, total)
+        plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
+        plan.finish(optimum.solver.configurations_solved)
+        plan.start(f"checking the '{name}' optimum on thermo" + (" (with minimum reflux and fit)" if k == 0 else ""))
         chosen = optimum.sizing_options or sizing  # the tray spacing and shells the optimiser chose
         checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name, full=k == 0,
                                fitted=optimum.problem.fitted if optimum.problem else None)
@@ -209,14 +218,17 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
             chosen = optimum.sizing_options or sizing
             checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
                                    full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
+        plan.finish()
         optima.append((name, optimum))
         checked.append((name, checks))
         margins.append((name, margin))
-        report(f"TAC against reflux ratio under '{name}'", 2 + 2 * k, total)
+        plan.start(f"TAC against reflux ratio under '{name}'")
         # the curve around the economic optimum, which the margin's floor lies to the right of
         curves.append((name, reflux_curve(case, mixture, feed, data, margin.unconstrained or optimum, stages.table,
                                           options, chosen, name)))
-    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, report, 1 + 2 * len(names), total)
+        plan.finish()
+    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
+    plan.end()
     best = optima[0][1]
     checks = checked[0][1]
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
@@ -229,7 +241,19 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     extra += mixture.warnings
     parts = _checked(parts, checks)
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
-                        warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts))
+                        warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts),
+                        options=_given_options(options))
+
+
+def _given_options(options) -> tuple[tuple[str, object], ...]:
+    """The optimiser options the caller set, for the reports (the others kept their defaults)."""
+    from .optimisation.options import OPTIONS
+
+    if not options:
+        return ()
+    if isinstance(options, dict):
+        return tuple(sorted(options.items()))
+    return tuple(sorted((name, value) for name, value in options.value().items() if value != OPTIONS[name]))
 
 
 def _checked(parts: ReportParts, checks: ThermoChecks) -> ReportParts:
@@ -262,7 +286,7 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
                        coefficients=sequential.coefficients if sequential else ())
 
 
-def _cross_table(case, mixture, feed, data, options, sizing, optima, report, done, total) -> CrossTable | None:
+def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: ProgressPlan) -> CrossTable | None:
     """Each scenario's optimum priced by the model under every other scenario's prices."""
     from .optimisation.design import evaluate_design
     from .reports.tables_scenarios import CrossTable
@@ -278,11 +302,11 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, report, don
             if i == j:
                 row.append(best.tac)
                 continue
-            report(f"pricing the '{name_i}' design under '{name_j}'", done, total)
-            done += 1
+            plan.start(f"pricing the '{name_i}' design under the prices of '{name_j}'")
             evaluation = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages,
                                          best.feed_stage, options, optimum_i.sizing_options or sizing, name_j,
                                          problem=optimum_i.problem)
+            plan.finish()
             row.append(evaluation.tac)
         rows.append(tuple(row))
     return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)

@@ -9,7 +9,6 @@ import argparse
 import signal
 import sys
 import threading
-import time
 import traceback
 from contextlib import contextmanager
 from pathlib import Path
@@ -68,18 +67,6 @@ def _run_options(sub: argparse.ArgumentParser) -> None:
     sub.add_argument("--gap", type=float, metavar="G", help="relative optimality gap asked of a certifying solver [-]")
 
 
-class ProgressLine:
-    """Prints which step a run is on, how far it is and an estimate of the time left (to stderr)."""
-
-    def __init__(self):
-        self.start = time.monotonic()
-
-    def __call__(self, what: str, done: int, total: int) -> None:
-        elapsed = time.monotonic() - self.start
-        left = f", about {elapsed / done * (total - done):.0f} s left" if done else ""
-        print(f"[{done}/{total}] {what} (elapsed {elapsed:.0f} s{left})", file=sys.stderr, flush=True)
-
-
 def _given(args):
     from ._base.errors import CaseError
     from .api import GivenDesign
@@ -119,6 +106,7 @@ def _as_option(exc):
 
 def _run(args) -> int:
     from . import api
+    from .reports.progress import ProgressDisplay
     from ._base.prices import parse_price_option
     from .reports.tables_prices import prices_text
     from .reports.text import cautions_text
@@ -130,10 +118,11 @@ def _run(args) -> int:
         print(api.check(case, given=given, scenarios=tuple(args.scenario), options=options,
                         compare=not args.no_compare, prices=prices))
         return EXIT_OK
-    progress = None if args.quiet else ProgressLine()
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
-        result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
-                            progress=progress, compare=not args.no_compare, prices=prices)
+        with ProgressDisplay() as display:
+            result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
+                                progress=None if args.quiet else display, compare=not args.no_compare,
+                                prices=prices)
         print(result)
         for line in prices_text(result.parts):
             print(line)

@@ -29,6 +29,7 @@ class DesignResult:
     parts: ReportParts = field(default_factory=ReportParts)  # optimum or evaluated design, sizes, costs
     evaluation: DesignEvaluation | None = None  # set when a given design was priced, not optimised
     warnings: tuple[str, ...] = field(default_factory=tuple)
+    options: tuple[tuple[str, object], ...] = ()  # optimiser options the run was given (name, value)
 
     def __str__(self) -> str:
         """The engineer's summary the command line prints, in engineering units."""

@@ -6,6 +6,7 @@ off a figure is the number in the workbook and in result.json.
 
 from __future__ import annotations
 
+import math
 from pathlib import Path
 
 import matplotlib
@@ -17,10 +18,13 @@ from matplotlib.ticker import MaxNLocator, StrMethodFormatter  # noqa: E402
 
 from .files import write_atomically  # noqa: E402
 from ..properties import MixtureSummary  # noqa: E402
-from .tables import PALETTE, Plot  # noqa: E402
+from .tables import Note, Plot, Series  # noqa: E402
 from .tables_design import ReportParts, design_plots  # noqa: E402
 
-FIGURE_SIZE = (6.4, 4.6)  # inch
+FIGURE_SIZE = (6.4, 4.6)  # inch, without a legend below the axes
+LEGEND_INSIDE = 6  # series a legend inside the axes holds; a longer one goes below
+LEGEND_ROW = 0.17  # inch of figure height per legend row below the axes
+NOTE_GAP = 0.025  # least distance between two notes of one series, as a fraction of the x range
 DPI = 150
 
 
@@ -30,21 +34,57 @@ def literal(text: str) -> str:
     return text.replace("$", r"\$")
 
 
+def readable_notes(plot: Plot, gap: float = NOTE_GAP) -> list[Note]:
+    """The notes that do not crowd one another: along each colour, a note closer than ``gap``
+    (a fraction of the x range) to the last one kept is left out; the data table holds them all."""
+    if not plot.notes:
+        return []
+    low, high = plot.x_limits or (min(n.x for n in plot.notes), max(n.x for n in plot.notes))
+    span = (high - low) or 1.0
+    kept: list[Note] = []
+    last: dict[str | None, float] = {}
+    for note in sorted(plot.notes, key=lambda n: (n.colour or "", n.x)):
+        if note.colour in last and (note.x - last[note.colour]) / span < gap:
+            continue
+        kept.append(note)
+        last[note.colour] = note.x
+    return kept
+
+
+def _draw_series(axes, series: Series, colour: str, dots: bool) -> None:
+    label = literal(series.name)
+    if series.style == "markers":
+        axes.plot(series.x, series.y, linestyle="", marker="o", markersize=4.5, color=colour, label=label)
+    elif series.style == "open_markers":
+        axes.plot(series.x, series.y, linestyle="", marker="o", markersize=7, markerfacecolor="none",
+                  markeredgewidth=1.2, color=colour, label=label)
+    elif series.style == "highlight":
+        axes.plot(series.x, series.y, linestyle="", marker="D", markersize=8, markerfacecolor=colour,
+                  markeredgecolor="#222222", markeredgewidth=0.8, color=colour, label=label, zorder=5)
+    elif series.style == "guide":
+        axes.plot(series.x, series.y, linestyle=":", linewidth=1.2, color=colour, label=label)
+    elif series.style == "dashed":
+        axes.plot(series.x, series.y, linestyle="--", linewidth=1.0, color=colour, label=label)
+    else:
+        dotted = series.style == "line_markers" or dots
+        axes.plot(series.x, series.y, linestyle="-", linewidth=1.5, marker="o" if dotted else "",
+                  markersize=3, color=colour, label=label)
+
+
 def draw(plot: Plot) -> Figure:
-    """A matplotlib Figure of ``plot``: one line per series, in the series' order."""
-    figure = Figure(figsize=FIGURE_SIZE, dpi=DPI, layout="constrained")
+    """A matplotlib Figure of ``plot``: one line per series in the series' order, then the notes."""
+    long_legend = len(plot.series) > LEGEND_INSIDE
+    legend_rows = math.ceil(len(plot.series) / 2) if long_legend else 0
+    figure = Figure(figsize=(FIGURE_SIZE[0], FIGURE_SIZE[1] + LEGEND_ROW * legend_rows), dpi=DPI,
+                    layout="constrained")
     axes = figure.add_subplot()
     for k, series in enumerate(plot.series):
-        colour = "#" + PALETTE[k % len(PALETTE)]
-        if series.style == "markers":
-            axes.plot(series.x, series.y, linestyle="", marker="o", markersize=4, color=colour, label=literal(series.name))
-        elif series.style == "dashed":
-            axes.plot(series.x, series.y, linestyle="--", linewidth=1.0, color=colour, label=literal(series.name))
-        else:
-            dots = series.style == "line_markers" or plot.stage_axis  # a dot on each stage or solved design
-            axes.plot(series.x, series.y, linestyle="-", linewidth=1.6, marker="o" if dots else "", markersize=3,
-                      color=colour, label=literal(series.name))
-    axes.set_title(literal(plot.title), fontsize=11)
+        _draw_series(axes, series, "#" + plot.colour_of(k), plot.stage_axis)
+    for note in readable_notes(plot):
+        # upright text above the point: neighbouring points close in x keep their labels apart
+        axes.annotate(literal(note.text), (note.x, note.y), xytext=(0, 6), textcoords="offset points",
+                      ha="center", va="bottom", rotation=90, fontsize=6.5, color="#" + (note.colour or "333333"))
+    axes.set_title(literal(plot.title), fontsize=10)
     axes.set_xlabel(literal(plot.x_label))
     axes.set_ylabel(literal(plot.y_label))
     if plot.x_limits:
@@ -63,9 +103,17 @@ def draw(plot: Plot) -> Figure:
         axes.set_aspect("equal")
     axes.grid(True, color="#DDDDDD", linewidth=0.6)
     axes.set_axisbelow(True)
-    for side in ("top", "right"):
-        axes.spines[side].set_visible(False)
-    axes.legend(fontsize=8, frameon=False, loc="best")
+    axes.spines["right"].set_visible(False)
+    if plot.top_axis is not None:
+        divisor = plot.top_axis.divisor
+        top = axes.secondary_xaxis("top", functions=(lambda r: r / divisor, lambda f: f * divisor))
+        top.set_xlabel(literal(plot.top_axis.label))
+    else:
+        axes.spines["top"].set_visible(False)
+    if long_legend:  # below the axes, where it hides no data
+        figure.legend(fontsize=7, frameon=False, loc="outside lower center", ncols=2)
+    else:
+        axes.legend(fontsize=8, frameon=False, loc="best")
     return figure
 
 

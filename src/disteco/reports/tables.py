@@ -13,8 +13,7 @@ from dataclasses import dataclass
 
 from .._base.units import HOUR, to_degC
 from ..case import Case, EndSpec
-from ..properties import BinaryDiagram, FeedState, MixtureSummary
-from ..stages.binary import EquilibriumCurve, SteppedColumn
+from ..properties import FeedState, MixtureSummary
 from ..stages.results import StageProfile
 from .cautions import CAUTIONS
 
@@ -105,17 +104,20 @@ def _check_cell(title: str, number: int, column: Column, value: Cell) -> None:
 
 # Our own palette (hex RGB), used in turn by the series of a chart and of a PNG figure.
 PALETTE = ("1F5A7A", "D9822B", "3E8E41", "B23A48", "6C4F9C", "8C6D1F", "2A9D8F", "5C5C5C")
-STYLES = ("line", "markers", "line_markers", "dashed")
+# "guide": a thin dotted reference line (a minimum, an asymptote); "highlight": one large marker (an optimum);
+# "open_markers": rings, so a second set of points on top of a first leaves it visible.
+STYLES = ("line", "markers", "open_markers", "line_markers", "dashed", "guide", "highlight")
 
 
 @dataclass(frozen=True)
 class Series:
-    """One plotted series; ``style`` is "line", "markers", "line_markers" or "dashed"."""
+    """One plotted series; ``style`` is one of ``STYLES``; ``colour`` (hex RGB) else the palette's turn."""
 
     name: str
     x: tuple[float, ...]
     y: tuple[float, ...]
     style: str = "line"
+    colour: str | None = None
 
     def __post_init__(self):
         if len(self.x) != len(self.y):
@@ -125,8 +127,29 @@ class Series:
 
 
 @dataclass(frozen=True)
+class Note:
+    """A short text written beside a data point (a stage count, say) in the colour of its series."""
+
+    x: float
+    y: float
+    text: str
+    colour: str | None = None
+
+
+@dataclass(frozen=True)
+class SecondAxis:
+    """A second scale along the top of a figure: the bottom axis's value divided by ``divisor``."""
+
+    label: str
+    divisor: float
+
+
+@dataclass(frozen=True)
 class Plot:
-    """The data of one chart: axis labels carry units; ``stage_axis`` puts stage 1 at the top."""
+    """The data of one chart: axis labels carry units; ``stage_axis`` puts stage 1 at the top.
+
+    ``notes`` and ``top_axis`` are drawn on the figures; the workbook's charts hold the series.
+    """
 
     name: str  # file stem and chart key, snake_case
     title: str
@@ -136,6 +159,12 @@ class Plot:
     x_limits: tuple[float, float] | None = None
     y_limits: tuple[float, float] | None = None
     stage_axis: bool = False
+    notes: tuple[Note, ...] = ()
+    top_axis: SecondAxis | None = None
+
+    def colour_of(self, index: int) -> str:
+        """Hex RGB of series ``index``: its own colour, else the palette's turn."""
+        return self.series[index].colour or PALETTE[index % len(PALETTE)]
 
 
 # ------------------------------------------------------------------ key-value tables
@@ -176,7 +205,7 @@ def case_table(case: Case) -> Table:
         ("Heavy-key specification", _end_spec(p.heavy_key_spec, names[p.heavy_key], "distillate")),
         ("Cost data", str(case.economics.cost_data) if case.economics.cost_data else "bundled"),
         ("Cost year [year]", case.economics.cost_year if case.economics.cost_year is not None else "newest"),
-        ("Scenarios", ", ".join(case.economics.scenarios) or "default"),
+        ("Scenarios named in the case file", ", ".join(case.economics.scenarios) or "none named (reference)"),
         ("Currency", case.economics.currency),
     ]
     return quantity_table("Case", items)
@@ -294,53 +323,3 @@ def nice_limits(values) -> tuple[float, float]:
     low = round(math.floor(min(values) / step) * step, digits)
     high = round(math.ceil(max(values) / step) * step, digits)
     return (low, high) if high > low else (low - step, high + step)
-
-
-def temperature_profile_plot(profile: StageProfile) -> Plot:
-    """Stage temperature against stage number (stage 1 at the top)."""
-    stages = tuple(float(n) for n in range(1, profile.stages + 1))
-    temperatures = tuple(to_degC(t) for t in profile.T)
-    return Plot("temperature_profile", "Stage temperatures", "Temperature [degC]", "Stage [-]",
-                (Series("Temperature", temperatures, stages),), x_limits=nice_limits(temperatures),
-                stage_axis=True)
-
-
-def composition_profile_plot(profile: StageProfile, names: tuple[str, ...]) -> Plot:
-    """Liquid mole fraction of each component against stage number (stage 1 at the top)."""
-    stages = tuple(float(n) for n in range(1, profile.stages + 1))
-    series = tuple(Series(f"x {name}", tuple(row[i] for row in profile.x), stages)
-                   for i, name in enumerate(names))
-    return Plot("composition_profile", "Liquid composition on the stages", "Liquid mole fraction [-]",
-                "Stage [-]", series, x_limits=(0.0, 1.0), stage_axis=True)
-
-
-def operating_series(column: SteppedColumn) -> tuple[Series, ...]:
-    """Operating lines, feed line and stage steps of a McCabe-Thiele construction.
-
-    The rectifying line runs from (x_D, x_D) to its meeting point with the feed line,
-    y = (R x + x_D)/(R + 1) and x = ((q - 1) x_D + (R + 1) z_F)/(q + R); the stripping line
-    from there to (x_B, x_B); the feed line from (z_F, z_F). At total reflux only the steps.
-    """
-    steps = Series("Stage steps", tuple(p[0] for p in column.steps), tuple(p[1] for p in column.steps))
-    R, x_d, x_b, z, q = column.reflux_ratio, column.x_distillate, column.x_bottoms, column.z, column.q
-    if not math.isfinite(R):
-        return (steps,)
-    x_int = min(max(((q - 1.0) * x_d + (R + 1.0) * z) / (q + R), x_b), x_d)
-    y_int = (R * x_int + x_d) / (R + 1.0)
-    return (Series("Rectifying line", (x_d, x_int), (x_d, y_int)),
-            Series("Stripping line", (x_int, x_b), (y_int, x_b)),
-            Series("Feed line", (z, x_int), (z, y_int), "dashed"),
-            steps)
-
-
-def xy_plot(curve: EquilibriumCurve | BinaryDiagram, light_name: str,
-            column: SteppedColumn | None = None) -> Plot:
-    """x-y diagram of the light key: equilibrium curve, diagonal and, given a construction, its lines."""
-    series = (Series("Equilibrium", tuple(curve.x), tuple(curve.y)),
-              Series("y = x", (0.0, 1.0), (0.0, 1.0), "dashed"))
-    if column is not None:
-        series += operating_series(column)
-    return Plot("xy_diagram", f"x-y diagram of {light_name} at {curve.pressure / KPA:.1f} kPa",
-                f"Liquid mole fraction {light_name} [-]", f"Vapour mole fraction {light_name} [-]",
-                series, (0.0, 1.0), (0.0, 1.0))
-

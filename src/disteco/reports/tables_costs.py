@@ -65,7 +65,7 @@ def column_table(sizing: ColumnSizing) -> Table:
 def equipment_table(sizing: ColumnSizing) -> Table:
     """The equipment list: one row per item with size, dimensions, material and design conditions."""
     columns = (text("Tag", 18.0), text("Equipment", 30.0), Column("Quantity", "-", "0", 10.0),
-               Column("Size", "unit in next column", "0.000", 16.0), text("Size unit", 10.0),
+               Column("Size", "unit in next column", MIXED, 16.0), text("Size unit", 10.0),
                text("Size measures", 24.0), Column("Diameter", "m", "0.000"), Column("Length", "m", "0.000"),
                text("Material", 18.0), Column("Design pressure", "kPa gauge", "0.0", 16.0),
                Column("Design temperature", "degC", "0.0", 16.0),
@@ -81,7 +81,7 @@ def equipment_table(sizing: ColumnSizing) -> Table:
 
 def exchangers_table(sizing: ColumnSizing) -> Table:
     """Condenser and reboiler: duty, utility, temperatures, LMTD, U and area."""
-    columns = (text("Exchanger", 12.0), text("Utility", 22.0), Column("Duty", "kW", "0.0"),
+    columns = (text("Exchanger", 12.0), text("Utility", 22.0), Column("Duty", "kW", "#,##0"),
                Column("Process in", "degC", "0.0"), Column("Process out", "degC", "0.0"),
                Column("Utility in", "degC", "0.0"), Column("Utility out", "degC", "0.0"),
                Column("LMTD", "K", "0.00"), Column("Overall coefficient U", "W/(m^2 K)", "0", 20.0),
@@ -97,31 +97,50 @@ def exchangers_table(sizing: ColumnSizing) -> Table:
 
 
 def capital_table(cost: CostSummary) -> Table:
-    """Capital breakdown: purchased cost at the base index, escalation, each factor, installed cost, source."""
+    """Capital by item on one screen: size, pieces, purchased cost, material, bare-module factor,
+    installed cost. The factors and the cost-curve basis are in :func:`capital_factors_table`
+    and :func:`capital_sources_table`."""
     c = cost.currency
-    columns = (text("Item", 16.0), text("Cost curve", 20.0), Column("Size", "unit in next column", "0.000", 14.0),
-               text("Size unit", 9.0), Column("Parallel units", "-", "0", 10.0), Column("Pieces", "-", "0", 8.0),
-               Column("Quantity factor F_q", "-", FACTOR), _money("Purchased cost at base index", c),
-               Column("Base index", "-", "0.0", 11.0), Column("Cost-year index", "-", "0.0", 11.0),
-               _money("Purchased cost at cost year", c), text("Material", 12.0),
-               Column("Material factor F_M", "-", FACTOR), Column("Pressure factor F_P", "-", FACTOR),
-               Column("Bare-module factor F_BM", "-", FACTOR), _money("Installed cost", c),
-               text("Source", 80.0))
+    columns = (text("Item", 18.0), Column("Size", "unit in next column", MIXED, 12.0), text("Size unit", 9.0),
+               Column("Pieces", "-", "0", 8.0), _money(f"Purchased cost, {cost.cost_year}", c), text("Material", 14.0),
+               Column("Bare-module factor F_BM", "-", FACTOR, 12.0), _money("Installed cost", c),
+               Column("Share of capital", "-", "0%", 10.0))
     rows = []
     for e in cost.items:
         size, unit = _size(e.size, e.size_unit)
-        rows.append((e.item, e.equipment, size, unit, e.parallel_units, e.count, e.quantity_factor,
-                     e.purchased_base, e.base_index, e.cost_index, e.purchased_escalated, e.material,
-                     e.material_factor, e.pressure_factor, e.bare_module_factor, e.installed, e.source))
-    total = ("total", "", None, "", None, None, None, sum(e.purchased_base for e in cost.items), None, None,
-             sum(e.purchased_escalated for e in cost.items), "", None, None, None, cost.capital_installed, "")
-    return Table(f"Capital cost ({cost.index_name} {cost.cost_year})", columns, tuple(rows) + (total,))
+        rows.append((e.item, size, unit, e.parallel_units * e.count, e.purchased_escalated, e.material,
+                     e.bare_module_factor, e.installed, e.installed / cost.capital_installed))
+    total = ("total", None, "", None, sum(e.purchased_escalated for e in cost.items), "", None,
+             cost.capital_installed, 1.0)
+    return Table(f"Capital cost ({c} {cost.cost_year})", columns, tuple(rows) + (total,))
+
+
+def capital_factors_table(cost: CostSummary) -> Table:
+    """The factors from purchased to installed cost of each item: quantity, material, pressure, bare module."""
+    columns = (text("Item", 18.0), text("Cost curve", 20.0), Column("Parallel units", "-", "0", 10.0),
+               Column("Pieces per unit", "-", "0", 10.0), Column("Quantity factor F_q", "-", FACTOR, 12.0),
+               Column("Material factor F_M", "-", FACTOR, 12.0), Column("Pressure factor F_P", "-", FACTOR, 12.0),
+               Column("Bare-module factor F_BM", "-", FACTOR, 12.0))
+    rows = tuple((e.item, e.equipment, e.parallel_units, e.count, e.quantity_factor, e.material_factor,
+                  e.pressure_factor, e.bare_module_factor) for e in cost.items)
+    return Table("Capital cost factors", columns, rows)
+
+
+def capital_sources_table(cost: CostSummary) -> Table:
+    """Where each purchased cost comes from: the curve's cost at its base index, the escalation, the source."""
+    c = cost.currency
+    columns = (text("Item", 18.0), text("Cost curve", 20.0), _money("Purchased cost at base index", c),
+               Column("Base index", "-", "0.0", 10.0), Column(f"Index {cost.cost_year}", "-", "0.0", 10.0),
+               _money(f"Purchased cost, {cost.cost_year}", c), text("Source", 80.0))
+    rows = tuple((e.item, e.equipment, e.purchased_base, e.base_index, e.cost_index, e.purchased_escalated,
+                  e.source) for e in cost.items)
+    return Table(f"Capital cost sources ({cost.index_name}, cost year {cost.cost_year})", columns, rows)
 
 
 def utilities_table(cost: CostSummary) -> Table:
     """Yearly utilities: duty, amount, price (with its year and source) and cost per year."""
     c = cost.currency
-    columns = (text("Item", 14.0), text("Utility", 22.0), Column("Duty or power", "kW", "0.0"),
+    columns = (text("Item", 14.0), text("Utility", 22.0), Column("Duty or power", "kW", "#,##0.0"),
                Column("Amount", "per year, unit in next column", "#,##0", 18.0), text("Amount unit", 10.0),
                Column("Price", "unit in next column", "0.000", 12.0), text("Price unit", 12.0),
                Column("Price year", "year", "0", 10.0), _money("Cost", c, per_year=True), text("Source", 80.0))

@@ -13,9 +13,9 @@ from ..sizing import ColumnSizing
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
 from .choices import margin_items
-from .tables import (Cell, Plot, Table, composition_profile_plot, design_items, quantity_table,
-                     temperature_profile_plot, xy_plot)
-from .tables_scenarios import CrossTable, stages_duty_plot, tac_curve_plot
+from .plots import composition_profile_plot, stages_duty_plot, tac_curve_plot, temperature_profile_plot, xy_plot
+from .tables import Cell, Plot, Table, design_items, quantity_table
+from .tables_scenarios import CrossTable
 
 if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver interfaces
     from ..optimisation.thermo_checks import ThermoChecks
@@ -119,6 +119,29 @@ def summary_table(title: str, parts: ReportParts) -> Table:
     return quantity_table("Given design" if parts.given is not None else "Chosen design", items)
 
 
+def run_table(parts: ReportParts, options: tuple[tuple[str, object], ...],
+              given: DesignEvaluation | None = None) -> Table:
+    """What was run: the mode (with the ``given`` design priced), the price scenarios run, the cost
+    year and the optimiser options set."""
+    if parts.scenarios:
+        scenarios = ", ".join(name for name, _ in parts.scenarios)
+    else:
+        scenarios = parts.cost.scenario if parts.cost is not None else "none priced"
+    items: list[tuple[str, Cell]] = [
+        ("Mode", "a given design priced" if given is not None else "lowest-TAC design searched for each price scenario"),
+        ("Price scenarios run", scenarios)]
+    if parts.cost is not None:
+        items.append(("Cost year of capital and utilities [year]", parts.cost.cost_year))
+    if given is not None:
+        items += [("Given reflux ratio [-]", given.reflux_ratio), ("Given stages, reboiler included [-]", given.stages),
+                  ("Given feed stage, from the top [-]", given.feed_stage)]
+    items += [(f"Optimiser option {name}", value if isinstance(value, (int, float)) and not isinstance(value, bool)
+               else str(value)) for name, value in options]
+    if not options:
+        items.append(("Optimiser options", "defaults"))
+    return quantity_table("Run", items)
+
+
 def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...]:
     """Every plot whose data is present, in a fixed order, with distinct names."""
     names = tuple(c.name for c in mixture.components)
@@ -126,22 +149,10 @@ def design_plots(mixture: MixtureSummary, parts: ReportParts) -> tuple[Plot, ...
     if parts.profile is not None:
         plots += [temperature_profile_plot(parts.profile), composition_profile_plot(parts.profile, names)]
     if parts.curve is not None:
-        plots.append(xy_plot(parts.curve, mixture.light_key, parts.stepped))
-    for scenario, designs in parts.tac_curves:
-        if designs:
-            plots += [tac_curve_plot(designs, scenario), stages_duty_plot(designs, scenario)]
-    return _distinct(plots)
-
-
-def _distinct(plots: list[Plot]) -> tuple[Plot, ...]:
-    """Number repeated plot names (two scenario names can give one file name)."""
-    seen: dict[str, int] = {}
-    out = []
-    for plot in plots:
-        count = seen.get(plot.name, 0)
-        seen[plot.name] = count + 1
-        if count:
-            plot = Plot(f"{plot.name}_{count + 1}", plot.title, plot.x_label, plot.y_label, plot.series,
-                        plot.x_limits, plot.y_limits, plot.stage_axis)
-        out.append(plot)
-    return tuple(out)
+        plots.append(xy_plot(parts.curve, mixture, parts.stepped, parts.profile))
+    if parts.optimum is not None and any(designs for _, designs in parts.tac_curves):
+        minimum = parts.checks.minimum if parts.checks is not None else None
+        energy_balance = minimum.reflux_ratio if minimum is not None else None
+        plots += [tac_curve_plot(parts.tac_curves, parts.optimum, energy_balance),
+                  stages_duty_plot(parts.tac_curves, parts.optimum, energy_balance)]
+    return tuple(plots)

@@ -12,7 +12,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..optimisation.results import DesignEvaluation, OptimumDesign
-from .tables import KW, Cell, Column, Plot, Series, Table, nice_limits, quantity_table, text
+from .tables import KW, Cell, Column, Table, quantity_table, text
 
 MONEY = "#,##0"
 CROSS_TOLERANCE = 1e-6  # relative; below the solvers' usual tolerance on the TAC (common practice, no source)
@@ -162,33 +162,3 @@ def tac_curve_table(designs: Sequence[DesignEvaluation], scenario: str) -> Table
                   d.cost.annualised_capital_per_year, d.cost.utilities_per_year, d.cost.tac_per_year)
                  for d in sorted(designs, key=lambda d: d.reflux_ratio))
     return Table(f"TAC against reflux ratio ({scenario})", columns, rows)
-
-
-def tac_curve_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
-    """Annualised capital, utilities and TAC against reflux ratio, and the lowest TAC marked."""
-    ordered = sorted(designs, key=lambda d: d.reflux_ratio)
-    currency = ordered[0].cost.currency
-    R = tuple(d.reflux_ratio for d in ordered)
-    series = (Series("Annualised capital", R, tuple(d.cost.annualised_capital_per_year for d in ordered),
-                     "line_markers"),
-              Series("Utilities", R, tuple(d.cost.utilities_per_year for d in ordered), "line_markers"),
-              Series("Total annualised cost", R, tuple(d.cost.tac_per_year for d in ordered), "line_markers"))
-    lowest = min(ordered, key=lambda d: d.cost.tac_per_year)
-    series += (Series("Lowest TAC", (lowest.reflux_ratio,), (lowest.cost.tac_per_year,), "markers"),)
-    return Plot(f"tac_vs_reflux_{_stem(scenario)}", f"Total annualised cost against reflux ratio ({scenario})",
-                "Reflux ratio [-]", f"Cost [{currency}/year]", series, x_limits=nice_limits(R))
-
-
-def stages_duty_plot(designs: Sequence[DesignEvaluation], scenario: str) -> Plot:
-    """Ideal stages against reboiler duty: where extra stages stop saving energy."""
-    ordered = sorted(designs, key=lambda d: d.stages)
-    duties = tuple(d.sizes.reboiler_duty / KW for d in ordered)
-    series = (Series("Designs", duties, tuple(float(d.stages) for d in ordered), "markers"),)
-    return Plot(f"stages_vs_duty_{_stem(scenario)}", f"Ideal stages against reboiler duty ({scenario})",
-                "Reboiler duty [kW]", "Ideal stages, reboiler included [-]", series,
-                x_limits=nice_limits(duties))
-
-
-def _stem(name: str) -> str:
-    """A file-name-safe form of a scenario name."""
-    return "".join(ch if ch.isalnum() else "_" for ch in name.lower()).strip("_") or "scenario"

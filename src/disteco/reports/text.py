@@ -15,6 +15,7 @@ from .notes import console_warnings
 from .tables import KMOL_PER_H
 from .tables_design import GivenDesignReport
 from .text_checks import checks_lines
+from .text_scenarios import scenario_lines
 
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
 # What to do about a bound the optimum sits on (OptimumDesign.limits), by the option that sets it.
@@ -215,9 +216,5 @@ def design_text(result: DesignResult) -> str:
         lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
                      f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s, "
                      f"{optimum.rounds} round{'s' if optimum.rounds != 1 else ''} until the model's constants settled")
-    if len(parts.scenarios) > 1:
-        lines.append("Scenario optima: " + "; ".join(
-            f"'{name}': R {o.best.reflux_ratio:.3f}, {o.best.stages} stages, TAC "
-            f"{(o.sequential.cost.tac_per_year if o.sequential else o.best.tac):,.0f} per year"
-            for name, o in parts.scenarios))
+    lines += scenario_lines(parts)
     return "\n".join(lines)

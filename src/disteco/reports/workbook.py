@@ -24,9 +24,10 @@ from .notes import ordered_warnings
 from .tables import (Plot, Table, cautions_table, case_table, components_table, feed_table, mixture_table,
                      products_table, stage_profile_table, warnings_table)
 from .tables_checks import checks_table
-from .tables_costs import (capital_table, column_table, equipment_table, exchangers_table, provenance_table,
-                           tac_breakdown_table, tac_table, utilities_table)
-from .tables_design import ReportParts, design_plots, summary_table
+from .tables_costs import (capital_factors_table, capital_sources_table, capital_table, column_table,
+                           equipment_table, exchangers_table, provenance_table, tac_breakdown_table, tac_table,
+                           utilities_table)
+from .tables_design import ReportParts, design_plots, run_table, summary_table
 from .tables_prices import prices_table
 from .tables_scenarios import cross_tables, optimum_table, scenario_table, search_table, tac_curve_table
 from .workbook_cells import write_tables
@@ -62,8 +63,8 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
     if parts.checks is not None and parts.profile is not None:
         minimum = result.stages.minimum_reflux if result.stages is not None else None
         summary.append(checks_table(parts.checks, parts.profile.reflux_ratio, minimum))
-    inputs = [case_table(result.case), sizing_table(result.case), mixture_table(result.mixture),
-              components_table(result.mixture), feed_table(result.feed, names)]
+    inputs = [run_table(parts, result.options, result.evaluation), case_table(result.case), sizing_table(result.case),
+              mixture_table(result.mixture), components_table(result.mixture), feed_table(result.feed, names)]
     if parts.cost is not None and parts.cost_data is not None:
         inputs.append(provenance_table(parts.cost_data, parts.cost, parts.coefficients))
         inputs.append(prices_table(parts))
@@ -76,7 +77,8 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
         sheets.append(Sheet("Equipment", (equipment_table(parts.sizing), column_table(parts.sizing),
                                           exchangers_table(parts.sizing))))
     if parts.cost is not None:
-        sheets.append(Sheet("Capital", (capital_table(parts.cost), tac_breakdown_table(parts.cost))))
+        sheets.append(Sheet("Capital", (capital_table(parts.cost), tac_breakdown_table(parts.cost),
+                                        capital_factors_table(parts.cost), capital_sources_table(parts.cost))))
         sheets.append(Sheet("Utilities", (utilities_table(parts.cost),)))
     if parts.optimum is not None:
         sheets.append(Sheet("Optimiser", (optimum_table(parts.optimum), search_table(parts.optimum))))

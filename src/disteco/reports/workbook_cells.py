@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import re
+
 from openpyxl.cell.cell import ILLEGAL_CHARACTERS_RE
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
@@ -17,6 +19,14 @@ TITLE_FONT = Font(bold=True, size=12, color="1F3B57")
 HEADER_FONT = Font(bold=True, color="FFFFFF")
 HEADER_FILL = PatternFill("solid", fgColor="2E6A80")
 WRAP = Alignment(wrap_text=True, vertical="top")
+LABEL_UNIT = re.compile(r"\[([^\]]+)\]$")
+MONEY_UNIT = re.compile(r"[A-Z]{3}(/year)?")  # a currency code, per year for running costs
+SMALL_POWER = 100.0  # kW; below it a power or duty is shown to a tenth
+# Precision of labelled values by unit: what the quantity is known to, not what the float holds.
+UNIT_FORMATS = {"kW": "#,##0", "MW": "#,##0.00", "h/year": "#,##0", "year": "0", "kPa": "0.00",
+                "kPa gauge": "0.0", "degC": "0.0", "kmol/h": "0.00", "m": "0.00", "m^2": "0.0", "m^3": "0.00",
+                "kg": "#,##0", "mm": "0.0", "kg/s": "0.000", "GJ/year": "#,##0", "s": "0.0", "W/(m^2 K)": "0",
+                "g/mol": "0.00", "1/year": "0.0000", "mole fraction": "0.00000"}
 
 
 def put_text(ws: Worksheet, row: int, column: int, value: str):
@@ -39,11 +49,19 @@ def put_text(ws: Worksheet, row: int, column: int, value: str):
     return cell
 
 
-def number_format_of(value: float | int) -> str:
-    """A readable format for a labelled value of any size (columns of mixed quantities)."""
-    size = abs(value)
+def number_format_of(value: float | int, unit: str | None = None) -> str:
+    """The format of a labelled value: by its unit where that fixes the precision (kW without
+    decimals, money with thousands separators, hours and years as whole numbers), else by size."""
     if isinstance(value, int):
-        return "0"
+        return "#,##0" if abs(value) >= 1e4 else "0"
+    if unit is not None:
+        if MONEY_UNIT.fullmatch(unit):
+            return "#,##0"
+        if unit == "kW" and abs(value) < SMALL_POWER:
+            return "0.0"  # a pump's few kW keep their tenth
+        if unit in UNIT_FORMATS:
+            return UNIT_FORMATS[unit]
+    size = abs(value)
     if size >= 1e4:
         return "#,##0"
     if size >= 1.0 or size == 0.0:
@@ -53,10 +71,31 @@ def number_format_of(value: float | int) -> str:
     return "0.000E+00"
 
 
-def put_value(ws: Worksheet, row: int, column: int, value: Cell, number_format: str):
+def decimals_shown(number_format: str) -> int | None:
+    """Decimal places a fixed-point format shows (a percentage counts two more); None for others.
+
+    >>> decimals_shown("#,##0"), decimals_shown("0.000"), decimals_shown("0.0%"), decimals_shown("0.0E+00")
+    (0, 3, 3, None)
+    """
+    if "E" in number_format or "@" in number_format or number_format == MIXED:
+        return None
+    digits = number_format.split(".", 1)[1] if "." in number_format else ""
+    return len(digits.rstrip("%")) + (2 if number_format.endswith("%") else 0)
+
+
+def without_negative_zero(value: float | int, number_format: str) -> float | int:
+    """0 for a negative value the format would show as "-0" (a tiny negative cost, say)."""
+    decimals = decimals_shown(number_format)
+    if value < 0 and decimals is not None and round(value, decimals) == 0:
+        return 0 if isinstance(value, int) else 0.0
+    return value
+
+
+def put_value(ws: Worksheet, row: int, column: int, value: Cell, number_format: str, unit: str | None = None):
     """Write a number with its format, text as text, None as an empty cell.
 
-    ``number_format`` "General" (a column of mixed quantities) picks a format per value.
+    ``number_format`` "General" (a column of mixed quantities) picks a format per value from
+    its ``unit`` (or its size). A value the format would show as "-0" is written as 0.
     """
     if isinstance(value, str):
         return put_text(ws, row, column, value)
@@ -65,9 +104,20 @@ def put_value(ws: Worksheet, row: int, column: int, value: Cell, number_format: 
         return cell
     if not is_number(value):
         raise ValueError(f"cell {cell.coordinate}: {value!r} is not a finite number")
-    cell.value = value
-    cell.number_format = number_format_of(value) if number_format == MIXED else number_format
+    fmt = number_format_of(value, unit) if number_format == MIXED else number_format
+    cell.value = without_negative_zero(value, fmt)
+    cell.number_format = fmt
     return cell
+
+
+def unit_beside(row: tuple[Cell, ...], j: int) -> str | None:
+    """The unit of a number in a column of mixed quantities: in brackets at the end of the label on
+    its left (a labelled value), else the text in the next column (a size and its unit)."""
+    if j > 0 and isinstance(row[j - 1], str) and (found := LABEL_UNIT.search(row[j - 1])):
+        return found.group(1)
+    if j + 1 < len(row) and isinstance(row[j + 1], str):
+        return row[j + 1]
+    return None
 
 
 def write_table(ws: Worksheet, table: Table, top: int, left: int = 1) -> int:
@@ -85,7 +135,8 @@ def write_table(ws: Worksheet, table: Table, top: int, left: int = 1) -> int:
         ws.column_dimensions[letter].width = max(ws.column_dimensions[letter].width or 0.0, column.width)
     for i, row in enumerate(table.rows):
         for j, (column, value) in enumerate(zip(table.columns, row)):
-            cell = put_value(ws, top + 2 + i, left + j, value, column.number_format)
+            unit = unit_beside(row, j) if column.is_mixed else None
+            cell = put_value(ws, top + 2 + i, left + j, value, column.number_format, unit)
             if column.is_text:
                 cell.number_format = TEXT  # an edit of the cell stays text too
                 if column.width >= 60.0:

@@ -1,0 +1,49 @@
+"""Console tables of a run under several price scenarios: each scenario's optimum and the cross table."""
+
+from __future__ import annotations
+
+from .tables_design import ReportParts
+from .tables_scenarios import CrossTable
+
+NAME_WIDTH = 24  # characters of a scenario name shown in a console table
+
+
+def _name(name: str) -> str:
+    return name if len(name) <= NAME_WIDTH else name[:NAME_WIDTH - 3] + "..."
+
+
+def scenario_lines(parts: ReportParts) -> list[str]:
+    """The optimum of every scenario, one row each, and the cross table; empty for one scenario."""
+    if len(parts.scenarios) < 2:
+        return []
+    currency = parts.scenarios[0][1].best.cost.currency
+    lines = ["", "Optimum of each price scenario:",
+             f"  {'scenario':<{NAME_WIDTH}}{'R [-]':>8}{'R/Rmin [-]':>12}{'stages':>8}{'feed':>6}"
+             f"{'reboiler [kW]':>15}{f'TAC [{currency}/year]':>20}"]
+    for name, o in parts.scenarios:
+        b = o.best
+        tac = o.sequential.cost.tac_per_year if o.sequential else b.tac
+        lines.append(f"  {_name(name):<{NAME_WIDTH}}{b.reflux_ratio:>8.3f}{b.reflux_ratio / o.minimum_reflux_ratio:>12.3f}"
+                     f"{b.stages:>8d}{b.feed_stage:>6d}{b.sizes.reboiler_duty / 1e3:>15,.0f}{_money(tac):>20}")
+    if parts.cross is not None:
+        lines += cross_lines(parts.cross)
+    return lines
+
+
+def _money(value: float) -> str:
+    text = f"{value:,.0f}"
+    return "0" if text == "-0" else text
+
+
+def cross_lines(cross: CrossTable) -> list[str]:
+    """TAC of each scenario's design (rows) under each scenario's prices (columns), and the extra TAC."""
+    width = max(16, max(len(_name(n)) for n in cross.scenarios) + 2)
+    corner = "design for / prices of"
+    head = f"  {corner:<{NAME_WIDTH}}" + "".join(f"{_name(n):>{width}}" for n in cross.scenarios)
+    lines = ["", f"TAC of each scenario's design under each scenario's prices [{cross.currency}/year]:", head]
+    lines += [f"  {_name(name):<{NAME_WIDTH}}" + "".join(f"{_money(v):>{width}}" for v in row)
+              for name, row in zip(cross.scenarios, cross.tac)]
+    lines += ["", f"Extra TAC of building for the wrong prices [{cross.currency}/year]:", head]
+    lines += [f"  {_name(name):<{NAME_WIDTH}}" + "".join(f"{_money(v):>{width}}" for v in row)
+              for name, row in zip(cross.scenarios, cross.extra)]
+    return lines

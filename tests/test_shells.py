@@ -117,7 +117,7 @@ def test_two_shell_cost_is_the_hand_sum_of_its_items(profile, mixture):
     one = cost_column(DATA, cost_input(size(profile, mixture)), "reference")
     assert len(cost.items) == len(one.items) + 3
     electricity = next(u for u in cost.utilities if u.item == "transfer pump")
-    price = DATA.price_per_joule("reference", "electricity")
+    price = DATA.price_per_joule("reference", "electricity", cost.cost_year)  # in the cost year's money
     assert electricity.cost_per_year == pytest.approx(
         two.split.transfer_pump.shaft_power * cost.operating_hours_per_year * 3600.0 * price, rel=1e-9)
     assert cost.tac_per_year == pytest.approx(

@@ -179,6 +179,11 @@ def tac_curve_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], opt
                              if several else f"Lowest TAC: R = {lowest.reflux_ratio:.3f}, N = {lowest.stages}",
                              (lowest.reflux_ratio,), (lowest.cost.tac_per_year,), "highlight", colour))
         notes += [Note(d.reflux_ratio, d.cost.tac_per_year, str(d.stages), colour) for d in designs]
+    reported = optimum.best  # held by a bound (the control margin) away from the curve's lowest point
+    if abs(reported.reflux_ratio / min(first, key=lambda d: d.cost.tac_per_year).reflux_ratio - 1.0) > 1e-3:
+        series.append(Series(f"Reported design (held by a bound): R = {reported.reflux_ratio:.3f}, "
+                             f"N = {reported.stages}", (reported.reflux_ratio,), (reported.cost.tac_per_year,),
+                             "highlight", PALETTE[3]))
     y_limits = (0.0, round_up(max(v for s in series for v in s.y) * 1.12))
     minima = [("Minimum reflux, Underwood", optimum.minimum_reflux_ratio)]
     if energy_balance_minimum:

@@ -53,7 +53,8 @@ EFFECTS = {
     "tray_spacing": ('tray_spacing = "18 in"',
                      lambda o, s, d: s.height.tray_spacing == pytest.approx(18 * INCH)
                      and d.height.tray_spacing == pytest.approx(24 * INCH)
-                     and s.diameter > d.diameter),  # closer trays flood at a lower vapour velocity
+                     and s.diameter > d.diameter  # closer trays flood at a lower vapour velocity
+                     and o.tray_spacings == pytest.approx((18 * INCH,))),  # given alone: not searched over
     "flood_fraction": ("flood_fraction = 0.6",
                        lambda o, s, d: s.flood_fraction == 0.6 and all(
                            h.design_velocity == pytest.approx(0.6 * h.flooding_velocity) for h in s.hydraulics)),

@@ -123,5 +123,7 @@ def sizing_options(case: Case) -> SizingOptions:
 
     Raises :class:`CaseError` naming the ``sizing.`` field of a value out of range.
     """
-    return SizingOptions(**case.sizing.as_dict(), light_key=case.products.light_key,
-                         heavy_key=case.products.heavy_key)
+    given = case.sizing.as_dict()
+    if "tray_spacing" in given and "tray_spacings" not in given:
+        given["tray_spacings"] = (given["tray_spacing"],)  # a spacing the designer fixed is not searched over
+    return SizingOptions(**given, light_key=case.products.light_key, heavy_key=case.products.heavy_key)

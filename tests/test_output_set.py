@@ -249,6 +249,6 @@ def test_a_terminated_design_leaves_nothing(tmp_path):
         _, err = run.communicate(timeout=120)
     finally:
         run.kill()
-    assert run.returncode == 1
+    assert run.returncode == 1, err
     assert "interrupted" in err and "Traceback" not in err
     assert not out.exists()

@@ -172,8 +172,9 @@ def test_stages_against_duty_has_both_asymptotes_and_the_chosen_design(scenario_
     assert chosen.x == (optimum.best.sizes.reboiler_duty / 1e3,) and chosen.y == (optimum.best.stages,)
     assert duty_at_reflux(designs[:1], 1.0) is None
     lines = {line.get_label(): line for line in draw(plot).axes[0].get_lines()}
-    assert lines["Designs, reference"].get_markerfacecolor() != "none"
-    assert lines["Designs, cheap-steam-demo"].get_markerfacecolor() == "none"  # rings: the first set stays visible
+    first, second = curves[0][0], curves[1][0]
+    assert lines[f"Designs, {first}"].get_markerfacecolor() != "none"
+    assert lines[f"Designs, {second}"].get_markerfacecolor() == "none"  # rings: the first set stays visible
 
 
 def test_scenario_figures_are_not_blank(scenario_plots, tmp_path):

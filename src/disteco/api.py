@@ -193,6 +193,10 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         if compare:
             plan.start(f"the optimum under '{names[0]}' to compare with")
             optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), names[0])
+            # the optimum an optimising run would report: the control margin held as there
+            optimum, _ = hold_margin(case, mixture, feed, data, optimum, optimum.best.reflux_ratio,
+                                     checks.minimum.reflux_ratio if checks.minimum else None, options,
+                                     sizing_options(case), names[0])
             plan.finish(optimum.solver.configurations_solved)
         plan.end()
         held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optimum)

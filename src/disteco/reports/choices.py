@@ -121,8 +121,8 @@ def margin_items(margin: ControlMargin | None, currency: str) -> list[tuple[str,
 
 
 def sizing_text(case: Case) -> str | None:
-    """One console line of the sizing options the case set; None when it set none."""
-    if not case.sizing.given:
+    """One console line of the sizing options the case set; None when it set none (or no case)."""
+    if case is None or not case.sizing.given:
         return None
     options = sizing_options(case)
     shown = []

@@ -65,9 +65,12 @@ def hold_margin(case: Case, mixture: Mixture, feed: FeedState, data: CostData, o
             f"the control margin asks for a reflux ratio of at least {floor:.4g} "
             f"({margin.factor:g} x the energy-balance minimum {minimum_reflux:.4g}), above the optimiser's "
             f"highest reflux ratio {config.reflux_max:g}: lower column.min_reflux_ratio_factor or raise reflux_max")
+    asked = config.reflux_min
     config.reflux_min = max(config.reflux_min, floor)
     bounded = optimise_design(case, mixture, feed, data, config, sizing, scenario, warm=optimum)
-    return bounded, replace(margin, unconstrained=optimum)
+    # The floor is the margin's, reported by the margin; the bounds the optimum is judged against
+    # (OptimumDesign.limits: headline, solver.limited_by) stay the options' own.
+    return replace(bounded, reflux_range=(asked, config.reflux_max)), replace(margin, unconstrained=optimum)
 
 
 __all__ = ["ControlMargin", "hold_margin"]

@@ -17,7 +17,6 @@ from .tables_scenarios import scenario_table
 SCHEMA_VERSION = 1
 
 
-
 @dataclass(frozen=True)
 class DesignResult:
     """Everything one design run produced, in SI units."""

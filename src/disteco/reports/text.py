@@ -171,10 +171,8 @@ def design_text(result: DesignResult) -> str:
     if profile is None:
         return "\n".join(lines)
     heading = "Given design (priced)" if result.evaluation is not None else "Lowest-TAC design"
-    held = parts.margin is not None and parts.margin.binds
     limits = parts.optimum.limits if parts.optimum is not None else ()
-    if held:  # the control margin's floor is the reflux bound the second search ran with
-        limits = tuple(limit for limit in limits if limit.option != "reflux_min")
+    if parts.margin is not None and parts.margin.binds:
         heading = "Lowest-TAC design holding the control margin"
     if limits:
         heading = "Lowest-TAC design within the bounds"

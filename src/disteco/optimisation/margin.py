@@ -10,6 +10,7 @@ optimum without the margin, which is kept beside the result.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
 
 from .._base.errors import InfeasibleSpecError
@@ -17,9 +18,11 @@ from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
+from ..stages.correlations import stages_from_gilliland
 from .design import optimise_design
 from .options import model_options
 from .results import OptimumDesign
+from .start import shortcut
 
 RELATIVE_TOLERANCE = 1e-3  # a design this close below the floor counts as holding the margin [-]
 
@@ -67,10 +70,35 @@ def hold_margin(case: Case, mixture: Mixture, feed: FeedState, data: CostData, o
             f"highest reflux ratio {config.reflux_max:g}: lower column.min_reflux_ratio_factor or raise reflux_max")
     asked = config.reflux_min
     config.reflux_min = max(config.reflux_min, floor)
-    bounded = optimise_design(case, mixture, feed, data, config, sizing, scenario, warm=optimum)
+    bounded = optimise_design(case, mixture, feed, data, config, sizing, scenario, warm=optimum,
+                              start=start_at_floor(optimum, floor))
     # The floor is the margin's, reported by the margin; the bounds the optimum is judged against
     # (OptimumDesign.limits: headline, solver.limited_by) stay the options' own.
     return replace(bounded, reflux_range=(asked, config.reflux_max)), replace(margin, unconstrained=optimum)
 
 
-__all__ = ["ControlMargin", "hold_margin"]
+def start_at_floor(optimum: OptimumDesign, floor: float) -> tuple[int, int] | None:
+    """Where the search at the margin's reflux floor starts: the optimum's stages times Gilliland's
+    ratio of the stages at the floor to those at the optimum's reflux (both on the model's
+    shortcut), the feed stage in proportion; None where the shortcut gives no ratio.
+
+    More reflux needs fewer stages, so the bounded optimum lies below the unconstrained one;
+    starting there spares the descent its first moves (measured on the benzene example: start
+    24 stages for an optimum at 24, against 27 from the unconstrained optimum).
+    """
+    if optimum.problem is None:
+        return None
+    estimate = shortcut(optimum.problem)
+    try:
+        ratio = (stages_from_gilliland(estimate.minimum_stages, estimate.minimum_reflux, floor)
+                 / stages_from_gilliland(estimate.minimum_stages, estimate.minimum_reflux, optimum.best.reflux_ratio))
+    except InfeasibleSpecError:
+        return None
+    if not math.isfinite(ratio) or ratio <= 0.0:
+        return None
+    N, NF = optimum.best.stages, optimum.best.feed_stage
+    stages = max(3, round(N * ratio))
+    return stages, min(max(2, round(1 + (NF - 1) * (stages - 1) / (N - 1))), stages - 1)
+
+
+__all__ = ["ControlMargin", "hold_margin", "start_at_floor"]

@@ -134,6 +134,28 @@ def test_tac_curve_is_capital_plus_utilities():
     assert tuple(lines[2].get_ydata()) == total.y
 
 
+def test_tac_curve_marks_the_points_beyond_the_shell_height_limit():
+    """Where the shell height limit cut the search (OptimumDesign.stage_limit), the curve's points
+    with more stages are drawn apart, a line marks the least reflux within the limit, and the
+    workbook's curve table says which points lie beyond it."""
+    from dataclasses import replace
+
+    optima, _, curves = scenario_study()
+    name, designs = curves[0]
+    stages = sorted({d.stages for d in designs})
+    limit = stages[len(stages) // 2]
+    plot = tac_curve_plot(curves[:1], replace(optima[0][1], stage_limit=limit))
+    beyond = next(s for s in plot.series if s.name.startswith("Beyond the height limit"))
+    assert sorted(beyond.x) == sorted(d.reflux_ratio for d in designs if d.stages > limit)
+    line = next(s for s in plot.series if s.name.startswith("Height limit"))
+    assert line.x[0] == min(d.reflux_ratio for d in designs if d.stages <= limit)
+    table = tac_curve_table(designs, name, limit)
+    marks = dict(zip(table.column("Stages [-]"), table.column("Shell height limit [-]")))
+    assert {n: m for n, m in marks.items()} == {n: "beyond" if n > limit else "within" for n in marks}
+    unlimited = tac_curve_plot(curves[:1], optima[0][1])
+    assert not any(s.name.startswith(("Beyond", "Height limit")) for s in unlimited.series)
+
+
 def test_optimum_and_search_tables():
     optima, _, _ = scenario_study()
     opt = optima[0][1]

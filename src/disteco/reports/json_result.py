@@ -308,6 +308,7 @@ def result_json(result: DesignResult) -> dict:
     sequential = parts.optimum.sequential if parts.optimum is not None else \
         result.evaluation.sequential if result.evaluation is not None else None
     cross = parts.cross
+    limits = {name: optimum.stage_limit for name, optimum in parts.scenarios}  # shell height limit, where it cut
     return {
         "schema_version": SCHEMA_VERSION,
         "disteco_version": __version__,
@@ -333,7 +334,7 @@ def result_json(result: DesignResult) -> dict:
             "tac_per_year": [list(row) for row in cross.tac],
             "extra_tac_per_year": [list(row) for row in cross.extra]},
         "tac_curves": [
-            {"scenario": name, "points": [
+            {"scenario": name, "stage_limit": limits.get(name), "points": [
                 {"reflux_ratio": d.reflux_ratio, "stages": d.stages, "feed_stage": d.feed_stage,
                  "reboiler_duty_kW": d.sizes.reboiler_duty / 1e3, "capital_installed": d.cost.capital_installed,
                  "annualised_capital_per_year": d.cost.annualised_capital_per_year,

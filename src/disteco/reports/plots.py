@@ -184,7 +184,17 @@ def tac_curve_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], opt
         series.append(Series(f"Reported design (held by a bound): R = {reported.reflux_ratio:.3f}, "
                              f"N = {reported.stages}", (reported.reflux_ratio,), (reported.cost.tac_per_year,),
                              "highlight", PALETTE[3]))
+    limit = optimum.stage_limit  # most stages within the shell height limit, where it cut the search
+    beyond = [d for d in first if limit is not None and d.stages > limit]
+    if beyond:
+        series.append(Series(f"Beyond the height limit (more than {limit} stages per shell)",
+                             tuple(d.reflux_ratio for d in beyond), tuple(d.cost.tac_per_year for d in beyond),
+                             "open_markers", GUIDE))
     y_limits = (0.0, round_up(max(v for s in series for v in s.y) * 1.12))
+    within = [d.reflux_ratio for d in first if limit is not None and d.stages <= limit]
+    if beyond and within:  # the least reflux a column within the limit reaches on this curve
+        series.append(Series(f"Height limit: R from {min(within):.3f} at {limit} stages or fewer per shell",
+                             (min(within), min(within)), y_limits, "guide", PALETTE[3]))
     minima = [("Minimum reflux, Underwood", optimum.minimum_reflux_ratio)]
     if energy_balance_minimum:
         minima.append(("Minimum reflux, energy balances", energy_balance_minimum))

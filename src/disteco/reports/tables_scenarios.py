@@ -12,7 +12,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..optimisation.results import DesignEvaluation, OptimumDesign
-from .tables import KW, Cell, Column, Table, quantity_table, text
+from .tables import KW, TEXT, Cell, Column, Table, quantity_table, text
 
 MONEY = "#,##0"
 CROSS_TOLERANCE = 1e-6  # relative; below the solvers' usual tolerance on the TAC (common practice, no source)
@@ -152,8 +152,9 @@ def cross_tables(cross: CrossTable) -> tuple[Table, Table]:
             Table("Extra TAC of building for the wrong prices", columns, extra))
 
 
-def tac_curve_table(designs: Sequence[DesignEvaluation], scenario: str) -> Table:
-    """TAC against reflux ratio, stages and feed stage re-optimised at each reflux."""
+def tac_curve_table(designs: Sequence[DesignEvaluation], scenario: str, stage_limit: int | None = None) -> Table:
+    """TAC against reflux ratio, stages and feed stage re-optimised at each reflux; with the
+    ``stage_limit`` of the shell height limit, the points beyond it are marked."""
     currency = designs[0].cost.currency
     columns = (Column("Reflux ratio", "-", "0.000"), Column("Stages", "-", "0", 9.0),
                Column("Feed stage", "-", "0", 10.0), Column("Reboiler duty", "kW", "#,##0"),
@@ -161,4 +162,7 @@ def tac_curve_table(designs: Sequence[DesignEvaluation], scenario: str) -> Table
     rows = tuple((d.reflux_ratio, d.stages, d.feed_stage, d.sizes.reboiler_duty / KW,
                   d.cost.annualised_capital_per_year, d.cost.utilities_per_year, d.cost.tac_per_year)
                  for d in sorted(designs, key=lambda d: d.reflux_ratio))
+    if stage_limit is not None:
+        columns += (Column("Shell height limit", "-", TEXT, 22.0),)
+        rows = tuple(row + ("beyond" if row[1] > stage_limit else "within",) for row in rows)
     return Table(f"TAC against reflux ratio ({scenario})", columns, rows)

@@ -95,7 +95,8 @@ def _scenario_tables(parts: ReportParts) -> tuple[Table, ...]:
         tables.append(scenario_table(parts.scenarios))
     if parts.cross is not None:
         tables += cross_tables(parts.cross)
-    tables += [tac_curve_table(designs, name) for name, designs in parts.tac_curves if designs]
+    limits = {name: optimum.stage_limit for name, optimum in parts.scenarios}
+    tables += [tac_curve_table(designs, name, limits.get(name)) for name, designs in parts.tac_curves if designs]
     return tuple(tables)
 
 

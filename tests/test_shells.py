@@ -147,3 +147,29 @@ def test_swaged_shell_is_priced_on_its_sections(profile, mixture):
         assert items[name].quantity_factor == pytest.approx(DATA.tray_quantity.factor(items[name].count))
     one = {e.item: e for e in cost_column(DATA, cost_input(plain), "reference").items}
     assert items["column shell"].installed < one["column shell"].installed
+
+
+def test_given_design_taller_than_the_limit_is_laid_out_as_two_shells():
+    """A given design's stages are fixed, so where one shell would exceed the height limit it is
+    costed as two shells in series, each within the limit, with a note saying so (measured:
+    benzene-toluene, 80 stages at R = 2: one shell would be 89 m; two shells of 36 m, TAC 0.77
+    M USD/yr against 1.36 M for the single 89 m shell, whose height-to-diameter limit forced a
+    3.0 m diameter)."""
+    from disteco.api import cost_data_of, load_case, mixture_of
+    from disteco.optimisation.design import evaluate_design
+    from disteco.properties import feed_state
+    from disteco.sizing.options import sizing_options
+
+    from conftest import EXAMPLES
+
+    case = load_case(EXAMPLES / "aromatics_binary.toml")
+    mixture = mixture_of(case)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    design = evaluate_design(case, mixture, feed, cost_data_of(case), 2.0, 80, 40, None, sizing_options(case),
+                             None, choose_spacing=True)
+    sized = design.sequential.sizing
+    assert sized.shells == 2 and sized.split is not None
+    assert max(sized.height.tangent_length, sized.split.upper_height.tangent_length) <= 50.0
+    assert sized.height.tangent_length / sized.diameter <= 30.0
+    assert any("laid out and costed as two shells" in w for w in design.warnings)
+    assert not any(w.startswith("extrapolated: column shell") for w in design.warnings)

@@ -399,9 +399,15 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     if choose_spacing:
         prices = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
         sizing = replace(sizing, tray_spacing=best_spacing(prices, sizing.tray_spacing))
+    # the spacing of the model's solve stays the one-shell choice; the final spacing is chosen again
+    # for the shells below
+    sizing, split = _given_shells(reference, mixture, data, _keyed(sizing, problem), stages)
     previous = None
     for rounds in range(1, ROUNDS + 1):
-        basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
+        # The model's basis stays one shell (with the reflux and stages held only the distillate is
+        # free); the sequential price below prices the shells chosen.
+        basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(replace(sizing, shells=1), problem),
+                                        scenario, year)
         try:
             design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
         except SolverError as failure:
@@ -425,4 +431,25 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         short = (f"the given design falls {100 * design.shortfall:.2g} % short of a product specification on the "
                  "optimiser's fitted forms at its own pressure profile; see the verification on thermo, which "
                  "corrects reflux and distillate at these stages",)
-    return replace(design, sequential=priced, warnings=case.column.warnings + design.warnings + short)
+    # with two shells the model's one-shell cost-curve ranges describe a shell nobody prices
+    model = tuple(w for w in design.warnings if not (split and w.startswith("extrapolated:")))
+    return replace(design, sequential=priced, warnings=case.column.warnings + model + split + short)
+
+
+def _given_shells(reference, mixture: Mixture, data: CostData, sizing: SizingOptions,
+                  stages: int) -> tuple[SizingOptions, tuple[str, ...]]:
+    """A given design's shells: one, or two in series where one shell would be taller than the limit.
+
+    An optimum keeps the height limit inside its search (:func:`optimise_design`); a given
+    design's stages are fixed, so the layout an estimator would build is priced instead of a
+    shell nobody would erect, and a note says so.
+    """
+    if sizing.shells != 1:
+        return sizing, ()
+    tall = size_reference(mixture, data, reference, sizing).tallest_shell.tangent_length
+    if tall <= sizing.max_height:
+        return sizing, ()
+    return replace(sizing, shells=2), (
+        f"the given {stages} stages need one shell of {tall:.1f} m at {sizing.tray_spacing:.2f} m tray spacing, "
+        f"above the {sizing.max_height:g} m limit (sizing.max_height): the column is laid out and costed as two "
+        "shells in series",)

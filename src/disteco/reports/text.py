@@ -208,6 +208,9 @@ def design_text(result: DesignResult) -> str:
     optimum = parts.optimum
     if optimum is not None and optimum.layout is not None:
         lines += layout_lines(optimum.layout, parts.cost.currency if parts.cost is not None else "")
+        if parts.checks is not None and parts.checks.verification.corrected is not None:
+            lines.append("  (layouts and sections compared at the optimiser's design; the cost above is the "
+                         "design corrected on thermo)")
     if optimum is not None:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
         failed = f" ({len(optimum.solver.unsolved)} did not solve)" if optimum.solver.unsolved else ""

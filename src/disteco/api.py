@@ -221,7 +221,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         if margin.binds:  # the reported design's own checks, its minimum reflux on its own pressures
             chosen = optimum.sizing_options or sizing
             checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
-                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
+                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
+                                   minimum_near=minimum.reflux_ratio if minimum else None)
         plan.finish()
         optima.append((name, optimum))
         checked.append((name, checks))

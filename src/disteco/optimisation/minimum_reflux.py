@@ -40,8 +40,10 @@ class EnergyBalanceMinimum:
 
 
 def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortcut: ShortcutDesign,
-                           verified: StageProfile, time_limit: float = TIME_LIMIT) -> EnergyBalanceMinimum:
-    """Minimum reflux on the basis of the design whose thermo profile is ``verified``."""
+                           verified: StageProfile, time_limit: float = TIME_LIMIT,
+                           start_reflux: float | None = None) -> EnergyBalanceMinimum:
+    """Minimum reflux on the basis of the design whose thermo profile is ``verified``; Newton starts
+    at ``start_reflux`` (a minimum found on a nearby design) where given, else at the design's."""
     began = time.monotonic()
     N, NF = verified.stages, verified.feed_stage
     stages = STAGE_FACTOR * N
@@ -51,7 +53,8 @@ def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortc
              f"{feed_stage}, pressures {top / 1e3:.4g} to {bottom / 1e3:.4g} kPa as in the design")
     try:
         profile = solve_to_specs(mixture, feed, case.products, case.column, shortcut, stages, feed_stage,
-                                 energy=True, start=verified, pressure_drop_per_stage=(bottom - top) / (stages - 1),
+                                 energy=True, start_reflux=start_reflux, start=verified,
+                                 pressure_drop_per_stage=(bottom - top) / (stages - 1),
                                  max_log_reflux_step=REFLUX_STEP, time_limit=time_limit)
     except (ConvergenceError, InfeasibleSpecError) as failure:
         spent = time.monotonic() - began

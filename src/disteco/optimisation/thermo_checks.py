@@ -39,17 +39,19 @@ class ThermoChecks:
 
 def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData, design: DesignEvaluation,
                   stages: StageDesign, options=None, sizing: SizingOptions = SizingOptions(),
-                  scenario: str | None = None, full: bool = True, fitted=None) -> ThermoChecks:
+                  scenario: str | None = None, full: bool = True, fitted=None,
+                  minimum_near: float | None = None) -> ThermoChecks:
     """Verify ``design`` on thermo; with ``full`` also its energy-balance minimum reflux and the fit check.
 
     ``fitted``: the fitted forms the design was optimised on (:attr:`OptimumDesign.problem`); None
-    fits them again as the optimiser would.
+    fits them again as the optimiser would. ``minimum_near``: the minimum reflux found on a
+    nearby design, where the search for this one's starts.
     """
     verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario)
     if not full:
         return ThermoChecks(verification, None, None, verification.warnings)
     reported = verification.corrected or verification.profile
-    minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported)
+    minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported, start_reflux=minimum_near)
     if fitted is None:
         fitted = resolved_problem(case, mixture, feed, model_options(options), at_least=design.stages).fitted
     fit = check_fit(fitted, mixture, verification.profile)

@@ -12,7 +12,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from ._base.errors import CaseError, CostDataError
+from ._base.errors import CaseError, ConvergenceError, CostDataError, InfeasibleSpecError, SolverError
 from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
@@ -239,7 +239,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           scenario_checks=tuple(checked), margins=tuple(margins),
                           **_binary_parts(stages, checks.reflux_ratio, case))
-    extra = tuple(cross.below_zero()) if cross is not None else ()
+    extra = tuple(cross.below_zero()) + cross.notes if cross is not None else ()
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
     extra += tuple(w for _, margin in margins[:1] for w in margin.warnings)
@@ -294,12 +294,13 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
 def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: ProgressPlan) -> CrossTable | None:
     """Each scenario's optimum priced by the model under every other scenario's prices."""
     from .optimisation.design import evaluate_design
+    from .optimisation.pricing import price_design
     from .reports.tables_scenarios import CrossTable
 
     if len(optima) < 2:
         return None
     names = tuple(name for name, _ in optima)
-    rows = []
+    rows, notes = [], []
     for i, (name_i, optimum_i) in enumerate(optima):
         row = []
         best = optimum_i.best
@@ -308,13 +309,22 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: Progr
                 row.append(best.tac)
                 continue
             plan.start(f"pricing the '{name_i}' design under the prices of '{name_j}'")
-            evaluation = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages,
-                                         best.feed_stage, options, optimum_i.sizing_options or sizing, name_j,
-                                         problem=optimum_i.problem)
+            chosen = optimum_i.sizing_options or sizing
+            try:
+                tac = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages, best.feed_stage,
+                                      options, chosen, name_j, problem=optimum_i.problem).tac
+            except (SolverError, InfeasibleSpecError, ConvergenceError) as failure:
+                # the design as optimised (its distillate too), priced by the sizing and costing
+                # layers at the flooding diameter, as the model prices it
+                tac = price_design(best, mixture, data, chosen, name_j, case.economics.cost_year,
+                                   round_diameter=False).cost.tac_per_year
+                notes.append(f"cross table: the '{name_i}' design under the prices of '{name_j}' is priced at its "
+                             f"own distillate flow by the sizing and costing layers; the model's solve failed "
+                             f"({failure})")
             plan.finish()
-            row.append(evaluation.tac)
+            row.append(tac)
         rows.append(tuple(row))
-    return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency)
+    return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency, tuple(notes))
 
 
 def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:

@@ -29,6 +29,7 @@ class CrossTable:
     scenarios: tuple[str, ...]
     tac: tuple[tuple[float, ...], ...]
     currency: str
+    notes: tuple[str, ...] = ()  # how cells were priced where the model's solve failed
 
     def __post_init__(self):
         n = len(self.scenarios)

@@ -141,7 +141,20 @@ def test_case_prices_override_a_scenario_and_define_one():
     assert resolve_scenarios(data) == ("reference", "high_gas")  # a scenario defined in the case is run
 
 
+def test_price_option_with_a_year_is_moved_to_the_cost_year_as_a_table_price_is():
+    """--price lp_steam=25USD/GJ@2022 equals the case table's { price = "25 USD/GJ", year = 2022 }: both
+    moved to 2023 by the industrial natural gas index (utility_price_index.csv)."""
+    option = _apply("lp_steam=25USD/GJ@2022").price("reference", "lp_steam", 2023)
+    table = _apply(tables={"reference": {"lp_steam": {"price": "25 USD/GJ", "year": 2022}}}).price(
+        "reference", "lp_steam", 2023)
+    gas = _index("industrial_natural_gas", 2023) / _index("industrial_natural_gas", 2022)
+    assert option.price == pytest.approx(25.0 * gas, rel=1e-12) and option.price == pytest.approx(table.price)
+    assert option.set_by == "--price"
+
+
 @pytest.mark.parametrize("option, message", [
+    ("lp_steam=20USD/GJ@1850", r"--price: '1850' after '@' is not a year \(allowed: a year from 1900 to 2100\)"),
+    ("lp_steam=20USD/GJ@last", r"--price: 'last' after '@' is not a year"),
     ("lp_stem=20USD/GJ", r"--price: unknown utility 'lp_stem'; did you mean 'lp_steam'\? \(allowed: cooling_water"),
     ("electricity=20USD/t", r"--price: electricity cannot be priced per t .*\(allowed: per GJ, kWh\)"),
     ("refrigerant_minus_20=2USD/t", r"--price: refrigerant_minus_20 cannot be priced per t .*\(allowed: per GJ, kWh\)"),

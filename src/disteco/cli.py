@@ -50,10 +50,10 @@ def _run_options(sub: argparse.ArgumentParser) -> None:
     sub.add_argument("--scenario", action="append", default=[], metavar="NAME",
                      help="utility-price scenario to design for; repeat to compare several "
                           "(default: the case's [economics] scenarios)")
-    sub.add_argument("--price", action="append", default=[], metavar="[SCENARIO.]UTILITY=PRICE",
+    sub.add_argument("--price", action="append", default=[], metavar="[SCENARIO.]UTILITY=PRICE[@YEAR]",
                      help="set a utility price, e.g. lp_steam=20USD/GJ (per GJ, kWh, t or m3; utility names "
-                          "as in the cost data; money of the cost year); repeatable; without SCENARIO it "
-                          "applies to every scenario")
+                          "as in the cost data; money of the cost year, or of YEAR with @YEAR, e.g. "
+                          "lp_steam=20USD/GJ@2019); repeatable; without SCENARIO it applies to every scenario")
     given = sub.add_argument_group("price a given design instead of optimising (all three together)")
     given.add_argument("--reflux", type=float, metavar="R", help="reflux ratio L/D [-]")
     given.add_argument("--stages", type=int, metavar="N", help="equilibrium stages, reboiler included [-]")

@@ -19,6 +19,9 @@ _UNIT = re.compile(r"^([A-Za-z]{3})\s*/\s*(\S+)$")
 _NAME = re.compile(r"^[A-Za-z0-9_-]+$")  # utility and scenario names as in cost_data/
 
 
+YEARS = (1900, 2100)  # the years a price may be stated in (the index table decides which it can move)
+
+
 @dataclass(frozen=True)
 class PriceSetting:
     """One utility price set by the user.
@@ -84,14 +87,19 @@ def parse_price(text, field: str) -> tuple[float, str, str]:
 
 
 def parse_price_option(text: str, option: str = "prices") -> PriceSetting:
-    """Read ``[SCENARIO.]UTILITY=PRICE`` (the ``--price`` option); CaseError naming ``option``.
+    """Read ``[SCENARIO.]UTILITY=PRICE[@YEAR]`` (the ``--price`` option); CaseError naming ``option``.
+
+    ``@YEAR``: the price is money of that year (moved to the run's cost year by the price
+    index, as a ``year`` in a ``[prices]`` table); without it, money of the run's cost year.
 
     >>> parse_price_option("lp_steam=20USD/GJ", "--price").price
     20.0
     >>> parse_price_option("reference.electricity=0.08 USD/kWh", "--price").scenario
     'reference'
+    >>> parse_price_option("lp_steam=20USD/GJ@2019", "--price").year
+    2019
     """
-    form = "[SCENARIO.]UTILITY=PRICE, e.g. lp_steam=20USD/GJ"
+    form = "[SCENARIO.]UTILITY=PRICE[@YEAR], e.g. lp_steam=20USD/GJ or lp_steam=20USD/GJ@2019"
     name, sep, value = str(text).partition("=")
     if not sep:
         raise CaseError(option, f"{text!r} has no '='", form, text)
@@ -99,8 +107,16 @@ def parse_price_option(text: str, option: str = "prices") -> PriceSetting:
     for part in (scenario, utility) if dot else (utility,):
         if not _NAME.match(part):
             raise CaseError(option, f"{name.strip()!r} is not a utility name (or scenario.utility)", form, text)
+    value, at, year_text = value.partition("@")
+    year = None
+    if at:
+        year_text = year_text.strip()
+        if not year_text.isdigit() or not YEARS[0] <= int(year_text) <= YEARS[1]:
+            raise CaseError(option, f"{year_text!r} after '@' is not a year", f"a year from {YEARS[0]} to {YEARS[1]}",
+                            text)
+        year = int(year_text)
     price, currency, per = parse_price(value, option)
-    return PriceSetting(utility, price, currency, per, option, scenario or None)
+    return PriceSetting(utility, price, currency, per, option, scenario or None, year)
 
 
 def parse_price_table(table) -> tuple[ScenarioPrices, ...]:
@@ -146,8 +162,9 @@ def _setting(utility: str, value, scenario: str, field: str) -> PriceSetting:
             raise CaseError(field, "a price table holds 'price' and optionally 'year'",
                             f"{{ price = \"{PRICE_EXAMPLE}\", year = 2019 }}")
         year = value.get("year")
-        if year is not None and (isinstance(year, bool) or not isinstance(year, int) or not 1900 <= year <= 2100):
-            raise CaseError(f"{field}.year", f"{year!r}", "a year from 1900 to 2100", year)
+        if year is not None and (isinstance(year, bool) or not isinstance(year, int)
+                                 or not YEARS[0] <= year <= YEARS[1]):
+            raise CaseError(f"{field}.year", f"{year!r}", f"a year from {YEARS[0]} to {YEARS[1]}", year)
         value = value["price"]
         field = f"{field}.price"
     price, currency, per = parse_price(value, field)

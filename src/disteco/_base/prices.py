@@ -112,8 +112,8 @@ def parse_price_option(text: str, option: str = "prices") -> PriceSetting:
     if at:
         year_text = year_text.strip()
         if not year_text.isdigit() or not YEARS[0] <= int(year_text) <= YEARS[1]:
-            raise CaseError(option, f"{year_text!r} after '@' is not a year", f"a year from {YEARS[0]} to {YEARS[1]}",
-                            text)
+            raise CaseError(option, f"{year_text!r} after '@' is not a year",
+                            f"a year from {YEARS[0]} to {YEARS[1]}", text)
         year = int(year_text)
     price, currency, per = parse_price(value, option)
     return PriceSetting(utility, price, currency, per, option, scenario or None, year)

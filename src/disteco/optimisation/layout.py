@@ -155,5 +155,6 @@ def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_siz
                         tuple(binding), tuple(options), spacings, unconstrained, sections)
 
 
-__all__ = ["MORE_STAGES", "ONE_SHELL", "SPACING_TOLERANCE", "STAGE_BOUND_STEP", "SWAGE_THRESHOLD", "TWO_SHELLS", "best_spacing",
-           "choose_layout", "layout_option", "spacing_prices", "swaged_design", "unconstrained_tac"]
+__all__ = ["MORE_STAGES", "ONE_SHELL", "SPACING_TOLERANCE", "STAGE_BOUND_STEP", "SWAGE_THRESHOLD",
+           "TWO_SHELLS", "best_spacing", "choose_layout", "layout_option", "spacing_prices", "swaged_design",
+           "unconstrained_tac"]

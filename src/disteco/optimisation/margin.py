@@ -89,9 +89,10 @@ def start_at_floor(optimum: OptimumDesign, floor: float) -> tuple[int, int] | No
     if optimum.problem is None:
         return None
     estimate = shortcut(optimum.problem)
+    n_min, r_min = estimate.minimum_stages, estimate.minimum_reflux
     try:
-        ratio = (stages_from_gilliland(estimate.minimum_stages, estimate.minimum_reflux, floor)
-                 / stages_from_gilliland(estimate.minimum_stages, estimate.minimum_reflux, optimum.best.reflux_ratio))
+        ratio = (stages_from_gilliland(n_min, r_min, floor)
+                 / stages_from_gilliland(n_min, r_min, optimum.best.reflux_ratio))
     except InfeasibleSpecError:
         return None
     if not math.isfinite(ratio) or ratio <= 0.0:

@@ -4,8 +4,9 @@ A run is a known list of steps (shortcut design; per scenario: the search, the c
 thermo, the TAC-against-reflux curve; the cross pricing). :class:`ProgressPlan` times each
 step as it ends and estimates what is left from those times: a step of a kind already run
 is expected to take as long as the mean of its kind; a cross pricing (one configuration)
-as long as one configuration of the searches took on average. Until a search has ended
-there is nothing measured to go on and no estimate is given, rather than a wrong one.
+as long as one configuration of the searches took on average; checks and a curve not yet
+measured as a measured share of the search (:data:`SHARE_OF_SEARCH`). Until a search has
+ended there is nothing measured to go on and no estimate is given, rather than a wrong one.
 
 :class:`ProgressDisplay` shows the steps on stderr: a bar (tqdm) in a terminal, one plain
 line per step otherwise (a log file, a pipe), as before.
@@ -25,6 +26,11 @@ from dataclasses import dataclass
 # verification alone of another scenario's optimum (measured: 4 s against 0.1 s).
 SHORTCUT, SEARCH, CHECKS, VERIFY, CURVE, PRICING = "shortcut", "search", "checks", "verify", "curve", "pricing"
 REFRESH = 1.0  # s between redraws of the bar while a long step runs
+# Expected time of a step not yet measured, as a share of the mean search time [-]. Measured
+# (bench/bench_speed.py, four examples): the curve took 0.31-0.58 of the optimisation's CPU; on
+# the benzene example the checks on thermo with the control margin's second search 4 s against
+# a 5 s search.
+SHARE_OF_SEARCH = {CURVE: 0.5, CHECKS: 0.8}
 
 
 @dataclass(frozen=True)
@@ -93,6 +99,9 @@ class ProgressPlan:
             searched = [(seconds, n) for k, seconds, n in self.measured if k == SEARCH and n > 0]
             if searched:
                 return sum(s for s, _ in searched) / sum(n for _, n in searched)
+        searches = [seconds for k, seconds, _ in self.measured if k == SEARCH]
+        if kind in SHARE_OF_SEARCH and searches:
+            return SHARE_OF_SEARCH[kind] * sum(searches) / len(searches)
         return None
 
     def seconds_left(self) -> float | None:

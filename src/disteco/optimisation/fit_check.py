@@ -54,12 +54,14 @@ def check_fit(fitted: FittedMixture, mixture: Mixture, profile: StageProfile) ->
         dh = max(dh, abs(fitted.liquid_enthalpy_of(point.T, x) - mixture.liquid_enthalpy(point.T, P, x)),
                  abs(fitted.vapour_enthalpy_of(point.T, point.y) - mixture.vapour_enthalpy(point.T, P, point.y)))
     warnings = []
-    for value, tolerance, what in ((dT, BUBBLE_TEMPERATURE_TOLERANCE, f"bubble temperature by {dT:.3g} K"),
-                                   (dy, VAPOUR_FRACTION_TOLERANCE, f"vapour mole fraction by {dy:.3g}"),
-                                   (dh, ENTHALPY_TOLERANCE, f"molar enthalpy by {dh / 1e3:.3g} kJ/mol")):
+    for value, tolerance, what, allowed in (
+            (dT, BUBBLE_TEMPERATURE_TOLERANCE, f"bubble temperature by {dT:.3g} K",
+             f"{BUBBLE_TEMPERATURE_TOLERANCE:g} K"),
+            (dy, VAPOUR_FRACTION_TOLERANCE, f"vapour mole fraction by {dy:.3g}", f"{VAPOUR_FRACTION_TOLERANCE:g}"),
+            (dh, ENTHALPY_TOLERANCE, f"molar enthalpy by {dh / 1e3:.3g} kJ/mol", f"{ENTHALPY_TOLERANCE / 1e3:g} kJ/mol")):
         if value > tolerance:
             warnings.append(f"the fitted property forms differ from the thermodynamic library in {what} (tolerance "
-                            f"{tolerance:g}) at the column's stages; the optimum rests on them, the verification "
+                            f"{allowed}) at the column's stages; the optimum rests on them, the verification "
                             "on thermo does not")
     return FitCheck(stages, dT, dy, dh, not warnings, tuple(warnings))
 

@@ -136,9 +136,11 @@ def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostDat
                                 scenario, cost_year)
 
 
-def _unsettled(rounds: int, tac_change: float) -> tuple[str, ...]:
+def _unsettled(rounds: int, tac_change: float, moving: tuple[str, ...] = ()) -> tuple[str, ...]:
+    """The warning of rounds that ended unsettled; ``moving`` names what still moved in the last one."""
+    what = f": {', '.join(moving)}" if moving else ""
     return (f"the model's constants (efficiency, factors, coefficients, pressure profile) had not settled after "
-            f"{rounds} rounds of re-evaluation at the optimum (last TAC change {100 * tac_change:.2g} %)",)
+            f"{rounds} rounds of re-evaluation at the optimum (last TAC change {100 * tac_change:.2g} %){what}",)
 
 
 def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, options=None,
@@ -226,7 +228,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     if spacing != sizing.tray_spacing:  # the trays' pressure drop moves with the diameter the spacing gives
         sizing = replace(sizing, tray_spacing=spacing)
         problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
-    previous, kept, previous_at_limit = None, (), False
+    previous, kept, previous_at_limit, two_back = None, (), False, None
     visited, wall, solved = (), 0.0, 0  # over all rounds
     allowed = most_rounds or ROUNDS
     for rounds in range(1, allowed + SPACING_ROUNDS + 1):
@@ -270,9 +272,23 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         spacing = best_spacing(spacings, sizing.tray_spacing) if rounds == 1 else sizing.tray_spacing
         if same and change <= TAC_TOLERANCE and drop_settled and spacing == sizing.tray_spacing:
             break
-        if rounds >= allowed:
-            result = replace(result, warnings=result.warnings + _unsettled(rounds, change))
+        here = (best.stages, best.feed_stage)
+        if (here == two_back and change <= TAC_TOLERANCE and drop_settled and spacing == sizing.tray_spacing):
+            # a flat optimum: the rounds alternate between two configurations within the tolerance
+            result = replace(result, warnings=result.warnings + (
+                f"the rounds alternated between N={previous.best.stages} NF={previous.best.feed_stage} and "
+                f"N={best.stages} NF={best.feed_stage}, {100 * change:.2g} % apart in TAC: either is the "
+                f"optimum within the tolerance of {100 * TAC_TOLERANCE:g} %; the last is reported",))
             break
+        if rounds >= allowed:
+            moving = (() if same else (f"the configuration moved from N={previous.best.stages} "
+                                       f"NF={previous.best.feed_stage} to N={best.stages} NF={best.feed_stage}",)
+                      if previous is not None else ())
+            moving += () if drop_settled else (f"the pressure drop per stage moved "
+                                               f"{100 * abs(drop / problem.stage_pressure_drop - 1.0):.2g} %",)
+            result = replace(result, warnings=result.warnings + _unsettled(rounds, change, moving))
+            break
+        two_back = (previous.best.stages, previous.best.feed_stage) if previous is not None else None
         previous, start, reference = result, (best.stages, best.feed_stage), best.profile
         kept = (priced, problem, basis, sizing, limit)
         if spacing != sizing.tray_spacing:  # a new spacing restarts the pressure drop's settling

@@ -151,7 +151,7 @@ def test_tac_curve_marks_the_points_beyond_the_shell_height_limit():
     assert line.x[0] == min(d.reflux_ratio for d in designs if d.stages <= limit)
     table = tac_curve_table(designs, name, limit)
     marks = dict(zip(table.column("Stages [-]"), table.column("Shell height limit [-]")))
-    assert {n: m for n, m in marks.items()} == {n: "beyond" if n > limit else "within" for n in marks}
+    assert marks == {n: "beyond" if n > limit else "within" for n in marks}
     unlimited = tac_curve_plot(curves[:1], optima[0][1])
     assert not any(s.name.startswith(("Beyond", "Height limit")) for s in unlimited.series)
 

@@ -143,22 +143,23 @@ def size_factor(problem: SeparationProblem, stages: int) -> float:
 
 
 def attempts(config, strategies: tuple[str, ...] | None, retries: bool,
-             components: int = 2) -> list[tuple[float, str | None, int]]:
+             components: int = 2, first: bool = True, last_full: bool = True) -> list[tuple[float, str | None, int]]:
     """(start reflux factor, barrier strategy, iteration limit) of each try on one configuration.
 
-    Each strategy in turn from the Gilliland start, then the last one from the retry
-    starts. Every try but the last stops at ``quick_iterations`` (and ``quick_time_limit``):
-    a strategy that is going to converge does so quickly (measured, see DEVELOPERS.md), one
-    that is not only burns time. Barrier strategies apply to interior-point solvers only.
+    Each strategy in turn from the Gilliland start (``first``), then the last one from the
+    retry starts (``retries``). Every try but the last stops at ``quick_iterations`` (and
+    ``quick_time_limit``), the last too unless ``last_full``: a strategy that is going to
+    converge does so quickly (measured, see DEVELOPERS.md), one that is not only burns time.
+    Barrier strategies apply to interior-point solvers only.
     """
     if config.solver not in ("ripopt", "ipopt"):
         strategies = (None,)
     order = tuple(strategies or barrier_order(config, components))
-    plan = [(1.0, strategy) for strategy in order]
+    plan = [(1.0, strategy) for strategy in order] if first else []
     if retries:
         plan += [(factor, order[-1]) for factor in RETRY_REFLUX_FACTORS]
     quick = min(config.quick_iterations, config.max_iterations)
-    return [(factor, strategy, quick if k < len(plan) - 1 else config.max_iterations)
+    return [(factor, strategy, quick if k < len(plan) - 1 or not last_full else config.max_iterations)
             for k, (factor, strategy) in enumerate(plan)]
 
 
@@ -177,22 +178,32 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
     """
     config = model_options(options)
     full_limit = config.configuration_time_limit * size_factor(problem, stages) if time_limit is None else time_limit
-    try:
-        model, report = _tries(problem, basis, stages, feed_stage, config, start, fixed_reflux, full_limit,
-                               strategies)
-    except SolverError:
-        if not config.energy_balances or start is not None:
-            raise
-        # Homotopy: the constant-molar-overflow model, then the energy balances from its solution.
-        # Measured: ethane/propane/n-butane at 25 bar with a partial condenser, 20 stages, feed on
-        # 10: every try from the constant-molar-overflow start profile stalled (90 s); solved from
-        # the converged constant-molar-overflow model in 0.4 s.
-        # Each step gets the configuration's own limit: only configurations that stalled pay for it.
-        cmo = model_options(config)
-        cmo.energy_balances = False
-        first, _ = _tries(problem, basis, stages, feed_stage, cmo, None, fixed_reflux, full_limit, strategies)
-        model, report = _tries(problem, basis, stages, feed_stage, config, profile_of(first), fixed_reflux,
-                               full_limit, strategies)
+    components = len(problem.z)
+    retries = start is None and fixed_reflux is None
+
+    def tries(run_config, begin, plan):
+        return _tries(problem, basis, stages, feed_stage, run_config, begin, fixed_reflux, full_limit, plan)
+
+    if not config.energy_balances or start is not None:
+        model, report = tries(config, start, attempts(config, strategies, retries, components))
+    else:
+        try:  # each strategy's quick try from the Gilliland start
+            model, report = tries(config, None, attempts(config, strategies, False, components, last_full=False))
+        except SolverError:
+            try:
+                # Homotopy before the long tries: the constant-molar-overflow model, then the energy
+                # balances from its solution. Measured: ethane/propane/n-butane at 25 bar with a
+                # partial condenser, 20 stages, feed on 10: every try from the constant-molar-overflow
+                # start profile stalled (90 s), solved from the converged model in 0.4 s; the
+                # twenty-component debutaniser, 24 stages, feed on 9: the long tries 62 s in vain
+                # (ripopt overran its 20 s wall-time limit to 51 s), the homotopy 3 s.
+                cmo = model_options(config)
+                cmo.energy_balances = False
+                first, _ = tries(cmo, None, attempts(cmo, strategies, retries, components))
+                model, report = tries(config, profile_of(first), attempts(config, strategies, False, components))
+            except SolverError:  # the retry starts last (at a fixed reflux: the full tries from the start)
+                model, report = tries(config, None, attempts(config, strategies, retries, components,
+                                                             first=not retries))
     missed = shortfall(model)
     if missed > config.shortfall_tolerance:
         at = f"reflux ratio {fixed_reflux:.4g}, " if fixed_reflux is not None else ""
@@ -204,9 +215,9 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
 
 def _tries(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int, config,
            start: Profile | None, fixed_reflux: float | None, full_limit: float,
-           strategies: tuple[str, ...] | None) -> tuple[pyo.ConcreteModel, SolverReport]:
-    """The tries of :func:`attempts` on one configuration, until one solves; the last failure raises."""
-    plan = attempts(config, strategies, retries=start is None and fixed_reflux is None, components=len(problem.z))
+           plan: list[tuple[float, str | None, int]]) -> tuple[pyo.ConcreteModel, SolverReport]:
+    """The tries of ``plan`` (see :func:`attempts`) on one configuration, until one solves; the last
+    failure raises."""
     profiles = {}
     # One model for all tries: a failed solve loads nothing, so initialising again restores every value.
     model = build_column_model(problem, basis, stages, feed_stage, config)
@@ -217,7 +228,8 @@ def _tries(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage
         if fixed_reflux is not None:
             model.R.fix(fixed_reflux)
         quick = config.quick_time_limit * size_factor(problem, stages)
-        limit = full_limit if attempt == len(plan) - 1 else min(full_limit, quick)
+        last_full = attempt == len(plan) - 1 and iterations >= config.max_iterations  # see attempts()
+        limit = full_limit if last_full else min(full_limit, quick)
         try:
             return model, run_solver(model, config, limit, barrier=barrier, iterations=iterations)
         except SolverError:

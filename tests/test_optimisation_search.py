@@ -235,3 +235,28 @@ def test_worker_processes_give_the_serial_results(problem, cheap_steam, optimum)
         assert (other.best.stages, other.best.feed_stage, other.best.reflux_ratio) == \
             (optimum.best.stages, optimum.best.feed_stage, optimum.best.reflux_ratio)
         assert other.visited == optimum.visited
+
+
+def test_rounds_cut_short_report_their_constants_unsettled():
+    """One round of re-evaluated constants cannot show them settled: the result says so in its
+    flag (the console's Optimiser line and result.json solver.constants_settled read it) and in a
+    warning naming what the rounds could not compare."""
+    from disteco.api import cost_data_of, load_case, mixture_of
+    from disteco.optimisation.design import _optimise_rounds
+    from disteco.optimisation.options import model_options
+    from disteco.properties import feed_state
+    from disteco.reports.json_result import solver_json
+    from disteco.sizing.options import sizing_options
+
+    from conftest import EXAMPLES
+
+    case = load_case(EXAMPLES / "aromatics_binary.toml")
+    mixture = mixture_of(case)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    config = model_options(None)
+    config.max_stages = 60
+    cut = _optimise_rounds(case, mixture, feed, cost_data_of(case), config, sizing_options(case), None,
+                           most_rounds=1)
+    assert cut.rounds == 1 and not cut.settled
+    assert any(w.startswith("the model's constants") and "had not settled after 1 rounds" in w for w in cut.warnings)
+    assert solver_json(cut.solver, cut.rounds, cut.settled)["constants_settled"] is False

@@ -286,7 +286,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                       if previous is not None else ())
             moving += () if drop_settled else (f"the pressure drop per stage moved "
                                                f"{100 * abs(drop / problem.stage_pressure_drop - 1.0):.2g} %",)
-            result = replace(result, warnings=result.warnings + _unsettled(rounds, change, moving))
+            result = replace(result, warnings=result.warnings + _unsettled(rounds, change, moving), settled=False)
             break
         two_back = (previous.best.stages, previous.best.feed_stage) if previous is not None else None
         previous, start, reference = result, (best.stages, best.feed_stage), best.profile

@@ -169,6 +169,7 @@ class OptimumDesign:
     warnings: tuple[str, ...] = ()
     sequential: SequentialPrice | None = None  # the best design priced by the sizing and costing layers
     rounds: int = 1  # optimisations run until the re-evaluated model constants settled
+    settled: bool = True  # False: the rounds ended before the re-evaluated constants settled (a warning says why)
     # the separation problem and cost basis of the last round, for further designs on the same basis
     problem: object | None = field(default=None, compare=False, repr=False)
     basis: object | None = field(default=None, compare=False, repr=False)

@@ -219,11 +219,11 @@ def equipment_json(sizing: ColumnSizing) -> list[dict]:
         for e in sizing.equipment]
 
 
-def solver_json(report: SolverReport, rounds: int = 1) -> dict:
+def solver_json(report: SolverReport, rounds: int = 1, settled: bool = True) -> dict:
     return {"solver": report.solver, "status": report.status, "termination": report.termination,
             "gap": report.gap, "wall_time_s": report.wall_time,
             "configurations_solved": report.configurations_solved, "message": report.message,
-            "rounds": rounds,
+            "rounds": rounds, "constants_settled": settled,
             "unsolved": {"neighbours_of_chosen": report.neighbours,
                          "neighbours_of_chosen_unsolved": report.neighbours_unsolved,
                          "configurations": [{"stages": u.stages, "feed_stage": u.feed_stage, "reason": u.status}
@@ -300,7 +300,7 @@ def result_json(result: DesignResult) -> dict:
     profile = parts.profile or (stages.profile if stages else None)
     solver = None
     if parts.optimum is not None:
-        solver = solver_json(parts.optimum.solver, parts.optimum.rounds)
+        solver = solver_json(parts.optimum.solver, parts.optimum.rounds, parts.optimum.settled)
         solver["limited_by"] = [{"option": b.option, "value": b.value, "bound": b.text}
                                 for b in parts.optimum.limits]
     elif chosen is not None:

@@ -214,11 +214,10 @@ def design_text(result: DesignResult) -> str:
     if optimum is not None:
         gap = f", gap {optimum.solver.gap:.2%}" if optimum.solver.gap is not None else ""
         failed = f" ({len(optimum.solver.unsolved)} did not solve)" if optimum.solver.unsolved else ""
-        unsettled = any(w.startswith("the model's constants") for w in optimum.warnings)
         rounds = f"{optimum.rounds} round{'s' if optimum.rounds != 1 else ''}"
         lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
                      f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s, "
-                     + (f"{rounds} without the model's constants settling (see the warnings)" if unsettled
-                        else f"{rounds} until the model's constants settled"))
+                     + (f"{rounds} until the model's constants settled" if optimum.settled
+                        else f"{rounds} without the model's constants settling (see the warnings)"))
     lines += scenario_lines(parts)
     return "\n".join(lines)

@@ -151,3 +151,45 @@ def test_depentaniser_above_the_critical_pressures_exits_2(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "no vapour-liquid split exists at 40 bar" in err and "n-hexane 30.44 bar" in err
     assert "Traceback" not in err
+
+
+@pytest.fixture(scope="module")
+def c2_splitter():
+    return build_mixture(("ethylene", "ethane"), Thermo("peng-robinson"), 45e5)
+
+
+def test_second_route_finds_a_near_critical_bubble_point(c2_splitter):
+    """Nearly pure ethane at 45 bar saturates 3.9 K below its critical temperature, where the
+    equation of state keeps a liquid root only a fraction of a kelvin above saturation: thermo's
+    flash fails at this composition and the second route must bisect into that window. Reference:
+    thermo's pure-component Peng-Robinson saturation temperature of ethane at 45 bar (PR.Tsat),
+    which the trace of ethylene lowers by under 0.001 K; tolerance 0.001 K."""
+    from disteco.properties.vle_fallback import saturation_point, wilson_start
+
+    c = c2_splitter._constants
+    pure = PR(Tc=c.Tcs[1], Pc=c.Pcs[1], omega=c.omegas[1], T=280.0, P=45e5).Tsat(45e5)
+    z = np.array([2.85e-7, 1.0 - 2.85e-7])
+    T0, k0 = wilson_start(45e5, z, 0.0, c.Tcs, c.Pcs, c.omegas)
+    T, x, y = saturation_point(lambda T, x, y: c2_splitter.k_values(T, 45e5, x, y), z, 0.0, T0, k0)
+    assert pure == pytest.approx(301.398, abs=0.01)
+    assert T == pytest.approx(pure, abs=1e-3)
+    assert y[0] > x[0]  # ethylene is the lighter
+
+
+def test_near_critical_c2_splitter_profile_converges(c2_splitter):
+    """An ethylene/ethane column at 45 bar: the interpolated start puts the ethane-rich bottom
+    stages a fraction of a kelvin above where their liquid root ends (K all one, a singular Newton
+    matrix). The constant-molar-overflow Newton starts those stages at their bubble points and
+    converges; its profile meets the bubble-point condition on thermo's fugacities (1e-6)."""
+    from disteco.stages.cmo import cmo_unknowns
+    from disteco.stages.mesh import ColumnProblem
+
+    problem = ColumnProblem(N=100, feed_stage=50, pressures=tuple(45e5 + 500.0 * np.arange(101)),
+                            feed_flow=111.1, z=(0.6, 0.4), feed_enthalpy=0.0, feed_q=1.0, reflux_ratio=20.0,
+                            distillate_flow=66.1, partial_condenser=False, subcooling=0.0, energy=False)
+    U = cmo_unknowns(c2_splitter, problem)
+    for row, P in zip(U[1:], problem.pressures[1:]):
+        l, T = row[:2], row[-1]
+        x = l / l.sum()
+        assert np.log(np.dot(c2_splitter.k_values(T, P, x), x)) == pytest.approx(0.0, abs=1e-6)
+    assert 295.0 < U[-1, -1] < 302.0  # bottoms near ethane's saturation temperature at 45 bar

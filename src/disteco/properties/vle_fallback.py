@@ -31,7 +31,8 @@ TRIVIAL_LN_K = 1e-4  # [-]; all |ln K| below this: both phases are the same flui
 INNER_ITERATIONS = 200
 INNER_TOLERANCE = 1e-11
 BRACKET_STEP = 5.0  # K
-BRACKET_STEPS = 40
+BRACKET_STEPS = 80
+GAP_RESOLUTION = 1e-6  # K; a gap of no split narrower than this ends the search
 
 
 class NoSplit(Exception):
@@ -77,23 +78,54 @@ def saturation_point(k_values: KFunction, z, beta: float, T_start: float, k_star
         return value
 
     with np.errstate(all="ignore"):
-        low = high = T_start
-        f_low = f_high = _safe(f, T_start)
-        for _ in range(BRACKET_STEPS):
-            if f_low is not None and f_high is not None and f_low < 0.0 < f_high:
-                break
-            if f_low is None or f_low >= 0.0:
-                low -= BRACKET_STEP
-                f_low = _safe(f, low)
-            if f_high is None or f_high <= 0.0:
-                high += BRACKET_STEP
-                f_high = _safe(f, high)
-        else:
-            raise NoSplit
+        low, high = _bracket(f, T_start)
         T = brentq(f, low, high, xtol=1e-9)
         _, k = residual(k_values, T, z, beta, state["k"])
         x, y = _phases(k, z, beta)
     return float(T), x, y
+
+
+def _bracket(f: Callable[[float], float], T_start: float) -> tuple[float, float]:
+    """Temperatures [K] with f < 0 at the first and f >= 0 at the second (f rises with T).
+
+    Steps of ``BRACKET_STEP`` outward from ``T_start``; where a step lands on one fluid
+    phase (no split) beyond a temperature that still splits, the gap is bisected instead:
+    near a component's critical point the equation of state keeps a liquid root only a
+    little above the saturation temperature, less than one step (near-pure ethane at
+    45 bar saturates at 301.4 K, 3.9 K below its critical temperature). Raises :class:`NoSplit` when no bracket is found.
+    """
+    points: dict[float, float | None] = {T_start: _safe(f, T_start)}
+    for _ in range(BRACKET_STEPS):
+        negative = [T for T, v in points.items() if v is not None and v < 0.0]
+        positive = [T for T, v in points.items() if v is not None and v >= 0.0]
+        if negative and positive:
+            return max(negative), min(positive)
+        tried = []
+        if not positive:
+            tried.append(_next_probe(points, negative, max, 1.0))
+        if not negative:
+            tried.append(_next_probe(points, positive, min, -1.0))
+        tried = [T for T in tried if T is not None]
+        if not tried:
+            break
+        for T in tried:
+            points[T] = _safe(f, T)
+    raise NoSplit
+
+
+def _next_probe(points: dict, valid: list[float], nearest, direction: float) -> float | None:
+    """Next temperature to try beyond ``valid`` in ``direction``: into a gap of no split, or one step on."""
+    if not valid:
+        edge = max(points) if direction > 0.0 else min(points)
+        return edge + direction * BRACKET_STEP
+    start = nearest(valid)
+    gap = [T for T, v in points.items() if v is None and (T - start) * direction > 0.0]
+    if not gap:
+        return start + direction * BRACKET_STEP
+    end = min(gap, key=lambda T: abs(T - start))
+    if abs(end - start) < GAP_RESOLUTION:
+        return None
+    return 0.5 * (start + end)
 
 
 def _safe(f, T):

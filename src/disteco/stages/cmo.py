@@ -85,6 +85,27 @@ class TemperatureNewton:
         return g, J / total[:, None], K, l
 
 
+def _one_fluid(K: np.ndarray) -> np.ndarray:
+    """Per contact: its K all equal one. Near the critical region the equation of state has only one
+    root there, K carries no temperature slope and the Newton matrix would be singular."""
+    return np.all(np.abs(np.log(K)) < 1e-12, axis=1)
+
+
+def _two_phase_temperatures(newton: TemperatureNewton, Ts: np.ndarray, x: np.ndarray) -> np.ndarray:
+    """``Ts`` with every one-fluid contact moved to the bubble temperature of its liquid.
+
+    A near-critical start (a bottoms of nearly pure ethane at 45 bar) interpolates
+    temperatures a fraction of a kelvin above where the liquid root ends.
+    """
+    flat = _one_fluid(newton.k_values(Ts, x))
+    if not flat.any():
+        return Ts
+    Ts = Ts.copy()
+    for j in np.flatnonzero(flat):
+        Ts[j] = newton.m.bubble_point(newton.P[j], x[j]).T
+    return Ts
+
+
 def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
     """Converged CMO profile as the unknown array (N + 1, 2C + 1) of the stage equations."""
     x, T = first_guess(mixture, problem)
@@ -94,6 +115,7 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         Ts = T.copy()
     else:
         Ts = T[1:].copy()
+    Ts = _two_phase_temperatures(newton, Ts, x)
     g, J, K, l = newton.residual_and_jacobian(Ts, x)
     for _ in range(MAX_ITERATIONS):
         step = np.linalg.solve(J, -g)
@@ -102,7 +124,8 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         for _ in range(10):
             trial = Ts + step
             g_new, J_new, K_new, l_new = newton.residual_and_jacobian(trial, x)
-            if np.all(np.isfinite(g_new)) and np.linalg.norm(g_new) < norm * (1.0 + 1e-9) + 1e-13:
+            if np.all(np.isfinite(g_new)) and not _one_fluid(K_new).any() \
+                    and np.linalg.norm(g_new) < norm * (1.0 + 1e-9) + 1e-13:
                 break
             step *= 0.5
         Ts, g, J, K, l = trial, g_new, J_new, K_new, l_new
@@ -110,6 +133,7 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         change = np.abs(x_new - x).max()
         x = x_new
         if change > 0.0:
+            Ts = _two_phase_temperatures(newton, Ts, x)
             g, J, K, l = newton.residual_and_jacobian(Ts, x)
         if np.abs(g).max() < TOLERANCE and change < TOLERANCE:
             break

@@ -147,3 +147,24 @@ def test_partial_condenser_drum_holds_reflux_only(mixture, sized):
     profile = dataclasses.replace(make_profile(mixture), partial_condenser=True)
     partial = size_column(profile, mixture, UTILITIES, 850.0, 1000.0)
     assert partial.reflux_drum.volume == pytest.approx(sized.reflux_drum.volume * R / (R + 1), rel=0.02)
+
+
+def test_lowest_metal_temperatures_and_cold_service_warning(mixture, sized):
+    """Each item carries its lowest operating metal temperature (process or utility side). The
+    benzene column on cooling water stays warm: no warning. Condensed on a -40 degC refrigerant,
+    the condenser's metal meets -40 degC, below -28.9 degC (-20 degF), the lowest temperature of
+    the SA-516 Grade 70 allowable-stress table (ASME BPVC Section II Part D Table 1A, from
+    memory), and only the condenser is named."""
+    profile = make_profile(mixture)
+    lowest = {item.tag: item.minimum_temperature for item in sized.equipment}
+    assert lowest["column"] == pytest.approx(min(profile.T))
+    assert lowest["condenser"] == pytest.approx(C + 30)  # the cooling water's supply
+    assert lowest["reboiler"] == pytest.approx(min(profile.T[-2:]))
+    assert lowest["reflux_drum"] == pytest.approx(profile.condenser_temperature)
+    assert not any("metal temperature" in w for w in sized.warnings)
+    cold = (UtilityLevel("refrigerant", "cooling", "refrigerant", C - 40, C - 40), UTILITIES[1])
+    chilled = size_column(profile, mixture, cold, 850.0, 1000.0)
+    assert {i.tag: i.minimum_temperature for i in chilled.equipment}["condenser"] == pytest.approx(C - 40)
+    [warning] = [w for w in chilled.warnings if "metal temperature" in w]
+    assert "below -28.9 degC" in warning and "condenser -40.0 degC" in warning
+    assert "column" not in warning.split(":")[1]

@@ -215,6 +215,7 @@ def equipment_json(sizing: ColumnSizing) -> list[dict]:
          "material": e.material, "quantity": e.quantity,
          "design_pressure_kPa_gauge": e.design_pressure / 1e3,
          "design_temperature_degC": to_degC(e.design_temperature),
+         "lowest_operating_temperature_degC": None if e.minimum_temperature is None else to_degC(e.minimum_temperature),
          "overall_coefficient_W_per_m2K": e.overall_coefficient, "coefficient_basis": e.coefficient_basis}
         for e in sizing.equipment]
 

@@ -69,12 +69,14 @@ def equipment_table(sizing: ColumnSizing) -> Table:
                text("Size measures", 24.0), Column("Diameter", "m", "0.000"), Column("Length", "m", "0.000"),
                text("Material", 18.0), Column("Design pressure", "kPa gauge", "0.0", 16.0),
                Column("Design temperature", "degC", "0.0", 16.0),
+               Column("Lowest operating temperature", "degC", "0.0", 16.0),
                Column("Overall coefficient U", "W/(m^2 K)", "0", 14.0), text("U basis and source", 60.0))
     rows = []
     for item in sizing.equipment:
         size, unit = _size(item.size, item.size_unit)
         rows.append((item.tag, item.kind, item.quantity, size, unit, item.size_basis, item.diameter, item.length,
                      item.material, _gauge_kpa(item.design_pressure), to_degC(item.design_temperature),
+                     None if item.minimum_temperature is None else to_degC(item.minimum_temperature),
                      item.overall_coefficient, item.coefficient_basis or ""))
     return Table("Equipment list", columns, tuple(rows))
 

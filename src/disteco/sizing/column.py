@@ -18,6 +18,7 @@ from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchanger_service import REBOILER_KINDS
 from .exchangers import ExchangerSizing, OverallCoefficient, size_exchanger
+from .materials import low_temperature_warning, material
 from .flooding import FLOW_PARAMETER_RANGE
 from .tray_pressure_drop import TrayPressureDrop, sieve_tray_pressure_drop, weir_height_for
 from .trays import TrayHydraulics, round_up, tray_hydraulics
@@ -56,6 +57,7 @@ class EquipmentItem:
     length: float | None = None  # m, where meaningful
     overall_coefficient: float | None = None  # W/(m^2 K), exchangers only
     coefficient_basis: str | None = None  # process side and source of the coefficient, exchangers only
+    minimum_temperature: float | None = None  # K, lowest operating metal temperature (process or utility side)
 
 
 @dataclass(frozen=True)
@@ -235,7 +237,7 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
         vessel = design_vessel(diameter, height.tangent_length, max(P), max(T), options.shell_material,
                                options.joint_efficiency, options.corrosion_allowance,
                                options.pressure_margin_fraction, options.pressure_margin_minimum,
-                               options.temperature_margin, min(P))
+                               options.temperature_margin, min(P), min(T))
         warnings.extend(vessel.warnings)
         return height, vessel
 
@@ -269,6 +271,10 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
 
     equipment = _equipment(vessel, diameter, d_rect, d_strip, n_real, n_rect, options, condenser, reboiler,
                            drum, pump, top_design_p, top_design_t, shells)
+    cold = low_temperature_warning(material(vessel.material), {
+        item.tag.replace("_", " "): item.minimum_temperature for item in equipment
+        if item.minimum_temperature is not None and item.kind != "sieve tray"})
+    warnings.extend([cold] if cold else [])
     weir = weir_height_for(profile.P[0])
     drops = tuple(sieve_tray_pressure_drop(t, diameter, weir) for t in trays)
     return ColumnSizing(trays, options.flood_fraction, diameter, d_rect, d_strip, options.separate_sections,
@@ -293,11 +299,18 @@ def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: fl
                drum: DrumSizing, pump: PumpSizing, top_p: float, top_t: float,
                split: ShellSplit | None) -> tuple[EquipmentItem, ...]:
     common = dict(material=vessel.material, material_class=vessel.material_class)
-    column_design = dict(design_pressure=vessel.design_pressure, design_temperature=vessel.design_temperature)
+    column_design = dict(design_pressure=vessel.design_pressure, design_temperature=vessel.design_temperature,
+                         minimum_temperature=min(v.minimum_temperature for v in (vessel, *(
+                             [split.upper_vessel] if split else []))))
+    # the condensate leaves the condenser at its own temperature; the exchangers' metal also meets the utility
+    condensate = min(condenser.process_in, condenser.process_out)
+    cold_condenser = min(condensate, condenser.utility_in, condenser.utility_out)
+    cold_reboiler = min(reboiler.process_in, reboiler.process_out, reboiler.utility_in, reboiler.utility_out)
     shells = [("column", vessel)] if split is None else [("column", split.upper_vessel), ("column_lower", vessel)]
     items = [EquipmentItem(tag, "vertical pressure vessel", v.mass, "kg", "shell and heads mass", **common,
                            design_pressure=v.design_pressure, design_temperature=v.design_temperature,
-                           diameter=diameter, length=v.tangent_length) for tag, v in shells]
+                           minimum_temperature=v.minimum_temperature, diameter=diameter, length=v.tangent_length)
+             for tag, v in shells]
     if options.separate_sections and d_rect != d_strip:
         sections = (("trays_rectifying", d_rect, n_rect), ("trays_stripping", d_strip, n_real - n_rect))
     else:
@@ -306,25 +319,29 @@ def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: fl
                             diameter=d) for tag, d, count in sections if count > 0]
     items += [
         EquipmentItem("condenser", "shell-and-tube heat exchanger", condenser.area, "m^2", "heat-transfer area",
-                      **common, design_pressure=top_p, design_temperature=top_t, **_coefficient(condenser)),
+                      **common, design_pressure=top_p, design_temperature=top_t, minimum_temperature=cold_condenser,
+                      **_coefficient(condenser)),
         EquipmentItem("reboiler", REBOILER_KINDS.get(reboiler.exchanger_type, "shell-and-tube heat exchanger"),
-                      reboiler.area, "m^2", "heat-transfer area", **common, **column_design,
-                      **_coefficient(reboiler)),
+                      reboiler.area, "m^2", "heat-transfer area", **common,
+                      **(column_design | dict(minimum_temperature=cold_reboiler)), **_coefficient(reboiler)),
         EquipmentItem("reflux_drum", "horizontal pressure vessel", drum.volume, "m^3", "volume", **common,
                       design_pressure=drum.design_pressure, design_temperature=drum.design_temperature,
-                      diameter=drum.diameter, length=drum.length),
+                      minimum_temperature=condensate, diameter=drum.diameter, length=drum.length),
         EquipmentItem("reflux_pump", "centrifugal pump", pump.shaft_power, "W", "shaft power", **common,
-                      design_pressure=pump.design_pressure, design_temperature=pump.design_temperature),
+                      design_pressure=pump.design_pressure, design_temperature=pump.design_temperature,
+                      minimum_temperature=condensate),
     ]
     if split is not None:
         transfer, line = split.transfer_pump, split.vapour_line
         upper = split.upper_vessel
         items += [
             EquipmentItem("transfer_pump", "centrifugal pump", transfer.shaft_power, "W", "shaft power", **common,
-                          design_pressure=transfer.design_pressure, design_temperature=transfer.design_temperature),
+                          design_pressure=transfer.design_pressure, design_temperature=transfer.design_temperature,
+                          minimum_temperature=column_design["minimum_temperature"]),
             EquipmentItem("vapour_line", "process pipe", line.surface, "m^2", "pipe surface (pi D L)", **common,
                           design_pressure=upper.design_pressure, design_temperature=vessel.design_temperature,
-                          diameter=line.diameter, length=line.length),
+                          minimum_temperature=column_design["minimum_temperature"], diameter=line.diameter,
+                          length=line.length),
         ]
     return tuple(items)
 

@@ -58,6 +58,25 @@ class Material:
         return s0 + (s1 - s0) * (temperature - t0) / (t1 - t0)
 
 
+def low_temperature_warning(steel: Material, temperatures: dict[str, float]) -> str | None:
+    """A warning naming the items whose lowest operating metal temperature [K] (by item name)
+    lies below the material's allowable-stress table; None where none does.
+
+    The code's low-temperature rules then decide the material (ASME Section VIII Division 1:
+    impact testing of carbon and low-alloy steels under UCS-66, of high-alloy steels under
+    UHA-51; from memory). Costs stay those of the tabulated material.
+    """
+    lowest = steel.temperatures[0]
+    cold = ", ".join(f"{where} {T - 273.15:.1f} degC" for where, T in temperatures.items() if T < lowest)
+    if not cold:
+        return None
+    return (f"lowest operating metal temperatures below {lowest - 273.15:.1f} degC, the lowest temperature of "
+            f"{steel.name}'s allowable-stress table: {cold}; the code's low-temperature rules decide the "
+            "material (ASME Section VIII Division 1: impact testing under UCS-66 for carbon and low-alloy "
+            "steels, UHA-51 for high-alloy steels; from memory) and depressuring can chill the metal further; "
+            "costed as the tabulated material")
+
+
 def _number(row: dict, column: str, line: int) -> float:
     text = (row.get(column) or "").strip()
     try:

@@ -286,16 +286,19 @@ class VesselDesign:
     caution: str = CAUTION
     external_pressure: float = 0.0  # Pa, external design pressure (full vacuum below atmospheric, else 0)
     shell_thickness_external: float = 0.0  # m, von Mises buckling with the design factor, without corrosion allowance
+    minimum_temperature: float | None = None  # K, lowest operating temperature (None: not given)
 
 
 def design_vessel(inside_diameter: float, tangent_length: float, max_pressure: float, max_temperature: float,
                   material_name: str, joint_efficiency: float, corrosion_allowance: float,
                   pressure_margin_fraction: float, pressure_margin_minimum: float,
-                  temperature_margin: float, min_pressure: float | None = None) -> VesselDesign:
+                  temperature_margin: float, min_pressure: float | None = None,
+                  min_temperature: float | None = None) -> VesselDesign:
     """Design conditions, thicknesses and mass of a column shell with 2:1 ellipsoidal heads.
 
     ``max_pressure`` [Pa, absolute] and ``max_temperature`` [K] are operating maxima;
-    ``min_pressure`` [Pa, absolute] the lowest operating pressure (None: ``max_pressure``).
+    ``min_pressure`` [Pa, absolute] the lowest operating pressure (None: ``max_pressure``);
+    ``min_temperature`` [K] the lowest operating temperature, carried for the equipment list.
     Below atmospheric the shell is also designed for full vacuum (:func:`external_pressure_thickness`)
     over its tangent length plus a third of each head's depth (D/4), without stiffening rings.
     """
@@ -325,7 +328,7 @@ def design_vessel(inside_diameter: float, tangent_length: float, max_pressure: f
     return VesselDesign(steel.name, steel.material_class, p_design, t_design, stress, joint_efficiency,
                         corrosion_allowance, inside_diameter, tangent_length, t_shell, t_head,
                         nominal_shell, nominal_head, mass, tuple(warnings), external_pressure=external,
-                        shell_thickness_external=t_external)
+                        shell_thickness_external=t_external, minimum_temperature=min_temperature)
 
 
 @dataclass(frozen=True)

@@ -95,3 +95,17 @@ def test_tray_spacing_chosen_is_the_best_of_the_list(reduced, tmp_path_factory):
     assert chosen.sizing_options.tray_spacings == (0.5, 0.6)
     assert chosen.sequential.cost.tac_per_year <= best.sequential.cost.tac_per_year * 1.001
     assert chosen.sequential.sizing.height.tray_spacing == 0.5
+
+
+def test_one_shell_without_a_design_falls_back_to_two_shells(tmp_path_factory):
+    """Shells of at most 24 m hold 24 stages of the reduced splitter at 0.6 m spacing, just above
+    Fenske's minimum (22.9): no reflux within the model's range meets the specifications in one
+    shell. That is the height limit's doing, not an infeasible case: two shells are optimised and
+    reported (measured: 48 stages, R 8.3), and the one-shell option says why it has no design."""
+    design = reduced_design(tmp_path_factory, 'tray_spacing = "0.6 m"\nmax_height = "24 m"')
+    options = {o.label: o for o in design.layout.options}
+    assert design.layout.chosen == "two shells" and design.best.stages == options["two shells"].stages > 24
+    assert options["one shell"].stages is None
+    assert options["one shell"].note.startswith("one shell of at most 24 m holds at most 24 stages")
+    assert "no design within them meets the product specifications" in options["one shell"].note
+    assert design.sequential.sizing.tallest_shell.tangent_length <= 24.0

@@ -243,6 +243,11 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                 _check_height_limit(problem, basis, sizing, run.max_stages)
             result = optimise(problem, basis, run, start=start)
         except (InfeasibleSpecError, SolverError) as failure:
+            if previous is None and limit is not None and type(failure) is InfeasibleSpecError:
+                # the height limit cut the stage range: more shells may hold the stages needed
+                raise HeightLimitError(
+                    f"{_shells_hold(sizing, basis, limit)}, and no design within them meets the product "
+                    "specifications") from failure
             if previous is None:
                 raise
             # keep the last round that found a design rather than lose the run
@@ -375,10 +380,15 @@ def _check_height_limit(problem: SeparationProblem, basis: CostBasis, sizing: Si
     """Refuse, in engineering words, a layout whose shells cannot hold Fenske's minimum stages."""
     minimum = shortcut(problem).minimum_stages
     if limit <= minimum:
-        raise HeightLimitError(
-            f"{sizing.shells} shell(s) of at most {sizing.max_height:g} m hold at most {limit} stages at "
-            f"{sizing.tray_spacing:.2f} m tray spacing and {100 * basis.trays.efficiency:.0f} % tray efficiency, "
-            f"not above the minimum of {minimum:.1f} stages at total reflux")
+        raise HeightLimitError(f"{_shells_hold(sizing, basis, limit)}, not above the minimum of {minimum:.1f} "
+                               "stages at total reflux")
+
+
+def _shells_hold(sizing: SizingOptions, basis: CostBasis, limit: int) -> str:
+    shells = "one shell" if sizing.shells == 1 else f"{sizing.shells} shells"
+    hold = "holds" if sizing.shells == 1 else "hold"
+    return (f"{shells} of at most {sizing.max_height:g} m {hold} at most {limit} stages at {sizing.tray_spacing:.2f} m "
+            f"tray spacing and {100 * basis.trays.efficiency:.0f} % tray efficiency")
 
 
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,

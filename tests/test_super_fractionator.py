@@ -13,7 +13,7 @@ import pytest
 from disteco.api import cost_data_of, mixture_of
 from disteco.case import load_case
 from disteco.optimisation.design import optimise_design
-from disteco.optimisation.search import STAGE_BOUND_FLOOR, default_max_stages
+from disteco.optimisation.problem import STAGE_BOUND_FLOOR, default_max_stages
 from disteco.properties import feed_state
 from disteco.sizing.options import sizing_options
 

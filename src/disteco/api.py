@@ -82,7 +82,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
              compare: bool, prices: tuple[PriceSetting | str, ...] = ()) -> _Prepared:
     """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
     from .costing.from_sizing import check_tray_material
-    from .optimisation.design import resolved_problem
+    from .optimisation.problem import resolved_problem
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut

@@ -22,17 +22,17 @@ from .._base.errors import InfeasibleSpecError, SolverError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
-from ..properties.fitted import fit_mixture
 from ..sizing.column import ColumnSizing
 from ..sizing.options import SizingOptions
-from .basis import CostBasis, SeparationProblem, check_problem
+from .basis import CostBasis, SeparationProblem
 from .options import model_options
 from .pricing import cost_basis_from_data, price_design, size_reference, stage_profile
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
 from .layout import MORE_STAGES, ONE_SHELL, SPACING_TOLERANCE, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, \
     choose_layout, layout_option, spacing_prices, swaged_design, unconstrained_tac
-from .search import STAGE_BOUND_FLOOR, default_max_stages, optimise, starting_configuration
+from .problem import resolved_problem, separation_problem
+from .search import optimise, starting_configuration
 from .solve import solve_configuration, start_profile
 from .start import shortcut
 
@@ -46,42 +46,6 @@ SPEC_SHORTFALL = 1e-4  # relative shortfall below which a given design is said t
 # ethanol-water; spacings 2 % dearer at a fixed design are taken as no better).
 SPACING_SCREEN = 0.02
 GIVEN_SHORTFALL = 0.05  # relative shortfall of a specification a given design is priced at, with a warning [-]
-
-
-def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages: int,
-                       stage_pressure_drop: float | None = None) -> SeparationProblem:
-    """The process side of ``case``, with forms fitted from the top pressure to ``max_stages`` stages down.
-
-    ``stage_pressure_drop`` [Pa per equilibrium stage]: None takes the case's preliminary
-    figure (per-tray drop over a preliminary efficiency, see :meth:`disteco.case.Column.stage_pressure_drop`).
-    """
-    column = case.column
-    drop = column.pressure_drop_per_stage if stage_pressure_drop is None else stage_pressure_drop
-    P_top = column.top_pressure
-    P_bottom = P_top + max_stages * drop
-    problem = SeparationProblem(
-        fit_mixture(mixture, P_top, P_bottom, z=feed.z), feed.molar_flow, tuple(feed.z), feed.q, P_top,
-        drop, case.products.light_key, case.products.heavy_key,
-        case.products.light_key_spec, case.products.heavy_key_spec, column.subcooling,
-        column.condenser == "partial")
-    check_problem(problem)
-    return problem
-
-
-def resolved_problem(case: Case, mixture: Mixture, feed: FeedState, config, at_least: int = 0) -> SeparationProblem:
-    """The separation problem fitted down to the search's stage bound, which this sets in ``config``.
-
-    Without a ``max_stages`` option the bound is :func:`default_max_stages` of Fenske's minimum
-    on forms fitted to ``STAGE_BOUND_FLOOR`` stages (refitted only when the bound is larger);
-    ``at_least`` raises it to a given design's stages.
-    """
-    if config.max_stages is None:
-        probe = separation_problem(case, mixture, feed, STAGE_BOUND_FLOOR)
-        config.max_stages = default_max_stages(shortcut(probe).minimum_stages)
-        if max(config.max_stages, at_least) == STAGE_BOUND_FLOOR:
-            return probe
-    config.max_stages = max(config.max_stages, at_least)
-    return separation_problem(case, mixture, feed, config.max_stages)
 
 
 def stage_pressure_drop(case: Case, sizing: ColumnSizing) -> float:

@@ -18,7 +18,8 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
 from .basis import CostBasis, SeparationProblem
 from .options import model_options
 from .results import DesignEvaluation, SearchStep
-from .search import Evaluator, default_max_stages, stage_floor
+from .problem import default_max_stages
+from .search import Evaluator, stage_floor
 from .solve import solve_configuration
 from .start import shortcut
 

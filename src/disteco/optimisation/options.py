@@ -97,7 +97,7 @@ def _options() -> ConfigDict:
     config.declare("max_stages", ConfigValue(
         default=None, domain=_optional(STAGE_COUNT),
         description="most equilibrium stages, reboiler included; None: a multiple of the Fenske minimum "
-                    "(see disteco.optimisation.search.default_max_stages)"))
+                    "(see disteco.optimisation.problem.default_max_stages)"))
     config.declare("configuration_time_limit", ConfigValue(
         default=5.0, domain=SECONDS,
         description="wall-clock limit of one configuration's NLP [s]; a configuration that hits it counts as "

@@ -35,18 +35,13 @@ import pyomo.environ as pyo
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError
 from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
 from .given import check_stage_bound
+from .problem import default_max_stages
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
 from .start import Profile, Shortcut, moved_profile, shortcut
 from .solve import certify, configuration_design, size_factor, solved_model
 
-# The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
-# Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
-# source); never below the 60 stages that were the fixed bound before, so small columns keep
-# the room they had.
-STAGE_BOUND_FACTOR = 4.5
-STAGE_BOUND_FLOOR = 60
 
 DIRECTIONS = tuple((dn, df) for dn in (-1, 0, 1) for df in (-1, 0, 1) if (dn, df) != (0, 0))
 IMPROVEMENT = 1e-7  # relative TAC drop that counts as a move
@@ -241,11 +236,6 @@ def start_of(design) -> Profile:
     p = design.profile
     return Profile(p.reflux_ratio, p.distillate_flow, np.array(p.T), np.array(p.x), np.array(p.y), np.array(p.L),
                    np.array(p.V))
-
-
-def default_max_stages(minimum_stages: float) -> int:
-    """Largest stage count searched when the options give none [-]: ``STAGE_BOUND_FACTOR`` x Fenske's minimum."""
-    return max(STAGE_BOUND_FLOOR, math.ceil(STAGE_BOUND_FACTOR * minimum_stages))
 
 
 def stage_floor(estimate: Shortcut, config) -> int:

@@ -13,7 +13,7 @@ from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages import StageDesign
-from .design import resolved_problem
+from .problem import resolved_problem
 from .fit_check import FitCheck, check_fit
 from .minimum_reflux import EnergyBalanceMinimum, energy_balance_minimum, minimum_warnings
 from .options import model_options

@@ -3,10 +3,14 @@ and the control margin on the reflux ratio, for result.json, the workbook and th
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from ..case import Case
-from ..optimisation.margin import ControlMargin
 from ..sizing.options import SizingOptions, sizing_options
 from .tables import Cell, Table, quantity_table
+
+if TYPE_CHECKING:  # the margin module imports the optimiser; annotations only
+    from ..optimisation.margin import ControlMargin
 
 # case key of [sizing]: (label with its display unit, result.json key, SI value -> display value)
 _SAME = None

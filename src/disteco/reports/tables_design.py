@@ -6,7 +6,6 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from ..costing import CostData, CostSummary, HeatTransferCoefficient
-from ..optimisation.margin import ControlMargin
 from ..optimisation.results import DesignEvaluation, OptimumDesign
 from ..properties import BinaryDiagram, MixtureSummary
 from ..sizing import ColumnSizing
@@ -17,7 +16,8 @@ from .plots import composition_profile_plot, stages_duty_plot, tac_curve_plot, t
 from .tables import Cell, Plot, Table, design_items, quantity_table
 from .tables_scenarios import CrossTable
 
-if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver interfaces
+if TYPE_CHECKING:  # annotations only; importing them would pull in the solver interfaces
+    from ..optimisation.margin import ControlMargin
     from ..optimisation.thermo_checks import ThermoChecks
 
 

@@ -6,9 +6,13 @@ run's cost year and its price index, and who set it (the cost data, a case field
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from ..costing.operating import UtilityPrice
 from .tables import Column, Table, text
-from .tables_design import ReportParts
+
+if TYPE_CHECKING:  # the design parts pull in the optimiser; `check` prints prices without it
+    from .tables_design import ReportParts
 
 
 def run_scenarios(parts: ReportParts) -> tuple[str, ...]:

@@ -12,3 +12,19 @@ def test_cli_and_api_leave_plotting_workbook_and_solver_interfaces_unloaded():
             f"print(','.join(m for m in {HEAVY!r} if m in sys.modules))")
     loaded = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.strip()
     assert loaded == ""
+
+
+def test_check_leaves_the_modelling_layer_and_workbook_unloaded():
+    """`check` fits the forms and finds the stage bound without Pyomo's modelling layer (a quarter
+    of a second to import), the workbook or the plots; once thermo's packages are kept on disk
+    (the first run), without chemicals' data tables and the pandas they are read with."""
+    from conftest import EXAMPLES
+
+    example = EXAMPLES / "aromatics_binary.toml"
+    heavy = ("pyomo.environ", "matplotlib", "openpyxl", "pandas", "disteco.optimisation.search")
+    code = ("import sys, contextlib, io, disteco.cli\n"
+            f"with contextlib.redirect_stdout(io.StringIO()): code = disteco.cli.main(['check', {str(example)!r}])\n"
+            f"print(code, ','.join(m for m in {heavy!r} if m in sys.modules))")
+    for run in ("fills the cache", "reads it"):
+        out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
+    assert out.split() == ["0"]

@@ -9,6 +9,7 @@ from functools import lru_cache
 from chemicals.identifiers import CAS_from_any, dippr_compounds, search_chemical
 
 from .._base.errors import CaseError
+from .data_cache import keep_name, kept_name
 
 POLAR_ELEMENTS = frozenset({"O", "N", "S", "F", "Cl", "Br", "I", "P"})
 OBSOLETE = "(obs.)"  # how the databank marks an obsolete synonym
@@ -67,8 +68,12 @@ def resolve_component(text: str, field: str = "mixture.components") -> Component
     """Resolve a name, synonym, CAS number or formula matching the databank exactly (any case).
 
     The databank's own search also accepts near spellings; a name it finds that is not one of
-    the chemical's exact names is refused with close matches, never substituted.
+    the chemical's exact names is refused with close matches, never substituted. An exact
+    resolution is kept on disk (:mod:`.data_cache`) for later runs.
     """
+    kept = kept_name(text)
+    if kept is not None:
+        return ComponentId(text, *kept)
     try:
         meta = search_chemical(CAS_from_any(text.strip()))
         exact = text.strip().lower() in _exact_names(meta)
@@ -82,6 +87,7 @@ def resolve_component(text: str, field: str = "mixture.components") -> Component
                                                    "thermo/chemicals databank, spelt exactly"
         raise CaseError(field, f"unknown component {text!r}", f"close matches: {hint}" if matches else hint,
                         text) from None
+    keep_name(text, meta.CASs, meta.common_name, meta.formula)
     return ComponentId(text, meta.CASs, meta.common_name, meta.formula)
 
 

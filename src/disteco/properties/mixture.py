@@ -1,6 +1,6 @@
 """The thermodynamics adapter: one ``Mixture`` per case, built once over thermo and cached.
 
-This module and ``components`` are the only places that import thermo/chemicals. Every
+This module, ``components`` and ``data_cache`` are the only places that import thermo/chemicals. Every
 method takes and returns SI floats and mole-fraction sequences; callers never see a thermo
 object.
 """
@@ -14,13 +14,14 @@ from functools import cached_property, lru_cache
 import numpy as np
 from chemicals.interface import Winterfeld_Scriven_Davis
 from scipy.optimize import brentq
-from thermo import (CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL, GibbsExcessLiquid,
+from thermo import (CEOSGas, CEOSLiquid, FlashVL, GibbsExcessLiquid,
                     IdealGas, NRTL, PRMIX, UNIFAC, Wilson)
 from thermo.unifac import DOUFIP2016, DOUFSG
 
 from .._base.errors import CaseError, InfeasibleSpecError, PropertyError
 from ..case import Thermo
 from .components import ComponentId, resolve_components
+from .data_cache import component_packages
 from .vle_fallback import NoSplit, isothermal_split, saturation_point, wilson_k, wilson_start
 from .critical import (extrapolated_surface_tension, log_mixing, supercritical_liquid_density,
                        supercritical_liquid_viscosity, supercritical_surface_tension)
@@ -76,7 +77,7 @@ class Mixture:
         self.components = components
         self.method = method
         ids = [c.cas for c in components]
-        self._constants, self._correlations = ChemicalConstantsPackage.from_IDs(ids)
+        self._constants, self._correlations = component_packages(ids)
         choose_published_methods(self._correlations)
         self._flasher = self._make_flasher(thermo_spec)
         self._notes: dict[str, str] = {}

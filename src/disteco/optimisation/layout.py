@@ -106,7 +106,8 @@ def swaged_design(optimum: OptimumDesign, mixture, data, scenario, cost_year) ->
     need_top = max((t.diameter for t in sized.hydraulics if t.stage < feed), default=0.0)
     need_bottom = max((t.diameter for t in sized.hydraulics if t.stage >= feed), default=0.0)
     gap = abs(need_top - need_bottom) / max(need_top, need_bottom)
-    words = f"section diameters {d_top:.2f} m (rectifying) and {d_bottom:.2f} m (stripping), {100 * gap:.0f} % apart"
+    words = (f"flooding asks {need_top:.2f} m (rectifying) and {need_bottom:.2f} m (stripping), {100 * gap:.0f} % "
+             f"apart; sections sized {d_top:.2f} and {d_bottom:.2f} m")
     if sized.split is not None:
         return optimum, f"{words}: one diameter (a swaged shell is priced for one shell only)"
     if optimum.sizing_options.separate_sections:

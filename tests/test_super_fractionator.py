@@ -97,15 +97,24 @@ def test_tray_spacing_chosen_is_the_best_of_the_list(reduced, tmp_path_factory):
     assert chosen.sequential.sizing.height.tray_spacing == 0.5
 
 
-def test_one_shell_without_a_design_falls_back_to_two_shells(tmp_path_factory):
+@pytest.mark.parametrize("gilliland", [True, False])
+def test_one_shell_without_a_design_falls_back_to_two_shells(tmp_path_factory, monkeypatch, gilliland):
     """Shells of at most 24 m hold 24 stages of the reduced splitter at 0.6 m spacing, just above
     Fenske's minimum (22.9): no reflux within the model's range meets the specifications in one
     shell. That is the height limit's doing, not an infeasible case: two shells are optimised and
-    reported (measured: 48 stages, R 8.3), and the one-shell option says why it has no design."""
+    reported (measured: 48 stages, R 8.3), and the one-shell option says why it has none. Gilliland's
+    correlation at the highest reflux searched (50) asks 24.6 stages, so the one-shell search is
+    skipped; with that screen switched off the search itself finds no design (the backstop)."""
+    import disteco.optimisation.design as design_module
+
+    if not gilliland:
+        monkeypatch.setattr(design_module, "stages_from_gilliland", lambda *args: 0.0)
     design = reduced_design(tmp_path_factory, 'tray_spacing = "0.6 m"\nmax_height = "24 m"')
     options = {o.label: o for o in design.layout.options}
     assert design.layout.chosen == "two shells" and design.best.stages == options["two shells"].stages > 24
+    note = options["one shell"].note
     assert options["one shell"].stages is None
-    assert options["one shell"].note.startswith("one shell of at most 24 m holds at most 24 stages")
-    assert "no design within them meets the product specifications" in options["one shell"].note
+    assert note.startswith("one shell of at most 24 m holds at most 24 stages")
+    assert ("fewer than the 24.6 stages Gilliland's correlation asks" in note) == gilliland
+    assert ("no design within them meets the product specifications" in note) != gilliland
     assert design.sequential.sizing.tallest_shell.tangent_length <= 24.0

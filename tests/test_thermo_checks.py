@@ -60,16 +60,21 @@ def test_benzene_design_meets_its_specifications_on_thermo(benzene):
     assert v.condenser_duty == pytest.approx(design.profile.condenser_duty, rel=5e-3)
 
 
-def test_ethanol_water_design_meets_its_specifications_on_thermo():
-    """UNIFAC near the tangent pinch: thermo meets both specifications at the model's design,
-    though the pinch zone sits elsewhere (the fitted NRTL moves it), which the differences show."""
+def test_ethanol_water_design_on_thermo_is_close_and_corrected_onto_its_specifications():
+    """UNIFAC near the tangent pinch. The fitted NRTL (alpha fitted per pair) follows thermo's
+    profile within 2 K and 0.05 in mole fraction (measured 0.67 K, 0.024; with alpha fixed at
+    0.3 the pinch zone sat elsewhere, up to several kelvin). The model's stage energy balances mix
+    enthalpies ideally, so thermo's column can fall short of a tight bottoms purity (measured:
+    0.00115 ethanol against 0.001); the verification then corrects the reflux on thermo, by a
+    few per cent at most (measured 1.265 -> 1.282), and the corrected column meets both."""
     case, mixture, feed, data, _, design = _given("ethanol_water")
     v = verify_design(case, mixture, feed, design, shortcut_design(mixture, feed, case.products, case.column), data)
-    assert v.specifications_met
-    assert v.keys.distillate_light_key_fraction >= 0.80 * (1 - 1e-3)
-    assert v.keys.bottoms_light_key_fraction <= 0.001 * (1 + SPEC_TOLERANCE)
-    assert 0.0 < v.max_temperature_difference < 10.0
-    assert 0.0 < v.max_composition_difference < 0.5
+    assert 0.0 < v.max_temperature_difference < 2.0
+    assert 0.0 < v.max_composition_difference < 0.05
+    reported = design.profile if v.corrected is None else v.corrected
+    assert reported.reflux_ratio == pytest.approx(design.profile.reflux_ratio, rel=0.03)
+    assert reported.distillate_composition[0] >= 0.80 * (1 - SPEC_TOLERANCE)
+    assert reported.bottoms_composition[0] <= 0.001 * (1 + SPEC_TOLERANCE)
 
 
 def test_a_design_just_short_of_its_specifications_is_corrected(benzene):

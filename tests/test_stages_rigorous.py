@@ -177,3 +177,26 @@ def test_balances_close_on_random_specs(benzene_toluene, N, feed_share, reflux, 
     spec = ColumnSpec(N, f, reflux, D, P_ATM, 300.0, partial_condenser=partial)
     for profile in (solve_cmo(mixture, feed, spec), solve_rigorous(mixture, feed, spec)):
         assert_balances(mixture, feed, profile)
+
+
+def test_time_limit_is_held_within_one_column_solve(alkanes, monkeypatch):
+    """The limit is checked before every column solve, not only between Newton steps (a step of a
+    278-stage column overran a 30 s limit to 60 s). On a clock that moves 10 s per column solve,
+    a 15 s limit stops before the second solve of the first Jacobian: two solves in all."""
+    from disteco._base.errors import ConvergenceError
+    import disteco.stages.specs as specs
+
+    mixture, feed, column, products, design = alkanes
+    clock = [0.0]
+    original = specs.solve_rigorous
+
+    def slow(*args, **kwargs):
+        clock[0] += 10.0
+        return original(*args, **kwargs)
+
+    monkeypatch.setattr(specs, "solve_rigorous", slow)
+    monkeypatch.setattr(specs.time, "monotonic", lambda: clock[0])
+    with pytest.raises(ConvergenceError, match="time limit of 15 s"):
+        solve_to_specs(mixture, feed, products, column, design, 40, design.feed_stage(40), energy=True,
+                       time_limit=15.0)
+    assert clock[0] == 20.0

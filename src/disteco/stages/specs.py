@@ -72,7 +72,8 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
     its D (and its R unless ``start_reflux`` is given), and the first solve is warm-started
     from it. ``pressure_drop_per_stage`` [Pa] replaces the column's; ``max_log_reflux_step``
     caps each Newton step in ln R (small steps keep warm starts good near a pinch);
-    ``time_limit`` [s] ends the Newton iterations with ConvergenceError once exceeded.
+    ``time_limit`` [s] ends the Newton iterations with ConvergenceError once exceeded (checked
+    before each column solve).
     Raises InfeasibleSpecError when the stages are too few, ConvergenceError when Newton
     fails (usually: too close to the minimum number of stages).
     """
@@ -81,6 +82,10 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
     began = time.monotonic()
 
     def run(log_r: float, D: float, guess: StageProfile | None):
+        # checked before every column solve, not only between Newton steps: one step of a
+        # 278-stage column (two Jacobian solves and a line search) took longer than the limit
+        if time_limit is not None and time.monotonic() - began > time_limit:
+            raise ConvergenceError(f"time limit of {time_limit:g} s passed")
         spec = ColumnSpec.from_column(column, stages, feed_stage, math.exp(log_r), D)
         if pressure_drop_per_stage is not None:
             spec = replace(spec, pressure_drop_per_stage=pressure_drop_per_stage)

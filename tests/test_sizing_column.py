@@ -168,3 +168,24 @@ def test_lowest_metal_temperatures_and_cold_service_warning(mixture, sized):
     [warning] = [w for w in chilled.warnings if "metal temperature" in w]
     assert "below -28.9 degC" in warning and "condenser -40.0 degC" in warning
     assert "column" not in warning.split(":")[1]
+
+
+def test_reboiler_flux_against_the_peak_heat_flux(mixture, sized):
+    """Zuber's peak heat flux (K 0.149) against the ht library's implementation (a general-purpose
+    reference library) at two states; the benzene reboiler on low-pressure steam stays far below its
+    peak, while an overall coefficient of 100 kW/(m2 K) (a tiny area) is warned with the area needed."""
+    from ht.boiling_nucleic import Zuber
+
+    from disteco.sizing.boiling import zuber_peak_heat_flux
+
+    for state in ((272e3, 567.0, 18.09, 8.2e-3), (360e3, 780.0, 2.9, 0.018)):
+        hvap, rhol, rhog, sigma = state
+        assert zuber_peak_heat_flux(*state) == pytest.approx(Zuber(sigma, hvap, rhol, rhog, K=0.149), rel=1e-12)
+    assert not any("heat flux" in w for w in sized.warnings)
+    profile = make_profile(mixture)
+    tiny = size_column(profile, mixture, UTILITIES, 850.0, 1e5)
+    [warning] = [w for w in tiny.warnings if "heat flux" in w]
+    flux = profile.reboiler_duty / tiny.reboiler.area
+    assert f"mean heat flux {flux / 1e3:,.0f} kW/m2" in warning and "film boiling" in warning
+    needed = float(warning.split("at least ")[1].split(" m2")[0].replace(",", ""))
+    assert tiny.reboiler.area < needed < sized.reboiler.area

@@ -38,7 +38,7 @@ KINDS = (
         r"extrapolat|nearer end|cost curve|electricity|parallel units|coefficient|price|index|scenario '",
         re.IGNORECASE)),
     Kind("sizing and mechanical", 2, True, re.compile(
-        r"height|tall|vacuum|shell|diameter|flood|buckling|tray|metal temperature", re.IGNORECASE)),
+        r"height|tall|vacuum|shell|diameter|flood|buckling|tray|metal temperature|heat flux", re.IGNORECASE)),
     Kind("other", 3, True, re.compile(r".")),
 )
 # Advice on the reflux ratio that a bound the optimum sits on explains (a stage bound forces a high R/Rmin).

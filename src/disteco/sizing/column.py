@@ -15,6 +15,7 @@ from .._base.errors import CaseError, CorrelationRangeError
 from .._base.validity import OutOfRange, ValidityRange
 from ..stages.results import StageProfile
 from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
+from .boiling import reboiler_flux_warning, zuber_peak_heat_flux
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchanger_service import REBOILER_KINDS
 from .exchangers import ExchangerSizing, OverallCoefficient, size_exchanger
@@ -251,6 +252,12 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
                                options.operating_hours, "fixed_tube_sheet")
     reboiler = size_exchanger("reboiler", "heating", profile.reboiler_duty, profile.T[n - 2], profile.T[n - 1],
                               utilities, U_reboiler, options.min_approach, options.operating_hours, reboiler_type)
+
+    boiling = trays[-1]  # the liquid the reboiler boils and the vapour above it
+    latent = profile.reboiler_duty / (profile.V[n - 1] * mixture.molar_mass(profile.y[n - 1]))
+    peak = zuber_peak_heat_flux(latent, boiling.liquid_density, boiling.vapour_density, boiling.surface_tension)
+    flux = reboiler_flux_warning(profile.reboiler_duty, reboiler.area, peak, reboiler.utility.name)
+    warnings.extend([flux] if flux else [])
 
     top_design_p = design_pressure(profile.P[0], options.pressure_margin_fraction, options.pressure_margin_minimum)
     top_design_t = max(profile.T[0], profile.condenser_temperature) + options.temperature_margin

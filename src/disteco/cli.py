@@ -14,6 +14,7 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from . import __version__
+from ._base import interrupt
 
 EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
 # Option of the command line behind each field of the given design and of the optimiser's options.
@@ -133,6 +134,7 @@ def _run(args) -> int:
 
 
 def _interrupt(signum, frame):
+    interrupt.request()  # read again after each solver call: the interrupt itself can be swallowed there
     raise KeyboardInterrupt
 
 
@@ -154,6 +156,7 @@ def main(argv: list[str] | None = None) -> int:
     from ._base.errors import DistecoError
 
     args = _parser().parse_args(argv)
+    interrupt.clear()
     try:
         with _terminate_as_interrupt():
             return _run(args)

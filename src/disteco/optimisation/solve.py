@@ -16,6 +16,7 @@ import pyomo_ripopt  # noqa: F401  registers the 'ripopt' solver with Pyomo
 from pyomo.opt import SolverStatus, TerminationCondition as TC
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
+from .._base.interrupt import stop_if_requested
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
 from .model import KILO, build_column_model, initialise, required_areas, shortfall
@@ -58,7 +59,9 @@ def _timed_solve(model, config, name: str, time_limit: float, failure: str, barr
     try:
         results = solver.solve(model, tee=config.tee, load_solutions=False)
     except (ValueError, RuntimeError, OSError) as exc:
+        stop_if_requested()  # an interrupt the modelling library reported as its own error
         raise SolverError(f"{name} {failure} {model.name}: {exc}") from exc
+    stop_if_requested()
     return results, time.perf_counter() - start
 
 

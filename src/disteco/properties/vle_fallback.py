@@ -92,7 +92,8 @@ def _bracket(f: Callable[[float], float], T_start: float) -> tuple[float, float]
     phase (no split) beyond a temperature that still splits, the gap is bisected instead:
     near a component's critical point the equation of state keeps a liquid root only a
     little above the saturation temperature, less than one step (near-pure ethane at
-    45 bar saturates at 301.4 K, 3.9 K below its critical temperature). Raises :class:`NoSplit` when no bracket is found.
+    45 bar saturates at 301.4 K, 3.9 K below its critical temperature). Raises
+    :class:`NoSplit` when no bracket is found.
     """
     points: dict[float, float | None] = {T_start: _safe(f, T_start)}
     for _ in range(BRACKET_STEPS):

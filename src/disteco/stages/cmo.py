@@ -91,19 +91,22 @@ def _one_fluid(K: np.ndarray) -> np.ndarray:
     return np.all(np.abs(np.log(K)) < 1e-12, axis=1)
 
 
-def _two_phase_temperatures(newton: TemperatureNewton, Ts: np.ndarray, x: np.ndarray) -> np.ndarray:
-    """``Ts`` with every one-fluid contact moved to the bubble temperature of its liquid.
+def _two_phase_evaluation(newton: TemperatureNewton, Ts: np.ndarray, x: np.ndarray):
+    """(Ts, residual, Jacobian, K, l) with every one-fluid contact first moved to the bubble
+    temperature of its liquid.
 
     A near-critical start (a bottoms of nearly pure ethane at 45 bar) interpolates
-    temperatures a fraction of a kelvin above where the liquid root ends.
+    temperatures a fraction of a kelvin above where the liquid root ends. The K of the
+    evaluation itself tell, so an ordinary column pays nothing for the check.
     """
-    flat = _one_fluid(newton.k_values(Ts, x))
+    g, J, K, l = newton.residual_and_jacobian(Ts, x)
+    flat = _one_fluid(K)
     if not flat.any():
-        return Ts
+        return Ts, g, J, K, l
     Ts = Ts.copy()
     for j in np.flatnonzero(flat):
         Ts[j] = newton.m.bubble_point(newton.P[j], x[j]).T
-    return Ts
+    return (Ts, *newton.residual_and_jacobian(Ts, x))
 
 
 def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
@@ -115,8 +118,7 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         Ts = T.copy()
     else:
         Ts = T[1:].copy()
-    Ts = _two_phase_temperatures(newton, Ts, x)
-    g, J, K, l = newton.residual_and_jacobian(Ts, x)
+    Ts, g, J, K, l = _two_phase_evaluation(newton, Ts, x)
     for _ in range(MAX_ITERATIONS):
         step = np.linalg.solve(J, -g)
         step *= min(1.0, MAX_STEP / np.abs(step).max())
@@ -133,8 +135,7 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         change = np.abs(x_new - x).max()
         x = x_new
         if change > 0.0:
-            Ts = _two_phase_temperatures(newton, Ts, x)
-            g, J, K, l = newton.residual_and_jacobian(Ts, x)
+            Ts, g, J, K, l = _two_phase_evaluation(newton, Ts, x)
         if np.abs(g).max() < TOLERANCE and change < TOLERANCE:
             break
     else:

@@ -306,9 +306,10 @@ def _equipment(vessel: VesselDesign, diameter: float, d_rect: float, d_strip: fl
                drum: DrumSizing, pump: PumpSizing, top_p: float, top_t: float,
                split: ShellSplit | None) -> tuple[EquipmentItem, ...]:
     common = dict(material=vessel.material, material_class=vessel.material_class)
+    coldest_shell = min(vessel.minimum_temperature, split.upper_vessel.minimum_temperature) if split \
+        else vessel.minimum_temperature
     column_design = dict(design_pressure=vessel.design_pressure, design_temperature=vessel.design_temperature,
-                         minimum_temperature=min(v.minimum_temperature for v in (vessel, *(
-                             [split.upper_vessel] if split else []))))
+                         minimum_temperature=coldest_shell)
     # the condensate leaves the condenser at its own temperature; the exchangers' metal also meets the utility
     condensate = min(condenser.process_in, condenser.process_out)
     cold_condenser = min(condensate, condenser.utility_in, condenser.utility_out)

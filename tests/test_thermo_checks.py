@@ -125,8 +125,9 @@ def test_depentaniser_reported_design_meets_the_specifications_on_thermo(depenta
 
 
 def test_fit_check_numbers_are_small_for_ideal_mixtures(depentaniser, benzene):
-    """Fitted Riedel vapour pressures and quadratic enthalpies against thermo at five stages of
-    the thermo profile: well inside the tolerances for Raoult's-law mixtures."""
+    """The fitted forms against thermo at five stages of the thermo profile: well inside the
+    tolerances for the depentaniser (Peng-Robinson, the automatic choice at 2.5 bar; measured
+    0.105 K, 1.1e-4, 0.020 kJ/mol)."""
     f = depentaniser[-1].fit
     assert len(f.stages) == 5 and f.within_tolerance and not f.warnings
     assert 0.0 < f.max_bubble_temperature_error < BUBBLE_TEMPERATURE_TOLERANCE

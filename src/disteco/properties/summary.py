@@ -6,8 +6,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .._base.errors import PropertyError
 from .binary import Azeotrope, all_azeotropes
-from .mixture import Mixture
+from .mixture import IDEAL_GAS_VAPOUR_LIMIT, Mixture
 
 VOLATILITY_GRID = np.linspace(0.01, 0.99, 25)
 
@@ -20,6 +21,22 @@ class ComponentSummary:
     molar_mass: float  # kg/mol
     normal_boiling_point: float  # K
     feed_fraction: float  # [-]
+
+
+@dataclass(frozen=True)
+class VapourIdeality:
+    """The key relative volatility at the feed's bubble point with the method's ideal-gas vapour
+    and with a real vapour (thermo's gamma-phi route), for a method that takes the vapour as
+    an ideal gas above :data:`IDEAL_GAS_VAPOUR_LIMIT`."""
+
+    temperature: float  # K, the feed's bubble point at the top pressure
+    alpha_ideal_gas: float  # [-]
+    alpha_real_vapour: float | None  # [-]; None where thermo could not evaluate the real vapour
+
+    @property
+    def overstatement(self) -> float | None:
+        """alpha with the ideal-gas vapour over alpha with the real vapour, minus one [-]."""
+        return None if self.alpha_real_vapour is None else self.alpha_ideal_gas / self.alpha_real_vapour - 1.0
 
 
 @dataclass(frozen=True)
@@ -36,6 +53,7 @@ class MixtureSummary:
     feed_bubble_T: float  # K
     feed_dew_T: float  # K
     azeotropes: tuple[Azeotrope, ...]
+    vapour: VapourIdeality | None = None  # only for an ideal-gas vapour above 2 bar
 
 
 def key_volatility_range(mixture: Mixture, pressure: float, light: int, heavy: int) -> tuple[float, float]:
@@ -60,4 +78,35 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
         light_key=mixture.names[light], heavy_key=mixture.names[heavy],
         key_volatility_min=low, key_volatility_max=high,
         feed_bubble_T=mixture.bubble_point(pressure, z).T, feed_dew_T=mixture.dew_point(pressure, z).T,
-        azeotropes=tuple(all_azeotropes(mixture, pressure)))
+        azeotropes=tuple(all_azeotropes(mixture, pressure)),
+        vapour=vapour_ideality(mixture, z, pressure, light, heavy))
+
+
+def vapour_ideality(mixture: Mixture, z, pressure: float, light: int, heavy: int) -> VapourIdeality | None:
+    """How far the ideal-gas vapour moves the key relative volatility at ``pressure`` [Pa], with a note.
+
+    None for Peng-Robinson and at or below :data:`IDEAL_GAS_VAPOUR_LIMIT`.
+    """
+    if not mixture.ideal_gas_vapour or pressure <= IDEAL_GAS_VAPOUR_LIMIT:
+        return None
+    bubble = mixture.bubble_point(pressure, z)
+    alpha = mixture.relative_volatility(bubble.T, pressure, bubble.x, light, heavy, bubble.y)
+    try:
+        k = mixture.real_vapour_k_values(bubble.T, pressure, bubble.x, bubble.y)
+        found = VapourIdeality(bubble.T, alpha, float(k[light] / k[heavy]))
+    except PropertyError:
+        found = VapourIdeality(bubble.T, alpha, None)
+    keys = f"{mixture.names[light]}/{mixture.names[heavy]}"
+    if found.alpha_real_vapour is None:
+        effect = "thermo could not evaluate a real vapour at the feed's bubble point"
+    else:
+        effect = (f"at the feed's bubble point ({bubble.T - 273.15:.1f} degC) the {keys} relative volatility is "
+                  f"{alpha:.4f} with it and {found.alpha_real_vapour:.4f} [-] with vapour fugacity coefficients "
+                  f"(Peng-Robinson), saturation fugacity coefficients and Poynting factors "
+                  f"({100.0 * found.overstatement:+.1f} %)")
+    remedy = ('method = "peng-robinson" takes the vapour as it is' if mixture.method == "ideal" else
+              "disteco's activity-coefficient methods have no real vapour yet: allow for it in the stages and reflux")
+    mixture.note("ideal-gas-vapour",
+                 f"the {mixture.method} method takes the vapour as an ideal gas at a top pressure of "
+                 f"{pressure / 1e3:.0f} kPa (above {IDEAL_GAS_VAPOUR_LIMIT / 1e3:.0f} kPa): {effect}; {remedy}")
+    return found

@@ -45,6 +45,11 @@ def mixture_json(summary: MixtureSummary) -> dict:
         "heavy_key": summary.heavy_key,
         "key_relative_volatility_min": summary.key_volatility_min,
         "key_relative_volatility_max": summary.key_volatility_max,
+        "ideal_gas_vapour_check": None if summary.vapour is None else {
+            "feed_bubble_point_degC": to_degC(summary.vapour.temperature),
+            "key_relative_volatility_ideal_gas_vapour": summary.vapour.alpha_ideal_gas,
+            "key_relative_volatility_real_vapour": summary.vapour.alpha_real_vapour,
+            "overstatement_fraction": summary.vapour.overstatement},
         "feed_bubble_point_degC": to_degC(summary.feed_bubble_T),
         "feed_dew_point_degC": to_degC(summary.feed_dew_T),
         "azeotropes": [

@@ -244,6 +244,9 @@ def mixture_table(mixture: MixtureSummary) -> Table:
         ("Heavy key", mixture.heavy_key),
         ("Key relative volatility, lowest [-]", mixture.key_volatility_min),
         ("Key relative volatility, highest [-]", mixture.key_volatility_max),
+        *(() if mixture.vapour is None else (
+            ("Key relative volatility at the feed bubble point, vapour as ideal gas [-]", mixture.vapour.alpha_ideal_gas),
+            ("Key relative volatility at the feed bubble point, real vapour [-]", mixture.vapour.alpha_real_vapour))),
         ("Feed bubble point at top pressure [degC]", to_degC(mixture.feed_bubble_T)),
         ("Feed dew point at top pressure [degC]", to_degC(mixture.feed_dew_T)),
     ]

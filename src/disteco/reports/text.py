@@ -46,6 +46,13 @@ def mixture_text(summary: MixtureSummary) -> str:
               f"{to_degC(summary.feed_dew_T):.2f} degC",
               f"Relative volatility {summary.light_key}/{summary.heavy_key}: "
               f"{summary.key_volatility_min:.3f} to {summary.key_volatility_max:.3f} [-]"]
+    vapour = summary.vapour
+    if vapour is not None:
+        real = ("not evaluated" if vapour.alpha_real_vapour is None else
+                f"{vapour.alpha_real_vapour:.4f} [-] with a real vapour ({100.0 * vapour.overstatement:+.1f} % "
+                "overstated by the ideal gas)")
+        lines.append(f"Vapour taken as an ideal gas: key relative volatility at the feed's bubble point "
+                     f"{vapour.alpha_ideal_gas:.4f} [-]; {real}")
     if summary.azeotropes:
         for a in summary.azeotropes:
             lines.append(f"Azeotrope ({a.kind}): {a.x_first:.4f} mole fraction {a.first} in {a.second} "

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 from thermo import ChemicalConstantsPackage, PR
 
-from disteco._base.errors import InfeasibleSpecError
+from disteco._base.errors import InfeasibleSpecError, PropertyError
 from disteco.case import Thermo
 from disteco.properties import build_mixture
 from disteco.properties.critical import (extrapolated_surface_tension, supercritical_liquid_density,
@@ -105,6 +105,17 @@ def test_fallback_bubble_point_of_nearly_pure_propane(c3_splitter):
     for point in (c3_splitter.bubble_point(17e5, [1e-12, 1.0 - 1e-12]),
                   c3_splitter.dew_point(17e5, [1e-12, 1.0 - 1e-12])):
         assert point.T == pytest.approx(reference, abs=1e-6)
+    assert c3_splitter.warnings == ()  # a near-pure end point: the second route is routine there
+
+
+def test_fallback_route_is_reported_away_from_the_end_points(c3_splitter, monkeypatch):
+    """A mixture state solved by the second route is named in the run's warnings."""
+    def failing(**kwargs):
+        raise PropertyError("thermo's flash failed (simulated)")
+
+    c3_splitter.clear_warnings()
+    monkeypatch.setattr(c3_splitter, "_flash", failing)
+    c3_splitter.bubble_point(17e5, [0.3, 0.7])
     assert any("successive-substitution" in w for w in c3_splitter.warnings)
 
 

@@ -31,6 +31,7 @@ HIGH_PRESSURE = 1e6  # Pa; above this the automatic choice is Peng-Robinson (com
 # volatility by more than about 5 % (measured against thermo's gamma-phi route, DEVELOPERS.md)
 IDEAL_GAS_VAPOUR_LIMIT = 2e5
 REFERENCE_T = 298.15  # K
+NEAR_PURE = 1e-6  # [-]; a composition within this of a pure component is an end point
 
 
 @dataclass(frozen=True)
@@ -220,7 +221,7 @@ class Mixture:
                                               wilson_k(T, P, c.Tcs, c.Pcs, c.omegas))
             except NoSplit:
                 self._no_split(P, z, failure)
-            self._note_fallback()
+            self._note_fallback(z)
             return PhasePoint(float(T), P, float(beta), tuple(map(float, x)), tuple(map(float, y)))
 
     def flash_pvf(self, P: float, vapour_fraction: float, z) -> PhasePoint:
@@ -243,10 +244,15 @@ class Mixture:
             T, x, y = saturation_point(lambda T, x, y: self.k_values(T, P, x, y), z, vapour_fraction, T0, k0)
         except (NoSplit, ValueError):
             self._no_split(P, z, failure)
-        self._note_fallback()
+        self._note_fallback(z)
         return PhasePoint(T, P, float(vapour_fraction), tuple(map(float, x)), tuple(map(float, y)))
 
-    def _note_fallback(self) -> None:
+    def _note_fallback(self, z) -> None:
+        """Say that the second route was taken, except at a near-pure end point (one mole fraction
+        above 1 - 1e-6, as the ends of a binary's equilibrium curve): thermo's flash fails there
+        routinely and the second route reproduces thermo's pure-component saturation point."""
+        if max(z) > 1.0 - NEAR_PURE:
+            return
         self._note("fallback-flash", "thermo's flash failed on some states; they were solved by disteco's own "
                    "successive-substitution route on the same equation of state (see DEVELOPERS.md)")
 

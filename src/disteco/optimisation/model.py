@@ -94,8 +94,12 @@ def _add_stages(m) -> None:
     m.equilibrium = pyo.Constraint(m.J, m.C, rule=equilibrium_rule)
     m.summation = pyo.Constraint(m.J, rule=summation_rule)
     m.component_balance = pyo.Constraint(m.J, m.C, rule=component_balance_rule)
-    m.condenser_balance = pyo.Constraint(expr=m.V[1] == (m.R + 1.0) * m.D)
     if not p.partial_condenser:
+        # A partial condenser's component balances with both summations already give
+        # V1 = (R + 1) D; stated again, the redundant equation left ripopt a singular Jacobian
+        # (measured: a six-component debutaniser, 8 bar, 0 of 12 configurations solved, 6 of 6
+        # from the adaptive strategy in 0.3-0.7 s without it).
+        m.condenser_balance = pyo.Constraint(expr=m.V[1] == (m.R + 1.0) * m.D)
         lnk_d = f.ln_k(m.TD, p.top_pressure, [m.y[1, i] for i in m.C], exp=pyo.exp, log=pyo.log)
         m.distillate_bubble = pyo.Constraint(expr=sum(m.y[1, i] * pyo.exp(lnk_d[i]) for i in m.C) == 1.0)
     m.hL = pyo.Expression(m.J, rule=lambda m, j: f.liquid_enthalpy_of(m.T[j], [m.x[j, i] for i in m.C]) / KILO)

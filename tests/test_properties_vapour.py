@@ -11,7 +11,9 @@ from disteco.case import Thermo
 from disteco.cli import main
 from disteco.properties import build_mixture, choose_method
 from disteco.properties.components import resolve_components
-from disteco.properties.summary import vapour_ideality
+from disteco.properties.summary import summarise_mixture, vapour_ideality
+from disteco.reports.json_result import mixture_json
+from disteco.reports.tables import mixture_table
 
 from conftest import EXAMPLES
 
@@ -54,9 +56,9 @@ def test_real_vapour_of_raoults_law_agrees_with_peng_robinson():
     found = vapour_ideality(mixture, FEED, 8e5, 0, 1)
     reference = _thermo_pr_alpha(BUTANES, 8e5, FEED)
     assert found.alpha_real_vapour == pytest.approx(reference, rel=0.005)
-    assert 0.05 < found.overstatement < 0.08
+    assert 0.05 < found.deviation < 0.08
     (note,) = mixture.warnings
-    assert "ideal gas at a top pressure of 800 kPa" in note and f"{100 * found.overstatement:+.1f} %" in note
+    assert "ideal gas at a top pressure of 800 kPa" in note and f"{100 * found.deviation:+.1f} %" in note
     assert 'method = "peng-robinson"' in note
 
 
@@ -70,11 +72,29 @@ def test_no_ideal_gas_check_where_it_does_not_apply():
         assert mixture.warnings == ()
 
 
-def test_check_prints_the_ideal_gas_overstatement(tmp_path, capsys):
+def test_check_prints_the_ideal_gas_deviation(tmp_path, capsys):
     """The butane splitter with Raoult's law chosen by hand: check reports both relative volatilities."""
     text = (EXAMPLES / "c4_splitter.toml").read_text().replace("[mixture]\n", '[mixture]\nmethod = "ideal"\n')
     case = tmp_path / "c4_ideal.toml"
     case.write_text(text)
     assert main(["check", str(case)]) == 0
     (line,) = [s for s in capsys.readouterr().out.splitlines() if s.startswith("Vapour taken as an ideal gas")]
-    assert "1.2722 [-] with a real vapour (+6.5 % overstated by the ideal gas)" in line
+    assert "1.2722 [-] with a real vapour (the ideal gas's +6.5 %)" in line
+
+
+def test_result_file_and_workbook_table_carry_both_relative_volatilities():
+    """result.json `mixture.ideal_gas_vapour_check` and the workbook's mixture table hold the two
+    values the check computed; a Peng-Robinson mixture has none (null, no rows)."""
+    for method, expected in (("ideal", True), ("peng-robinson", False)):
+        mixture = build_mixture(BUTANES, Thermo(method), 8e5)
+        mixture.clear_warnings()
+        summary = summarise_mixture(mixture, FEED, 8e5, 0, 1)
+        found = mixture_json(summary)["ideal_gas_vapour_check"]
+        labels = [row[0] for row in mixture_table(summary).rows]
+        assert ("Key relative volatility at the feed bubble point, real vapour [-]" in labels) == expected
+        if not expected:
+            assert found is None
+            continue
+        assert found["key_relative_volatility_real_vapour"] == summary.vapour.alpha_real_vapour
+        assert found["ideal_gas_deviation_fraction"] == pytest.approx(
+            found["key_relative_volatility_ideal_gas_vapour"] / found["key_relative_volatility_real_vapour"] - 1.0)

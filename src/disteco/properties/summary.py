@@ -34,8 +34,8 @@ class VapourIdeality:
     alpha_real_vapour: float | None  # [-]; None where thermo could not evaluate the real vapour
 
     @property
-    def overstatement(self) -> float | None:
-        """alpha with the ideal-gas vapour over alpha with the real vapour, minus one [-]."""
+    def deviation(self) -> float | None:
+        """alpha with the ideal-gas vapour over alpha with the real vapour, minus one [-] (positive: overstated)."""
         return None if self.alpha_real_vapour is None else self.alpha_ideal_gas / self.alpha_real_vapour - 1.0
 
 
@@ -103,7 +103,7 @@ def vapour_ideality(mixture: Mixture, z, pressure: float, light: int, heavy: int
         effect = (f"at the feed's bubble point ({bubble.T - 273.15:.1f} degC) the {keys} relative volatility is "
                   f"{alpha:.4f} with it and {found.alpha_real_vapour:.4f} [-] with vapour fugacity coefficients "
                   f"(Peng-Robinson), saturation fugacity coefficients and Poynting factors "
-                  f"({100.0 * found.overstatement:+.1f} %)")
+                  f"({100.0 * found.deviation:+.1f} %)")
     remedy = ('method = "peng-robinson" takes the vapour as it is' if mixture.method == "ideal" else
               "disteco's activity-coefficient methods have no real vapour yet: allow for it in the stages and reflux")
     mixture.note("ideal-gas-vapour",

@@ -49,7 +49,7 @@ def mixture_json(summary: MixtureSummary) -> dict:
             "feed_bubble_point_degC": to_degC(summary.vapour.temperature),
             "key_relative_volatility_ideal_gas_vapour": summary.vapour.alpha_ideal_gas,
             "key_relative_volatility_real_vapour": summary.vapour.alpha_real_vapour,
-            "overstatement_fraction": summary.vapour.overstatement},
+            "ideal_gas_deviation_fraction": summary.vapour.deviation},
         "feed_bubble_point_degC": to_degC(summary.feed_bubble_T),
         "feed_dew_point_degC": to_degC(summary.feed_dew_T),
         "azeotropes": [

@@ -49,8 +49,8 @@ def mixture_text(summary: MixtureSummary) -> str:
     vapour = summary.vapour
     if vapour is not None:
         real = ("not evaluated" if vapour.alpha_real_vapour is None else
-                f"{vapour.alpha_real_vapour:.4f} [-] with a real vapour ({100.0 * vapour.overstatement:+.1f} % "
-                "overstated by the ideal gas)")
+                f"{vapour.alpha_real_vapour:.4f} [-] with a real vapour (the ideal gas's "
+                f"{100.0 * vapour.deviation:+.1f} %)")
         lines.append(f"Vapour taken as an ideal gas: key relative volatility at the feed's bubble point "
                      f"{vapour.alpha_ideal_gas:.4f} [-]; {real}")
     if summary.azeotropes:

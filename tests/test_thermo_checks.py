@@ -198,3 +198,26 @@ def test_given_design_is_verified_on_thermo(tmp_path):
     assert m["reflux_ratio_over_minimum"] == pytest.approx(1.9 / m["reflux_ratio"])
     assert data["fit_check"]["within_tolerance"] is True
     assert not [w for w in data["warnings"] if "REFLUX BELOW MINIMUM" in w]
+
+
+def test_energy_balance_minimum_time_limit_grows_with_the_column(monkeypatch):
+    """30 s for every 120 stage-components of the column solved (twice the design's stages), at
+    least 30 s: a six-component column of 39 stages gets 117 s, a binary of 24 stages 30 s."""
+    from types import SimpleNamespace
+
+    from disteco._base.errors import ConvergenceError
+    from disteco.optimisation import minimum_reflux
+
+    limits = []
+
+    def stopped(*args, time_limit=None, **kwargs):
+        limits.append(time_limit)
+        raise ConvergenceError("stopped")
+
+    monkeypatch.setattr(minimum_reflux, "solve_to_specs", stopped)
+    for size, stages in ((6, 39), (2, 24)):
+        verified = SimpleNamespace(stages=stages, feed_stage=stages // 2, P=(8e5, 8.3e5))
+        case = SimpleNamespace(products=None, column=None)
+        found = minimum_reflux.energy_balance_minimum(case, SimpleNamespace(size=size), None, None, verified)
+        assert found.reflux_ratio is None
+    assert limits == [pytest.approx(117.0), 30.0]

@@ -13,6 +13,7 @@ from disteco.properties import build_mixture, choose_method
 from disteco.properties.components import resolve_components
 from disteco.properties.summary import summarise_mixture, vapour_ideality
 from disteco.reports.json_result import mixture_json
+from disteco.reports.notes import console_warnings, kind_of
 from disteco.reports.tables import mixture_table
 
 from conftest import EXAMPLES
@@ -60,6 +61,7 @@ def test_real_vapour_of_raoults_law_agrees_with_peng_robinson():
     (note,) = mixture.warnings
     assert "ideal gas at a top pressure of 800 kPa" in note and f"{100 * found.deviation:+.1f} %" in note
     assert 'method = "peng-robinson"' in note
+    assert kind_of(note).name == "properties and model" and console_warnings((note,)) == ((note,), 0)
 
 
 def test_no_ideal_gas_check_where_it_does_not_apply():

@@ -33,7 +33,7 @@ KINDS = (
         r"REFLUX BELOW MINIMUM|specification|corrected|did not solve|time limit|not settled|found no design|"
         r"short of|not found|OUTSIDE TOLERANCE|neighbour", re.IGNORECASE)),
     Kind("properties and model", 1, True, re.compile(
-        r"azeotrope|critical|flash|fitted|thermo|deprecated", re.IGNORECASE)),
+        r"azeotrope|critical|flash|fitted|thermo|deprecated|ideal gas", re.IGNORECASE)),
     Kind("cost data and correlation ranges", 4, False, re.compile(
         r"extrapolat|nearer end|cost curve|electricity|parallel units|coefficient|price|index|scenario '",
         re.IGNORECASE)),

@@ -8,7 +8,7 @@ import numpy as np
 
 from .._base.errors import PropertyError
 from .binary import Azeotrope, all_azeotropes
-from .mixture import IDEAL_GAS_VAPOUR_LIMIT, Mixture
+from .mixture import IDEAL_GAS_VAPOUR_LIMIT, Mixture, PhasePoint
 
 VOLATILITY_GRID = np.linspace(0.01, 0.99, 25)
 
@@ -73,23 +73,24 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
         ComponentSummary(c.given, c.name, c.cas, float(mw), float(tb), float(zi))
         for c, mw, tb, zi in zip(mixture.components, mixture.molar_masses, mixture.normal_boiling_points, z))
     low, high = key_volatility_range(mixture, pressure, light, heavy)
+    bubble = mixture.bubble_point(pressure, z)
     return MixtureSummary(
         method=mixture.method, pressure=pressure, components=components,
         light_key=mixture.names[light], heavy_key=mixture.names[heavy],
         key_volatility_min=low, key_volatility_max=high,
-        feed_bubble_T=mixture.bubble_point(pressure, z).T, feed_dew_T=mixture.dew_point(pressure, z).T,
+        feed_bubble_T=bubble.T, feed_dew_T=mixture.dew_point(pressure, z).T,
         azeotropes=tuple(all_azeotropes(mixture, pressure)),
-        vapour=vapour_ideality(mixture, z, pressure, light, heavy))
+        vapour=vapour_ideality(mixture, bubble, light, heavy))
 
 
-def vapour_ideality(mixture: Mixture, z, pressure: float, light: int, heavy: int) -> VapourIdeality | None:
-    """How far the ideal-gas vapour moves the key relative volatility at ``pressure`` [Pa], with a note.
+def vapour_ideality(mixture: Mixture, bubble: PhasePoint, light: int, heavy: int) -> VapourIdeality | None:
+    """How far the ideal-gas vapour moves the key relative volatility at the feed's ``bubble`` point, with a note.
 
     None for Peng-Robinson and at or below :data:`IDEAL_GAS_VAPOUR_LIMIT`.
     """
+    pressure = bubble.P
     if not mixture.ideal_gas_vapour or pressure <= IDEAL_GAS_VAPOUR_LIMIT:
         return None
-    bubble = mixture.bubble_point(pressure, z)
     alpha = mixture.relative_volatility(bubble.T, pressure, bubble.x, light, heavy, bubble.y)
     try:
         k = mixture.real_vapour_k_values(bubble.T, pressure, bubble.x, bubble.y)

@@ -21,7 +21,9 @@ BEFORE_OPTIMISING = [
     (BENZENE.replace("distillate_light_key_fraction = 0.985", "distillate_light_key_fraction = 0.3"),
      "at or below the feed's 0.42"),
     (BENZENE.replace("distillate_light_key_fraction = 0.985",
-                     'light_key = "toluene"\ndistillate_light_key_fraction = 0.985'), "swap the keys"),
+                     'light_key = "toluene"\ndistillate_light_key_fraction = 0.985'),
+     "the light key toluene (products.light_key) is not more volatile than the heavy key benzene "
+     "(products.heavy_key) at column conditions"),
     (ETHANOL.replace("distillate_light_key_fraction = 0.80", "distillate_light_key_fraction = 0.95"),
      "beyond the minimum-boiling azeotrope of ethanol and water"),
     (BENZENE.replace("cost_year = 2023", "cost_year = 2030"), "economics.cost_year: 2030"),

@@ -144,7 +144,7 @@ def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, colum
     alpha_top = alpha_bottom = alpha_feed
     P_bottom = P_top
     T_top = T_bottom = math.nan
-    split = product_split(products, z, feed.molar_flow, alpha_feed)
+    split = product_split(products, z, feed.molar_flow, alpha_feed, mixture.names)
     key_azeotropes = find_azeotropes(mixture, P_top, light, heavy) if mixture.method != "ideal" else []
     if mixture.size == 2:
         check_binary_azeotropes(split, z, key_azeotropes)

@@ -115,11 +115,12 @@ def _check_key_flows(products: Products, f: np.ndarray, d_light: float, d_heavy:
             f"(set by {_spec_field(products, 'heavy')} together with {_spec_field(products, 'light')})")
 
 
-def product_split(products: Products, z, feed_flow: float, alpha) -> ProductSplit:
+def product_split(products: Products, z, feed_flow: float, alpha, names=None) -> ProductSplit:
     """Distillate and bottoms flows meeting the key specifications.
 
     ``z`` feed mole fractions [-], ``feed_flow`` [mol/s], ``alpha`` relative volatilities to
-    the heavy key [-] (used for the Fenske distribution of the non-keys). Mole-fraction
+    the heavy key [-] (used for the Fenske distribution of the non-keys), ``names`` the
+    components' names for messages (default: their numbers). Mole-fraction
     specifications make the key flows depend on the non-keys; a fixed-point iteration
     solves both together.
     """
@@ -128,9 +129,11 @@ def product_split(products: Products, z, feed_flow: float, alpha) -> ProductSpli
     check_end_specs(products, z)
     light, heavy = products.light_key, products.heavy_key
     if alpha[light] <= alpha[heavy]:
+        label = names or [f"component {i + 1}" for i in range(len(z))]
         raise InfeasibleSpecError(
-            f"component {light + 1} (light key) is not more volatile than component {heavy + 1} (heavy key) "
-            f"at column conditions (relative volatility {alpha[light] / alpha[heavy]:.4g}); swap the keys")
+            f"the light key {label[light]} (products.light_key) is not more volatile than the heavy key "
+            f"{label[heavy]} (products.heavy_key) at column conditions (relative volatility "
+            f"{alpha[light] / alpha[heavy]:.4g}); swap the keys")
     f = z * feed_flow
     others = [i for i in range(len(z)) if i not in (light, heavy)]
     d = np.where(alpha > alpha[light], f, 0.0)  # first guess: sharp split of the non-keys

@@ -202,11 +202,12 @@ def choose_utility(levels, service: str, process_in: float, process_out: float, 
         return min(fitting, key=lambda u: u.supply_temperature)
     listed = "; ".join(f"{u.name} {u.supply_temperature - 273.15:.1f} -> {u.return_temperature - 273.15:.1f} degC"
                        for u in offered) or "none"
-    word = "cold" if service == "cooling" else "hot"
+    word, further, pressure = ("cold", "colder", "raise") if service == "cooling" else ("hot", "hotter", "lower")
     raise InfeasibleSpecError(
         f"{exchanger}: no {service} utility is {word} enough for the process side "
         f"{process_in - 273.15:.1f} -> {process_out - 273.15:.1f} degC with a minimum approach of "
-        f"{min_approach:.1f} K; {service} levels offered: {listed}")
+        f"{min_approach:.1f} K; {service} levels offered: {listed}; {pressure} column.top_pressure, or offer a "
+        f"{further} level in your own cost data (economics.cost_data: utility_levels.csv and utility_prices.csv)")
 
 
 @dataclass(frozen=True)

@@ -25,7 +25,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq, least_squares
 
-from .._base.errors import PropertyError
+from .._base.errors import InfeasibleSpecError, PropertyError
 from .binary import all_azeotropes
 from .mixture import Mixture
 
@@ -33,6 +33,7 @@ NRTL_ALPHA = 0.3  # non-randomness the pair fits start from (common practice, no
 NRTL_ALPHA_BOUNDS = (0.05, 1.0)  # a free alpha stays within these [-] (the case's NRTL range is 0 to 1)
 RANGE_MARGIN = 5.0  # K added at both ends of the column range
 T_POINTS = 12
+DISSOLVED = 0.01  # mole fraction of a component whose pure liquid does not exist, in the heaviest liquid
 K_SAMPLES = 24  # random liquids for the Peng-Robinson K fit, beside the feed and the near-pure ends
 X_GRID = (0.01, 0.05, 0.15, 0.3, 0.5, 0.7, 0.85, 0.95, 0.99)
 GAS_CONSTANT = 8.314462618  # J/(mol K)
@@ -178,10 +179,21 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     unit = np.eye(n)
     P_mid = 0.5 * (P_low + P_high)
 
-    def liquid_volume(T, i):
-        return mixture.molar_masses[i] / mixture.liquid_density(T, P_mid, unit[i])
-
     heaviest = int(np.argmax(mixture.normal_boiling_points))
+
+    def molar_volume(T, x):
+        return mixture.molar_mass(x) / mixture.liquid_density(T, P_mid, x)
+
+    def dissolved(of, i):
+        """``of(T, x)`` of component ``i`` as dissolved at 1 % in the heaviest liquid: its apparent
+        value in the linear mole-fraction mixing the fitted forms use, for a component whose pure
+        liquid does not exist over the range (above its critical temperature: nitrogen in a
+        demethaniser), where the mixture routes still hold."""
+        def value(T):
+            solution = (1.0 - DISSOLVED) * unit[heaviest] + DISSOLVED * unit[i]
+            return (of(T, solution) - (1.0 - DISSOLVED) * of(T, unit[heaviest])) / DISSOLVED
+
+        return value
 
     def liquid_enthalpy(T, i):
         # Where the equation of state has no pure liquid root, thermo's "liquid" is the vapour (a jump
@@ -203,17 +215,20 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
             names=mixture.names, form=form, T_low=float(T_low), T_high=float(T_high), P_low=P_low, P_high=P_high,
             antoine=antoine, nrtl_a=nrtl_a, nrtl_b=nrtl_b, nrtl_alpha=nrtl_alpha, k_fit=k_fit,
             liquid_enthalpy=h_liquid, vapour_enthalpy=h_vapour,
-            liquid_volume=tuple(_fit_pure(lambda T: liquid_volume(T, i), Ts, 1) for i in pure),
-            surface_tension=tuple(_fit_pure(lambda T: mixture.surface_tension(T, unit[i]), Ts, 1) for i in pure),
+            liquid_volume=tuple(_fit_pure(lambda T: molar_volume(T, unit[i]), Ts, 1, dissolved(molar_volume, i))
+                                for i in pure),
+            surface_tension=tuple(_fit_pure(lambda T: mixture.surface_tension(T, unit[i]), Ts, 1,
+                                            dissolved(mixture.surface_tension, i)) for i in pure),
             molar_masses=tuple(float(m) for m in mixture.molar_masses))
 
 
-def _fit_pure(function, Ts, degree: int) -> tuple[float, ...]:
+def _fit_pure(function, Ts, degree: int, fallback=None) -> tuple[float, ...]:
     """Polynomial in (T - T_low) fitted where the pure-component property exists.
 
     Above a component's critical temperature its liquid properties do not exist; the fit
     over the points below it is then extrapolated, which only matters for that component's
-    trace amounts in the hottest stages.
+    trace amounts in the hottest stages. Where it exists at too few points for the fit,
+    ``fallback`` (a function of T) is fitted over the whole range instead, if given.
     """
     points = []
     for T in Ts:
@@ -223,6 +238,8 @@ def _fit_pure(function, Ts, degree: int) -> tuple[float, ...]:
             continue
         if value is not None and math.isfinite(value):
             points.append((T, value))
+    if len(points) <= degree and fallback is not None:
+        return _fit_pure(fallback, Ts, degree)
     if len(points) <= degree:
         raise PropertyError(f"a pure-component property exists at only {len(points)} of the fitting temperatures "
                             f"{Ts[0]:.1f} to {Ts[-1]:.1f} K")
@@ -258,13 +275,24 @@ def _k_fit_liquids(z, n: int) -> list[np.ndarray]:
 
 def saturated_states(mixture: Mixture, P_low: float, P_high: float, z) -> list[tuple[float, float, np.ndarray,
                                                                                      np.ndarray]]:
-    """(T [K], P [Pa], x, y) at the bubble points of :func:`_k_fit_liquids` at three pressures of the column."""
+    """(T [K], P [Pa], x, y) at the bubble points of :func:`_k_fit_liquids` at three pressures of the column.
+
+    A sampled liquid without a bubble point at a pressure (one rich in a supercritical
+    component: nitrogen above half of a 28-bar liquid) is left out; the fit needs at least
+    twice as many states as it has coefficients.
+    """
     Ps = np.linspace(P_low, P_high, 3) if P_high > P_low else np.array([P_low])
-    states = []
+    states, failures = [], []
     for P in Ps:
         for x in _k_fit_liquids(z, mixture.size):
-            point = mixture.bubble_point(float(P), x)
+            try:
+                point = mixture.bubble_point(float(P), x)
+            except (PropertyError, InfeasibleSpecError) as failure:
+                failures.append(failure)
+                continue
             states.append((float(point.T), float(P), x, np.asarray(point.y, dtype=float)))
+    if len(states) < 2 * len(_k_fit_basis(1.0, 1.0, z)):
+        raise failures[0]
     return states
 
 

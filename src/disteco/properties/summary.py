@@ -63,7 +63,7 @@ def key_volatility_range(mixture: Mixture, pressure: float, light: int, heavy: i
         x = np.zeros(mixture.size)
         x[light], x[heavy] = x_light, 1.0 - x_light
         point = mixture.bubble_point(pressure, x)
-        alphas.append(mixture.relative_volatility(point.T, pressure, x, light, heavy))
+        alphas.append(mixture.relative_volatility(point.T, pressure, x, light, heavy, point.y))
     return float(min(alphas)), float(max(alphas))
 
 

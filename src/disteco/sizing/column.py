@@ -156,7 +156,7 @@ def _efficiency(profile: StageProfile, mixture: SizingProperties, options: Sizin
     ends = (0, profile.stages - 1)  # top tray and reboiler: the average of the two ends
     mu = sum(mixture.liquid_viscosity(profile.T[i], profile.P[i], profile.x[i]) for i in ends) / 2.0
     alpha = sum(mixture.relative_volatility(profile.T[i], profile.P[i], profile.x[i], options.light_key,
-                                            options.heavy_key) for i in ends) / 2.0
+                                            options.heavy_key, profile.y[i]) for i in ends) / 2.0
     _range_warning(OCONNELL_RANGE, {0: mu * 1e3 * alpha}, options.out_of_range, warnings)
     value = oconnell_efficiency_lockett(mu, alpha)
     if value > 1.0:

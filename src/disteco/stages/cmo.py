@@ -53,9 +53,15 @@ class TemperatureNewton:
         # dA/dS_k: column k holds -(1 - share) e_k + e_{k-1}
         self.pattern = -np.eye(n) + np.eye(n, k=1)
         self.pattern[0, 0] += self.share
+        # Vapour compositions K is evaluated at, per contact; NaN: at the liquid's own (an ideal-gas
+        # vapour's K do not depend on it; an equation of state's nearly so away from its critical
+        # region). There a liquid-like composition can have no vapour root, K at y = x would all
+        # be one, and such a contact takes its bubble point's vapour (see _two_phase_evaluation).
+        self.y = np.full((n, C), np.nan)
 
     def k_values(self, T: np.ndarray, x: np.ndarray) -> np.ndarray:
-        return np.array([self.m.k_values(T[j], self.P[j], x[j]) for j in range(len(T))])
+        y = np.where(np.isnan(self.y), x, self.y)
+        return np.array([self.m.k_values(T[j], self.P[j], x[j], y[j]) for j in range(len(T))])
 
     def liquid_flows(self, K: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Component liquid flows (contacts, C) at fixed K, and the inverse matrix per component."""
@@ -93,10 +99,12 @@ def _one_fluid(K: np.ndarray) -> np.ndarray:
 
 def _two_phase_evaluation(newton: TemperatureNewton, Ts: np.ndarray, x: np.ndarray):
     """(Ts, residual, Jacobian, K, l) with every one-fluid contact first moved to the bubble
-    temperature of its liquid.
+    temperature of its liquid, and one still one fluid there evaluated at that bubble point's vapour.
 
     A near-critical start (a bottoms of nearly pure ethane at 45 bar) interpolates
-    temperatures a fraction of a kelvin above where the liquid root ends. The K of the
+    temperatures a fraction of a kelvin above where the liquid root ends; at its bubble
+    temperature the liquid's own composition then has a vapour root. A liquid-like bottoms
+    under pressure (ethane, propane and butane at 28 bar) has none even there. The K of the
     evaluation itself tell, so an ordinary column pays nothing for the check.
     """
     g, J, K, l = newton.residual_and_jacobian(Ts, x)
@@ -104,8 +112,15 @@ def _two_phase_evaluation(newton: TemperatureNewton, Ts: np.ndarray, x: np.ndarr
     if not flat.any():
         return Ts, g, J, K, l
     Ts = Ts.copy()
-    for j in np.flatnonzero(flat):
-        Ts[j] = newton.m.bubble_point(newton.P[j], x[j]).T
+    bubbles = {j: newton.m.bubble_point(newton.P[j], x[j]) for j in np.flatnonzero(flat)}
+    for j, bubble in bubbles.items():
+        Ts[j] = bubble.T
+    g, J, K, l = newton.residual_and_jacobian(Ts, x)
+    still = [j for j in np.flatnonzero(_one_fluid(K)) if j in bubbles]
+    if not still:
+        return Ts, g, J, K, l
+    for j in still:
+        newton.y[j] = bubbles[j].y
     return (Ts, *newton.residual_and_jacobian(Ts, x))
 
 

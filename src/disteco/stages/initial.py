@@ -28,7 +28,10 @@ def cmo_flows(problem: ColumnProblem) -> tuple[np.ndarray, np.ndarray]:
 
 
 def bubble_temperature(mixture: Mixture, P: float, x: np.ndarray, T: float) -> float:
-    """Bubble temperature of liquid x at P [Pa] by Newton's method from T [K]."""
+    """Bubble temperature of liquid x at P [Pa] by Newton's method from T [K] (K at y = x: an
+    ideal-gas vapour's K do not depend on y; an equation of state's bubble point is a flash)."""
+    if not mixture.ideal_gas_vapour:
+        return mixture.bubble_point(P, x).T
     for _ in range(30):
         g = np.log(np.dot(mixture.k_values(T, P, x), x))
         if abs(g) < BUBBLE_TOLERANCE:

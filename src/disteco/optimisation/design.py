@@ -267,7 +267,9 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
-    warnings = result.warnings
+    # the chosen configuration's cost-curve range notes from the model: the sequential price
+    # reports the same curves' ranges for the reported sizes (they were printed twice)
+    warnings = tuple(w for w in result.warnings if w not in result.best.warnings)
     if limit is not None:  # the search's "raise max_stages" does not apply to a height limit
         warnings = tuple(w for w in warnings if "raise max_stages" not in w)
     return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,

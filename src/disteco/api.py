@@ -82,7 +82,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
              compare: bool, prices: tuple[PriceSetting | str, ...] = ()) -> _Prepared:
     """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
     from .costing.from_sizing import check_tray_material
-    from .optimisation.problem import resolved_problem
+    from .optimisation.problem import remember_column_profile, resolved_problem
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut
@@ -104,6 +104,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
                                 products.light_key, products.heavy_key)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     stages = design_stages(mixture, feed, products, case.column)
+    remember_column_profile(case, mixture, feed, stages.profile)
     estimate = shortcut(resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0))
     if given is None or compare:  # the optimum is searched for within the bound asked for
         check_stage_bound(estimate, config.max_stages if given is None or asked_bound is None else asked_bound)

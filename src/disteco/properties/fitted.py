@@ -154,10 +154,12 @@ def column_temperature_range(mixture: Mixture, P_low: float, P_high: float,
 
 
 def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
-                T_range: tuple[float, float] | None = None) -> FittedMixture:
+                T_range: tuple[float, float] | None = None, liquids=None) -> FittedMixture:
     """Fit the closed forms to ``mixture`` for a column between ``P_low`` and ``P_high`` [Pa].
 
-    ``z`` [-] is the composition used for the Peng-Robinson K fit (default equimolar).
+    ``z`` [-] is the composition used for the Peng-Robinson K fit (default equimolar);
+    ``liquids`` (mole fractions [-]), if given, are the liquids that fit is made on besides
+    ``z``, instead of the samples of :func:`_k_fit_liquids` (the column's own stage liquids).
     """
     T_low, T_high = T_range or column_temperature_range(mixture, P_low, P_high)
     Ts = np.linspace(T_low, T_high, T_POINTS)
@@ -169,7 +171,8 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     nrtl_a, nrtl_b, nrtl_alpha, k_fit, states = zero, zero, zero, (), None
     if mixture.method == "peng-robinson":
         form = "k-fit"
-        states = saturated_states(mixture, P_low, P_high, np.full(n, 1.0 / n) if z is None else np.asarray(z))
+        states = saturated_states(mixture, P_low, P_high, np.full(n, 1.0 / n) if z is None else np.asarray(z),
+                                  liquids)
         k_fit = _fit_k(states, n)
     elif mixture.method == "ideal":
         form = "ideal"
@@ -273,9 +276,10 @@ def _k_fit_liquids(z, n: int) -> list[np.ndarray]:
     return [np.asarray(z, dtype=float)] + ends + list(np.random.default_rng(0).dirichlet(np.full(n, 0.6), K_SAMPLES))
 
 
-def saturated_states(mixture: Mixture, P_low: float, P_high: float, z) -> list[tuple[float, float, np.ndarray,
-                                                                                     np.ndarray]]:
-    """(T [K], P [Pa], x, y) at the bubble points of :func:`_k_fit_liquids` at three pressures of the column.
+def saturated_states(mixture: Mixture, P_low: float, P_high: float, z, liquids=None
+                     ) -> list[tuple[float, float, np.ndarray, np.ndarray]]:
+    """(T [K], P [Pa], x, y) at the bubble points of :func:`_k_fit_liquids` (or of ``z`` and ``liquids``)
+    at three pressures of the column.
 
     A sampled liquid without a bubble point at a pressure (one rich in a supercritical
     component: nitrogen above half of a 28-bar liquid) is left out; the fit needs at least
@@ -284,7 +288,7 @@ def saturated_states(mixture: Mixture, P_low: float, P_high: float, z) -> list[t
     Ps = np.linspace(P_low, P_high, 3) if P_high > P_low else np.array([P_low])
     states, failures = [], []
     for P in Ps:
-        for x in _k_fit_liquids(z, mixture.size):
+        for x in _k_fit_liquids(z, mixture.size) if liquids is None else [np.asarray(z, dtype=float), *liquids]:
             try:
                 point = mixture.bubble_point(float(P), x)
             except (PropertyError, InfeasibleSpecError) as failure:
@@ -292,7 +296,8 @@ def saturated_states(mixture: Mixture, P_low: float, P_high: float, z) -> list[t
                 continue
             states.append((float(point.T), float(P), x, np.asarray(point.y, dtype=float)))
     if len(states) < 2 * len(_k_fit_basis(1.0, 1.0, z)):
-        raise failures[0]
+        raise failures[0] if failures else PropertyError(
+            f"{len(states)} bubble points are too few for the Peng-Robinson K fit")
     return states
 
 

@@ -1,7 +1,10 @@
 """Warnings once: repeats that differ only in their numbers are one (the reported design's kept),
 grouped by kind in order of importance; the console shows what bears on the design and counts the rest."""
 
+import pytest
+
 from disteco._base.validity import OutOfRange, ValidityRange
+from disteco.optimisation.margin import ControlMargin
 from disteco.reports.notes import BOUND_NOTE, console_warnings, kind_of, ordered_warnings
 
 TRAY_AREA = ValidityRange("sieve trays (cost curve)", "tray area", 0.07, 12.3, "m^2", "cost data")
@@ -42,3 +45,19 @@ def test_reflux_advice_a_bound_explains_is_a_note_not_advice():
     found = ordered_warnings([advice, TALL], bound=True)
     assert found == (TALL, BOUND_NOTE + advice)
     assert console_warnings(found) == ((TALL,), 1)
+
+
+def test_a_corrected_design_below_the_control_margin_says_so():
+    """A design the verification corrected on thermo to less reflux than the model's floor
+    (the invented demethaniser: 0.5989 against the floor 1.1 x 0.5940 = 0.6534) is not reported
+    as holding the margin: `holds` is false and the warning names both numbers and the way out
+    (a design of its own to check, no published reference; the floor's arithmetic is exact)."""
+    margin = ControlMargin(1.1, 0.5940)
+    assert margin.reflux_floor == pytest.approx(0.6534)
+    assert margin.holds(0.6534) and margin.holds(0.6534 * (1.0 - 5e-4)) and not margin.holds(0.5989)
+    assert margin.below_floor(0.66) == ()
+    (warning,) = margin.below_floor(0.5989)
+    assert "reflux ratio 0.5989, below the control margin's floor 0.6534 (1.1 x the energy-balance minimum 0.594)" \
+        in warning and "column.min_reflux_ratio_factor" in warning
+    assert kind_of(warning).rank == 0 and console_warnings((warning,))[0] == (warning,)
+    assert ControlMargin(1.1, None).holds(0.1)

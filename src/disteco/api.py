@@ -243,9 +243,10 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     extra = tuple(cross.below_zero()) + cross.notes if cross is not None else ()
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
-    extra += tuple(w for _, margin in margins[:1] for w in margin.warnings)
     extra += mixture.warnings
     parts = _checked(parts, checks)
+    extra += tuple(w for _, margin in margins[:1] for w in margin.warnings + margin.below_floor(
+        parts.profile.reflux_ratio))
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
                         warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts),
                         options=_given_options(options))

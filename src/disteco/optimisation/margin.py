@@ -44,6 +44,21 @@ class ControlMargin:
     def binds(self) -> bool:
         return self.unconstrained is not None
 
+    def holds(self, reflux_ratio: float) -> bool:
+        """Whether ``reflux_ratio`` [-] keeps the margin (within 0.1 %, the rounds' tolerance)."""
+        return self.reflux_floor is None or reflux_ratio >= self.reflux_floor * (1.0 - 1e-3)
+
+    def below_floor(self, reflux_ratio: float) -> tuple[str, ...]:
+        """The warning of a reported design below the floor: a design the verification corrected on
+        thermo to less reflux than the model's, which held the floor."""
+        if self.holds(reflux_ratio):
+            return ()
+        return (f"the design corrected on thermo runs at reflux ratio {reflux_ratio:.4g}, below the control "
+                f"margin's floor {self.reflux_floor:.4g} ({self.factor:g} x the energy-balance minimum "
+                f"{self.minimum_reflux:.4g}): thermo meets the specifications with less reflux than the model "
+                f"did; running at the floor makes the products purer than specified, or lower "
+                f"column.min_reflux_ratio_factor",)
+
     @property
     def warnings(self) -> tuple[str, ...]:
         if self.minimum_reflux is not None or self.factor <= 1.0:

@@ -180,7 +180,8 @@ def design_text(result: DesignResult) -> str:
     heading = "Given design (priced)" if result.evaluation is not None else "Lowest-TAC design"
     limits = parts.optimum.limits if parts.optimum is not None else ()
     if parts.margin is not None and parts.margin.binds:
-        heading = "Lowest-TAC design holding the control margin"
+        heading = ("Lowest-TAC design holding the control margin" if parts.margin.holds(profile.reflux_ratio)
+                   else "Lowest-TAC design, corrected on thermo below the control margin")
     if limits:
         heading = "Lowest-TAC design within the bounds"
     if parts.optimum is not None and parts.optimum.solver.neighbours_unsolved:

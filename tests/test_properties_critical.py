@@ -281,7 +281,7 @@ def test_azeotrope_scan_of_an_equation_of_state():
     the azeotrope is now found, minimum-boiling near two-thirds carbon dioxide (the pair's
     known azeotrope lies there, from memory), its temperature the one where K are all one,
     between the bubble points 0.01 either side. A pair whose ends are both distinct in
-    volatility (methane/ethane at 28 bar) is not scanned: four bubble points, not 43."""
+    volatility (methane/ethane at 28 bar) is not scanned: two bubble points (its ends), not 43."""
     from disteco.properties.binary import _bubble, find_azeotropes
 
     kij = 0.13

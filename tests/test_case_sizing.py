@@ -12,6 +12,7 @@ import tomllib
 import pytest
 from openpyxl import load_workbook
 
+from disteco._base.errors import InfeasibleSpecError
 from disteco.api import cost_data_of
 from disteco.case import MIN_REFLUX_RATIO_FACTOR, parse_case
 from disteco.cli import main
@@ -75,6 +76,10 @@ EFFECTS = {
     "temperature_margin": ('temperature_margin = "40 K"',
                            lambda o, s, d: s.vessel.design_temperature - d.vessel.design_temperature
                            == pytest.approx(40.0 - 25.0)),
+    # the condenser at 81.1 degC keeps cooling water (30 to 45 degC) at a 30 K approach; at 40 K
+    # it has none (test_min_approach_reaches_the_choice_of_utility)
+    "min_approach": ('min_approach = "30 K"', lambda o, s, d: o.min_approach == 30.0
+                     and s.condenser.utility.name == d.condenser.utility.name == "cooling water"),
     "max_height": ('max_height = "10 m"',
                    lambda o, s, d: any("exceeds 10 m" in w for w in s.warnings)
                    and not any("exceeds 50 m" in w for w in d.warnings)),
@@ -93,6 +98,14 @@ def test_each_sizing_option_reaches_the_sizing(benzene_toluene, default_sized, k
     options, sized = sized_with(benzene_toluene, line)
     assert key in dict(case_with(line).sizing.given)
     assert effect(options, sized, default_sized)
+
+
+def test_min_approach_reaches_the_choice_of_utility(benzene_toluene):
+    """With a 40 K minimum approach no level of the test's utilities fits the benzene condenser
+    (81.1 degC against cooling water returning at 45 degC): refused, naming the approach and the
+    option to lower."""
+    with pytest.raises(InfeasibleSpecError, match=r"minimum approach of 40.0 K; .*lower sizing.min_approach"):
+        sized_with(benzene_toluene, 'min_approach = "40 K"')
 
 
 @pytest.mark.parametrize("line, equipment, material", [
@@ -133,6 +146,8 @@ def test_misspelt_sizing_key_names_the_right_one(tmp_path, capsys):
     ("pressure_margin_fraction = -0.1", "", "sizing.pressure_margin_fraction", "zero or above"),
     ('pressure_margin_minimum = "0 bar"', "", "sizing.pressure_margin_minimum", "above zero"),
     ('temperature_margin = "-5 K"', "", "sizing.temperature_margin", "zero or above"),
+    ('min_approach = "0 K"', "", "sizing.min_approach", "above zero"),
+    ('min_approach = "5"', "", "sizing.min_approach", "a unit is missing"),
     ('max_height = "0 m"', "", "sizing.max_height", "above zero"),
     ("max_height_to_diameter = -3", "", "sizing.max_height_to_diameter", "above zero"),
     ("", "min_reflux_ratio_factor = 0.95", "column.min_reflux_ratio_factor", "1 to 5 times"),

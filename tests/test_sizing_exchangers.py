@@ -83,14 +83,15 @@ def test_reboiler_takes_the_coolest_level_that_fits(process, expected):
 def test_no_cold_enough_utility_names_temperatures_levels_and_approach():
     with pytest.raises(InfeasibleSpecError, match=r"condenser: no cooling utility is cold enough .* "
                                                   r"-25.0 -> -25.0 degC .* 10.0 K; .*refrigerant -20.*; raise "
-                                                  r"column.top_pressure, or offer a colder level in your own cost "
-                                                  r"data \(economics.cost_data"):
+                                                  r"column.top_pressure, lower sizing.min_approach, or offer a colder "
+                                                  r"level in your own cost data \(economics.cost_data"):
         choose_utility(LEVELS, "cooling", C - 25, C - 25, 10.0, "condenser")
 
 
 def test_no_hot_enough_utility_raises():
     with pytest.raises(InfeasibleSpecError, match=r"reboiler: no heating utility is hot enough .*hot oil 320.0.*; "
-                                                  r"lower column.top_pressure, or offer a hotter level"):
+                                                  r"lower column.top_pressure, lower sizing.min_approach, or offer a "
+                                                  r"hotter level"):
         choose_utility(LEVELS, "heating", C + 278, C + 280, 10.0, "reboiler")
 
 

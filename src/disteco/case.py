@@ -152,6 +152,7 @@ SIZING_KEYS = {
     "pressure_margin_fraction": (float, None),
     "pressure_margin_minimum": (str, "pressure difference"),
     "temperature_margin": (str, "temperature difference"),
+    "min_approach": (str, "temperature difference"),
     "max_height": (str, "length"),
     "max_height_to_diameter": (float, None),
 }

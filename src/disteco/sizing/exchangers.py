@@ -206,8 +206,9 @@ def choose_utility(levels, service: str, process_in: float, process_out: float, 
     raise InfeasibleSpecError(
         f"{exchanger}: no {service} utility is {word} enough for the process side "
         f"{process_in - 273.15:.1f} -> {process_out - 273.15:.1f} degC with a minimum approach of "
-        f"{min_approach:.1f} K; {service} levels offered: {listed}; {pressure} column.top_pressure, or offer a "
-        f"{further} level in your own cost data (economics.cost_data: utility_levels.csv and utility_prices.csv)")
+        f"{min_approach:.1f} K; {service} levels offered: {listed}; {pressure} column.top_pressure, lower "
+        f"sizing.min_approach, or offer a {further} level in your own cost data (economics.cost_data: "
+        "utility_levels.csv and utility_prices.csv)")
 
 
 @dataclass(frozen=True)

@@ -186,7 +186,7 @@ def test_sizing_table_reaches_a_priced_design(tmp_path, capsys):
     the equipment, result.json inputs and the workbook's Inputs sheet."""
     case = tmp_path / "case.toml"
     case.write_text(BASE + '\n[sizing]\ntray_type = "valve"\ntray_material = "SS"\ntray_spacing = "0.5 m"\n'
-                    'tray_efficiency = 0.7\nshell_material = "A240 Type 304"\n')
+                    'tray_efficiency = 0.7\nshell_material = "A240 Type 304"\nmin_approach = "8 K"\n')
     out = tmp_path / "out"
     assert main(["design", str(case), "-o", str(out), "-q", "--no-figures", "--reflux", "2.2", "--stages", "26",
                  "--feed-stage", "13"]) == 0
@@ -195,8 +195,10 @@ def test_sizing_table_reaches_a_priced_design(tmp_path, capsys):
     assert (sizing["tray_type"], sizing["tray_material"], sizing["shell_material"]) == ("valve", "SS", "A240 Type 304")
     assert sizing["tray_spacing_m"] == 0.5 and sizing["tray_efficiency"] == 0.7
     assert sizing["flood_fraction"] == 0.8  # not set: the default
+    assert sizing["min_approach_K"] == 8.0
     assert set(sizing["set_in_case"]) == {"tray_type", "tray_material", "tray_spacing", "tray_efficiency",
-                                          "shell_material"}
+                                          "shell_material", "min_approach"}
+    assert "least process-utility temperature approach 8 K" in capsys.readouterr().out
     assert data["design"]["real_trays"] == 36  # 25 trays at efficiency 0.7, rounded up
     items = {i["item"]: i for i in data["cost"]["items"]}
     assert items["trays"]["material"] == "SS" and items["column shell"]["material"] == "SS"
@@ -204,3 +206,13 @@ def test_sizing_table_reaches_a_priced_design(tmp_path, capsys):
     values = {row[0]: row[1] for row in book["Inputs"].iter_rows(values_only=True) if row and row[0]}
     assert values["Tray spacing [m]"] == 0.5 and values["Tray type"] == "valve"
     assert values["Fraction of flooding velocity (default) [-]"] == 0.8
+    assert values["Least process-utility temperature approach [K]"] == 8.0
+
+
+def test_every_sizing_key_is_reported():
+    """Each [sizing] key a case may set has its row in the reports (console, result.json, workbook):
+    a key without one ended the run with an internal error after the optimisation."""
+    from disteco.case import SIZING_KEYS
+    from disteco.reports.choices import SIZING_SHOWN
+
+    assert set(SIZING_KEYS) <= set(SIZING_SHOWN)

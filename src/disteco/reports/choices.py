@@ -28,6 +28,7 @@ SIZING_SHOWN = {
     "pressure_margin_minimum": ("Least design pressure margin [kPa]", "pressure_margin_minimum_kPa",
                                 lambda v: v / 1e3),
     "temperature_margin": ("Design temperature margin [K]", "temperature_margin_K", _SAME),
+    "min_approach": ("Least process-utility temperature approach [K]", "min_approach_K", _SAME),
     "max_height": ("Largest tangent length before a warning [m]", "max_height_m", _SAME),
     "max_height_to_diameter": ("Largest height-to-diameter ratio before a warning [-]", "max_height_to_diameter",
                                _SAME),

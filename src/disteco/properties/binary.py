@@ -117,8 +117,7 @@ def _azeotrope_temperature(mixture: Mixture, pressure: float, first: int, second
     z = np.zeros(mixture.size)
     z[first], z[second] = x1, 1.0 - x1
     ends = [_bubble(mixture, pressure, first, second, v)[0] for v in (a, b)]
-    low, high = min(ends) - BRACKET, max(ends) + BRACKET
-    return brentq(lambda T: float(np.log(np.dot(mixture.k_values(T, pressure, z, z), z))), low, high, xtol=1e-6)
+    return mixture.own_vapour_temperature(pressure, z, (min(ends) - BRACKET, max(ends) + BRACKET))
 
 
 def all_azeotropes(mixture: Mixture, pressure: float) -> list[Azeotrope]:

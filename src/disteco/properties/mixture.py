@@ -181,21 +181,35 @@ class Mixture:
         if self.method == "peng-robinson":
             return self.flash_pvf(P, 0.0, x)
         x = np.asarray(x, dtype=float)
+        T = self.own_vapour_temperature(P, x)
+        y = self.k_values(T, P, x) * x
+        return PhasePoint(float(T), P, 0.0, tuple(map(float, x)), tuple(map(float, y / y.sum())))
+
+    def own_vapour_temperature(self, P: float, x, bracket: tuple[float, float] | None = None) -> float:
+        """Temperature [K] at which liquid ``x`` is in equilibrium with a vapour of its own
+        composition at ``P`` [Pa]: sum_i K_i(T, x, y = x) x_i = 1, by brentq.
+
+        The bubble temperature where K do not depend on the vapour (an ideal-gas vapour), and
+        for any method the temperature of an azeotrope at its composition. ``bracket`` [K]:
+        where to look first (default the pure components' saturation temperatures, 20 K
+        wider); widened by 20 K steps until it brackets.
+        """
+        x = np.asarray(x, dtype=float)
 
         def residual(T):
-            return float(np.log(np.dot(self.k_values(T, P, x), x)))
+            return float(np.log(np.dot(self.k_values(T, P, x, x), x)))
 
-        T_sat = self.saturation_temperatures(P)
-        low, high = float(T_sat.min()) - 20.0, float(T_sat.max()) + 20.0
+        if bracket is None:
+            T_sat = self.saturation_temperatures(P)
+            bracket = (float(T_sat.min()) - 20.0, float(T_sat.max()) + 20.0)
+        low, high = bracket
         for _ in range(10):
             if residual(low) < 0.0 < residual(high):
                 break
             low, high = low - 20.0, high + 20.0
         else:
             raise PropertyError(f"no bubble point found for x={np.round(x, 6).tolist()} at P={P:.6g} Pa")
-        T = brentq(residual, low, high, xtol=1e-9)
-        y = self.k_values(T, P, x) * x
-        return PhasePoint(float(T), P, 0.0, tuple(map(float, x)), tuple(map(float, y / y.sum())))
+        return float(brentq(residual, low, high, xtol=1e-9))
 
     def saturation_temperatures(self, P: float) -> np.ndarray:
         """Pure-component saturation temperatures at ``P`` [Pa] from thermo's vapour pressures [K]."""

@@ -58,12 +58,12 @@ def test_check_takes_designs_options_and_names_them(tmp_path, capsys, arguments,
 
 def test_a_valid_case_and_design_pass_check(tmp_path, capsys):
     """Exit 0 with the minima, the stage bound and the given design against the fitted minima
-    (regression values of the benzene example that guard against change: Fenske 9.40 stages,
-    Underwood 1.59 on the fitted forms)."""
+    (regression values of the benzene example that guard against change: 9.53 stages and reflux
+    ratio 1.59, McCabe-Thiele on the fitted forms)."""
     code = main(["check", str(EXAMPLES / "aromatics_binary.toml"), "--reflux", "2", "--stages", "25",
                  "--feed-stage", "12", "--scenario", "reference"])
     out = capsys.readouterr().out
     assert code == 0
     assert "Given design: reflux ratio 2 [-], 25 stages, feed on stage 12" in out
-    assert "(1.59, 9.40 stages)" in out
+    assert "(1.59, 9.53 stages, McCabe-Thiele)" in out
     assert "Case file is valid. design with these options will not refuse it before optimising." in out

@@ -28,7 +28,7 @@ REFUSALS = [  # (arguments of design and check on the benzene example, option na
     ("--gap nan", "--gap", "a finite number at least 0"),
     ("--max-stages 0", "--max-stages", "a whole number at least 3"),
     ("--max-stages 2", "--max-stages", "a whole number at least 3"),
-    ("--max-stages 5", "--max-stages", "not above the minimum of 9.40 stages"),
+    ("--max-stages 5", "--max-stages", "not above the minimum of 9.53 stages"),
     ("--reflux inf --stages 30 --feed-stage 15", "--reflux", "a finite number above 0"),
     ("--reflux nan --stages 30 --feed-stage 15", "--reflux", "a finite number above 0"),
     ("--reflux -1 --stages 30 --feed-stage 15", "--reflux", "a finite number above 0"),
@@ -37,8 +37,8 @@ REFUSALS = [  # (arguments of design and check on the benzene example, option na
     ("--reflux 2 --stages 25 --feed-stage 25", "--feed-stage", "a stage from 2 to 24"),
     ("--reflux 2 --stages 25 --feed-stage 1", "--feed-stage", "a stage from 2 to 24"),
     ("--reflux 2 --stages 2 --feed-stage 1", "--stages", "a whole number of at least 3"),
-    ("--reflux 2 --stages 5 --feed-stage 3", "--stages", "fewer than the minimum of 9.40 (Fenske/McCabe-Thiele"),
-    ("--reflux 100 --stages 6 --feed-stage 3", "--stages", "fewer than the minimum of 9.40"),
+    ("--reflux 2 --stages 5 --feed-stage 3", "--stages", "fewer than the minimum of 9.53 (Fenske/McCabe-Thiele at total reflux"),
+    ("--reflux 100 --stages 6 --feed-stage 3", "--stages", "fewer than the minimum of 9.53"),
     ("--reflux 2 --stages 30", "--reflux/--stages/--feed-stage", "only some of the three"),
     ("--scenario nope", "--scenario", "(allowed: reference, cheap-steam-demo, expensive-power-demo)"),
     ("--price lp_stem=20USD/GJ", "--price", "unknown utility 'lp_stem'; did you mean 'lp_steam'?"),
@@ -50,8 +50,8 @@ REFUSALS = [  # (arguments of design and check on the benzene example, option na
 
 @pytest.mark.parametrize("arguments, option, fragment", REFUSALS)
 def test_refused_with_exit_2_and_the_option_named(tmp_path, capsys, arguments, option, fragment):
-    """Benzene-toluene example (minimum stages 9.40 by Fenske on the fitted forms, minimum reflux 1.59
-    by Underwood; regression values that only guard against change): each bad option or given design
+    """Benzene-toluene example (minimum stages 9.53 and minimum reflux 1.59 by McCabe-Thiele on
+    the fitted forms; regression values that only guard against change): each bad option or given design
     exits 2 with one line that starts with the option and says what is allowed; nothing is written."""
     code = main(["design", CASE, "-o", str(tmp_path / "out"), "-q", *arguments.split()])
     err = capsys.readouterr().err

@@ -118,14 +118,15 @@ def test_tac_figure_overlays_the_scenarios(scenario_plots):
         assert lines[f"Lowest TAC, {name}: R = {best.reflux_ratio:.3f}, N = {best.stages}"].get_xdata()[0] \
             == best.reflux_ratio
     r_min = optima[0][1].minimum_reflux_ratio
-    assert tuple(lines[f"Minimum reflux, Underwood ({r_min:.3f})"].get_xdata()) == (r_min, r_min)
+    assert optima[0][1].minimum_by("reflux") == "McCabe-Thiele"  # the study's minima are stepped
+    assert tuple(lines[f"Minimum reflux, McCabe-Thiele ({r_min:.3f})"].get_xdata()) == (r_min, r_min)
     assert [(n.x, n.y, n.text) for n in plot.notes] == [(d.reflux_ratio, d.cost.tac_per_year, str(d.stages))
                                                      for _, designs in curves
                                                      for d in sorted(designs, key=lambda d: d.reflux_ratio)]
     drawn = [(t.xy, t.get_text()) for t in axes.texts]  # crowded labels are left out, none invented
     assert drawn and set(drawn) <= {((n.x, n.y), n.text) for n in plot.notes}
     (top,) = axes.child_axes
-    assert top.get_xlabel() == "R / R_min, Underwood [-]"
+    assert top.get_xlabel() == "R / R_min, McCabe-Thiele [-]"
     forward, inverse = top._functions  # R -> R/R_min and back (matplotlib keeps them on the secondary axis)
     assert forward(np.array([r_min, 2.0 * r_min])) == pytest.approx([1.0, 2.0], rel=1e-12)
     assert inverse(np.array([1.5])) == pytest.approx([1.5 * r_min], rel=1e-12)
@@ -149,7 +150,7 @@ def test_tac_figure_takes_the_energy_balance_minimum_for_its_top_scale(scenario_
     plot = tac_curve_plot(curves, optima[0][1], energy_balance_minimum=1.62)
     assert plot.top_axis.divisor == 1.62 and "energy balances" in plot.top_axis.label
     r_min = optima[0][1].minimum_reflux_ratio
-    assert [s.name for s in plot.series if s.style == "guide"] == [f"Minimum reflux, Underwood ({r_min:.3f})",
+    assert [s.name for s in plot.series if s.style == "guide"] == [f"Minimum reflux, McCabe-Thiele ({r_min:.3f})",
                                                                   "Minimum reflux, energy balances (1.620)"]
 
 
@@ -162,9 +163,9 @@ def test_stages_against_duty_has_both_asymptotes_and_the_chosen_design(scenario_
     plot = named["stages_vs_duty"]
     series = {s.name.split(" (")[0].split(":")[0]: s for s in plot.series}
     optimum = optima[0][1]
-    assert series["Minimum stages, Fenske"].y == (optimum.minimum_stages,) * 2
+    assert series["Minimum stages, McCabe-Thiele"].y == (optimum.minimum_stages,) * 2
     duty = duty_at_reflux(curves[0][1], optimum.minimum_reflux_ratio) / 1e3
-    assert series["Duty at minimum reflux, Underwood"].x == (duty, duty)
+    assert series["Duty at minimum reflux, McCabe-Thiele"].x == (duty, duty)
     designs = curves[0][1]
     lowest_duty = min(d.sizes.reboiler_duty for d in designs) / 1e3
     assert 0.9 * lowest_duty < duty < lowest_duty  # a little below the duty of the design nearest R_min

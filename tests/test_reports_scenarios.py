@@ -73,7 +73,7 @@ def scenario_study():
         best = min(range(len(designs)), key=lambda i: designs[i].tac)
         visited = tuple(SearchStep(d.stages, d.feed_stage, d.tac, "optimal") for d in designs)
         optima.append((name, OptimumDesign(designs[best], r_min, n_min, designs[best].solver, visited,
-                                           sequential=designs[best].sequential)))
+                                           sequential=designs[best].sequential, minima_method="McCabe-Thiele")))
         curves.append((name, designs))
         chosen.append(inputs[best])
     tac = tuple(tuple(cost_column(data, inp, prices).tac_per_year for prices in SCENARIOS) for inp in chosen)

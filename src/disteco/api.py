@@ -112,7 +112,8 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         check_given_design(estimate, given.reflux_ratio, given.stages, given.feed_stage, config.reflux_max)
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
-                      None if given is None else (given.reflux_ratio, given.stages, given.feed_stage))
+                      None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),
+                      estimate.method)
     return _Prepared(found, mixture, data)
 
 

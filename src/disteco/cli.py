@@ -63,7 +63,7 @@ def _run_options(sub: argparse.ArgumentParser) -> None:
     given.add_argument("--no-compare", action="store_true",
                        help="skip finding the optimum under the same prices to compare the given design with")
     sub.add_argument("--max-stages", type=int, metavar="N",
-                     help="most equilibrium stages searched, at least 3 (default: 4.5 x the Fenske minimum, "
+                     help="most equilibrium stages searched, at least 3 (default: 4.5 x the minimum stages, "
                           "at least 60)")
     sub.add_argument("--time-limit", type=float, metavar="S", help="wall-clock limit of each search [s]")
     sub.add_argument("--gap", type=float, metavar="G", help="relative optimality gap asked of a certifying solver [-]")

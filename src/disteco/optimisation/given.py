@@ -36,7 +36,8 @@ def check_given_design(estimate: Shortcut, reflux_ratio: float, stages: int, fee
                        reflux_max: float) -> None:
     """Reject a given design that cannot meet the specifications, against the shortcut's minima.
 
-    ``estimate``: Fenske and Underwood on the column's fitted forms; ``reflux_max``: the
+    ``estimate``: the minima on the column's fitted forms (Fenske and Underwood, McCabe-Thiele for
+    a binary); ``reflux_max``: the
     highest reflux ratio the model allows (option ``reflux_max``) [-].
     """
     check_decisions(reflux_ratio, stages, feed_stage)
@@ -49,7 +50,7 @@ def check_given_design(estimate: Shortcut, reflux_ratio: float, stages: int, fee
     if reflux_ratio <= r_min:
         raise InfeasibleDesignError(
             REFLUX, f"reflux ratio {reflux_ratio:.4g} is at or below the minimum reflux ratio {r_min:.4g} "
-            "(Underwood): no number of stages meets the product specifications",
+            f"({estimate.method}): no number of stages meets the product specifications",
             f"above {r_min:.4g}", reflux_ratio)
     if reflux_ratio > reflux_max:
         raise InfeasibleDesignError(
@@ -80,7 +81,7 @@ def explain_failure(estimate: Shortcut, reflux_ratio: float, stages: int, failur
 
 
 def check_stage_bound(estimate: Shortcut, max_stages: int) -> None:
-    """Refuse a search whose stage bound does not exceed Fenske's minimum stages."""
+    """Refuse a search whose stage bound does not exceed the minimum stages on the fitted forms."""
     if max_stages <= estimate.minimum_stages:
         raise InfeasibleDesignError(
             "max_stages", f"{max_stages} is not above the minimum of {estimate.minimum_stages:.2f} stages "

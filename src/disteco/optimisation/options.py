@@ -175,7 +175,7 @@ def _options() -> Options:
             description="fewest equilibrium stages, reboiler included"),
         "max_stages": Option(
             default=None, domain=_optional(STAGE_COUNT),
-            description="most equilibrium stages, reboiler included; None: a multiple of the Fenske minimum "
+            description="most equilibrium stages, reboiler included; None: a multiple of the minimum stages "
                         "(see disteco.optimisation.problem.default_max_stages)"),
         "configuration_time_limit": Option(
             default=5.0, domain=SECONDS,

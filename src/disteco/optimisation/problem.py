@@ -20,7 +20,7 @@ from .fit_check import check_fit
 from .start import shortcut
 
 # The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
-# Fenske minimum, so 4.5 x leaves room on the expensive-energy side (common practice, no
+# minimum stages (Fenske's, or McCabe-Thiele's for a binary), so 4.5 x leaves room on the expensive-energy side (common practice, no
 # source); never below the 60 stages that were the fixed bound before, so small columns keep
 # the room they had.
 STAGE_BOUND_FACTOR = 4.5
@@ -33,7 +33,7 @@ _on_column: dict = {}  # (case, mixture, feed) -> whether the K fit is made on t
 
 
 def default_max_stages(minimum_stages: float) -> int:
-    """Largest stage count searched when the options give none [-]: ``STAGE_BOUND_FACTOR`` x Fenske's minimum."""
+    """Largest stage count searched when the options give none [-]: ``STAGE_BOUND_FACTOR`` x the minimum stages."""
     return max(STAGE_BOUND_FLOOR, math.ceil(STAGE_BOUND_FACTOR * minimum_stages))
 
 
@@ -119,7 +119,7 @@ def _reflux(mixture: Mixture, profile: StageProfile, P_top: float):
 def resolved_problem(case: Case, mixture: Mixture, feed: FeedState, config, at_least: int = 0) -> SeparationProblem:
     """The separation problem fitted down to the search's stage bound, which this sets in ``config``.
 
-    Without a ``max_stages`` option the bound is :func:`default_max_stages` of Fenske's minimum
+    Without a ``max_stages`` option the bound is :func:`default_max_stages` of the minimum stages
     on forms fitted to ``STAGE_BOUND_FLOOR`` stages (refitted only when the bound is larger);
     ``at_least`` raises it to a given design's stages.
     """

@@ -162,8 +162,8 @@ class OptimumDesign:
     """The lowest-TAC design found, the shortcut bounds and the search trail."""
 
     best: DesignEvaluation
-    minimum_reflux_ratio: float  # [-], Underwood on the fitted forms
-    minimum_stages: float  # [-], Fenske on the fitted forms, reboiler included
+    minimum_reflux_ratio: float  # [-], on the fitted forms by :attr:`minima_method`
+    minimum_stages: float  # [-], on the fitted forms by :attr:`minima_method`, reboiler included
     solver: SolverReport
     visited: tuple[SearchStep, ...]
     warnings: tuple[str, ...] = ()
@@ -182,6 +182,13 @@ class OptimumDesign:
 
     stage_bound: int | None = None  # most stages the search could use
     reflux_range: tuple[float, float] = (0.0, float("inf"))  # lowest and highest reflux ratio of the model [-]
+    minima_method: str = "Fenske-Underwood"  # or "McCabe-Thiele" (a binary stepped on the fitted curve)
+
+    def minimum_by(self, quantity: str) -> str:
+        """The method that gave the minimum ``quantity`` ("reflux" or "stages")."""
+        if self.minima_method == "Fenske-Underwood":
+            return "Underwood" if quantity == "reflux" else "Fenske"
+        return self.minima_method
 
     @property
     def limits(self) -> tuple[Limit, ...]:

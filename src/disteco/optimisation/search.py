@@ -403,7 +403,7 @@ def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: 
         if evaluator.failures else ""
     return InfeasibleSpecError(
         f"no column with {config.min_stages} to {config.max_stages} stages meets the product specifications "
-        f"(minimum stages by Fenske about {estimate.minimum_stages:.1f}){failed}; tried {tried}")
+        f"(minimum stages about {estimate.minimum_stages:.1f}, {estimate.method}){failed}; tried {tried}")
 
 
 def final_model(evaluator: Evaluator, chosen: tuple[int, int]):
@@ -467,5 +467,5 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
     # A bound the optimum sits on is reported in its headline (OptimumDesign.limits), not as a warning.
     return OptimumDesign(best, estimate.minimum_reflux, estimate.minimum_stages, report,
                          tuple(evaluator.steps), best.warnings + warnings, stage_bound=config.max_stages,
-                         reflux_range=(config.reflux_min, config.reflux_max),
+                         reflux_range=(config.reflux_min, config.reflux_max), minima_method=estimate.method,
                          solved=tuple(evaluator.evaluations.values()))

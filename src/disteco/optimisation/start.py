@@ -15,6 +15,7 @@ References
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -22,6 +23,7 @@ import numpy as np
 from scipy.linalg import solve_banded
 from scipy.optimize import brentq
 
+from ..stages.binary import EquilibriumCurve, binary_grid, minimum_reflux, total_reflux_stages
 from ..stages.correlations import fenske_minimum_stages
 from ..stages.shortcut import minimum_reflux_underwood
 from ..stages.splits import product_split
@@ -43,7 +45,8 @@ class Shortcut:
     alpha: tuple[float, ...]  # volatility relative to the heavy key [-]
     distillate: tuple[float, ...]  # component flows in the distillate [mol/s]
     minimum_reflux: float  # [-]
-    minimum_stages: float  # Fenske, reboiler included [-]
+    minimum_stages: float  # reboiler included [-]
+    method: str = "Fenske-Underwood"  # or "McCabe-Thiele" (a binary, stepped on the fitted curve)
 
 
 @dataclass(frozen=True)
@@ -115,12 +118,53 @@ def shortcut(problem: SeparationProblem) -> Shortcut:
                                   f"at the feed bubble point ({T - 273.15:.1f} degC)")
     split = product_split(problem, z, problem.feed_flow, alpha)
     d, b = np.asarray(split.distillate), np.asarray(split.bottoms)
+    stepped = _binary_minima(problem, d, b) if f.size == 2 else None
+    if stepped is not None:
+        return Shortcut(tuple(alpha), tuple(d), max(stepped[0], MIN_START_REFLUX), stepped[1], "McCabe-Thiele")
     n_min = fenske_minimum_stages(d[lk], b[lk], d[hk], b[hk], alpha[lk])
     try:
         r_min, _ = minimum_reflux_underwood(alpha, z, problem.q, split)
     except InfeasibleSpecError:
         r_min = MIN_START_REFLUX
     return Shortcut(tuple(alpha), tuple(d), max(r_min, MIN_START_REFLUX), n_min)
+
+
+def fitted_equilibrium_curve(problem: SeparationProblem) -> EquilibriumCurve:
+    """The light key's y(x) of a binary on the fitted forms at top pressure (the model's own equilibrium)."""
+    lk, hk = problem.light_key, problem.heavy_key
+    x_light = np.asarray(binary_grid())
+    x = np.zeros((x_light.size, 2))
+    x[:, lk], x[:, hk] = x_light, 1.0 - x_light
+    P = np.full(x_light.size, problem.top_pressure)
+    f = problem.fitted
+    T = _bubble_temperatures(problem, P, x, np.full(x_light.size, f.bubble_temperature(problem.top_pressure,
+                                                                                       np.asarray(problem.z))))
+    k = np.exp(np.asarray(f.ln_k(T, P, [x[:, 0], x[:, 1]], exp=np.exp, log=np.log)))
+    y_light = k[lk] * x[:, lk] / (k[lk] * x[:, lk] + k[hk] * x[:, hk])
+    return EquilibriumCurve(tuple(map(float, np.concatenate([[0.0], x_light, [1.0]]))),
+                            tuple(map(float, np.concatenate([[0.0], y_light, [1.0]]))), problem.top_pressure)
+
+
+def _binary_minima(problem: SeparationProblem, d: np.ndarray, b: np.ndarray) -> tuple[float, float] | None:
+    """(minimum reflux, minimum stages) of a binary by McCabe-Thiele on the fitted curve, or None.
+
+    Fenske and Underwood take one relative volatility, the feed bubble point's; a curve whose
+    volatility changes along it (a tangent pinch near a pure end, acetone-water or
+    ethanol-water) needs far more stages and reflux than that volatility says: on an
+    acetone-water column to 0.99 acetone Fenske gave 4.6 stages against 22.6 stepped, and the
+    search started at 10 stages, where no reflux meets the distillate, and ran out of time.
+    None where the curve cannot be stepped (not monotone, an azeotrope between the products,
+    no reflux needed): then Fenske and Underwood's estimates stand.
+    """
+    lk, hk = problem.light_key, problem.heavy_key
+    x_d, x_b = d[lk] / (d[lk] + d[hk]), b[lk] / (b[lk] + b[hk])
+    try:
+        curve = fitted_equilibrium_curve(problem)
+        stages = total_reflux_stages(curve, x_d, x_b).stages
+        reflux = minimum_reflux(curve, x_d, x_b, float(problem.z[lk]), problem.q).reflux_ratio
+    except (InfeasibleSpecError, ConvergenceError):
+        return None
+    return (reflux, stages) if math.isfinite(stages) and math.isfinite(reflux) else None
 
 
 def gilliland_reflux(stages: int, estimate: Shortcut) -> float:

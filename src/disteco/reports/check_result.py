@@ -14,8 +14,9 @@ class CaseCheck:
     """A case that passed every check `design` runs before optimising, in SI units.
 
     ``stage_bound``: most stages the search may use; ``fitted_minimum_stages`` and
-    ``fitted_minimum_reflux``: Fenske and Underwood on the optimiser's fitted forms (what the
-    stage bound and a given design are checked against); ``given``: (reflux ratio [-],
+    ``fitted_minimum_reflux``: the minima on the optimiser's fitted forms (what the stage bound
+    and a given design are checked against) by ``fitted_minima_method`` (Fenske and Underwood,
+    or McCabe-Thiele for a binary); ``given``: (reflux ratio [-],
     stages, feed stage) of a given design, or None.
     """
 
@@ -30,6 +31,7 @@ class CaseCheck:
     fitted_minimum_stages: float
     fitted_minimum_reflux: float
     given: tuple[float, int, int] | None = None
+    fitted_minima_method: str = "Fenske-Underwood"
 
     def __str__(self) -> str:
         from .text import check_text  # text.py imports the result types

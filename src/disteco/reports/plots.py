@@ -150,7 +150,7 @@ def _reference_minimum(optimum: OptimumDesign, energy_balance_minimum: float | N
     """The minimum reflux the R/R_min scale refers to: the energy-balance one where it was found."""
     if energy_balance_minimum:
         return energy_balance_minimum, "energy balances"
-    return optimum.minimum_reflux_ratio, "Underwood"
+    return optimum.minimum_reflux_ratio, optimum.minimum_by("reflux")
 
 
 def tac_curve_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], optimum: OptimumDesign,
@@ -195,7 +195,7 @@ def tac_curve_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], opt
     if beyond and within:  # the least reflux a column within the limit reaches on this curve
         series.append(Series(f"Height limit: R from {min(within):.3f} at {limit} stages or fewer per shell",
                              (min(within), min(within)), y_limits, "guide", PALETTE[3]))
-    minima = [("Minimum reflux, Underwood", optimum.minimum_reflux_ratio)]
+    minima = [(f"Minimum reflux, {optimum.minimum_by('reflux')}", optimum.minimum_reflux_ratio)]
     if energy_balance_minimum:
         minima.append(("Minimum reflux, energy balances", energy_balance_minimum))
     for (label, value), colour in zip(minima, (GUIDE, AZEOTROPE)):
@@ -251,7 +251,7 @@ def stages_duty_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], o
         duties.append(q_min / KW)
     x_limits = padded_limits(duties)
     y_limits = (0.0, round_up(max(stages) * 1.1))
-    series.append(Series(f"Minimum stages, Fenske ({optimum.minimum_stages:.1f})", x_limits,
+    series.append(Series(f"Minimum stages, {optimum.minimum_by('stages')} ({optimum.minimum_stages:.1f})", x_limits,
                          (optimum.minimum_stages,) * 2, "guide", GUIDE))
     if q_min is not None and q_min > 0.0:
         series.append(Series(f"Duty at minimum reflux, {basis} ({q_min / KW:,.0f} kW)", (q_min / KW,) * 2,

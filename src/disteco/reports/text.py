@@ -73,13 +73,13 @@ def check_text(found: CaseCheck) -> str:
              f"reflux ratio {stages.profile.reflux_ratio:.3f} [-]",
              f"Scenarios: {', '.join(found.scenarios)}; cost year {found.cost_year}, {found.currency}"]
     if found.given is None:
-        lines.append(f"Stage bound of the search: {found.stage_bound} stages (Fenske minimum on the fitted forms "
-                     f"{found.fitted_minimum_stages:.2f})")
+        lines.append(f"Stage bound of the search: {found.stage_bound} stages (minimum stages on the fitted forms "
+                     f"{found.fitted_minimum_stages:.2f}, {found.fitted_minima_method})")
     else:
         reflux, n, feed_stage = found.given
         lines.append(f"Given design: reflux ratio {reflux:.4g} [-], {n} stages, feed on stage {feed_stage}: above the "
                      f"minima on the fitted forms ({found.fitted_minimum_reflux:.4g}, "
-                     f"{found.fitted_minimum_stages:.2f} stages)")
+                     f"{found.fitted_minimum_stages:.2f} stages, {found.fitted_minima_method})")
     lines.append("Case file is valid. design with these options will not refuse it before optimising.")
     return "\n".join(lines)
 

@@ -80,12 +80,18 @@ class SteppedColumn:
     partial_condenser: bool
 
 
+def binary_grid(points: int = CURVE_POINTS) -> np.ndarray:
+    """Light-key liquid fractions where an equilibrium curve is tabulated, ends excluded: cosine-spaced,
+    with points geometrically close to each pure end, where high purities are stepped."""
+    inner = 0.5 - 0.5 * np.cos(np.linspace(0.0, math.pi, points))
+    ends = np.geomspace(1e-7, inner[1], END_POINTS, endpoint=False)
+    return np.unique(np.concatenate([inner[1:-1], ends, 1.0 - ends]))
+
+
 def equilibrium_curve(mixture: Mixture, pressure: float, light: int = 0, heavy: int = 1,
                       points: int = CURVE_POINTS) -> EquilibriumCurve:
     """Tabulate the light key's y(x) from bubble points at ``pressure`` [Pa]."""
-    inner = 0.5 - 0.5 * np.cos(np.linspace(0.0, math.pi, points))
-    ends = np.geomspace(1e-7, inner[1], END_POINTS, endpoint=False)
-    xs = np.unique(np.concatenate([inner[1:-1], ends, 1.0 - ends]))
+    xs = binary_grid(points)
     ys = []
     for x1 in xs:
         z = np.zeros(mixture.size)

@@ -96,6 +96,31 @@ def test_a_design_just_short_of_its_specifications_is_corrected(benzene):
     assert "corrected design" in warning and f"{v.corrected.reflux_ratio:.4g}" in warning
 
 
+def test_a_correction_below_the_control_margin_runs_at_its_floor(benzene):
+    """The same short design with a control margin's floor 3 % above the reflux the correction finds:
+    the corrected distillate runs at the floor, where thermo's products are purer than both
+    specifications (more reflux at the same distillate), and the warning says why. Without a
+    floor the correction is the one above."""
+    case, mixture, feed, data, sizing, design = benzene
+    short = replace(design.profile, reflux_ratio=0.99 * design.reflux_ratio)
+    shortcut = shortcut_design(mixture, feed, case.products, case.column)
+    free = verify_design(case, mixture, feed, replace(design, profile=short, reflux_ratio=short.reflux_ratio),
+                         shortcut, data, sizing)
+    floor = 1.03 * free.corrected.reflux_ratio
+    held = verify_design(case, mixture, feed, replace(design, profile=short, reflux_ratio=short.reflux_ratio),
+                         shortcut, data, sizing, reflux_floor=floor)
+    assert held.corrected.reflux_ratio == pytest.approx(floor, rel=1e-12)
+    assert held.corrected.distillate_flow == pytest.approx(free.corrected.distillate_flow, rel=1e-9)
+    assert (spec_residuals(held.corrected, case.products, feed) < 0.0).all()  # both impurities below spec
+    assert held.corrected_price.cost.tac_per_year > free.corrected_price.cost.tac_per_year
+    (warning,) = held.warnings
+    assert f"reflux ratio {floor:.4g}" in warning and "the control margin's floor" in warning
+    # a floor the correction already holds changes nothing
+    kept = verify_design(case, mixture, feed, replace(design, profile=short, reflux_ratio=short.reflux_ratio),
+                         shortcut, data, sizing, reflux_floor=0.97 * free.corrected.reflux_ratio)
+    assert kept.corrected.reflux_ratio == pytest.approx(free.corrected.reflux_ratio, rel=1e-9)
+
+
 def test_depentaniser_energy_balance_minimum_lies_above_underwood(depentaniser):
     """Latent heats of the alkanes rise down the column (n-pentane to n-heptane by about a
     quarter), so with energy balances the minimum reflux lies above Underwood's constant-

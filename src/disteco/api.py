@@ -224,7 +224,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
             chosen = optimum.sizing_options or sizing
             checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
                                    full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
-                                   minimum_near=minimum.reflux_ratio if minimum else None)
+                                   minimum_near=minimum.reflux_ratio if minimum else None,
+                                   reflux_floor=margin.reflux_floor)
         plan.finish()
         optima.append((name, optimum))
         checked.append((name, checks))

@@ -23,8 +23,7 @@ from .design import optimise_design
 from .options import model_options
 from .results import OptimumDesign
 from .start import shortcut
-
-RELATIVE_TOLERANCE = 1e-3  # a design this close below the floor counts as holding the margin [-]
+from .verification import FLOOR_TOLERANCE as RELATIVE_TOLERANCE  # one tolerance for the margin and the check
 
 
 @dataclass(frozen=True)
@@ -46,7 +45,7 @@ class ControlMargin:
 
     def holds(self, reflux_ratio: float) -> bool:
         """Whether ``reflux_ratio`` [-] keeps the margin (within 0.1 %, the rounds' tolerance)."""
-        return self.reflux_floor is None or reflux_ratio >= self.reflux_floor * (1.0 - 1e-3)
+        return self.reflux_floor is None or reflux_ratio >= self.reflux_floor * (1.0 - RELATIVE_TOLERANCE)
 
     def below_floor(self, reflux_ratio: float) -> tuple[str, ...]:
         """The warning of a reported design below the floor: a design the verification corrected on

@@ -40,14 +40,16 @@ class ThermoChecks:
 def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData, design: DesignEvaluation,
                   stages: StageDesign, options=None, sizing: SizingOptions = SizingOptions(),
                   scenario: str | None = None, full: bool = True, fitted=None,
-                  minimum_near: float | None = None) -> ThermoChecks:
+                  minimum_near: float | None = None, reflux_floor: float | None = None) -> ThermoChecks:
     """Verify ``design`` on thermo; with ``full`` also its energy-balance minimum reflux and the fit check.
 
     ``fitted``: the fitted forms the design was optimised on (:attr:`OptimumDesign.problem`); None
     fits them again as the optimiser would. ``minimum_near``: the minimum reflux found on a
-    nearby design, where the search for this one's starts.
+    nearby design, where the search for this one's starts. ``reflux_floor``: the control margin's
+    least reflux ratio, which a correction on thermo keeps (:func:`verify_design`).
     """
-    verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario)
+    verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario,
+                                 reflux_floor)
     if not full:
         return ThermoChecks(verification, None, None, verification.warnings)
     reported = verification.corrected or verification.profile

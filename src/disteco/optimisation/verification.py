@@ -9,7 +9,9 @@ A specification counts as met when its key impurity (mole fraction, or the loss
 1 - recovery) is at most ``SPEC_TOLERANCE`` (relative) above the specified value. When
 thermo misses a specification by more, ``solve_to_specs`` corrects the reflux ratio and
 the distillate flow at the same stages and feed stage, the corrected design is priced
-again by the sizing and costing layers, and the result says so in a warning.
+again by the sizing and costing layers, and the result says so in a warning. Where the
+correction's reflux falls below a control margin's floor, the corrected distillate is run at
+the floor instead (both products purer than specified), so the margin holds on thermo too.
 """
 
 from __future__ import annotations
@@ -30,6 +32,7 @@ from .results import DesignEvaluation, SequentialPrice
 
 # relative excess of a key impurity accepted as meeting its specification (common practice, no source)
 SPEC_TOLERANCE = 0.01
+FLOOR_TOLERANCE = 1e-3  # a reflux this close below the control margin's floor holds it [-] (the margin's own too)
 METHOD = "stage-by-stage energy balances on the thermodynamic library's equilibrium and enthalpies ({method})"
 
 
@@ -97,10 +100,11 @@ def _differences(model: StageProfile, thermo: StageProfile) -> tuple[float, floa
 
 def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignEvaluation,
                   shortcut: ShortcutDesign, data: CostData, sizing: SizingOptions = SizingOptions(),
-                  scenario: str | None = None) -> Verification:
+                  scenario: str | None = None, reflux_floor: float | None = None) -> Verification:
     """Solve ``design`` on thermo; correct R and D and price again when a specification is missed.
 
-    ``shortcut`` is the stages layer's shortcut design of the case (Newton's fallback start).
+    ``shortcut`` is the stages layer's shortcut design of the case (Newton's fallback start);
+    ``reflux_floor``: the control margin's least reflux ratio [-], which a correction keeps.
     """
     began = time.monotonic()
     model = design.profile
@@ -124,19 +128,49 @@ def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignE
                 f"{spec.stages} stages) gives {missed} (tolerance {100 * SPEC_TOLERANCE:g} %), and no reflux "
                 f"ratio meets both at these stages ({failure}); add stages")
         else:
-            evaluation = replace(design, profile=corrected, reflux_ratio=corrected.reflux_ratio)
+            held = _held_at_floor(case, mixture, feed, corrected, reflux_floor)
+            evaluation = replace(design, profile=held or corrected, reflux_ratio=(held or corrected).reflux_ratio)
             price = price_design(evaluation, mixture, data, replace(sizing, light_key=case.products.light_key,
                                                                     heavy_key=case.products.heavy_key),
                                  scenario, case.economics.cost_year)
+            reported = held or corrected
             warnings.append(
                 f"corrected design: solved on thermo, the model's design gives {missed} (tolerance "
-                f"{100 * SPEC_TOLERANCE:g} %); reported instead: reflux ratio {corrected.reflux_ratio:.4g} "
-                f"(model {model.reflux_ratio:.4g}) and distillate {3.6 * corrected.distillate_flow:.4g} kmol/h "
+                f"{100 * SPEC_TOLERANCE:g} %); reported instead: reflux ratio {reported.reflux_ratio:.4g} "
+                f"(model {model.reflux_ratio:.4g}) and distillate {3.6 * reported.distillate_flow:.4g} kmol/h "
                 f"(model {3.6 * model.distillate_flow:.4g}), same {spec.stages} stages and feed stage "
-                f"{spec.feed_stage}, priced again")
+                f"{spec.feed_stage}, priced again" + ("" if held is None else _floor_note(case, feed, corrected, held)))
+            corrected = reported
     return Verification(METHOD.format(method=mixture.method), met, SPEC_TOLERANCE, keys, dT, dx,
                         thermo.condenser_duty, thermo.reboiler_duty, thermo, time.monotonic() - began,
                         corrected, price, tuple(warnings))
+
+
+def _held_at_floor(case: Case, mixture: Mixture, feed: FeedState, corrected: StageProfile,
+                   reflux_floor: float | None) -> StageProfile | None:
+    """``corrected``'s distillate at the control margin's floor, where the correction fell below it and
+    thermo meets both specifications there; else None.
+
+    More reflux at the same distillate makes both products purer, so the floor keeps both
+    specifications (checked on thermo, not assumed).
+    """
+    if reflux_floor is None or corrected.reflux_ratio >= reflux_floor * (1.0 - FLOOR_TOLERANCE):
+        return None
+    spec = replace(column_spec(corrected, case), reflux_ratio=reflux_floor)
+    try:
+        held = solve_rigorous(mixture, feed, spec, guess=corrected)
+    except (ConvergenceError, InfeasibleSpecError):
+        return None
+    return held if max(key_fractions(held, case, feed).excess) <= SPEC_TOLERANCE else None
+
+
+def _floor_note(case: Case, feed: FeedState, corrected: StageProfile, held: StageProfile) -> str:
+    keys = key_fractions(held, case, feed)
+    return (f"; the reflux ratio is the control margin's floor: thermo meets both specifications from "
+            f"{corrected.reflux_ratio:.4g} at this distillate, and at the floor the products are purer than "
+            f"specified (light key {keys.distillate_light_key_fraction:.5g} in the distillate, "
+            f"{keys.bottoms_light_key_fraction:.3g} in the bottoms; recoveries {keys.light_key_recovery:.4f} / "
+            f"{keys.heavy_key_recovery:.4f})")
 
 
 __all__ = ["KeyFractions", "SPEC_TOLERANCE", "Verification", "column_spec", "key_fractions", "verify_design"]

@@ -32,6 +32,7 @@ from .results import DesignEvaluation, SequentialPrice
 
 # relative excess of a key impurity accepted as meeting its specification (common practice, no source)
 SPEC_TOLERANCE = 0.01
+PURER = 1e-6  # relative excess of an impurity over its specification still read as meeting it exactly [-]
 FLOOR_TOLERANCE = 1e-3  # a reflux this close below the control margin's floor holds it [-] (the margin's own too)
 METHOD = "stage-by-stage energy balances on the thermodynamic library's equilibrium and enthalpies ({method})"
 
@@ -161,7 +162,7 @@ def _held_at_floor(case: Case, mixture: Mixture, feed: FeedState, corrected: Sta
         held = solve_rigorous(mixture, feed, spec, guess=corrected)
     except (ConvergenceError, InfeasibleSpecError):
         return None
-    return held if max(key_fractions(held, case, feed).excess) <= SPEC_TOLERANCE else None
+    return held if max(key_fractions(held, case, feed).excess) <= PURER else None
 
 
 def _floor_note(case: Case, feed: FeedState, corrected: StageProfile, held: StageProfile) -> str:

@@ -27,6 +27,7 @@ MAX_ITERATIONS = 60
 MAX_TEMPERATURE_STEP = 10.0  # K per Newton step
 ENTHALPY_SCALE = 3.0e4  # J/mol; a typical latent heat, to scale the enthalpy balances
 RELATIVE_STEP = 1e-7  # finite-difference step relative to the variable's scale
+KEEP_JACOBIAN = 0.25  # a step that cuts the largest residual to this share or less keeps its Jacobian
 
 
 @dataclass(frozen=True)
@@ -66,6 +67,10 @@ class Stages:
         self.f = np.zeros((problem.N + 1, self.C))
         self.f[problem.feed_stage] = problem.feed_flow * np.asarray(problem.z)
         self.scale_flow = problem.feed_flow
+        # a component absent from the feed has no flow anywhere: its flows are not stepped, so
+        # they stay exactly zero (elimination round-off left 1e-25 after steps on a kept Jacobian)
+        absent = np.asarray(problem.z) == 0.0
+        self.frozen = np.concatenate([absent, absent, [False]])
 
     # ------------------------------------------------------------ properties of one block
     def block_properties(self, j: int, u: np.ndarray, base: np.ndarray | None = None,
@@ -151,29 +156,51 @@ class Stages:
 
     # ------------------------------------------------------------ Newton
     def solve(self, U: np.ndarray) -> tuple[np.ndarray, np.ndarray, int]:
-        """Newton iteration from U; returns the solution, its properties and the iteration count."""
+        """Newton iteration from U; returns the solution, its properties and the iteration count.
+
+        A Jacobian is kept for the next step while its last full step cut the largest residual
+        by at least :data:`KEEP_JACOBIAN` (a chord step costs one property sweep instead of the
+        2C + 1 sweeps of a new Jacobian); a kept Jacobian whose step does not lower the residual
+        is replaced at the same point before the step is taken.
+        """
         U = U.copy()
         props = self.all_properties(U)
         R = self.residuals(U, props)
         norm = np.abs(R).max()
+        J = None
         for iteration in range(1, MAX_ITERATIONS + 1):
             if norm < TOLERANCE:
                 return U, props, iteration - 1
-            J = self.jacobian(U, props, R)
-            try:
-                bands = 2 * self.width - 1
-                step = solve_banded((bands, bands), J, -R.ravel()).reshape(U.shape)
-            except (np.linalg.LinAlgError, ValueError):
-                raise ConvergenceError("the stage equations became singular; check the feed stage and "
-                                       "that the distillate flow is between zero and the feed flow") from None
-            U, props, R, norm = self._damped_update(U, step, R)
+            fresh = J is None
+            if fresh:
+                J = self.jacobian(U, props, R)
+            trial = self._damped_update(U, self._newton_step(J, R), R)
+            if not fresh and not trial[4]:  # the kept Jacobian's step failed: a new one at this point
+                J = self.jacobian(U, props, R)
+                trial = self._damped_update(U, self._newton_step(J, R), R)
+            U, props, R, new_norm, full = trial
+            if not (full and new_norm <= KEEP_JACOBIAN * norm):
+                J = None
+            norm = new_norm
         raise ConvergenceError(f"stage equations not converged in {MAX_ITERATIONS} Newton steps "
                                f"(largest scaled residual {norm:.3g}); the specification may be near "
                                "minimum reflux or the distillate flow may be impossible for the stage count")
 
+    def _newton_step(self, J: np.ndarray, R: np.ndarray) -> np.ndarray:
+        try:
+            bands = 2 * self.width - 1
+            step = solve_banded((bands, bands), J, -R.ravel()).reshape(R.shape)
+        except (np.linalg.LinAlgError, ValueError):
+            raise ConvergenceError("the stage equations became singular; check the feed stage and "
+                                   "that the distillate flow is between zero and the feed flow") from None
+        step[:, self.frozen] = 0.0
+        return step
+
     def _damped_update(self, U, step, R0):
+        """(U, properties, residuals, largest residual, whether the full step lowered the residual's 2-norm)
+        after the longest step along ``step`` (halved up to 8 times) that lowers the 2-norm."""
         norm_2 = np.linalg.norm(R0)
-        alpha = min(1.0, MAX_TEMPERATURE_STEP / max(np.abs(step[:, -1]).max(), 1e-30))
+        alpha = first = min(1.0, MAX_TEMPERATURE_STEP / max(np.abs(step[:, -1]).max(), 1e-30))
         for _ in range(8):
             trial = U + alpha * step
             flows = trial[:, :-1]
@@ -192,10 +219,11 @@ class Stages:
             R = self.residuals(trial, props)
             new_norm = np.abs(R).max()
             # the Newton step is a descent direction of the 2-norm, not of the max-norm
-            if np.isfinite(new_norm) and (np.linalg.norm(R) < norm_2 or alpha < 0.05):
-                return trial, props, R, new_norm
+            lower = np.isfinite(new_norm) and np.linalg.norm(R) < norm_2
+            if lower or (np.isfinite(new_norm) and alpha < 0.05):
+                return trial, props, R, new_norm, lower and alpha == first
             alpha *= 0.5
-        return trial, props, R, new_norm
+        return trial, props, R, new_norm, False
 
 
 def _fractions(flows: np.ndarray) -> np.ndarray:

@@ -38,6 +38,10 @@ HIGHEST_REFLUX_FACTOR = 2.0  # without a table: the curve's highest reflux as a 
 # The curve's first step in stages, and its growth, is one per this many stages of the optimum: a
 # 139-stage splitter stepped one stage at a time took 37 points (68 solves, more than its search).
 STAGES_PER_STEP = 30
+# The curve's solves stop after the optimisation's own wall time (its search rounds), at least
+# this long [s]: the curve shows the trade-off around a design already found and should not cost
+# more than finding it (a twenty-component column's curve took 207 s after a 128 s search).
+CURVE_TIME_FLOOR = 30.0
 
 
 def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,
@@ -50,7 +54,8 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     ``table``'s rows at ``factors`` x the minimum reflux (the stages layer's reflux-stages
     trade-off), down to that row's stages at most, or until no column is feasible; towards
     more stages until the reflux settles (:data:`FLAT_REFLUX`), up to
-    ``MORE_STAGES_FACTOR`` x the optimum's stages within the stage bound.
+    ``MORE_STAGES_FACTOR`` x the optimum's stages within the stage bound; the points found within
+    :func:`curve_time` are kept.
     """
     config = model_options(options)
     problem = resolved_problem(case, mixture, feed, config)  # also sets the stage bound
@@ -67,7 +72,7 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     rows = [row for row in table if any(abs(row.reflux_factor - f) < 1e-9 for f in factors)]
     top = max(rows, key=lambda row: row.reflux_ratio) if rows else None
     highest = top.reflux_ratio if top else HIGHEST_REFLUX_FACTOR * optimum.minimum_reflux_ratio
-    evaluator = Evaluator(problem, basis, config, time.perf_counter() + config.time_limit,
+    evaluator = Evaluator(problem, basis, config, time.perf_counter() + curve_time(optimum, config),
                           low=stage_floor(shortcut(problem), config))
     evaluator.seed(optimum.solved or (best,))
     evaluator.strategies = config.barrier_strategies
@@ -83,6 +88,12 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
         except TimeoutError:
             pass  # the curve keeps the points found within the time limit
     return along_reflux(evaluator.evaluations.values())
+
+
+def curve_time(optimum: OptimumDesign, config) -> float:
+    """Seconds the curve's solves may take: the optimisation's wall time, at least
+    :data:`CURVE_TIME_FLOOR`, at most the options' time limit."""
+    return min(config.time_limit, max(CURVE_TIME_FLOOR, optimum.solver.wall_time))
 
 
 def _extend(evaluator: Evaluator, direction: int, bound: int, far_enough, unit: int = 1) -> None:

@@ -160,9 +160,11 @@ def _binary_minima(problem: SeparationProblem, d: np.ndarray, b: np.ndarray) -> 
     x_d, x_b = d[lk] / (d[lk] + d[hk]), b[lk] / (b[lk] + b[hk])
     try:
         curve = fitted_equilibrium_curve(problem)
+        if not np.all(np.isfinite(curve.y)):  # a bubble point the Newton steps did not reach
+            return None
         stages = total_reflux_stages(curve, x_d, x_b).stages
         reflux = minimum_reflux(curve, x_d, x_b, float(problem.z[lk]), problem.q).reflux_ratio
-    except (InfeasibleSpecError, ConvergenceError):
+    except (InfeasibleSpecError, ConvergenceError, ValueError):  # ValueError: no root in a bracket
         return None
     return (reflux, stages) if math.isfinite(stages) and math.isfinite(reflux) else None
 

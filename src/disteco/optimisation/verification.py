@@ -67,7 +67,8 @@ class Verification:
     reboiler_duty: float  # W
     profile: StageProfile  # thermo's profile of the model's design
     wall_time: float  # s
-    corrected: StageProfile | None = None  # thermo profile meeting both specifications exactly
+    # thermo profile meeting both specifications exactly, or with purer products at a control margin's floor
+    corrected: StageProfile | None = None
     corrected_price: SequentialPrice | None = None
     warnings: tuple[str, ...] = ()
 
@@ -130,11 +131,11 @@ def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignE
                 f"ratio meets both at these stages ({failure}); add stages")
         else:
             held = _held_at_floor(case, mixture, feed, corrected, reflux_floor)
-            evaluation = replace(design, profile=held or corrected, reflux_ratio=(held or corrected).reflux_ratio)
+            reported = held or corrected
+            evaluation = replace(design, profile=reported, reflux_ratio=reported.reflux_ratio)
             price = price_design(evaluation, mixture, data, replace(sizing, light_key=case.products.light_key,
                                                                     heavy_key=case.products.heavy_key),
                                  scenario, case.economics.cost_year)
-            reported = held or corrected
             warnings.append(
                 f"corrected design: solved on thermo, the model's design gives {missed} (tolerance "
                 f"{100 * SPEC_TOLERANCE:g} %); reported instead: reflux ratio {reported.reflux_ratio:.4g} "

@@ -159,9 +159,9 @@ class Stages:
         """Newton iteration from U; returns the solution, its properties and the iteration count.
 
         A Jacobian is kept for the next step while its last full step cut the largest residual
-        by at least :data:`KEEP_JACOBIAN` (a chord step costs one property sweep instead of the
-        2C + 1 sweeps of a new Jacobian); a kept Jacobian whose step does not lower the residual
-        is replaced at the same point before the step is taken.
+        to :data:`KEEP_JACOBIAN` of it or less (a chord step costs one property sweep instead of
+        the 2C + 1 sweeps of a new Jacobian); a kept Jacobian whose full step does not lower the
+        residuals' 2-norm is replaced at the same point before a step is taken.
         """
         U = U.copy()
         props = self.all_properties(U)

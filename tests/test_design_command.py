@@ -283,3 +283,27 @@ def test_curve_time_follows_the_optimisation():
     assert curve_time(searched(4.0), config) == 30.0
     assert curve_time(searched(75.0), config) == 75.0
     assert curve_time(searched(300.0), config) == 120.0
+
+
+def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
+    """With a time limit below one solve the curve adds no point: it is the search's own points
+    (the optimum among them) and a note says it was cut."""
+    from disteco.api import cost_data_of, load_case, mixture_of
+    from disteco.optimisation.curves import reflux_curve
+    from disteco.optimisation.design import optimise_design
+    from disteco.properties import feed_state
+    from disteco.sizing.options import sizing_options
+    from disteco.stages import design_stages
+
+    case = load_case(CASE)
+    mixture, data = mixture_of(case), cost_data_of(case)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    optimum = optimise_design(case, mixture, feed, data, None, sizing_options(case))
+    stages = design_stages(mixture, feed, case.products, case.column)
+    notes = []
+    curve = reflux_curve(case, mixture, feed, data, optimum, stages.table, {"time_limit": 1e-3},
+                         optimum.sizing_options, notes=notes)
+    solved = {d.stages for d in optimum.solved}
+    assert {d.stages for d in curve} <= solved and optimum.best.stages in {d.stages for d in curve}
+    (note,) = notes
+    assert note.startswith("the TAC-against-reflux curve was cut after 0 s") and "stage counts" in note

@@ -207,7 +207,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings, parts), options=_given_options(options))
-    optima, curves, checked, margins = [], [], [], []
+    optima, curves, checked, margins, curve_notes = [], [], [], [], []
     minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
     for k, name in enumerate(names):
         plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
@@ -233,7 +233,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         plan.start(f"TAC against reflux ratio under '{name}'")
         # the curve around the economic optimum, which the margin's floor lies to the right of
         curves.append((name, reflux_curve(case, mixture, feed, data, margin.unconstrained or optimum, stages.table,
-                                          options, chosen, name)))
+                                          options, chosen, name, notes=curve_notes)))
         plan.finish()
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
     plan.end()
@@ -245,7 +245,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     extra = tuple(cross.below_zero()) + cross.notes if cross is not None else ()
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
-    extra += mixture.warnings
+    extra += mixture.warnings + tuple(curve_notes)
     parts = _checked(parts, checks)
     extra += tuple(w for _, margin in margins[:1] for w in margin.warnings + margin.below_floor(
         parts.profile.reflux_ratio))

@@ -46,8 +46,8 @@ CURVE_TIME_FLOOR = 30.0
 
 def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,
                  table: Sequence[ShortcutPoint], options=None, sizing: SizingOptions = SizingOptions(),
-                 scenario: str | None = None, factors: tuple[float, ...] = CURVE_FACTORS
-                 ) -> tuple[DesignEvaluation, ...]:
+                 scenario: str | None = None, factors: tuple[float, ...] = CURVE_FACTORS,
+                 notes: list[str] | None = None) -> tuple[DesignEvaluation, ...]:
     """Designs along the reflux ratio, the optimum among them, sorted by reflux ratio.
 
     Towards fewer stages the curve goes on until the reflux reaches the highest of the
@@ -55,7 +55,7 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     trade-off), down to that row's stages at most, or until no column is feasible; towards
     more stages until the reflux settles (:data:`FLAT_REFLUX`), up to
     ``MORE_STAGES_FACTOR`` x the optimum's stages within the stage bound; the points found within
-    :func:`curve_time` are kept.
+    :func:`curve_time` are kept, and a note saying the curve was cut is appended to ``notes``.
     """
     config = model_options(options)
     problem = resolved_problem(case, mixture, feed, config)  # also sets the stage bound
@@ -72,7 +72,8 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
     rows = [row for row in table if any(abs(row.reflux_factor - f) < 1e-9 for f in factors)]
     top = max(rows, key=lambda row: row.reflux_ratio) if rows else None
     highest = top.reflux_ratio if top else HIGHEST_REFLUX_FACTOR * optimum.minimum_reflux_ratio
-    evaluator = Evaluator(problem, basis, config, time.perf_counter() + curve_time(optimum, config),
+    allowed = curve_time(optimum, config)
+    evaluator = Evaluator(problem, basis, config, time.perf_counter() + allowed,
                           low=stage_floor(shortcut(problem), config))
     evaluator.seed(optimum.solved or (best,))
     evaluator.strategies = config.barrier_strategies
@@ -85,8 +86,11 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
             _extend(evaluator, +1, most,
                     lambda last, new: last.reflux_ratio - new.reflux_ratio < unit * FLAT_REFLUX * new.reflux_ratio,
                     unit)
-        except TimeoutError:
-            pass  # the curve keeps the points found within the time limit
+        except TimeoutError:  # the curve keeps the points found within its time
+            if notes is not None:
+                notes.append(f"the TAC-against-reflux curve{f' of {scenario!r}' if scenario else ''} was cut after "
+                             f"{allowed:.0f} s (the optimisation's own time, at least {CURVE_TIME_FLOOR:g} s): it "
+                             f"shows {len({n for n, _ in evaluator.evaluations})} stage counts around the optimum")
     return along_reflux(evaluator.evaluations.values())
 
 

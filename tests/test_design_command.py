@@ -286,8 +286,10 @@ def test_curve_time_follows_the_optimisation():
 
 
 def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
-    """With a time limit below one solve the curve adds no point: it is the search's own points
-    (the optimum among them) and a note says it was cut."""
+    """With a time limit of a millisecond the curve adds at most the one batch begun before the time
+    ran out (a solve started with time left gets the solver's least limit, 1 s; measured: none or one
+    stage count) to the
+    search's own points, the optimum among them, and a note says it was cut."""
     from disteco.api import cost_data_of, load_case, mixture_of
     from disteco.optimisation.curves import reflux_curve
     from disteco.optimisation.design import optimise_design
@@ -303,7 +305,7 @@ def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
     notes = []
     curve = reflux_curve(case, mixture, feed, data, optimum, stages.table, {"time_limit": 1e-3},
                          optimum.sizing_options, notes=notes)
-    solved = {d.stages for d in optimum.solved}
-    assert {d.stages for d in curve} <= solved and optimum.best.stages in {d.stages for d in curve}
+    solved, drawn = {d.stages for d in optimum.solved}, {d.stages for d in curve}
+    assert len(drawn - solved) <= 1 and optimum.best.stages in drawn
     (note,) = notes
     assert note.startswith("the TAC-against-reflux curve was cut after 0 s") and "stage counts" in note

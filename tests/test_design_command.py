@@ -286,10 +286,10 @@ def test_curve_time_follows_the_optimisation():
 
 
 def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
-    """With a time limit of a millisecond the curve adds at most the one batch begun before the time
-    ran out (a solve started with time left gets the solver's least limit, 1 s; measured: none or one
-    stage count) to the
-    search's own points, the optimum among them, and a note says it was cut."""
+    """With a time limit of a millisecond the curve adds to the search's own points (the optimum
+    among them) at most the one batch begun before the time ran out (a solve started with time left
+    gets the solver's least limit, 1 s; measured: none or one stage count), and a note says it was
+    cut."""
     from disteco.api import cost_data_of, load_case, mixture_of
     from disteco.optimisation.curves import reflux_curve
     from disteco.optimisation.design import optimise_design

@@ -37,7 +37,7 @@ REFUSALS = [  # (arguments of design and check on the benzene example, option na
     ("--reflux 2 --stages 25 --feed-stage 25", "--feed-stage", "a stage from 2 to 24"),
     ("--reflux 2 --stages 25 --feed-stage 1", "--feed-stage", "a stage from 2 to 24"),
     ("--reflux 2 --stages 2 --feed-stage 1", "--stages", "a whole number of at least 3"),
-    ("--reflux 2 --stages 5 --feed-stage 3", "--stages", "fewer than the minimum of 9.53 (Fenske/McCabe-Thiele at total reflux"),
+    ("--reflux 2 --stages 5 --feed-stage 3", "--stages", "fewer than the minimum of 9.53 (McCabe-Thiele at total reflux"),
     ("--reflux 100 --stages 6 --feed-stage 3", "--stages", "fewer than the minimum of 9.53"),
     ("--reflux 2 --stages 30", "--reflux/--stages/--feed-stage", "only some of the three"),
     ("--scenario nope", "--scenario", "(allowed: reference, cheap-steam-demo, expensive-power-demo)"),

@@ -44,13 +44,13 @@ def check_given_design(estimate: Shortcut, reflux_ratio: float, stages: int, fee
     n_min, r_min = estimate.minimum_stages, estimate.minimum_reflux
     if stages <= n_min:
         raise InfeasibleDesignError(
-            STAGES, f"{stages} stages is fewer than the minimum of {n_min:.2f} (Fenske/McCabe-Thiele at total "
-            "reflux, reboiler included): no reflux ratio meets the product specifications",
+            STAGES, f"{stages} stages is fewer than the minimum of {n_min:.2f} ({estimate.minimum_by('stages')} at "
+            "total reflux, reboiler included): no reflux ratio meets the product specifications",
             f"more than {n_min:.2f} stages", stages)
     if reflux_ratio <= r_min:
         raise InfeasibleDesignError(
             REFLUX, f"reflux ratio {reflux_ratio:.4g} is at or below the minimum reflux ratio {r_min:.4g} "
-            f"({estimate.method}): no number of stages meets the product specifications",
+            f"({estimate.minimum_by('reflux')}): no number of stages meets the product specifications",
             f"above {r_min:.4g}", reflux_ratio)
     if reflux_ratio > reflux_max:
         raise InfeasibleDesignError(
@@ -85,7 +85,7 @@ def check_stage_bound(estimate: Shortcut, max_stages: int) -> None:
     if max_stages <= estimate.minimum_stages:
         raise InfeasibleDesignError(
             "max_stages", f"{max_stages} is not above the minimum of {estimate.minimum_stages:.2f} stages "
-            "(Fenske/McCabe-Thiele at total reflux): no column within it meets the product specifications",
+            f"({estimate.minimum_by('stages')} at total reflux): no column within it meets the product specifications",
             f"more than {estimate.minimum_stages:.2f}, in practice 2 to 5 times it", max_stages)
 
 

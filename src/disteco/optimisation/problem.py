@@ -20,9 +20,9 @@ from .fit_check import check_fit
 from .start import shortcut
 
 # The search's stage bound when none is given: the optimum usually lies near 2-2.5 x the
-# minimum stages (Fenske's, or McCabe-Thiele's for a binary), so 4.5 x leaves room on the expensive-energy side (common practice, no
-# source); never below the 60 stages that were the fixed bound before, so small columns keep
-# the room they had.
+# minimum stages (Fenske's, or McCabe-Thiele's for a binary), so 4.5 x leaves room on the
+# expensive-energy side (common practice, no source); never below the 60 stages that were the
+# fixed bound before, so small columns keep the room they had.
 STAGE_BOUND_FACTOR = 4.5
 STAGE_BOUND_FLOOR = 60
 COLUMN_LIQUIDS = 24  # most stage liquids of the case's own profile an equation of state's K fit is made on

@@ -145,6 +145,14 @@ class DesignEvaluation:
         return self.cost.tac_per_year
 
 
+def minimum_method(minima_method: str, quantity: str) -> str:
+    """The method of ``minima_method`` ("Fenske-Underwood" or "McCabe-Thiele") that gives the minimum
+    ``quantity`` ("reflux" or "stages")."""
+    if minima_method == "Fenske-Underwood":
+        return "Underwood" if quantity == "reflux" else "Fenske"
+    return minima_method
+
+
 BOUND_TOLERANCE = 1e-6  # relative distance from a bound of the reflux ratio that counts as on it [-]
 
 
@@ -186,9 +194,7 @@ class OptimumDesign:
 
     def minimum_by(self, quantity: str) -> str:
         """The method that gave the minimum ``quantity`` ("reflux" or "stages")."""
-        if self.minima_method == "Fenske-Underwood":
-            return "Underwood" if quantity == "reflux" else "Fenske"
-        return self.minima_method
+        return minimum_method(self.minima_method, quantity)
 
     @property
     def limits(self) -> tuple[Limit, ...]:

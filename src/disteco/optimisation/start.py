@@ -23,13 +23,14 @@ import numpy as np
 from scipy.linalg import solve_banded
 from scipy.optimize import brentq
 
-from ..stages.binary import EquilibriumCurve, binary_grid, minimum_reflux, total_reflux_stages
+from ..stages.binary import EquilibriumCurve, binary_grid, minimum_reflux, tabulated_curve, total_reflux_stages
 from ..stages.correlations import fenske_minimum_stages
 from ..stages.shortcut import minimum_reflux_underwood
 from ..stages.splits import product_split
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError
 from .basis import SeparationProblem
+from .results import minimum_method
 
 PROFILE_TOLERANCE = 1e-6  # K, largest stage temperature change at convergence
 PROFILE_ITERATIONS = 300
@@ -47,6 +48,10 @@ class Shortcut:
     minimum_reflux: float  # [-]
     minimum_stages: float  # reboiler included [-]
     method: str = "Fenske-Underwood"  # or "McCabe-Thiele" (a binary, stepped on the fitted curve)
+
+    def minimum_by(self, quantity: str) -> str:
+        """The method that gave the minimum ``quantity`` ("reflux" or "stages")."""
+        return minimum_method(self.method, quantity)
 
 
 @dataclass(frozen=True)
@@ -140,9 +145,7 @@ def fitted_equilibrium_curve(problem: SeparationProblem) -> EquilibriumCurve:
     T = _bubble_temperatures(problem, P, x, np.full(x_light.size, f.bubble_temperature(problem.top_pressure,
                                                                                        np.asarray(problem.z))))
     k = np.exp(np.asarray(f.ln_k(T, P, [x[:, 0], x[:, 1]], exp=np.exp, log=np.log)))
-    y_light = k[lk] * x[:, lk] / (k[lk] * x[:, lk] + k[hk] * x[:, hk])
-    return EquilibriumCurve(tuple(map(float, np.concatenate([[0.0], x_light, [1.0]]))),
-                            tuple(map(float, np.concatenate([[0.0], y_light, [1.0]]))), problem.top_pressure)
+    return tabulated_curve(x_light, k[lk] * x[:, lk] / (k[lk] * x[:, lk] + k[hk] * x[:, hk]), problem.top_pressure)
 
 
 def _binary_minima(problem: SeparationProblem, d: np.ndarray, b: np.ndarray) -> tuple[float, float] | None:

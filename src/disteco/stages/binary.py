@@ -98,8 +98,13 @@ def equilibrium_curve(mixture: Mixture, pressure: float, light: int = 0, heavy: 
         z[light], z[heavy] = x1, 1.0 - x1
         point = mixture.bubble_point(pressure, z)
         ys.append(point.y[light] / (point.y[light] + point.y[heavy]))
-    x = np.concatenate([[0.0], xs, [1.0]])
-    y = np.concatenate([[0.0], ys, [1.0]])
+    return tabulated_curve(xs, ys, pressure)
+
+
+def tabulated_curve(xs, ys, pressure: float) -> EquilibriumCurve:
+    """The curve through (``xs``, ``ys``) [-] of :func:`binary_grid` with the pure ends (0, 0) and (1, 1) added."""
+    x = np.concatenate([[0.0], np.asarray(xs, dtype=float), [1.0]])
+    y = np.concatenate([[0.0], np.asarray(ys, dtype=float), [1.0]])
     return EquilibriumCurve(tuple(map(float, x)), tuple(map(float, y)), pressure)
 
 

@@ -129,6 +129,29 @@ def test_flow_parameter_outside_chart_warns_or_raises(mixture):
         size_column(profile, mixture, UTILITIES, 850.0, 1000.0, SizingOptions(out_of_range=OutOfRange.RAISE))
 
 
+class _ThinLiquid:
+    """The benzene-toluene properties with a liquid viscosity of 0.01 cP (a near-critical liquid's order)."""
+
+    def __init__(self, mixture):
+        self._mixture = mixture
+
+    def __getattr__(self, name):
+        return getattr(self._mixture, name)
+
+    def liquid_viscosity(self, T, P, x):
+        return 1e-5
+
+
+def test_efficiency_range_warning_names_the_column_mean_not_a_stage(mixture):
+    """O'Connell's correlation takes one column-wide viscosity x volatility: the warning names that place."""
+    sized = size_column(make_profile(mixture), _ThinLiquid(mixture), UTILITIES, 850.0, 1000.0)
+    [warning] = [w for w in sized.warnings if w.startswith("extrapolated: O'Connell")]
+    assert "at the column's mean of top tray and reboiler (0.02" in warning and "stage" not in warning.split(" at ")[1]
+    with pytest.raises(CorrelationRangeError, match=r"O'Connell .*\(the column's mean of top tray and reboiler\)"):
+        size_column(make_profile(mixture), _ThinLiquid(mixture), UTILITIES, 850.0, 1000.0,
+                    SizingOptions(out_of_range=OutOfRange.RAISE))
+
+
 def test_no_steam_hot_enough(mixture):
     cool_steam = (UTILITIES[0], UtilityLevel("steam 100 degC", "heating", "steam", C + 100, C + 100,
                                              latent_heat=2.26e6))

@@ -120,18 +120,23 @@ def _check_profile(profile: StageProfile) -> None:
 
 
 def _range_warning(record: ValidityRange, values: dict[int, float], policy: OutOfRange,
-                   warnings: list[str]) -> None:
-    """One warning (or the first error) for all stages whose value lies outside ``record``."""
+                   warnings: list[str], where: str | None = None) -> None:
+    """One warning (or the first error) for all stages whose value lies outside ``record``.
+
+    ``where`` names the place of a single column-wide value instead of the stages.
+    """
     outside = {stage: v for stage, v in values.items() if not record.contains(v)}
     if not outside:
         return
     if policy is OutOfRange.RAISE:
         stage, value = next(iter(outside.items()))
-        raise CorrelationRangeError(f"{record.correlation} (stage {stage})", record.variable, value,
-                                    record.low, record.high, record.unit, record.source)
+        raise CorrelationRangeError(f"{record.correlation} ({where or f'stage {stage}'})", record.variable,
+                                    value, record.low, record.high, record.unit, record.source)
+    place = where or f"stage(s) {', '.join(map(str, outside))}"
+    span = (f"{min(outside.values()):.4g}" if len(outside) == 1
+            else f"from {min(outside.values()):.4g} to {max(outside.values()):.4g}")
     warnings.append(f"extrapolated: {record.correlation}: {record.variable} outside {record.low:g} to "
-                    f"{record.high:g} {record.unit} at stage(s) {', '.join(map(str, outside))} "
-                    f"(from {min(outside.values()):.4g} to {max(outside.values()):.4g})")
+                    f"{record.high:g} {record.unit} at {place} ({span})")
 
 
 def _hydraulics(profile: StageProfile, mixture: SizingProperties, options: SizingOptions,
@@ -157,7 +162,8 @@ def _efficiency(profile: StageProfile, mixture: SizingProperties, options: Sizin
     mu = sum(mixture.liquid_viscosity(profile.T[i], profile.P[i], profile.x[i]) for i in ends) / 2.0
     alpha = sum(mixture.relative_volatility(profile.T[i], profile.P[i], profile.x[i], options.light_key,
                                             options.heavy_key, profile.y[i]) for i in ends) / 2.0
-    _range_warning(OCONNELL_RANGE, {0: mu * 1e3 * alpha}, options.out_of_range, warnings)
+    _range_warning(OCONNELL_RANGE, {0: mu * 1e3 * alpha}, options.out_of_range, warnings,
+                   "the column's mean of top tray and reboiler")
     value = oconnell_efficiency_lockett(mu, alpha)
     if value > 1.0:
         warnings.append(f"O'Connell efficiency {value:.3f} above 1 outside its range: 1.0 used")

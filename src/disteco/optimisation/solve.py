@@ -35,13 +35,16 @@ STOPPED = {TC.maxIterations: "iteration limit", TC.maxTimeLimit: "time limit",
 
 
 def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap: float,
-                barrier: str | None = None):
-    """A Pyomo solver with the limits (and an interior-point ``barrier`` strategy) in its own option names."""
+                barrier: str | None = None, tolerance: float | None = None):
+    """A Pyomo solver with the limits (and an interior-point ``barrier`` strategy and convergence
+    ``tolerance``) in its own option names."""
     solver = pyo.SolverFactory(name)
     if not solver.available(exception_flag=False):
         raise SolverError(f"solver {name!r} is not available; the default 'ripopt' installs with pyomo-ripopt")
     if name in ("ripopt", "ipopt"):
         solver.options["max_iter"] = max_iterations
+        if tolerance is not None:
+            solver.options["tol"] = tolerance
         solver.options["max_wall_time" if name == "ripopt" else "max_cpu_time"] = max(time_limit, 1.0)
         if barrier:
             solver.options["mu_strategy"] = barrier
@@ -54,7 +57,8 @@ def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap:
 def _timed_solve(model, config, name: str, time_limit: float, failure: str, barrier: str | None = None,
                  iterations: int | None = None):
     """Solve without loading; return (results, wall time [s]); a solver crash becomes a SolverError."""
-    solver = make_solver(name, time_limit, iterations or config.max_iterations, config.relative_gap, barrier)
+    solver = make_solver(name, time_limit, iterations or config.max_iterations, config.relative_gap, barrier,
+                         config.nlp_tolerance)
     start = time.perf_counter()
     try:
         results = solver.solve(model, tee=config.tee, load_solutions=False)

@@ -24,9 +24,9 @@ def mixture(benzene_toluene):
     return benzene_toluene
 
 
-def make_profile(mixture, liquid_scale=1.0):
-    """A column at 1 atm top, 0.7 kPa per stage; bubble-point stages, constant molar overflow."""
-    pressures = [101325.0 + 700.0 * i for i in range(N)]
+def make_profile(mixture, liquid_scale=1.0, top=101325.0):
+    """A column at ``top`` [Pa] (1 atm), 0.7 kPa per stage; bubble-point stages, constant molar overflow."""
+    pressures = [top + 700.0 * i for i in range(N)]
     points = [mixture.bubble_point(p, (x, 1.0 - x))
               for p, x in zip(pressures, [0.95 - 0.92 * i / (N - 1) for i in range(N)])]
     liquid = [R * D * liquid_scale] * (FEED - 1) + [(R * D + 2 * D) * liquid_scale] * (N - FEED) + [D]

@@ -206,7 +206,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                         **_binary_parts(stages, checks.reflux_ratio, case))
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
-                                               + mixture.warnings, parts), options=_given_options(options))
+                                               + mixture.warnings + _utility_notes(mixture, parts, data, sizing),
+                                               parts), options=_given_options(options))
     optima, curves, checked, margins, curve_notes = [], [], [], [], []
     minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
     for k, name in enumerate(names):
@@ -247,11 +248,21 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                    for w in c.warnings)
     extra += mixture.warnings + tuple(curve_notes)
     parts = _checked(parts, checks)
+    extra += _utility_notes(mixture, parts, data, sizing)
     extra += tuple(w for _, margin in margins[:1] for w in margin.warnings + margin.below_floor(
         parts.profile.reflux_ratio))
     return DesignResult(case, summary, feed, stages=stages, parts=parts,
                         warnings=_warnings(stages.shortcut.warnings + best.warnings + extra, parts),
                         options=_given_options(options))
+
+
+def _utility_notes(mixture, parts: ReportParts, data: CostData, sizing) -> tuple[str, ...]:
+    """The reported design's notes on a condenser or reboiler kept off the cheapest utility level."""
+    from .optimisation.utility_notes import utility_level_notes
+
+    if parts.sizing is None:
+        return ()
+    return utility_level_notes(mixture, parts.profile, parts.sizing, data.levels, sizing.min_approach)
 
 
 def _given_options(options) -> tuple[tuple[str, object], ...]:

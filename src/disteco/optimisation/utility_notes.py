@@ -1,0 +1,154 @@
+"""Why a condenser or reboiler takes a dearer utility level, and what column pressure would free it.
+
+The sizing layer gives the condenser the warmest cooling level and the reboiler the coolest
+heating level that keep the minimum approach at both ends (``sizing.exchangers.choose_utility``).
+When a cheaper level is offered but does not fit, an engineer's first question is how far the
+column pressure would have to move for it to fit. :func:`utility_level_notes` answers it: the
+shift of the process temperatures the cheaper level needs, the pressure at which the product's
+own saturation temperature (thermo's bubble point of the liquid distillate or the bottoms, the
+dew point of a vapour distillate) has moved that far, and the level the other exchanger would
+then take, its temperatures moved by its product's saturation temperature at the same pressure
+change. The relative volatility moves with the pressure, so the note asks for a second design
+at that pressure rather than claiming it is cheaper.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Sequence
+
+from scipy.optimize import brentq
+
+from .._base.errors import DistecoError, InfeasibleSpecError
+from ..sizing.exchangers import UTILITY_KINDS, choose_utility
+
+PRESSURE_STEP = 1.25  # ratio between trial pressures while bracketing [-]
+PRESSURE_STEPS = 16  # at most 1.25**16 = 36 x up or down from the column's own pressure
+LOWEST_PRESSURE = 500.0  # Pa; below it a column pressure is no longer a practical answer
+
+
+def utility_level_notes(mixture, profile, sizing, levels: Sequence, min_approach: float) -> tuple[str, ...]:
+    """Notes for the condenser and the reboiler of a sized design whose utility is not the cheapest offered.
+
+    ``profile`` is the reported :class:`~disteco.stages.results.StageProfile`, ``sizing`` its
+    :class:`~disteco.sizing.column.ColumnSizing`, ``levels`` the utility levels offered and
+    ``min_approach`` [K] the sizing option. Empty when both exchangers already take the
+    cheapest level.
+    """
+    top, bottom = _top_saturation(mixture, profile), _bottom_saturation(mixture, profile)
+    notes = []
+    for exchanger, service, own, other, other_service in (
+            (sizing.condenser, "cooling", top, bottom, "heating"),
+            (sizing.reboiler, "heating", bottom, top, "cooling")):
+        note = _note(exchanger, service, own, other, other_service, profile, sizing, levels, min_approach)
+        if note:
+            notes.append(note)
+    return tuple(notes)
+
+
+def _offered(levels: Sequence, service: str) -> list:
+    """Offered levels of ``service``, cheapest first (warmest cooling, coolest heating)."""
+    offered = [u for u in levels if u.service == service and u.kind in UTILITY_KINDS[service]]
+    return sorted(offered, key=lambda u: -u.supply_temperature if service == "cooling" else u.supply_temperature)
+
+
+def _top_saturation(mixture, profile) -> Callable[[float], float]:
+    """Saturation temperature [K] of the distillate at a pressure [Pa]: dew point of a vapour product."""
+    if profile.partial_condenser:
+        return lambda P: mixture.dew_point(P, profile.distillate_composition).T
+    return lambda P: mixture.bubble_point(P, profile.distillate_composition).T
+
+
+def _bottom_saturation(mixture, profile) -> Callable[[float], float]:
+    return lambda P: mixture.bubble_point(P, profile.bottoms_composition).T
+
+
+def _needed_shift(exchanger, level, service: str, min_approach: float) -> float:
+    """Process-temperature shift [K] that gives ``level`` the minimum approach at both ends (+ warmer)."""
+    if service == "cooling":
+        return max(min_approach - (exchanger.process_out - level.supply_temperature),
+                   min_approach - (exchanger.process_in - level.return_temperature))
+    return -max(min_approach - (level.supply_temperature - exchanger.process_out),
+                min_approach - (level.return_temperature - exchanger.process_in))
+
+
+def pressure_for(saturation: Callable[[float], float], pressure: float, shift: float) -> float | None:
+    """Pressure [Pa] at which ``saturation`` lies ``shift`` [K] from its value at ``pressure`` [Pa].
+
+    Bracketed by steps of :data:`PRESSURE_STEP` up (``shift`` > 0) or down, then solved by
+    brentq in log pressure. None when no pressure within :data:`PRESSURE_STEPS` steps, above
+    :data:`LOWEST_PRESSURE`, gets there, or when the properties fail on the way (as they do
+    near the mixture's critical point).
+    """
+    try:
+        target = saturation(pressure) + shift
+        rising = shift > 0.0
+
+        def residual(log_p: float) -> float:
+            return saturation(math.exp(log_p)) - target
+
+        low = math.log(pressure)
+        step = math.log(PRESSURE_STEP) * (1.0 if rising else -1.0)
+        for _ in range(PRESSURE_STEPS):
+            high = low + step
+            if math.exp(high) < LOWEST_PRESSURE:
+                return None
+            if (residual(high) >= 0.0) == rising:
+                return math.exp(brentq(residual, min(low, high), max(low, high), xtol=1e-6))
+            low = high
+    except (DistecoError, ArithmeticError, ValueError):
+        return None
+    return None
+
+
+def _note(exchanger, service: str, own, other, other_service: str, profile, sizing, levels,
+          min_approach: float) -> str | None:
+    offered = _offered(levels, service)
+    if not offered or offered[0].name == exchanger.utility.name:
+        return None
+    cheaper = offered[0]
+    shift = _needed_shift(exchanger, cheaper, service, min_approach)
+    top, bottom = profile.P[0], profile.P[-1]
+    here = pressure_for(own, top if service == "cooling" else bottom, shift)
+    word = "warmer" if shift > 0 else "cooler"
+    opening = (f"{exchanger.name} on {exchanger.utility.name}: {cheaper.name} "
+               f"({_c(cheaper.supply_temperature)} -> {_c(cheaper.return_temperature)} degC) needs its process side "
+               f"{abs(shift):.1f} K {word} than now ({_c(exchanger.process_in)} -> {_c(exchanger.process_out)} "
+               f"degC) for the {min_approach:g} K approach")
+    if here is None:
+        return (f"{opening}; no column pressure within {PRESSURE_STEP ** PRESSURE_STEPS:.0f} x of today's "
+                f"(and above {LOWEST_PRESSURE / 1e3:g} kPa) gets it there on thermo's saturation temperatures")
+    change = here - (top if service == "cooling" else bottom)
+    new_top = top + change
+    if new_top < LOWEST_PRESSURE:
+        return (f"{opening}, which a bottom pressure of about {_kpa(here)} would give: less than the column's own "
+                f"pressure drop ({_kpa(bottom - top)}) allows")
+    other_exchanger = sizing.reboiler if service == "cooling" else sizing.condenser
+    then = _level_then(other, other_service, other_exchanger, bottom if service == "cooling" else top, change,
+                       levels, min_approach)
+    return (f"{opening}, which a top pressure of about {_kpa(new_top)} gives (now {_kpa(top)}); "
+            f"the {other_exchanger.name} would then take {then}. The relative volatility moves with the pressure: "
+            "design the case again at that top pressure to compare")
+
+
+def _level_then(saturation, service: str, exchanger, pressure: float, change: float, levels,
+                min_approach: float) -> str:
+    """The level the other exchanger would take with its column end ``change`` [Pa] away."""
+    try:
+        moved = saturation(pressure + change) - saturation(pressure)
+        level = choose_utility(levels, service, exchanger.process_in + moved, exchanger.process_out + moved,
+                               min_approach, exchanger.name)
+    except InfeasibleSpecError:
+        kind = "cold" if service == "cooling" else "hot"
+        return f"no {service} level offered (none {kind} enough)"
+    except (DistecoError, ArithmeticError, ValueError):
+        return "a level not found here (thermo's saturation temperature failed at that pressure)"
+    return f"{level.name} ({_c(exchanger.process_in + moved)} -> {_c(exchanger.process_out + moved)} degC)"
+
+
+def _c(kelvin: float) -> str:
+    return f"{kelvin - 273.15:.1f}"
+
+
+def _kpa(pascal: float) -> str:
+    return f"{pascal / 1e5:.3g} bar" if pascal >= 1e5 else f"{pascal / 1e3:.3g} kPa"

@@ -1,0 +1,80 @@
+"""Notes on a condenser or reboiler kept off the cheapest utility level: the pressure that frees it.
+
+The pressure found is checked on thermo's own bubble points (the saturation temperature of the
+product moves by the shift the cheaper level needs) and on the sizing layer's own utility choice
+(at the moved temperatures the cheaper level fits with the minimum approach).
+"""
+
+import re
+
+import pytest
+
+from disteco.optimisation.utility_notes import pressure_for, utility_level_notes
+from disteco.sizing import SizingOptions, UtilityLevel, size_column
+from disteco.sizing.exchangers import choose_utility
+from test_sizing_column import make_profile
+
+C = 273.15
+LEVELS = (  # invented for the test: a cooling-water loop, chilled water, two steam mains
+    UtilityLevel("cooling_water", "cooling", "cooling_water", C + 30, C + 45, heat_capacity=4180.0),
+    UtilityLevel("chilled_water", "cooling", "chilled_water", C + 5, C + 15, heat_capacity=4190.0),
+    UtilityLevel("lp_steam", "heating", "steam", C + 130, C + 130, latent_heat=2.17e6),
+    UtilityLevel("mp_steam", "heating", "steam", C + 184, C + 184, latent_heat=2.0e6),
+)
+@pytest.fixture(scope="module")
+def vacuum(benzene_toluene):
+    """Benzene-toluene at 20 kPa: the top near 30 degC is too cold for cooling water."""
+    profile = make_profile(benzene_toluene, top=20e3)
+    return profile, size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0)
+
+
+def test_condenser_note_gives_the_pressure_at_which_cooling_water_fits(benzene_toluene, vacuum):
+    profile, sized = vacuum
+    assert sized.condenser.utility.name == "chilled_water"
+    [note] = [n for n in utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0)
+              if n.startswith("condenser")]
+    # cooling water's return end binds: the condensing side must reach 45 + 10 degC
+    shift = C + 55.0 - sized.condenser.process_in
+    assert float(re.search(r"needs its process side ([\d.]+) K warmer", note).group(1)) == pytest.approx(shift,
+                                                                                                      abs=0.05)
+    xd = profile.distillate_composition
+    found = pressure_for(lambda P: benzene_toluene.bubble_point(P, xd).T, profile.P[0], shift)
+    assert f"top pressure of about {found / 1e3:.3g} kPa" in note and "now 20 kPa" in note
+    moved = benzene_toluene.bubble_point(found, xd).T - benzene_toluene.bubble_point(profile.P[0], xd).T
+    assert moved == pytest.approx(shift, abs=1e-3)
+    level = choose_utility(LEVELS, "cooling", sized.condenser.process_in + moved,
+                           sized.condenser.process_out + moved + 1e-6, 10.0, "condenser")
+    assert level.name == "cooling_water"
+    assert "the reboiler would then take lp_steam" in note
+    assert not any(n.startswith("reboiler") for n in utility_level_notes(benzene_toluene, profile, sized,
+                                                                          LEVELS, 10.0))
+
+
+def test_reboiler_note_gives_the_lower_pressure_for_the_cheaper_steam(benzene_toluene):
+    """At 3 bar the toluene-rich bottoms boil near 152 degC, above what 130-degC steam can heat."""
+    profile = make_profile(benzene_toluene, top=3e5)
+    sized = size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0)
+    assert sized.reboiler.utility.name == "mp_steam"
+    [note] = utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0)
+    assert note.startswith("reboiler on mp_steam: lp_steam (130.0 -> 130.0 degC) needs its process side")
+    shift = sized.reboiler.process_out - (C + 120.0)  # 10 K below the steam at the hotter end
+    assert float(re.search(r"([\d.]+) K cooler", note).group(1)) == pytest.approx(shift, abs=0.05)
+    xb = profile.bottoms_composition
+    bottom = pressure_for(lambda P: benzene_toluene.bubble_point(P, xb).T, profile.P[-1], -shift)
+    assert benzene_toluene.bubble_point(bottom, xb).T == pytest.approx(C + 120.0, abs=1e-3)
+    top = profile.P[0] + bottom - profile.P[-1]  # the column's own pressure drop kept
+    assert f"top pressure of about {top / 1e5:.3g} bar" in note and "condenser would then take cooling_water" in note
+
+
+def test_no_note_when_the_cheapest_levels_fit(benzene_toluene):
+    profile = make_profile(benzene_toluene)
+    sized = size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0, SizingOptions())
+    assert (sized.condenser.utility.name, sized.reboiler.utility.name) == ("cooling_water", "lp_steam")
+    assert utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0) == ()
+
+
+def test_no_pressure_found_is_said(benzene_toluene, vacuum):
+    """A shift no pressure within the bracket reaches (500 K warmer) is reported, not invented."""
+    profile, _ = vacuum
+    xd = profile.distillate_composition
+    assert pressure_for(lambda P: benzene_toluene.bubble_point(P, xd).T, profile.P[0], 500.0) is None

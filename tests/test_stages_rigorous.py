@@ -192,6 +192,44 @@ def test_kept_jacobian_reaches_newtons_solution_with_fewer_jacobians(monkeypatch
     assert_balances(mixture, feed, kept)
 
 
+def test_predicted_start_reaches_the_same_column_in_fewer_newton_steps(ethanol_water, monkeypatch):
+    """Ethanol-water (UNIFAC, energy balances, 40 stages, 10 % ethanol feed): a column at a reflux 10 %
+    lower in ln R, started from the profile extrapolated along the sensitivities of two nearby
+    columns (an Euler predictor), ends on the column a start from the base profile reaches, to the
+    solver's tolerance, in fewer Newton steps (measured 4 against 9; the energy-balance minimum of
+    the ethanol-water example: 10.9 -> 2.4 s with the same 22 column solves)."""
+    import math
+
+    import disteco.stages.mesh as mesh
+    from disteco.stages.rigorous import PredictedStart
+
+    feed = feed_of(ethanol_water, (0.1, 0.9))
+    steps = []
+    solve = mesh.Stages.solve
+
+    def counting(self, U):
+        found = solve(self, U)
+        steps.append(found[2])
+        return found
+
+    def spec(log_r, D):
+        return ColumnSpec(40, 30, math.exp(log_r), D, P_ATM, 500.0)
+
+    h, u = 1e-6, (math.log(2.5), 0.1)
+    base = solve_rigorous(ethanol_water, feed, spec(*u))
+    moved = [solve_rigorous(ethanol_water, feed, spec(u[0] + h, u[1]), base),
+             solve_rigorous(ethanol_water, feed, spec(u[0], u[1] + h), base)]
+    trial = (u[0] - 0.1, u[1] - 0.002)
+    monkeypatch.setattr(mesh.Stages, "solve", counting)
+    plain = solve_rigorous(ethanol_water, feed, spec(*trial), base)
+    predicted = solve_rigorous(ethanol_water, feed, spec(*trial), PredictedStart(
+        base, ((moved[0], (trial[0] - u[0]) / h), (moved[1], (trial[1] - u[1]) / h))))
+    assert steps[1] < steps[0]
+    assert predicted.T == pytest.approx(plain.T, abs=1e-7)
+    assert np.asarray(predicted.x) == pytest.approx(np.asarray(plain.x), abs=1e-9)
+    assert_balances(ethanol_water, feed, predicted)
+
+
 @settings(max_examples=6, deadline=None)
 @given(N=st.integers(6, 24), feed_share=st.floats(0.2, 0.8), reflux=st.floats(0.8, 5.0),
        cut=st.floats(0.3, 0.6), q=st.floats(0.0, 1.3), z=st.floats(0.3, 0.6), partial=st.booleans())

@@ -144,10 +144,51 @@ def _resampled(U: np.ndarray, old_feed: int, spec: ColumnSpec) -> np.ndarray:
     return np.vstack([U[:1], rows])
 
 
+@dataclass(frozen=True)
+class PredictedStart:
+    """A start extrapolated from a solved profile along measured sensitivities (an Euler predictor).
+
+    Its unknowns are those of ``base`` plus, for each ``(moved, weight)``, ``weight`` times the
+    difference between the unknowns of ``moved`` (the same column solved at a slightly different
+    specification) and those of ``base``. A flow the extrapolation would make negative takes a
+    tenth of its base value. Used where Newton on the specifications steps the reflux: near a
+    pinch the base profile alone took a column solve up to 17 Newton steps.
+    """
+
+    base: StageProfile
+    moves: tuple[tuple[StageProfile, float], ...]
+
+
+def _predicted_unknowns(start: PredictedStart, spec: ColumnSpec) -> np.ndarray | None:
+    """The extrapolated unknowns of ``start``, or None when its profiles do not fit ``spec``."""
+    shaped = [start.base] + [moved for moved, _ in start.moves]
+    if any(p.stages != spec.stages or p.feed_stage != spec.feed_stage
+           or p.partial_condenser != spec.partial_condenser for p in shaped):
+        return None
+    base = _unknowns_from_profile(start.base)
+    U = base.copy()
+    for moved, weight in start.moves:
+        U += weight * (_unknowns_from_profile(moved) - base)
+    flows = U[:, :-1]
+    flows[:] = np.where(flows > 0.0, flows, 0.1 * base[:, :-1])
+    return U
+
+
 def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
-           guess: StageProfile | None) -> StageProfile:
+           guess: StageProfile | PredictedStart | None) -> StageProfile:
     _check(spec, feed)
     stages = Stages(mixture, _problem(spec, feed, energy))
+    if isinstance(guess, PredictedStart):
+        U0 = _predicted_unknowns(guess, spec)
+        if U0 is not None and len(guess.base.x[0]) == len(feed.z):
+            if not guess.base.partial_condenser:
+                U0[0, -1] += spec.subcooling
+            try:
+                U, props, _ = stages.solve(U0)
+                return _profile(stages, U, props, feed)
+            except ConvergenceError:
+                pass  # the extrapolation went too far: start from the base profile itself
+        guess = guess.base
     if guess is not None and len(guess.x[0]) == len(feed.z) and guess.partial_condenser == spec.partial_condenser:
         U0 = _unknowns_from_profile(guess)
         if not guess.partial_condenser:
@@ -164,7 +205,7 @@ def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
 
 
 def solve_cmo(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
-              guess: StageProfile | None = None) -> StageProfile:
+              guess: StageProfile | PredictedStart | None = None) -> StageProfile:
     """Stage profile under constant molar overflow (no stage energy balances).
 
     Duties: condenser from its energy balance on the converged vapour, reboiler from the
@@ -176,7 +217,7 @@ def solve_cmo(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
 
 
 def solve_rigorous(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
-                   guess: StageProfile | None = None) -> StageProfile:
+                   guess: StageProfile | PredictedStart | None = None) -> StageProfile:
     """Stage profile with energy balances on every stage (MESH equations).
 
     Starts from ``guess`` when given (as in :func:`solve_cmo`), else from the

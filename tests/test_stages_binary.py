@@ -102,6 +102,24 @@ def test_azeotrope_between_products_raises(ethanol_water):
         total_reflux_stages(curve, 0.95, 0.01)
 
 
+def test_liquid_liquid_split_is_refused_with_its_range():
+    """Water/1-butanol (UNIFAC, 1 atm) splits into two liquids: the refusal names the water fractions
+    where the one-liquid curve turns back, which lie inside the two-liquid region (about 0.5 to 0.98
+    water at the heterogeneous azeotrope's 93 degC, from memory: the butanol-rich layer near 20 % water
+    by mass, the water-rich one near 7 % butanol)."""
+    import re
+
+    from disteco.case import Thermo
+    from disteco.properties import build_mixture
+
+    curve = equilibrium_curve(build_mixture(("water", "1-butanol"), Thermo("unifac-dortmund"), 101325.0),
+                              101325.0)
+    with pytest.raises(InfeasibleSpecError, match="heterogeneous azeotrope") as refused:
+        total_reflux_stages(curve, 0.7, 0.005)
+    low, high = map(float, re.search(r"fractions of about ([\d.]+) and ([\d.]+)", str(refused.value)).groups())
+    assert 0.45 < low < high < 0.99
+
+
 def test_partial_condenser_counts_one_stage_less(table_curve):
     total = step_stages(table_curve, 0.95, 0.10, 0.45, 1.0, 3.0)
     partial = step_stages(table_curve, 0.95, 0.10, 0.45, 1.0, 3.0, partial_condenser=True)

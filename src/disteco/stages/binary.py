@@ -44,9 +44,14 @@ class EquilibriumCurve:
     def x_of(self, y: float) -> float:
         """Liquid mole fraction in equilibrium with vapour ``y`` [-] (inverse of the curve)."""
         y_grid = np.array(self.y)
-        if not np.all(np.diff(y_grid) > 0.0):
-            raise InfeasibleSpecError("the equilibrium curve is not monotone (liquid-liquid split); "
-                                      "stage stepping needs a single liquid phase")
+        flat = np.flatnonzero(np.diff(y_grid) <= 0.0)
+        if flat.size:
+            low, high = self.x[flat[0]], self.x[flat[-1] + 1]
+            raise InfeasibleSpecError(
+                f"the equilibrium curve is not monotone between light-key liquid fractions of about {low:.3g} and "
+                f"{high:.3g} at {self.pressure / 1e3:.4g} kPa: the liquid splits into two phases there "
+                "(a heterogeneous azeotrope); disteco models one liquid phase, so a column with a decanter "
+                "is outside its scope")
         return float(brentq(lambda x: float(self._y_of_x(x)) - y, self.x[0], self.x[-1], xtol=1e-14))
 
 

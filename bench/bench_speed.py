@@ -10,6 +10,7 @@ ratios new / base and the machine's facts. On a shared machine compare the ratio
 
     python bench/bench_speed.py                          # binary example, base main
     python bench/bench_speed.py --examples aromatics_binary ethanol_water depentaniser --repeats 2
+    python bench/bench_speed.py --examples bench/cases/propylene_splitter.toml   # a case file by path
 """
 
 from __future__ import annotations
@@ -107,7 +108,7 @@ def main() -> None:
         subprocess.run(["tar", "-x", "-C", str(base)], input=archive, check=True)
         sources = {args.base: base / "src", "this tree": args.tree}
         for name in args.examples:
-            example = ROOT / "examples" / f"{name}.toml"
+            example = Path(name).resolve() if name.endswith(".toml") else ROOT / "examples" / f"{name}.toml"
             runs = {label: [] for label in sources}
             for _ in range(args.repeats):
                 for label, source in sources.items():  # interleaved, so both see the same load

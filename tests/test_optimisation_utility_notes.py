@@ -50,6 +50,15 @@ def test_condenser_note_gives_the_pressure_at_which_cooling_water_fits(benzene_t
                                                                           LEVELS, 10.0))
 
 
+def test_note_names_the_next_cheaper_level(benzene_toluene, vacuum):
+    """With a still warmer cooling level offered, the note is about the level next to the one taken."""
+    profile, sized = vacuum
+    warm = UtilityLevel("tempered_water", "cooling", "cooling_water", C + 38, C + 48, heat_capacity=4180.0)
+    [note] = [n for n in utility_level_notes(benzene_toluene, profile, sized, (warm,) + LEVELS, 10.0)
+              if n.startswith("condenser")]
+    assert note.startswith("condenser on chilled_water: cooling_water (30.0 -> 45.0 degC)")
+
+
 def test_reboiler_note_gives_the_lower_pressure_for_the_cheaper_steam(benzene_toluene):
     """At 3 bar the toluene-rich bottoms boil near 152 degC, above what 130-degC steam can heat."""
     profile = make_profile(benzene_toluene, top=3e5)

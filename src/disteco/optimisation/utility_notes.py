@@ -2,7 +2,7 @@
 
 The sizing layer gives the condenser the warmest cooling level and the reboiler the coolest
 heating level that keep the minimum approach at both ends (``sizing.exchangers.choose_utility``).
-When a cheaper level is offered but does not fit, an engineer's first question is how far the
+When the next cheaper level offered does not fit, an engineer's first question is how far the
 column pressure would have to move for it to fit. :func:`utility_level_notes` answers it: the
 shift of the process temperatures the cheaper level needs, the pressure at which the product's
 own saturation temperature (thermo's bubble point of the liquid distillate or the bottoms, the
@@ -28,7 +28,8 @@ LOWEST_PRESSURE = 500.0  # Pa; below it a column pressure is no longer a practic
 
 
 def utility_level_notes(mixture, profile, sizing, levels: Sequence, min_approach: float) -> tuple[str, ...]:
-    """Notes for the condenser and the reboiler of a sized design whose utility is not the cheapest offered.
+    """Notes for the condenser and the reboiler of a sized design whose utility is not the cheapest offered,
+    each about the next cheaper level.
 
     ``profile`` is the reported :class:`~disteco.stages.results.StageProfile`, ``sizing`` its
     :class:`~disteco.sizing.column.ColumnSizing`, ``levels`` the utility levels offered and
@@ -37,12 +38,13 @@ def utility_level_notes(mixture, profile, sizing, levels: Sequence, min_approach
     """
     top, bottom = _top_saturation(mixture, profile), _bottom_saturation(mixture, profile)
     notes = []
-    for exchanger, service, own, other, other_service in (
-            (sizing.condenser, "cooling", top, bottom, "heating"),
-            (sizing.reboiler, "heating", bottom, top, "cooling")):
-        note = _note(exchanger, service, own, other, other_service, profile, sizing, levels, min_approach)
-        if note:
-            notes.append(note)
+    with mixture.quiet():  # probed states, not the column's: no property notes from them
+        for exchanger, service, own, other, other_service in (
+                (sizing.condenser, "cooling", top, bottom, "heating"),
+                (sizing.reboiler, "heating", bottom, top, "cooling")):
+            note = _note(exchanger, service, own, other, other_service, profile, sizing, levels, min_approach)
+            if note:
+                notes.append(note)
     return tuple(notes)
 
 
@@ -103,10 +105,11 @@ def pressure_for(saturation: Callable[[float], float], pressure: float, shift: f
 
 def _note(exchanger, service: str, own, other, other_service: str, profile, sizing, levels,
           min_approach: float) -> str | None:
-    offered = _offered(levels, service)
-    if not offered or offered[0].name == exchanger.utility.name:
+    offered = [u.name for u in _offered(levels, service)]
+    if exchanger.utility.name not in offered[1:]:
         return None
-    cheaper = offered[0]
+    # the next cheaper level: a refrigerated condenser is asked about the warmer refrigerant first
+    cheaper = _offered(levels, service)[offered.index(exchanger.utility.name) - 1]
     shift = _needed_shift(exchanger, cheaper, service, min_approach)
     top, bottom = profile.P[0], profile.P[-1]
     here = pressure_for(own, top if service == "cooling" else bottom, shift)

@@ -50,6 +50,22 @@ def test_condenser_note_gives_the_pressure_at_which_cooling_water_fits(benzene_t
                                                                           LEVELS, 10.0))
 
 
+def test_partial_condenser_moves_with_the_vapour_distillate_dew_point(benzene_toluene, vacuum):
+    """With a vapour distillate the condensing side follows its dew point, not a bubble point."""
+    import dataclasses
+
+    profile = dataclasses.replace(vacuum[0], partial_condenser=True)
+    sized = size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0)
+    [note] = [n for n in utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0)
+              if n.startswith("condenser")]
+    shift = C + 55.0 - sized.condenser.process_in
+    yd = profile.distillate_composition
+    dew = pressure_for(lambda P: benzene_toluene.dew_point(P, yd).T, profile.P[0], shift)
+    bubble = pressure_for(lambda P: benzene_toluene.bubble_point(P, yd).T, profile.P[0], shift)
+    assert f"top pressure of about {dew / 1e3:.3g} kPa" in note
+    assert f"{dew / 1e3:.3g}" != f"{bubble / 1e3:.3g}"
+
+
 def test_note_names_the_next_cheaper_level(benzene_toluene, vacuum):
     """With a still warmer cooling level offered, the note is about the level next to the one taken."""
     profile, sized = vacuum

@@ -21,7 +21,8 @@ from disteco.costing.data import load_cost_data
 from disteco.optimisation.design import model_cost_basis, separation_problem
 from disteco.optimisation.model import build_column_model, initialise
 from disteco.optimisation.options import model_options
-from disteco.optimisation.solve import make_solver, start_profile
+from disteco.optimisation.solve import make_solver
+from disteco.optimisation.start import start_profile
 from disteco.optimisation.start import Profile, cmo_flows, gilliland_reflux, shortcut
 from disteco.properties import build_mixture, feed_state
 from disteco.sizing.options import SizingOptions

@@ -5,6 +5,8 @@ The bad case files of tests/test_case_errors.py and tests/test_case_limits.py ar
 `check` there; here the given designs and options of tests/test_cli_refusals.py, and the
 cases `check` once passed."""
 
+from pathlib import Path
+
 import pytest
 
 from disteco.cli import main
@@ -14,6 +16,7 @@ from test_cli_refusals import REFUSALS
 
 BENZENE = (EXAMPLES / "aromatics_binary.toml").read_text()
 ETHANOL = (EXAMPLES / "ethanol_water.toml").read_text()
+DEMETHANISER = (Path(__file__).parent / "cases" / "demethaniser_partial.toml").read_text()
 
 # Cases `check` once passed and `design` refused (text, fragment of the message): design is run
 # on these too, and both must print the same error line.
@@ -28,6 +31,9 @@ BEFORE_OPTIMISING = [
      "beyond the minimum-boiling azeotrope of ethanol and water"),
     (BENZENE.replace("cost_year = 2023", "cost_year = 2030"), "economics.cost_year: 2030"),
     (BENZENE.replace("cost_year = 2023", 'cost_year = 2023\ncurrency = "EUR"'), "economics.currency"),
+    # a partial condenser near -78 degC at 28 bar with the bundled levels (coldest -50 degC): the
+    # first column design sizes takes no utility (check passed it until the utilities were checked)
+    (DEMETHANISER, "condenser: no cooling utility is cold enough for the process side"),
 ]
 
 
@@ -66,4 +72,6 @@ def test_a_valid_case_and_design_pass_check(tmp_path, capsys):
     assert code == 0
     assert "Given design: reflux ratio 2 [-], 25 stages, feed on stage 12" in out
     assert "(1.59, 9.53 stages, McCabe-Thiele)" in out
+    assert "Utilities of the given design (25 stages, constant molar overflow on the fitted forms): condenser" in out
+    assert "degC on cooling_water; reboiler" in out and out.count("degC on lp_steam") == 1 and "Note:" not in out
     assert "Case file is valid. design with these options will not refuse it before optimising." in out

@@ -5,7 +5,7 @@ import pytest
 from disteco.costing.data import load_cost_data
 from disteco.optimisation.pricing import exchanger_data, price_design, stage_profile
 from disteco.optimisation.results import DesignEvaluation
-from disteco.optimisation.solve import start_profile
+from disteco.optimisation.start import start_profile
 from disteco.sizing.exchanger_service import (HEAVY_ORGANIC_VISCOSITY, condenser_side, reboiler_side,
                                               reboiler_type)
 from disteco.sizing.exchangers import mean_temperature_difference

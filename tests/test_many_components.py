@@ -17,7 +17,8 @@ from disteco.costing.data import load_cost_data
 from disteco.optimisation.design import model_cost_basis, separation_problem
 from disteco.optimisation.options import model_options
 from disteco.optimisation.model import build_column_model
-from disteco.optimisation.solve import initialise, run_solver, solved_model, start_profile
+from disteco.optimisation.solve import initialise, run_solver, solved_model
+from disteco.optimisation.start import start_profile
 from disteco.optimisation.start import shortcut
 from disteco.properties import feed_state
 from disteco.sizing.options import SizingOptions

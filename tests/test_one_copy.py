@@ -20,7 +20,8 @@ from disteco.optimisation.fitted_sizing import FittedSizingProperties
 from disteco.optimisation.model import build_column_model, initialise
 from disteco.optimisation.pricing import cost_basis_from_data, price_design, stage_profile
 from disteco.optimisation.results import SolverReport
-from disteco.optimisation.solve import read_design, start_profile
+from disteco.optimisation.solve import read_design
+from disteco.optimisation.start import start_profile
 from disteco.sizing.flooding import FLOODING_METHODS
 from disteco.sizing.options import TRAY_TYPES, SizingOptions
 from test_optimisation_support import example, example_problem

@@ -12,7 +12,8 @@ import pytest
 from disteco._base.errors import InfeasibleSpecError, SolverError
 from disteco.optimisation.fitted_sizing import vapour_density
 from disteco.optimisation.model import build_column_model, initialise
-from disteco.optimisation.solve import attempts, run_solver, solve_configuration, solved_model, start_profile
+from disteco.optimisation.solve import attempts, run_solver, solve_configuration, solved_model
+from disteco.optimisation.start import start_profile
 from disteco.optimisation.options import model_options
 from disteco.sizing.flooding import required_tray_area
 from test_optimisation_support import EASY_SPLIT, example, example_basis, example_problem

@@ -21,6 +21,10 @@ LEVELS = (  # invented for the test: a cooling-water loop, chilled water, two st
     UtilityLevel("lp_steam", "heating", "steam", C + 130, C + 130, latent_heat=2.17e6),
     UtilityLevel("mp_steam", "heating", "steam", C + 184, C + 184, latent_heat=2.0e6),
 )
+def _notes(mixture, profile, sized, levels=LEVELS):
+    return utility_level_notes(mixture, profile, sized.condenser, sized.reboiler, levels, 10.0)
+
+
 @pytest.fixture(scope="module")
 def vacuum(benzene_toluene):
     """Benzene-toluene at 20 kPa: the top near 30 degC is too cold for cooling water."""
@@ -31,7 +35,7 @@ def vacuum(benzene_toluene):
 def test_condenser_note_gives_the_pressure_at_which_cooling_water_fits(benzene_toluene, vacuum):
     profile, sized = vacuum
     assert sized.condenser.utility.name == "chilled_water"
-    [note] = [n for n in utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0)
+    [note] = [n for n in _notes(benzene_toluene, profile, sized)
               if n.startswith("condenser")]
     # cooling water's return end binds: the condensing side must reach 45 + 10 degC
     shift = C + 55.0 - sized.condenser.process_in
@@ -46,8 +50,7 @@ def test_condenser_note_gives_the_pressure_at_which_cooling_water_fits(benzene_t
                            sized.condenser.process_out + moved + 1e-6, 10.0, "condenser")
     assert level.name == "cooling_water"
     assert "the reboiler would then take lp_steam" in note
-    assert not any(n.startswith("reboiler") for n in utility_level_notes(benzene_toluene, profile, sized,
-                                                                          LEVELS, 10.0))
+    assert not any(n.startswith("reboiler") for n in _notes(benzene_toluene, profile, sized))
 
 
 def test_partial_condenser_moves_with_the_vapour_distillate_dew_point(benzene_toluene, vacuum):
@@ -56,7 +59,7 @@ def test_partial_condenser_moves_with_the_vapour_distillate_dew_point(benzene_to
 
     profile = dataclasses.replace(vacuum[0], partial_condenser=True)
     sized = size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0)
-    [note] = [n for n in utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0)
+    [note] = [n for n in _notes(benzene_toluene, profile, sized)
               if n.startswith("condenser")]
     shift = C + 55.0 - sized.condenser.process_in
     yd = profile.distillate_composition
@@ -70,7 +73,7 @@ def test_note_names_the_next_cheaper_level(benzene_toluene, vacuum):
     """With a still warmer cooling level offered, the note is about the level next to the one taken."""
     profile, sized = vacuum
     warm = UtilityLevel("tempered_water", "cooling", "cooling_water", C + 38, C + 48, heat_capacity=4180.0)
-    [note] = [n for n in utility_level_notes(benzene_toluene, profile, sized, (warm,) + LEVELS, 10.0)
+    [note] = [n for n in _notes(benzene_toluene, profile, sized, (warm,) + LEVELS)
               if n.startswith("condenser")]
     assert note.startswith("condenser on chilled_water: cooling_water (30.0 -> 45.0 degC)")
 
@@ -80,7 +83,7 @@ def test_reboiler_note_gives_the_lower_pressure_for_the_cheaper_steam(benzene_to
     profile = make_profile(benzene_toluene, top=3e5)
     sized = size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0)
     assert sized.reboiler.utility.name == "mp_steam"
-    [note] = utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0)
+    [note] = _notes(benzene_toluene, profile, sized)
     assert note.startswith("reboiler on mp_steam: lp_steam (130.0 -> 130.0 degC) needs its process side")
     shift = sized.reboiler.process_out - (C + 120.0)  # 10 K below the steam at the hotter end
     assert float(re.search(r"([\d.]+) K cooler", note).group(1)) == pytest.approx(shift, abs=0.05)
@@ -95,7 +98,7 @@ def test_no_note_when_the_cheapest_levels_fit(benzene_toluene):
     profile = make_profile(benzene_toluene)
     sized = size_column(profile, benzene_toluene, LEVELS, 850.0, 1000.0, SizingOptions())
     assert (sized.condenser.utility.name, sized.reboiler.utility.name) == ("cooling_water", "lp_steam")
-    assert utility_level_notes(benzene_toluene, profile, sized, LEVELS, 10.0) == ()
+    assert _notes(benzene_toluene, profile, sized) == ()
 
 
 def test_no_pressure_found_is_said(benzene_toluene, vacuum):

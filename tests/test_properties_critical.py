@@ -306,16 +306,32 @@ def test_azeotrope_scan_of_an_equation_of_state():
     assert len(calls) == 2
 
 
-def test_demethaniser_check_passes(capsys):
+def test_demethaniser_check_passes(capsys, tmp_path):
     """The demethaniser case (tests/cases/demethaniser_partial.toml) ended `check` with an
-    internal error (exit 1). `check` now passes, with the key pair's volatility range read at
-    equilibrium. (Its `design` is refused in engineering words: the condenser near -79 degC
-    needs a refrigeration level colder than the bundled -50 degC; see test_sizing_exchangers.)"""
+    internal error (exit 1). `check` now passes where a refrigeration level cold enough for its
+    condenser near -79 degC is offered (a -100 degC level added to a copy of the bundled data;
+    invented, demo only), with the key pair's volatility range read at equilibrium. With the
+    bundled levels (coldest -50 degC) `check` refuses it in engineering words, as `design` does."""
+    import shutil
+    from importlib.resources import files
     from pathlib import Path
 
     from disteco.cli import main
 
     case = Path(__file__).parent / "cases" / "demethaniser_partial.toml"
-    assert main(["check", str(case)]) == 0
+    assert main(["check", str(case)]) == 2
+    assert "condenser: no cooling utility is cold enough" in capsys.readouterr().err
+    data = tmp_path / "cost_data"
+    shutil.copytree(Path(str(files("disteco.cost_data"))), data)
+    with open(data / "utility_levels.csv", "a", encoding="utf-8") as levels:
+        levels.write('refrigerant_minus_100,cooling,refrigerant,-100,-100,,,,,"demo, invented"\n')
+    with open(data / "utility_prices.csv", "a", encoding="utf-8") as prices:
+        for scenario in ("reference", "cheap-steam-demo", "expensive-power-demo"):
+            prices.write(f'{scenario},refrigerant_minus_100,30.0,USD,GJ,2023,industrial_electricity,'
+                         '"demo, invented"\n')
+    refrigerated = tmp_path / "demethaniser.toml"
+    refrigerated.write_text(case.read_text().replace("cost_year = 2023", f"cost_year = 2023\ncost_data = {str(data)!r}"))
+    assert main(["check", str(refrigerated)]) == 0
     out = capsys.readouterr().out
+    assert "degC on refrigerant_minus_100" in out
     assert "Relative volatility methane/ethane: 3.385 to 10.538 [-]" in out

@@ -82,7 +82,9 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
              compare: bool, prices: tuple[PriceSetting | str, ...] = ()) -> _Prepared:
     """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
     from .costing.from_sizing import check_tray_material
+    from .optimisation.pricing import reference_profile
     from .optimisation.problem import remember_column_profile, resolved_problem
+    from .optimisation.utility_notes import profile_utilities, utility_level_notes
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut
@@ -105,15 +107,23 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     stages = design_stages(mixture, feed, products, case.column)
     remember_column_profile(case, mixture, feed, stages.profile)
-    estimate = shortcut(resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0))
+    problem = resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0)
+    estimate = shortcut(problem)
     if given is None or compare:  # the optimum is searched for within the bound asked for
         check_stage_bound(estimate, config.max_stages if given is None or asked_bound is None else asked_bound)
     if given is not None:
         check_given_design(estimate, given.reflux_ratio, given.stages, given.feed_stage, config.reflux_max)
+    # the utility levels of the column design sizes first (the search's start, or the given design),
+    # which refuses a case no offered level can serve before any optimisation
+    reference = reference_profile(problem, config, None if given is None else (given.stages, given.feed_stage),
+                                  None if given is None else given.reflux_ratio)
+    min_approach = sizing_options(case).min_approach
+    ends = profile_utilities(reference, data.levels, min_approach)
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),
-                      estimate.method)
+                      estimate.method, reference.stages, ends,
+                      utility_level_notes(mixture, reference, *ends, data.levels, min_approach))
     return _Prepared(found, mixture, data)
 
 
@@ -262,7 +272,8 @@ def _utility_notes(mixture, parts: ReportParts, data: CostData, sizing) -> tuple
 
     if parts.sizing is None:
         return ()
-    return utility_level_notes(mixture, parts.profile, parts.sizing, data.levels, sizing.min_approach)
+    return utility_level_notes(mixture, parts.profile, parts.sizing.condenser, parts.sizing.reboiler, data.levels,
+                               sizing.min_approach)
 
 
 def _given_options(options) -> tuple[tuple[str, object], ...]:

@@ -26,7 +26,8 @@ from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
-from .search import Evaluator, stage_floor, worker_pool
+from .search import Evaluator, worker_pool
+from .start import stage_floor
 from .start import shortcut
 
 CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows: the largest ends the curve

@@ -27,14 +27,14 @@ from ..sizing.options import SizingOptions
 from ..stages.correlations import stages_from_gilliland
 from .basis import CostBasis, SeparationProblem
 from .options import model_options
-from .pricing import cost_basis_from_data, price_design, size_reference, stage_profile
+from .pricing import cost_basis_from_data, price_design, reference_profile, size_reference
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
 from .layout import MORE_STAGES, ONE_SHELL, SPACING_TOLERANCE, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, \
     choose_layout, layout_option, spacing_prices, swaged_design, unconstrained_tac
 from .problem import resolved_problem, separation_problem
-from .search import optimise, starting_configuration
-from .solve import solve_configuration, start_profile
+from .search import optimise
+from .solve import solve_configuration
 from .start import shortcut
 
 ROUNDS = 4  # most optimisations with re-evaluated constants
@@ -62,14 +62,6 @@ def _keyed(sizing: SizingOptions, problem: SeparationProblem) -> SizingOptions:
     return replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
 
 
-def reference_profile(problem: SeparationProblem, config, configuration: tuple[int, int] | None = None,
-                      reflux: float | None = None):
-    """Stage profile of the reference design: ``configuration`` or the search's start, CMO at ``reflux``.
-
-    ``reflux`` None: Gilliland's reflux for the stages.
-    """
-    stages, feed_stage = configuration or starting_configuration(problem, shortcut(problem), config)
-    return stage_profile(problem, start_profile(problem, stages, feed_stage, reflux), feed_stage)
 
 
 def settled_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostData, sizing: SizingOptions,

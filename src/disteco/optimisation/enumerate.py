@@ -19,7 +19,8 @@ from .basis import CostBasis, SeparationProblem
 from .options import model_options
 from .results import DesignEvaluation, SearchStep
 from .problem import default_max_stages
-from .search import Evaluator, stage_floor
+from .search import Evaluator
+from .start import stage_floor
 from .solve import solve_configuration
 from .start import shortcut
 

@@ -30,7 +30,7 @@ from ..sizing.utilities import UtilityLevel
 from ..stages.results import StageProfile
 from .basis import CondensateBasis, CostBasis, ExchangerBasis, SeparationProblem, TrayBasis
 from .results import DesignEvaluation, ModelCheck, SequentialPrice
-from .start import Profile, partial_condenser_split
+from .start import Profile, partial_condenser_split, shortcut, start_profile, starting_configuration
 
 
 def total_condensate_temperature(problem: SeparationProblem, y) -> float:
@@ -197,3 +197,12 @@ def price_profile(profile: StageProfile, mixture, data: CostData, options: Sizin
     exchangers = exchanger_data(data, mixture, profile, options) if exchangers is None else exchangers
     sizing = _size(mixture, data, profile, options, exchangers, round_diameter)
     return sizing, cost_column(data, cost_input(sizing, options), scenario, cost_year)
+
+def reference_profile(problem: SeparationProblem, config, configuration: tuple[int, int] | None = None,
+                      reflux: float | None = None):
+    """Stage profile of the reference design: ``configuration`` or the search's start, CMO at ``reflux``.
+
+    ``reflux`` None: Gilliland's reflux for the stages.
+    """
+    stages, feed_stage = configuration or starting_configuration(problem, shortcut(problem), config)
+    return stage_profile(problem, start_profile(problem, stages, feed_stage, reflux), feed_stage)

@@ -21,7 +21,6 @@ References
 
 from __future__ import annotations
 
-import math
 import multiprocessing
 import os
 import time
@@ -33,13 +32,12 @@ import numpy as np
 import pyomo.environ as pyo
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError
-from ..stages.correlations import kirkbride_feed_stage, kirkbride_ratio
 from .given import check_stage_bound
 from .problem import default_max_stages
 from .basis import CostBasis, SeparationProblem, check_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import OptimumDesign, SearchStep, SolverReport
-from .start import Profile, Shortcut, moved_profile, shortcut
+from .start import Profile, Shortcut, feed_stage_of, moved_profile, shortcut, stage_floor, starting_configuration
 from .solve import certify, configuration_design, size_factor, solved_model
 
 
@@ -238,37 +236,12 @@ def start_of(design) -> Profile:
                    np.array(p.V))
 
 
-def stage_floor(estimate: Shortcut, config) -> int:
-    """Fewest stages worth solving: the options' minimum, raised to the Fenske minimum (rounded down).
-
-    Below the minimum stages no reflux meets the specification; the solver would spend its
-    whole time limit proving that.
-    """
-    return max(config.min_stages, math.floor(estimate.minimum_stages), 3)
 
 
-def kirkbride(problem: SeparationProblem, estimate: Shortcut) -> float:
-    """Kirkbride's ratio of stages above to stages below the feed for the shortcut split [-]."""
-    F, z = problem.feed_flow, problem.z
-    lk, hk = problem.light_key, problem.heavy_key
-    d = estimate.distillate
-    D = sum(d)
-    B = F - D
-    x_lk_b = (F * z[lk] - d[lk]) / B
-    x_hk_d = d[hk] / D
-    return kirkbride_ratio(z[lk], z[hk], x_lk_b, x_hk_d, B, D)
 
 
-def feed_stage_of(stages: int, ratio: float) -> int:
-    """Kirkbride's feed stage for ``stages``, kept off the condenser side and the reboiler."""
-    return min(max(kirkbride_feed_stage(stages, ratio), 2), stages - 1)
 
 
-def starting_configuration(problem: SeparationProblem, estimate: Shortcut, config) -> tuple[int, int]:
-    """Twice the Fenske minimum (a common rule, no source) and Kirkbride's feed stage."""
-    stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, stage_floor(estimate, config) + 1),
-                     config.max_stages))
-    return stages, feed_stage_of(stages, kirkbride(problem, estimate))
 
 
 def line_minimum(value, start: int, low: int, high: int) -> int:

@@ -15,14 +15,14 @@ import pyomo.environ as pyo
 import pyomo_ripopt  # noqa: F401  registers the 'ripopt' solver with Pyomo
 from pyomo.opt import SolverStatus, TerminationCondition as TC
 
-from .._base.errors import ConvergenceError, InfeasibleSpecError, SolverError
+from .._base.errors import InfeasibleSpecError, SolverError
 from .._base.interrupt import stop_if_requested
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
 from .model import KILO, build_column_model, initialise, required_areas, shortfall
 from .options import barrier_order, model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
-from .start import Profile, cmo_profile, gilliland_reflux, shortcut
+from .start import Profile, start_profile
 
 RETRY_REFLUX_FACTORS = (1.5, 3.0)  # start reflux multiples tried after a stalled solve
 # Stages x components of the models the per-configuration time limits were measured on (the
@@ -124,18 +124,6 @@ def _gap(results) -> float | None:
     return abs(upper - lower) / max(abs(upper), 1e-10)
 
 
-def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float | None = None,
-                  distillate: float | None = None, factor: float = 1.0) -> Profile:
-    """Constant-molar-overflow profile at the shortcut's distillate and ``factor`` times Gilliland's reflux."""
-    estimate = shortcut(problem)
-    R = reflux if reflux is not None else factor * gilliland_reflux(stages, estimate)
-    D = distillate if distillate is not None else float(sum(estimate.distillate))
-    for factor in (1.0, 1.5, 3.0):
-        try:
-            return cmo_profile(problem, stages, feed_stage, R * factor, D)
-        except (ConvergenceError, InfeasibleSpecError):
-            continue
-    raise ConvergenceError(f"no start profile for {stages} stages, feed stage {feed_stage}")
 
 
 def size_factor(problem: SeparationProblem, stages: int) -> float:

@@ -24,7 +24,7 @@ from scipy.linalg import solve_banded
 from scipy.optimize import brentq
 
 from ..stages.binary import EquilibriumCurve, binary_grid, minimum_reflux, tabulated_curve, total_reflux_stages
-from ..stages.correlations import fenske_minimum_stages
+from ..stages.correlations import fenske_minimum_stages, kirkbride_feed_stage, kirkbride_ratio
 from ..stages.shortcut import minimum_reflux_underwood
 from ..stages.splits import product_split
 
@@ -281,3 +281,46 @@ def cmo_profile(problem: SeparationProblem, stages: int, feed_stage: int, R: flo
     y = np.exp(np.array(lnk)).T * x
     y /= y.sum(axis=1, keepdims=True)
     return Profile(R, D, T, x, y, L, V)
+
+
+def stage_floor(estimate: Shortcut, config) -> int:
+    """Fewest stages worth solving: the options' minimum, raised to the Fenske minimum (rounded down).
+
+    Below the minimum stages no reflux meets the specification; the solver would spend its
+    whole time limit proving that.
+    """
+    return max(config.min_stages, math.floor(estimate.minimum_stages), 3)
+
+def kirkbride(problem: SeparationProblem, estimate: Shortcut) -> float:
+    """Kirkbride's ratio of stages above to stages below the feed for the shortcut split [-]."""
+    F, z = problem.feed_flow, problem.z
+    lk, hk = problem.light_key, problem.heavy_key
+    d = estimate.distillate
+    D = sum(d)
+    B = F - D
+    x_lk_b = (F * z[lk] - d[lk]) / B
+    x_hk_d = d[hk] / D
+    return kirkbride_ratio(z[lk], z[hk], x_lk_b, x_hk_d, B, D)
+
+def feed_stage_of(stages: int, ratio: float) -> int:
+    """Kirkbride's feed stage for ``stages``, kept off the condenser side and the reboiler."""
+    return min(max(kirkbride_feed_stage(stages, ratio), 2), stages - 1)
+
+def starting_configuration(problem: SeparationProblem, estimate: Shortcut, config) -> tuple[int, int]:
+    """Twice the Fenske minimum (a common rule, no source) and Kirkbride's feed stage."""
+    stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, stage_floor(estimate, config) + 1),
+                     config.max_stages))
+    return stages, feed_stage_of(stages, kirkbride(problem, estimate))
+
+def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float | None = None,
+                  distillate: float | None = None, factor: float = 1.0) -> Profile:
+    """Constant-molar-overflow profile at the shortcut's distillate and ``factor`` times Gilliland's reflux."""
+    estimate = shortcut(problem)
+    R = reflux if reflux is not None else factor * gilliland_reflux(stages, estimate)
+    D = distillate if distillate is not None else float(sum(estimate.distillate))
+    for factor in (1.0, 1.5, 3.0):
+        try:
+            return cmo_profile(problem, stages, feed_stage, R * factor, D)
+        except (ConvergenceError, InfeasibleSpecError):
+            continue
+    raise ConvergenceError(f"no start profile for {stages} stages, feed stage {feed_stage}")

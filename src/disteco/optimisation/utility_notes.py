@@ -16,33 +16,58 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Sequence
+from dataclasses import dataclass
 
 from scipy.optimize import brentq
 
 from .._base.errors import DistecoError, InfeasibleSpecError
 from ..sizing.exchangers import UTILITY_KINDS, choose_utility
+from ..sizing.utilities import UtilityLevel
 
 PRESSURE_STEP = 1.25  # ratio between trial pressures while bracketing [-]
 PRESSURE_STEPS = 16  # at most 1.25**16 = 36 x up or down from the column's own pressure
 LOWEST_PRESSURE = 500.0  # Pa; below it a column pressure is no longer a practical answer
 
 
-def utility_level_notes(mixture, profile, sizing, levels: Sequence, min_approach: float) -> tuple[str, ...]:
-    """Notes for the condenser and the reboiler of a sized design whose utility is not the cheapest offered,
-    each about the next cheaper level.
+@dataclass(frozen=True)
+class ExchangerEnds:
+    """An exchanger's utility level and process temperatures [K] (what the notes need of a sizing)."""
 
-    ``profile`` is the reported :class:`~disteco.stages.results.StageProfile`, ``sizing`` its
-    :class:`~disteco.sizing.column.ColumnSizing`, ``levels`` the utility levels offered and
-    ``min_approach`` [K] the sizing option. Empty when both exchangers already take the
-    cheapest level.
+    name: str  # "condenser" or "reboiler"
+    utility: UtilityLevel
+    process_in: float
+    process_out: float
+
+
+def profile_utilities(profile, levels: Sequence, min_approach: float) -> tuple[ExchangerEnds, ExchangerEnds]:
+    """The condenser's and the reboiler's levels for ``profile``, as the sizing layer chooses them.
+
+    Raises ``InfeasibleSpecError`` (naming the levels offered) where none fits, as sizing does.
+    """
+    n = profile.stages
+    ends = (("condenser", "cooling", profile.T[0], profile.condenser_temperature),
+            ("reboiler", "heating", profile.T[n - 2], profile.T[n - 1]))
+    condenser, reboiler = (ExchangerEnds(name, choose_utility(levels, service, t_in, t_out, min_approach, name),
+                                         t_in, t_out) for name, service, t_in, t_out in ends)
+    return condenser, reboiler
+
+
+def utility_level_notes(mixture, profile, condenser, reboiler, levels: Sequence,
+                        min_approach: float) -> tuple[str, ...]:
+    """Notes for a condenser or reboiler whose utility is not the cheapest offered, each about the next
+    cheaper level.
+
+    ``profile`` is the :class:`~disteco.stages.results.StageProfile` the exchangers serve,
+    ``condenser`` and ``reboiler`` its exchangers (a sizing's, or :class:`ExchangerEnds`),
+    ``levels`` the utility levels offered and ``min_approach`` [K] the sizing option. Empty
+    when both exchangers already take the cheapest level.
     """
     top, bottom = _top_saturation(mixture, profile), _bottom_saturation(mixture, profile)
     notes = []
     with mixture.quiet():  # probed states, not the column's: no property notes from them
-        for exchanger, service, own, other, other_service in (
-                (sizing.condenser, "cooling", top, bottom, "heating"),
-                (sizing.reboiler, "heating", bottom, top, "cooling")):
-            note = _note(exchanger, service, own, other, other_service, profile, sizing, levels, min_approach)
+        for exchanger, other, service, own, other_side in ((condenser, reboiler, "cooling", top, bottom),
+                                                           (reboiler, condenser, "heating", bottom, top)):
+            note = _note(exchanger, other, service, own, other_side, profile, levels, min_approach)
             if note:
                 notes.append(note)
     return tuple(notes)
@@ -103,7 +128,7 @@ def pressure_for(saturation: Callable[[float], float], pressure: float, shift: f
     return None
 
 
-def _note(exchanger, service: str, own, other, other_service: str, profile, sizing, levels,
+def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
           min_approach: float) -> str | None:
     offered = [u.name for u in _offered(levels, service)]
     if exchanger.utility.name not in offered[1:]:
@@ -126,7 +151,7 @@ def _note(exchanger, service: str, own, other, other_service: str, profile, sizi
     if new_top < LOWEST_PRESSURE:
         return (f"{opening}, which a bottom pressure of about {_kpa(here)} would give: less than the column's own "
                 f"pressure drop ({_kpa(bottom - top)}) allows")
-    other_exchanger = sizing.reboiler if service == "cooling" else sizing.condenser
+    other_service = "heating" if service == "cooling" else "cooling"
     then = _level_then(other, other_service, other_exchanger, bottom if service == "cooling" else top, change,
                        levels, min_approach)
     return (f"{opening}, which a top pressure of about {_kpa(new_top)} gives (now {_kpa(top)}); "

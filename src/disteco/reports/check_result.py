@@ -17,7 +17,8 @@ class CaseCheck:
     ``fitted_minimum_reflux``: the minima on the optimiser's fitted forms (what the stage bound
     and a given design are checked against) by ``fitted_minima_method`` (Fenske and Underwood,
     or McCabe-Thiele for a binary); ``given``: (reflux ratio [-],
-    stages, feed stage) of a given design, or None.
+    stages, feed stage) of a given design, or None; ``utilities`` the levels the condenser and
+    reboiler of the first column sized take, with ``utility_notes`` on a cheaper level.
     """
 
     case: Case
@@ -32,6 +33,9 @@ class CaseCheck:
     fitted_minimum_reflux: float
     given: tuple[float, int, int] | None = None
     fitted_minima_method: str = "Fenske-Underwood"
+    reference_stages: int = 0  # stages of the column sized first (the search's start or the given design)
+    utilities: tuple = ()  # its condenser and reboiler (optimisation.utility_notes.ExchangerEnds)
+    utility_notes: tuple[str, ...] = ()  # the pressure a cheaper level would need, where one is offered
 
     def __str__(self) -> str:
         from .text import check_text  # text.py imports the result types

@@ -92,6 +92,12 @@ def check_text(found: CaseCheck) -> str:
         lines.append(f"Given design: reflux ratio {reflux:.4g} [-], {n} stages, feed on stage {feed_stage}: above the "
                      f"minima on the fitted forms ({found.fitted_minimum_reflux:.4g}, "
                      f"{found.fitted_minimum_stages:.2f} stages, {found.fitted_minima_method})")
+    if found.utilities:
+        which = "the search's first column" if found.given is None else "the given design"
+        lines.append(f"Utilities of {which} ({found.reference_stages} stages, constant molar overflow on the fitted "
+                     "forms): " + "; ".join(f"{e.name} {e.process_in - 273.15:.1f} -> {e.process_out - 273.15:.1f} "
+                                            f"degC on {e.utility.name}" for e in found.utilities))
+        lines.extend(f"Note: {note}" for note in found.utility_notes)
     lines.append("Case file is valid. design with these options will not refuse it before optimising.")
     return "\n".join(lines)
 

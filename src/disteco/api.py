@@ -12,7 +12,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from ._base.errors import CaseError, ConvergenceError, CostDataError, InfeasibleSpecError, SolverError
+from ._base.errors import CaseError, ConvergenceError, CostDataError, InfeasibleSpecError, PropertyError, SolverError
 from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
@@ -115,15 +115,19 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         check_given_design(estimate, given.reflux_ratio, given.stages, given.feed_stage, config.reflux_max)
     # the utility levels of the column design sizes first (the search's start, or the given design),
     # which refuses a case no offered level can serve before any optimisation
-    reference = reference_profile(problem, config, None if given is None else (given.stages, given.feed_stage),
-                                  None if given is None else given.reflux_ratio)
     min_approach = sizing_options(case).min_approach
-    ends = profile_utilities(reference, data.levels, min_approach)
+    try:
+        reference = reference_profile(problem, config, None if given is None else (given.stages, given.feed_stage),
+                                      None if given is None else given.reflux_ratio)
+    except (ConvergenceError, PropertyError):
+        reference, ends, notes = None, (), ()  # design's own start then says what failed, in its words
+    else:
+        ends = profile_utilities(reference, data.levels, min_approach)
+        notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach)
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),
-                      estimate.method, reference.stages, ends,
-                      utility_level_notes(mixture, reference, *ends, data.levels, min_approach))
+                      estimate.method, reference.stages if reference else 0, ends, notes)
     return _Prepared(found, mixture, data)
 
 

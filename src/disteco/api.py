@@ -66,7 +66,7 @@ def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ..
     optimiser options, the stage bound or a given design against the minima on the fitted
     forms. Raises what ``design`` would raise before optimising; returns what it found.
     """
-    return _prepare(case, given, scenarios, options, compare, prices).check
+    return _prepare(case, given, scenarios, options, compare, prices, utility_notes=True).check
 
 
 @dataclass(frozen=True)
@@ -79,8 +79,12 @@ class _Prepared:
 
 
 def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], options: dict | None,
-             compare: bool, prices: tuple[PriceSetting | str, ...] = ()) -> _Prepared:
-    """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`."""
+             compare: bool, prices: tuple[PriceSetting | str, ...] = (), utility_notes: bool = False) -> _Prepared:
+    """The one copy of the checks before optimising, shared by :func:`check` and :func:`design`.
+
+    ``utility_notes``: also the notes on a cheaper utility level for the first column (what
+    `check` prints; a design gives them for the design it reports).
+    """
     from .costing.from_sizing import check_tray_material
     from .optimisation.pricing import reference_profile
     from .optimisation.problem import remember_column_profile, resolved_problem
@@ -123,7 +127,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         reference, ends, notes = None, (), ()  # design's own start then says what failed, in its words
     else:
         ends = profile_utilities(reference, data.levels, min_approach)
-        notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach)
+        notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach) if utility_notes else ()
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),

@@ -88,7 +88,8 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     from .costing.from_sizing import check_tray_material
     from .optimisation.pricing import reference_profile
     from .optimisation.problem import remember_column_profile, resolved_problem
-    from .optimisation.utility_notes import profile_utilities, utility_level_notes
+    from .optimisation.utility_notes import utility_level_notes
+    from .sizing.exchangers import profile_utilities
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut

@@ -62,8 +62,6 @@ def _keyed(sizing: SizingOptions, problem: SeparationProblem) -> SizingOptions:
     return replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
 
 
-
-
 def settled_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostData, sizing: SizingOptions,
                       config, configuration: tuple[int, int] | None = None, reflux: float | None = None):
     """Problem and reference profile whose pressure drop per stage agrees with the reference's trays.

@@ -24,7 +24,7 @@ from ..costing.from_sizing import cost_input
 from ..costing.operating import ELECTRICITY
 from ..sizing.column import ColumnSizing, size_column
 from ..sizing.exchanger_service import ExchangerService, exchanger_service
-from ..sizing.exchangers import OverallCoefficient, choose_utility
+from ..sizing.exchangers import OverallCoefficient, profile_utilities
 from ..sizing.options import SizingOptions
 from ..sizing.utilities import UtilityLevel
 from ..stages.results import StageProfile
@@ -91,12 +91,8 @@ class ExchangerData:
 
 def exchanger_data(data: CostData, mixture, profile: StageProfile, options: SizingOptions) -> ExchangerData:
     """Utility levels, then the U rows looked up by service, process side and utility kind."""
-    n = profile.stages
     service = exchanger_service(profile, mixture)
-    condenser = choose_utility(data.levels, "cooling", profile.T[0], profile.condenser_temperature,
-                               options.min_approach, "condenser")
-    reboiler = choose_utility(data.levels, "heating", profile.T[n - 2], profile.T[n - 1],
-                              options.min_approach, "reboiler")
+    condenser, reboiler = (ends.utility for ends in profile_utilities(profile, data.levels, options.min_approach))
     row_c, note_c = data.coefficient_row("condenser", condenser.kind, service.condenser_side)
     row_r, note_r = data.coefficient_row("reboiler", reboiler.kind, service.reboiler_side)
     return ExchangerData(condenser, reboiler, _coefficient(row_c), _coefficient(row_r), (row_c, row_r), service,

@@ -236,14 +236,6 @@ def start_of(design) -> Profile:
                    np.array(p.V))
 
 
-
-
-
-
-
-
-
-
 def line_minimum(value, start: int, low: int, high: int) -> int:
     """Integer minimiser of ``value`` on [low, high] near ``start``: doubling steps downhill, then ternary.
 

@@ -124,8 +124,6 @@ def _gap(results) -> float | None:
     return abs(upper - lower) / max(abs(upper), 1e-10)
 
 
-
-
 def size_factor(problem: SeparationProblem, stages: int) -> float:
     """Multiple of the per-configuration time limits a model of ``stages`` stages needs [-], at least one.
 

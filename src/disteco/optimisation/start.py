@@ -291,6 +291,7 @@ def stage_floor(estimate: Shortcut, config) -> int:
     """
     return max(config.min_stages, math.floor(estimate.minimum_stages), 3)
 
+
 def kirkbride(problem: SeparationProblem, estimate: Shortcut) -> float:
     """Kirkbride's ratio of stages above to stages below the feed for the shortcut split [-]."""
     F, z = problem.feed_flow, problem.z
@@ -302,15 +303,18 @@ def kirkbride(problem: SeparationProblem, estimate: Shortcut) -> float:
     x_hk_d = d[hk] / D
     return kirkbride_ratio(z[lk], z[hk], x_lk_b, x_hk_d, B, D)
 
+
 def feed_stage_of(stages: int, ratio: float) -> int:
     """Kirkbride's feed stage for ``stages``, kept off the condenser side and the reboiler."""
     return min(max(kirkbride_feed_stage(stages, ratio), 2), stages - 1)
+
 
 def starting_configuration(problem: SeparationProblem, estimate: Shortcut, config) -> tuple[int, int]:
     """Twice the Fenske minimum (a common rule, no source) and Kirkbride's feed stage."""
     stages = int(min(max(round(2.0 * estimate.minimum_stages) + 1, stage_floor(estimate, config) + 1),
                      config.max_stages))
     return stages, feed_stage_of(stages, kirkbride(problem, estimate))
+
 
 def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float | None = None,
                   distillate: float | None = None, factor: float = 1.0) -> Profile:

@@ -16,40 +16,15 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass
 
 from scipy.optimize import brentq
 
 from .._base.errors import DistecoError, InfeasibleSpecError
-from ..sizing.exchangers import UTILITY_KINDS, choose_utility
-from ..sizing.utilities import UtilityLevel
+from ..sizing.exchangers import choose_utility, offered_levels
 
 PRESSURE_STEP = 1.25  # ratio between trial pressures while bracketing [-]
 PRESSURE_STEPS = 16  # at most 1.25**16 = 36 x up or down from the column's own pressure
 LOWEST_PRESSURE = 500.0  # Pa; below it a column pressure is no longer a practical answer
-
-
-@dataclass(frozen=True)
-class ExchangerEnds:
-    """An exchanger's utility level and process temperatures [K] (what the notes need of a sizing)."""
-
-    name: str  # "condenser" or "reboiler"
-    utility: UtilityLevel
-    process_in: float
-    process_out: float
-
-
-def profile_utilities(profile, levels: Sequence, min_approach: float) -> tuple[ExchangerEnds, ExchangerEnds]:
-    """The condenser's and the reboiler's levels for ``profile``, as the sizing layer chooses them.
-
-    Raises ``InfeasibleSpecError`` (naming the levels offered) where none fits, as sizing does.
-    """
-    n = profile.stages
-    ends = (("condenser", "cooling", profile.T[0], profile.condenser_temperature),
-            ("reboiler", "heating", profile.T[n - 2], profile.T[n - 1]))
-    condenser, reboiler = (ExchangerEnds(name, choose_utility(levels, service, t_in, t_out, min_approach, name),
-                                         t_in, t_out) for name, service, t_in, t_out in ends)
-    return condenser, reboiler
 
 
 def utility_level_notes(mixture, profile, condenser, reboiler, levels: Sequence,
@@ -58,7 +33,8 @@ def utility_level_notes(mixture, profile, condenser, reboiler, levels: Sequence,
     cheaper level.
 
     ``profile`` is the :class:`~disteco.stages.results.StageProfile` the exchangers serve,
-    ``condenser`` and ``reboiler`` its exchangers (a sizing's, or :class:`ExchangerEnds`),
+    ``condenser`` and ``reboiler`` its exchangers (a sizing's, or
+    :class:`~disteco.sizing.exchangers.ExchangerEnds`),
     ``levels`` the utility levels offered and ``min_approach`` [K] the sizing option. Empty
     when both exchangers already take the cheapest level.
     """
@@ -71,12 +47,6 @@ def utility_level_notes(mixture, profile, condenser, reboiler, levels: Sequence,
             if note:
                 notes.append(note)
     return tuple(notes)
-
-
-def _offered(levels: Sequence, service: str) -> list:
-    """Offered levels of ``service``, cheapest first (warmest cooling, coolest heating)."""
-    offered = [u for u in levels if u.service == service and u.kind in UTILITY_KINDS[service]]
-    return sorted(offered, key=lambda u: -u.supply_temperature if service == "cooling" else u.supply_temperature)
 
 
 def _top_saturation(mixture, profile) -> Callable[[float], float]:
@@ -130,11 +100,12 @@ def pressure_for(saturation: Callable[[float], float], pressure: float, shift: f
 
 def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
           min_approach: float) -> str | None:
-    offered = [u.name for u in _offered(levels, service)]
-    if exchanger.utility.name not in offered[1:]:
+    offered = offered_levels(levels, service)
+    names = [u.name for u in offered]
+    if exchanger.utility.name not in names[1:]:
         return None
     # the next cheaper level: a refrigerated condenser is asked about the warmer refrigerant first
-    cheaper = _offered(levels, service)[offered.index(exchanger.utility.name) - 1]
+    cheaper = offered[names.index(exchanger.utility.name) - 1]
     shift = _needed_shift(exchanger, cheaper, service, min_approach)
     top, bottom = profile.P[0], profile.P[-1]
     here = pressure_for(own, top if service == "cooling" else bottom, shift)

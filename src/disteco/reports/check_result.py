@@ -34,7 +34,7 @@ class CaseCheck:
     given: tuple[float, int, int] | None = None
     fitted_minima_method: str = "Fenske-Underwood"
     reference_stages: int = 0  # stages of the column sized first (the search's start or the given design)
-    utilities: tuple = ()  # its condenser and reboiler (optimisation.utility_notes.ExchangerEnds)
+    utilities: tuple = ()  # its condenser and reboiler (sizing.exchangers.ExchangerEnds)
     utility_notes: tuple[str, ...] = ()  # the pressure a cheaper level would need, where one is offered
 
     def __str__(self) -> str:

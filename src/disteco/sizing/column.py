@@ -18,7 +18,7 @@ from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .boiling import reboiler_flux_warning, zuber_peak_heat_flux
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchanger_service import REBOILER_KINDS
-from .exchangers import ExchangerSizing, OverallCoefficient, size_exchanger
+from .exchangers import ExchangerSizing, OverallCoefficient, exchanger_ends, size_exchanger
 from .materials import low_temperature_warning, material
 from .flooding import FLOW_PARAMETER_RANGE
 from .tray_pressure_drop import TrayPressureDrop, sieve_tray_pressure_drop, weir_height_for
@@ -253,11 +253,11 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     if len(counts) == 2:
         top_height, top_vessel = shell(counts[0], sump_flows[0], 0, split)
 
-    condenser = size_exchanger("condenser", "cooling", profile.condenser_duty, profile.T[0],
-                               profile.condenser_temperature, utilities, U_condenser, options.min_approach,
-                               options.operating_hours, "fixed_tube_sheet")
-    reboiler = size_exchanger("reboiler", "heating", profile.reboiler_duty, profile.T[n - 2], profile.T[n - 1],
-                              utilities, U_reboiler, options.min_approach, options.operating_hours, reboiler_type)
+    (c_name, c_service, c_in, c_out), (r_name, r_service, r_in, r_out) = exchanger_ends(profile)
+    condenser = size_exchanger(c_name, c_service, profile.condenser_duty, c_in, c_out, utilities, U_condenser,
+                               options.min_approach, options.operating_hours, "fixed_tube_sheet")
+    reboiler = size_exchanger(r_name, r_service, profile.reboiler_duty, r_in, r_out, utilities, U_reboiler,
+                              options.min_approach, options.operating_hours, reboiler_type)
 
     boiling = trays[-1]  # the liquid the reboiler boils and the vapour above it
     latent = profile.reboiler_duty / (profile.V[n - 1] * mixture.molar_mass(profile.y[n - 1]))

@@ -185,6 +185,41 @@ def _fits(level: UtilityLevel, service: str, process_in: float, process_out: flo
             and level.return_temperature - process_in >= approach)
 
 
+def offered_levels(levels, service: str) -> list[UtilityLevel]:
+    """The levels of ``service`` offered, least extreme first: warmest cooling, coolest heating
+    (temperature order standing in for price order)."""
+    offered = [u for u in levels if u.service == service and u.kind in UTILITY_KINDS[service]]
+    return sorted(offered, key=lambda u: -u.supply_temperature if service == "cooling" else u.supply_temperature)
+
+
+def exchanger_ends(profile) -> tuple[tuple[str, str, float, float], tuple[str, str, float, float]]:
+    """(name, service, process inlet, process outlet [K]) of the condenser and the reboiler of ``profile``:
+    the top stage's vapour to the condenser temperature, the last tray's liquid to the reboiler's."""
+    n = profile.stages
+    return (("condenser", "cooling", profile.T[0], profile.condenser_temperature),
+            ("reboiler", "heating", profile.T[n - 2], profile.T[n - 1]))
+
+
+@dataclass(frozen=True)
+class ExchangerEnds:
+    """An exchanger's utility level and process temperatures [K], before it is sized."""
+
+    name: str  # "condenser" or "reboiler"
+    utility: UtilityLevel
+    process_in: float
+    process_out: float
+
+
+def profile_utilities(profile, levels, min_approach: float) -> tuple[ExchangerEnds, ExchangerEnds]:
+    """The condenser's and the reboiler's levels for ``profile`` (:func:`choose_utility` at :func:`exchanger_ends`).
+
+    Raises ``InfeasibleSpecError`` (naming the levels offered) where none fits.
+    """
+    condenser, reboiler = (ExchangerEnds(name, choose_utility(levels, service, t_in, t_out, min_approach, name),
+                                         t_in, t_out) for name, service, t_in, t_out in exchanger_ends(profile))
+    return condenser, reboiler
+
+
 def choose_utility(levels, service: str, process_in: float, process_out: float, min_approach: float,
                    exchanger: str) -> UtilityLevel:
     """The least extreme offered level that keeps ``min_approach`` [K] at both ends.
@@ -194,12 +229,10 @@ def choose_utility(levels, service: str, process_in: float, process_out: float, 
     stands in for price order. ``InfeasibleSpecError`` names the process temperatures, the
     levels offered and the approach when none fits.
     """
-    offered = [u for u in levels if u.service == service and u.kind in UTILITY_KINDS[service]]
+    offered = offered_levels(levels, service)
     fitting = [u for u in offered if _fits(u, service, process_in, process_out, min_approach)]
     if fitting:
-        if service == "cooling":
-            return max(fitting, key=lambda u: u.supply_temperature)
-        return min(fitting, key=lambda u: u.supply_temperature)
+        return fitting[0]
     listed = "; ".join(f"{u.name} {u.supply_temperature - 273.15:.1f} -> {u.return_temperature - 273.15:.1f} degC"
                        for u in offered) or "none"
     word, further, pressure = ("cold", "colder", "raise") if service == "cooling" else ("hot", "hotter", "lower")

@@ -27,8 +27,7 @@ from .design import model_cost_basis, resolved_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
 from .search import Evaluator, worker_pool
-from .start import stage_floor
-from .start import shortcut
+from .start import shortcut, stage_floor
 
 CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows: the largest ends the curve
 MORE_STAGES_FACTOR = 1.8  # the curve's most stages, as a multiple of the optimum's (common practice, no source)

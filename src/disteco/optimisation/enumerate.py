@@ -20,9 +20,8 @@ from .options import model_options
 from .results import DesignEvaluation, SearchStep
 from .problem import default_max_stages
 from .search import Evaluator
-from .start import stage_floor
 from .solve import solve_configuration
-from .start import shortcut
+from .start import shortcut, stage_floor
 
 
 @dataclass(frozen=True)

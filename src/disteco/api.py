@@ -221,12 +221,12 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
             plan.finish(optimum.solver.configurations_solved)
         plan.end()
         held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optimum)
-        parts = replace(_checked(_evaluation_parts(evaluation, data), checks), given=held,
-                        **_binary_parts(stages, checks.reflux_ratio, case))
+        diagram, diagram_notes = _binary_parts(stages, checks.reflux_ratio, case)
+        parts = replace(_checked(_evaluation_parts(evaluation, data), checks), given=held, **diagram)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
-                                               + mixture.warnings + _utility_notes(mixture, parts, data, sizing),
-                                               parts), options=_given_options(options))
+                                               + mixture.warnings + _utility_notes(mixture, parts, data, sizing)
+                                               + diagram_notes, parts), options=_given_options(options))
     optima, curves, checked, margins, curve_notes = [], [], [], [], []
     minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
     for k, name in enumerate(names):
@@ -259,10 +259,11 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     plan.end()
     best = optima[0][1]
     checks = checked[0][1]
+    diagram, diagram_notes = _binary_parts(stages, checks.reflux_ratio, case)
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
-                          scenario_checks=tuple(checked), margins=tuple(margins),
-                          **_binary_parts(stages, checks.reflux_ratio, case))
+                          scenario_checks=tuple(checked), margins=tuple(margins), **diagram)
     extra = tuple(cross.below_zero()) + cross.notes if cross is not None else ()
+    extra += diagram_notes
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
     extra += mixture.warnings + tuple(curve_notes)
@@ -305,16 +306,25 @@ def _checked(parts: ReportParts, checks: ThermoChecks) -> ReportParts:
                    cost=v.corrected_price.cost)
 
 
-def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> dict:
-    """The McCabe-Thiele construction at the chosen reflux, for the diagrams of a binary."""
+def _binary_parts(stages: StageDesign, reflux_ratio: float, case: Case) -> tuple[dict, tuple[str, ...]]:
+    """The McCabe-Thiele construction at the chosen reflux, for the diagrams of a binary, and a note
+    where it cannot be stepped there."""
     from .stages import step_stages
 
     if stages.binary is None:
-        return {}
+        return {}, ()
     column = stages.binary.column
-    stepped = step_stages(stages.binary.curve, column.x_distillate, column.x_bottoms, column.z, column.q,
-                          reflux_ratio, case.column.condenser == "partial")
-    return {"curve": stages.binary.curve, "stepped": stepped}
+    try:
+        stepped = step_stages(stages.binary.curve, column.x_distillate, column.x_bottoms, column.z, column.q,
+                              reflux_ratio, case.column.condenser == "partial")
+    except (InfeasibleSpecError, ConvergenceError):
+        # energy balances can let the column run at or below the constant-molar-overflow minimum
+        # (water/acetic acid at 1 bar: R 0.531 against 0.546); the diagram then shows the design's stages only
+        return {"curve": stages.binary.curve}, (
+            f"x-y diagram without the constant-molar-overflow construction: the design's reflux ratio "
+            f"{reflux_ratio:.4g} [-] lies at or too near that construction's minimum {stages.minimum_reflux:.4g} [-] "
+            "to step it off; the design's own stages are drawn",)
+    return {"curve": stages.binary.curve, "stepped": stepped}, ()
 
 
 def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportParts:

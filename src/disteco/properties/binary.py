@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -14,6 +15,9 @@ GRID_POINTS = 101
 EDGE = 1e-6  # mole fraction kept from the pure ends, where y - x is zero by definition
 BRACKET = 2.0  # K beyond the bubble points either side of an azeotrope, where its temperature lies
 DISTINCT_VOLATILITY = 1.5  # relative volatility at both ends beyond which a pair is not scanned [-]
+# relative volatility [-] beyond which an azeotrope of the ideal-gas vapour is said to vanish with the
+# acid's dimerisation: 1.05 is well outside the fitted models' error at an azeotrope (common practice, no source)
+ARTEFACT_VOLATILITY = 1.05
 
 
 @dataclass(frozen=True)
@@ -38,6 +42,17 @@ class Azeotrope:
     x_first: float
     T: float
     kind: str  # "minimum-boiling" or "maximum-boiling"
+    # where one of the pair dimerises in the vapour: the pair's relative volatility [-] at this
+    # liquid with the dimerisation (``association``), which the method's ideal-gas vapour leaves out
+    alpha_dimerised: float | None = None
+    dimerising: str | None = None  # the acid's name
+
+    @property
+    def vapour_artefact(self) -> bool:
+        """True where the dimerising vapour moves the pair's relative volatility here off one by
+        more than :data:`ARTEFACT_VOLATILITY`: the azeotrope is then one of the ideal-gas vapour."""
+        a = self.alpha_dimerised
+        return a is not None and abs(math.log(a)) > math.log(ARTEFACT_VOLATILITY)
 
 
 def _bubble(mixture: Mixture, pressure: float, first: int, second: int, x1: float):
@@ -88,8 +103,18 @@ def find_azeotropes(mixture: Mixture, pressure: float, first: int = 0, second: i
         T_az = _azeotrope_temperature(mixture, pressure, first, second, x_az, a, b)
         kind = "minimum-boiling" if T_az < min(pure_T) else "maximum-boiling"
         found.append(Azeotrope(mixture.names[first], mixture.names[second], pressure, float(x_az),
-                               float(T_az), kind))
+                               float(T_az), kind, *_dimerised(mixture, pressure, first, second, x_az, T_az)))
     return found
+
+
+def _dimerised(mixture: Mixture, pressure: float, first: int, second: int, x1: float, T: float):
+    """(alpha with the acid's dimerisation, the acid's name) at an azeotrope of the pair, or (None, None)."""
+    acid = mixture.dimerising_acid
+    if acid not in (first, second):
+        return None, None
+    z = np.zeros(mixture.size)
+    z[first], z[second] = x1, 1.0 - x1
+    return mixture.dimerised_relative_volatility(T, pressure, z, first, second), mixture.names[acid]
 
 
 def _gap(mixture: Mixture, pressure: float, first: int, second: int, x1: float) -> float | None:

@@ -20,6 +20,7 @@ from thermo.unifac import DOUFIP2016, DOUFSG
 
 from .._base.errors import CaseError, InfeasibleSpecError, PropertyError
 from ..case import Thermo
+from .association import DIMERISING_ACIDS, dimerised_k_values, dimerising_acid
 from .components import ComponentId, resolve_components
 from .data_cache import component_packages
 from .vle_fallback import NoSplit, isothermal_split, saturation_point, wilson_k, wilson_start
@@ -332,6 +333,20 @@ class Mixture:
         if not np.all(np.isfinite(k)) or np.any(k <= 0.0):
             raise PropertyError(f"no real-vapour K-values at T={T:.6g} K, P={P:.6g} Pa")
         return k
+
+    @cached_property
+    def dimerising_acid(self) -> int | None:
+        """Index of the one component that dimerises in the vapour (``association.DIMERISING_ACIDS``),
+        where this method takes the vapour as an ideal gas of monomers; else None."""
+        return dimerising_acid([c.cas for c in self.components]) if self.ideal_gas_vapour else None
+
+    def dimerised_relative_volatility(self, T: float, P: float, x, light: int, heavy: int) -> float:
+        """alpha = K_light / K_heavy [-] of liquid ``x`` at ``T`` [K], ``P`` [Pa] with this method's
+        liquid and the acid's dimerisation in the vapour (for a mixture with a :attr:`dimerising_acid`)."""
+        acid = self.dimerising_acid
+        k = dimerised_k_values(self.k_values(T, P, x), x, T, P, float(self.vapour_pressures(T)[acid]), acid,
+                               DIMERISING_ACIDS[self.components[acid].cas])
+        return float(k[light] / k[heavy])
 
     # ------------------------------------------------------------ caloric
     def liquid_enthalpy(self, T: float, P: float, x) -> float:

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .._base.errors import PropertyError
-from .binary import Azeotrope, all_azeotropes
+from .binary import ARTEFACT_VOLATILITY, Azeotrope, all_azeotropes
 from .mixture import IDEAL_GAS_VAPOUR_LIMIT, Mixture, PhasePoint
 
 VOLATILITY_GRID = np.linspace(0.01, 0.99, 25)
@@ -40,6 +40,16 @@ class VapourIdeality:
 
 
 @dataclass(frozen=True)
+class VapourAssociation:
+    """The key relative volatility range over the key pair with a carboxylic acid's dimerisation in the
+    vapour (``association``), which the method's ideal-gas vapour leaves out."""
+
+    acid: str
+    alpha_min: float  # [-]
+    alpha_max: float  # [-]
+
+
+@dataclass(frozen=True)
 class MixtureSummary:
     """What the check command reports about a mixture at the column's top pressure."""
 
@@ -54,17 +64,49 @@ class MixtureSummary:
     feed_dew_T: float  # K
     azeotropes: tuple[Azeotrope, ...]
     vapour: VapourIdeality | None = None  # only for an ideal-gas vapour above 2 bar
+    association: VapourAssociation | None = None  # only for a dimerising acid that moves alpha
 
 
-def key_volatility_range(mixture: Mixture, pressure: float, light: int, heavy: int) -> tuple[float, float]:
-    """Range of alpha(light/heavy) [-] over key-pair liquids from 1 % to 99 % light key at ``pressure`` [Pa]."""
-    alphas = []
+def _key_pair_bubble_points(mixture: Mixture, pressure: float, light: int, heavy: int) -> list[PhasePoint]:
+    """Bubble points at ``pressure`` [Pa] of key-pair liquids from 1 % to 99 % light key."""
+    points = []
     for x_light in VOLATILITY_GRID:
         x = np.zeros(mixture.size)
         x[light], x[heavy] = x_light, 1.0 - x_light
-        point = mixture.bubble_point(pressure, x)
-        alphas.append(mixture.relative_volatility(point.T, pressure, x, light, heavy, point.y))
+        points.append(mixture.bubble_point(pressure, x))
+    return points
+
+
+def key_volatility_range(mixture: Mixture, pressure: float, light: int, heavy: int,
+                         points: list[PhasePoint] | None = None) -> tuple[float, float]:
+    """Range of alpha(light/heavy) [-] over key-pair liquids from 1 % to 99 % light key at ``pressure`` [Pa]."""
+    points = points or _key_pair_bubble_points(mixture, pressure, light, heavy)
+    alphas = [mixture.relative_volatility(p.T, pressure, p.x, light, heavy, p.y) for p in points]
     return float(min(alphas)), float(max(alphas))
+
+
+def vapour_association(mixture: Mixture, points: list[PhasePoint], light: int, heavy: int) -> VapourAssociation | None:
+    """The key relative volatility range with the acid's dimerisation in the vapour, with a note, where the
+    mixture has a dimerising acid and the dimerisation moves alpha by more than :data:`ARTEFACT_VOLATILITY`
+    somewhere on the key-pair bubble ``points``; else None."""
+    acid = mixture.dimerising_acid
+    if acid is None:
+        return None
+    pairs = [(mixture.relative_volatility(p.T, p.P, p.x, light, heavy, p.y),
+              mixture.dimerised_relative_volatility(p.T, p.P, p.x, light, heavy)) for p in points]
+    if max(abs(np.log(ideal / dimer)) for ideal, dimer in pairs) <= np.log(ARTEFACT_VOLATILITY):
+        return None
+    ideal, dimer = zip(*pairs)
+    found = VapourAssociation(mixture.names[acid], float(min(dimer)), float(max(dimer)))
+    keys = f"{mixture.names[light]}/{mixture.names[heavy]}"
+    mixture.note("vapour-association",
+                 f"{found.acid} dimerises in the vapour, which the {mixture.method} method's ideal-gas vapour "
+                 f"leaves out: over key-pair liquids from 1 % to 99 % {mixture.names[light]} the {keys} relative "
+                 f"volatility is {min(ideal):.3f} to {max(ideal):.3f} [-] as designed and {found.alpha_min:.3f} to "
+                 f"{found.alpha_max:.3f} with the dimerisation (chemical theory, DEVELOPERS.md, Thermodynamics); "
+                 "treat the stages and reflux as that uncertain, or give NRTL or Wilson parameters regressed from "
+                 "equilibrium data with an ideal-gas vapour")
+    return found
 
 
 def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: int) -> MixtureSummary:
@@ -72,7 +114,8 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
     components = tuple(
         ComponentSummary(c.given, c.name, c.cas, float(mw), float(tb), float(zi))
         for c, mw, tb, zi in zip(mixture.components, mixture.molar_masses, mixture.normal_boiling_points, z))
-    low, high = key_volatility_range(mixture, pressure, light, heavy)
+    points = _key_pair_bubble_points(mixture, pressure, light, heavy)
+    low, high = key_volatility_range(mixture, pressure, light, heavy, points)
     bubble = mixture.bubble_point(pressure, z)
     return MixtureSummary(
         method=mixture.method, pressure=pressure, components=components,
@@ -80,7 +123,8 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
         key_volatility_min=low, key_volatility_max=high,
         feed_bubble_T=bubble.T, feed_dew_T=mixture.dew_point(pressure, z).T,
         azeotropes=tuple(all_azeotropes(mixture, pressure)),
-        vapour=vapour_ideality(mixture, bubble, light, heavy))
+        vapour=vapour_ideality(mixture, bubble, light, heavy),
+        association=vapour_association(mixture, points, light, heavy))
 
 
 def vapour_ideality(mixture: Mixture, bubble: PhasePoint, light: int, heavy: int) -> VapourIdeality | None:

@@ -54,8 +54,13 @@ def mixture_json(summary: MixtureSummary) -> dict:
         "feed_dew_point_degC": to_degC(summary.feed_dew_T),
         "azeotropes": [
             {"first": a.first, "second": a.second, "mole_fraction_first": a.x_first,
-             "temperature_degC": to_degC(a.T), "pressure_kPa": a.pressure / 1e3, "kind": a.kind}
+             "temperature_degC": to_degC(a.T), "pressure_kPa": a.pressure / 1e3, "kind": a.kind,
+             "relative_volatility_with_dimerisation": a.alpha_dimerised}
             for a in summary.azeotropes],
+        "vapour_dimerisation_check": None if summary.association is None else {
+            "acid": summary.association.acid,
+            "key_relative_volatility_min": summary.association.alpha_min,
+            "key_relative_volatility_max": summary.association.alpha_max},
     }
 
 

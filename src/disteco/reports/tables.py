@@ -247,12 +247,20 @@ def mixture_table(mixture: MixtureSummary) -> Table:
         *(() if mixture.vapour is None else (
             ("Key relative volatility at the feed bubble point, vapour as ideal gas [-]", mixture.vapour.alpha_ideal_gas),
             ("Key relative volatility at the feed bubble point, real vapour [-]", mixture.vapour.alpha_real_vapour))),
+        *(() if mixture.association is None else (
+            (f"Key relative volatility, lowest, with {mixture.association.acid} dimerising in the vapour [-]",
+             mixture.association.alpha_min),
+            (f"Key relative volatility, highest, with {mixture.association.acid} dimerising in the vapour [-]",
+             mixture.association.alpha_max))),
         ("Feed bubble point at top pressure [degC]", to_degC(mixture.feed_bubble_T)),
         ("Feed dew point at top pressure [degC]", to_degC(mixture.feed_dew_T)),
     ]
     for a in mixture.azeotropes:
         items += [(f"Azeotrope {a.first}/{a.second} ({a.kind}): mole fraction {a.first} [-]", a.x_first),
                   (f"Azeotrope {a.first}/{a.second} ({a.kind}): temperature [degC]", to_degC(a.T))]
+        if a.alpha_dimerised is not None:
+            items.append((f"Azeotrope {a.first}/{a.second}: relative volatility there with {a.dimerising} "
+                          "dimerising in the vapour [-]", a.alpha_dimerised))
     if not mixture.azeotropes:
         items.append(("Azeotropes", "none found between any pair at top pressure"))
     return quantity_table("Mixture", items)

@@ -55,10 +55,17 @@ def mixture_text(summary: MixtureSummary) -> str:
                 f"{100.0 * vapour.deviation:+.1f} %)")
         lines.append(f"Vapour taken as an ideal gas: key relative volatility at the feed's bubble point "
                      f"{vapour.alpha_ideal_gas:.4f} [-]; {real}")
+    association = summary.association
+    if association is not None:
+        lines.append(f"With {association.acid}'s dimerisation in the vapour (left out of the design): "
+                     f"{association.alpha_min:.3f} to {association.alpha_max:.3f} [-]")
     if summary.azeotropes:
         for a in summary.azeotropes:
+            artefact = ("" if not a.vapour_artefact else
+                        f" (with {a.dimerising}'s dimerisation in the vapour the pair's relative volatility "
+                        f"there is {a.alpha_dimerised:.3f} [-]: likely an azeotrope of the ideal-gas vapour only)")
             lines.append(f"Azeotrope ({a.kind}): {a.x_first:.4f} mole fraction {a.first} in {a.second} "
-                         f"at {to_degC(a.T):.2f} degC")
+                         f"at {to_degC(a.T):.2f} degC{artefact}")
     else:
         lines.append("Azeotropes: none found between any pair at top pressure")
     return "\n".join(lines)

@@ -180,14 +180,29 @@ def key_azeotrope_crossings(split: ProductSplit, z, azeotropes) -> tuple[str, ..
                 found.append(
                     f"{name} light-key fraction of the key pair {x:.6g} lies beyond the {az.kind} azeotrope "
                     f"of {az.first} and {az.second} at {az.x_first:.4g} ({az.T - 273.15:.1f} degC, "
-                    f"{az.pressure / 1e5:.4g} bar) while the feed has {z_key:.4g}")
+                    f"{az.pressure / 1e5:.4g} bar) while the feed has {z_key:.4g}{_artefact(az)}")
     return tuple(found)
+
+
+def _artefact(az) -> str:
+    """Where the azeotrope is one of the ideal-gas vapour (a dimerising acid), say so and what to give."""
+    if not az.vapour_artefact:
+        return ""
+    return (f" (an azeotrope of the ideal-gas vapour only: with {az.dimerising}'s dimerisation in the vapour, "
+            f"which disteco's activity-coefficient methods leave out, the pair's relative volatility there is "
+            f"{az.alpha_dimerised:.3f} [-], so the mixture likely has none)")
+
+
+# what to do about an azeotrope the method's vapour makes, said after the usual remedy
+ARTEFACT_REMEDY = ("; or give NRTL or Wilson parameters regressed from equilibrium data with an ideal-gas vapour, "
+                   "which carry the dimerisation into the liquid model")
 
 
 def check_binary_azeotropes(split: ProductSplit, z, azeotropes) -> None:
     """Raise when a product of a two-component feed lies across an azeotrope from the feed."""
     crossings = key_azeotrope_crossings(split, z, azeotropes)
     if crossings:
+        remedy = ARTEFACT_REMEDY if any(az.vapour_artefact for az in azeotropes) else ""
         raise InfeasibleSpecError(
             f"{crossings[0]}: ordinary distillation cannot cross an azeotrope; ask for a purity on the "
-            "feed's side of it")
+            f"feed's side of it{remedy}")

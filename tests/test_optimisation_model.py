@@ -12,7 +12,7 @@ import pytest
 from disteco._base.errors import InfeasibleSpecError, SolverError
 from disteco.optimisation.fitted_sizing import vapour_density
 from disteco.optimisation.model import build_column_model, initialise
-from disteco.optimisation.solve import attempts, run_solver, solve_configuration, solved_model
+from disteco.optimisation.solve import attempts, make_solver, run_solver, solve_configuration, solved_model
 from disteco.optimisation.start import start_profile
 from disteco.optimisation.options import model_options
 from disteco.sizing.flooding import required_tray_area
@@ -144,6 +144,18 @@ def test_both_barrier_strategies_reach_the_same_optimum(problem, basis, solved, 
                                                     "nlp_tolerance": None})
     assert pyo.value(tight.tac) == pytest.approx(pyo.value(model.tac), rel=1e-5)
     assert pyo.value(model.R) == pytest.approx(pyo.value(solved.R), rel=1e-4)
+
+
+def test_initial_barrier_leaves_the_optimum(problem, basis, solved):
+    """The solves start from a barrier parameter of 1e-4 (option ``initial_barrier``, ripopt's ``mu_init``);
+    the same configuration from the solver's own 0.1 reaches the same optimum (within the 1e-5 of the TAC
+    the tolerance allows)."""
+    assert model_options({}).initial_barrier == 1e-4
+    assert make_solver("ripopt", 10.0, 100, 1e-4, initial_barrier=1e-4).options["mu_init"] == 1e-4
+    assert "mu_init" not in make_solver("ripopt", 10.0, 100, 1e-4).options
+    own, _ = solved_model(problem, basis, 18, 9, {"max_stages": MAX, "initial_barrier": None})
+    assert pyo.value(own.tac) == pytest.approx(pyo.value(solved.tac), rel=1e-5)
+    assert pyo.value(own.R) == pytest.approx(pyo.value(solved.R), rel=1e-4)
 
 
 def test_distillate_without_a_bubble_point_is_refused_in_words(problem, monkeypatch):

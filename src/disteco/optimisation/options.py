@@ -181,6 +181,14 @@ def _options() -> Options:
             default=5.0, domain=SECONDS,
             description="wall-clock limit of one configuration's NLP [s]; a configuration that hits it counts as "
                         "infeasible (measured: feasible ones take 0.05-0.6 s)"),
+        "initial_barrier": Option(
+            default=1e-4, domain=lambda value: None if value is None else POSITIVE(value),
+            description="barrier parameter an interior-point solve starts from (its 'mu_init'); None: the solver's "
+                        "default (0.1). Every start is a converged profile or one built to be close to the "
+                        "column's, so a small barrier keeps the iterate near it. Measured with one worker, same "
+                        "optima: the configuration solves of the benzene example 7.5 -> 6.0 s, methanol-water "
+                        "8.2 -> 7.1 s, the styrene column 21.8 -> 18.9 s, ethanol-water and the depentaniser "
+                        "2 % faster, the deethaniser unchanged"),
         "nlp_tolerance": Option(
             default=1e-3, domain=lambda value: None if value is None else POSITIVE(value),
             description="overall convergence tolerance of an interior-point solve (its 'tol'; the violation of "

@@ -35,9 +35,9 @@ STOPPED = {TC.maxIterations: "iteration limit", TC.maxTimeLimit: "time limit",
 
 
 def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap: float,
-                barrier: str | None = None, tolerance: float | None = None):
-    """A Pyomo solver with the limits (and an interior-point ``barrier`` strategy and convergence
-    ``tolerance``) in its own option names."""
+                barrier: str | None = None, tolerance: float | None = None, initial_barrier: float | None = None):
+    """A Pyomo solver with the limits (and an interior-point ``barrier`` strategy, convergence
+    ``tolerance`` and ``initial_barrier`` parameter) in its own option names."""
     solver = pyo.SolverFactory(name)
     if not solver.available(exception_flag=False):
         raise SolverError(f"solver {name!r} is not available; the default 'ripopt' installs with pyomo-ripopt")
@@ -45,6 +45,8 @@ def make_solver(name: str, time_limit: float, max_iterations: int, relative_gap:
         solver.options["max_iter"] = max_iterations
         if tolerance is not None:
             solver.options["tol"] = tolerance
+        if initial_barrier is not None:
+            solver.options["mu_init"] = initial_barrier
         solver.options["max_wall_time" if name == "ripopt" else "max_cpu_time"] = max(time_limit, 1.0)
         if barrier:
             solver.options["mu_strategy"] = barrier
@@ -58,7 +60,7 @@ def _timed_solve(model, config, name: str, time_limit: float, failure: str, barr
                  iterations: int | None = None):
     """Solve without loading; return (results, wall time [s]); a solver crash becomes a SolverError."""
     solver = make_solver(name, time_limit, iterations or config.max_iterations, config.relative_gap, barrier,
-                         config.nlp_tolerance)
+                         config.nlp_tolerance, config.initial_barrier)
     start = time.perf_counter()
     try:
         results = solver.solve(model, tee=config.tee, load_solutions=False)

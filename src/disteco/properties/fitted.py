@@ -112,8 +112,12 @@ class FittedMixture:
 
     # ----------------------------------------------------------- caloric and physical
     def _poly(self, coeffs, T):
+        """sum c_k (T - T_low)^k in Horner's form: no powers, and the fewest terms in the model's expressions."""
         dT = T - self.T_low
-        return sum(c * dT ** k for k, c in enumerate(coeffs))
+        value = coeffs[-1]
+        for c in reversed(coeffs[:-1]):
+            value = c + dT * value
+        return value
 
     def liquid_enthalpy_of(self, T, x):
         """Liquid molar enthalpy [J/mol], ideal mixing of the fitted pure liquids."""

@@ -3,6 +3,9 @@
 from __future__ import annotations
 
 import io
+import os
+import threading
+import time
 
 import pytest
 
@@ -84,3 +87,31 @@ def test_bar_in_a_terminal_counts_down_and_reaches_its_total():
         assert display._bar.n == 4
     shown = stream.getvalue()
     assert "4/4 steps" in shown and "searching" in shown and "|" in shown
+
+
+@pytest.mark.skipif(not hasattr(os, "fork"), reason="the platform does not fork")
+def test_a_fork_waits_for_the_bars_redraw_and_leaves_its_lock_free():
+    """Worker and curve processes are forked while the bar's ticker thread redraws it: the fork holds
+    the bar's lock, so the child never starts with the lock (and the stream) held by a thread it does
+    not have; after the fork the lock is free in both processes."""
+    clock, stream = Clock(), io.StringIO()
+    with ProgressDisplay(stream, bar=True, clock=clock) as display:
+        display(ProgressStep("searching", 1, 4, 100.0))
+        redrawing = threading.Event()
+
+        def redraw():  # a redraw that holds the lock when the fork comes
+            with display._lock:
+                redrawing.set()
+                time.sleep(0.3)
+
+        painter = threading.Thread(target=redraw)
+        painter.start()
+        redrawing.wait()
+        pid = os.fork()
+        if pid == 0:  # the child: its copy of the lock must be free (without the guard it is held for ever)
+            os._exit(0 if display._lock.acquire(timeout=2.0) else 1)
+        _, status = os.waitpid(pid, 0)
+        assert os.waitstatus_to_exitcode(status) == 0
+        painter.join()
+        assert display._lock.acquire(timeout=2.0)
+        display._lock.release()

@@ -14,10 +14,12 @@ line per step otherwise (a log file, a pipe), as before.
 
 from __future__ import annotations
 
+import os
 import shutil
 import sys
 import threading
 import time
+import weakref
 from collections.abc import Callable
 from dataclasses import dataclass
 
@@ -115,6 +117,26 @@ class ProgressPlan:
         return left
 
 
+# Displays whose ticker thread may be writing: a fork (the solver's worker processes, the curve's
+# process) waits until none is, so no child starts with the stream's lock held by a thread it lacks.
+_LIVE_DISPLAYS: weakref.WeakSet = weakref.WeakSet()
+
+
+def _before_fork() -> None:
+    for display in list(_LIVE_DISPLAYS):
+        display._lock.acquire()
+
+
+def _after_fork() -> None:
+    for display in list(_LIVE_DISPLAYS):
+        if display._lock.locked():
+            display._lock.release()
+
+
+if hasattr(os, "register_at_fork"):
+    os.register_at_fork(before=_before_fork, after_in_parent=_after_fork, after_in_child=_after_fork)
+
+
 def _duration(seconds: float) -> str:
     seconds = round(seconds)
     return f"{seconds // 60} min {seconds % 60:02d} s" if seconds >= 60 else f"{seconds} s"
@@ -175,6 +197,7 @@ class ProgressDisplay:
                              desc=step.what, initial=step.done, postfix=self.left_text(), leave=True,
                              bar_format="{desc} |{bar}| {n_fmt}/{total_fmt} steps [{elapsed}{postfix}]")
             self._ticker = threading.Thread(target=self._tick, daemon=True)
+            _LIVE_DISPLAYS.add(self)
             self._ticker.start()
         self._bar.n = step.done
         self._bar.set_description_str(step.what, refresh=False)
@@ -193,6 +216,7 @@ class ProgressDisplay:
         self._stop.set()
         if self._ticker is not None:
             self._ticker.join()
+            _LIVE_DISPLAYS.discard(self)
         with self._lock:
             if self._bar is not None:
                 self._bar.close()

@@ -285,13 +285,10 @@ def test_curve_time_follows_the_optimisation():
     assert curve_time(searched(300.0), config) == 120.0
 
 
-def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
-    """With a time limit of a millisecond the curve adds to the search's own points (the optimum
-    among them) at most the one batch begun before the time ran out (a solve started with time left
-    gets the solver's least limit, 1 s; measured: none or one stage count), and a note says it was
-    cut."""
+@pytest.fixture(scope="module")
+def searched():
+    """The benzene example's mixture, feed, data, stages and search optimum (before the control margin)."""
     from disteco.api import cost_data_of, load_case, mixture_of
-    from disteco.optimisation.curves import reflux_curve
     from disteco.optimisation.design import optimise_design
     from disteco.properties import feed_state
     from disteco.sizing.options import sizing_options
@@ -301,7 +298,17 @@ def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
     mixture, data = mixture_of(case), cost_data_of(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     optimum = optimise_design(case, mixture, feed, data, None, sizing_options(case))
-    stages = design_stages(mixture, feed, case.products, case.column)
+    return case, mixture, feed, data, design_stages(mixture, feed, case.products, case.column), optimum
+
+
+def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points(searched):
+    """With a time limit of a millisecond the curve adds to the search's own points (the optimum
+    among them) at most the one batch begun before the time ran out (a solve started with time left
+    gets the solver's least limit, 1 s; measured: none or one stage count), and a note says it was
+    cut, also from the child process the curve runs in beside the checks."""
+    from disteco.optimisation.curves import reflux_curve, start_curve
+
+    case, mixture, feed, data, stages, optimum = searched
     notes = []
     curve = reflux_curve(case, mixture, feed, data, optimum, stages.table, {"time_limit": 1e-3},
                          optimum.sizing_options, notes=notes)
@@ -309,3 +316,40 @@ def test_a_curve_cut_by_its_time_says_so_and_keeps_the_search_points():
     assert len(drawn - solved) <= 1 and optimum.best.stages in drawn
     (note,) = notes
     assert note.startswith("the TAC-against-reflux curve was cut after 0 s") and "stage counts" in note
+    job = start_curve(case, mixture, feed, data, optimum, stages.table, {"time_limit": 1e-3, "workers": 2},
+                      optimum.sizing_options)
+    assert job.process is not None
+    forked = []
+    job.designs(forked)
+    (note,) = forked  # how many stage counts were found before the time ran out depends on the machine
+    assert note.startswith("the TAC-against-reflux curve was cut after 0 s") and "stage counts" in note
+
+
+def test_the_curve_beside_the_checks_equals_the_curve_in_place(searched):
+    """The curve drawn in a child process while the thermo checks run (two workers allowed) has the same
+    points as the curve drawn in place afterwards (one worker): same configurations, reflux ratios and
+    TACs to the last digit."""
+    from disteco.optimisation.curves import start_curve
+
+    case, mixture, feed, data, stages, optimum = searched
+    jobs = [start_curve(case, mixture, feed, data, optimum, stages.table, {"workers": workers},
+                        optimum.sizing_options) for workers in (1, 2)]
+    assert jobs[0].process is None and jobs[1].process is not None
+    in_place, beside = (job.designs() for job in jobs)
+    assert len(in_place) >= 8
+    assert [(d.stages, d.feed_stage, d.reflux_ratio, d.tac) for d in beside] == \
+        [(d.stages, d.feed_stage, d.reflux_ratio, d.tac) for d in in_place]
+
+
+def test_a_run_that_ends_early_stops_the_curves_process(searched):
+    """An error (or an interrupt) while the curve is drawn beside the checks stops its child process:
+    nothing is left running after the run."""
+    from disteco.optimisation.curves import start_curve
+
+    case, mixture, feed, data, stages, optimum = searched
+    with pytest.raises(RuntimeError, match="checks failed"):
+        with start_curve(case, mixture, feed, data, optimum, stages.table, {"workers": 2},
+                         optimum.sizing_options) as job:
+            child = job.process
+            raise RuntimeError("checks failed")
+    assert child.exitcode is not None and not child.is_alive()

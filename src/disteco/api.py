@@ -184,7 +184,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     :func:`priced_cost_data`); ``compare``: with ``given``, also find the optimum under the same
     prices to compare with.
     """
-    from .optimisation.curves import reflux_curve
+    from .optimisation.curves import start_curve
     from .optimisation.design import evaluate_design, optimise_design
     from .optimisation.margin import hold_margin
     from .optimisation.thermo_checks import thermo_checks
@@ -233,28 +233,30 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
         plan.finish(optimum.solver.configurations_solved)
-        plan.start(f"checking the '{name}' optimum on thermo" + (" (with minimum reflux and fit)" if k == 0 else ""))
         chosen = optimum.sizing_options or sizing  # the tray spacing and shells the optimiser chose
-        checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name, full=k == 0,
-                               fitted=optimum.problem.fitted if optimum.problem else None)
-        minimum = checks.minimum if k == 0 else minimum
-        optimum, margin = hold_margin(case, mixture, feed, data, optimum, checks.reflux_ratio,
-                                      minimum.reflux_ratio if minimum else None, options, sizing, name)
-        if margin.binds:  # the reported design's own checks, its minimum reflux on its own pressures
-            chosen = optimum.sizing_options or sizing
+        # the curve around the economic optimum (which the margin's floor lies to the right of), drawn
+        # meanwhile where a second core is free: nothing below changes it
+        with start_curve(case, mixture, feed, data, optimum, stages.table, options, chosen, name) as curve:
+            plan.start(f"checking the '{name}' optimum on thermo"
+                       + (" (with minimum reflux and fit)" if k == 0 else ""))
             checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
-                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
-                                   minimum_near=minimum.reflux_ratio if minimum else None,
-                                   reflux_floor=margin.reflux_floor)
-        plan.finish()
-        optima.append((name, optimum))
-        checked.append((name, checks))
-        margins.append((name, margin))
-        plan.start(f"TAC against reflux ratio under '{name}'")
-        # the curve around the economic optimum, which the margin's floor lies to the right of
-        curves.append((name, reflux_curve(case, mixture, feed, data, margin.unconstrained or optimum, stages.table,
-                                          options, chosen, name, notes=curve_notes)))
-        plan.finish()
+                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
+            minimum = checks.minimum if k == 0 else minimum
+            optimum, margin = hold_margin(case, mixture, feed, data, optimum, checks.reflux_ratio,
+                                          minimum.reflux_ratio if minimum else None, options, sizing, name)
+            if margin.binds:  # the reported design's own checks, its minimum reflux on its own pressures
+                chosen = optimum.sizing_options or sizing
+                checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
+                                       full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
+                                       minimum_near=minimum.reflux_ratio if minimum else None,
+                                       reflux_floor=margin.reflux_floor)
+            plan.finish()
+            optima.append((name, optimum))
+            checked.append((name, checks))
+            margins.append((name, margin))
+            plan.start(f"TAC against reflux ratio under '{name}'")
+            curves.append((name, curve.designs(curve_notes)))
+            plan.finish()
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
     plan.end()
     best = optima[0][1]

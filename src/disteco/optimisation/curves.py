@@ -14,9 +14,11 @@ curve passes through the optimum.
 from __future__ import annotations
 
 import math
+import multiprocessing
+import pickle
 import time
-from collections.abc import Sequence
-from dataclasses import replace
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, replace
 
 from ..case import Case
 from ..costing.data import CostData
@@ -26,7 +28,7 @@ from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
-from .search import Evaluator, worker_pool
+from .search import Evaluator, usable_cores, worker_pool
 from .start import shortcut, stage_floor
 
 CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows: the largest ends the curve
@@ -92,6 +94,119 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
                              f"{allowed:.0f} s (the optimisation's own time, at least {CURVE_TIME_FLOOR:g} s): it "
                              f"shows {len({n for n, _ in evaluator.evaluations})} stage counts around the optimum")
     return along_reflux(evaluator.evaluations.values())
+
+
+# The curve waiting in a forked process to be computed there: set just before the fork, so the child
+# finds it in its copy of this module and nothing (the mixture with thermo's objects) is pickled.
+_PENDING: dict[str, Callable[[], tuple]] = {}
+CHILD_GRACE = 5.0  # s a cancelled curve's process gets to unwind before it is killed
+
+
+@dataclass
+class CurveJob:
+    """A TAC-against-reflux curve computed beside the work that follows the search.
+
+    The curve is drawn around the search's optimum and reads nothing the thermo checks or the
+    control margin's second search produce, so where the platform forks and the machine has more
+    than one core (the options allowing more than one worker) it runs in a child process meanwhile
+    (:func:`start_curve`); else in place when :meth:`designs` asks for it. Used as a context
+    manager: leaving the block early (an error, an interrupt) stops the child.
+    """
+
+    run: Callable[[], tuple]  # () -> (designs, notes, new mixture notes)
+    mixture: Mixture
+    process: multiprocessing.Process | None = None
+    reader: object | None = None  # the pipe's end the child's result comes through
+
+    def designs(self, notes: list[str] | None = None) -> tuple[DesignEvaluation, ...]:
+        """The curve's designs; its notes appended to ``notes`` and the mixture notes it added
+        (in the child) recorded on the mixture."""
+        outcome = None
+        if self.process is not None:
+            try:
+                outcome = self.reader.recv()
+            except (EOFError, OSError, pickle.UnpicklingError):  # the child died or sent what cannot be read
+                outcome = None
+            finally:
+                self.cancel()
+        if outcome is None:  # in place: also what reproduces a failure of the child in this process
+            designs, found, _ = self.run()
+            mixture_notes = ()  # noted on the mixture here
+        else:
+            designs, found, mixture_notes = outcome
+        for text in mixture_notes:
+            if text not in self.mixture.warnings:
+                self.mixture.note(text, text)
+        if notes is not None:
+            notes.extend(found)
+        return designs
+
+    def cancel(self) -> None:
+        """Stop the child (if any) and wait for it to go."""
+        if self.process is None:
+            return
+        if self.process.is_alive():
+            self.process.terminate()  # the run's own SIGTERM handling: the child unwinds
+            self.process.join(CHILD_GRACE)
+            if self.process.is_alive():
+                self.process.kill()
+        self.process.join()
+        self.reader.close()
+        self.process = None
+
+    def __enter__(self) -> CurveJob:
+        return self
+
+    def __exit__(self, *exc) -> None:
+        self.cancel()
+
+
+def _curve_with_notes(mixture: Mixture, *args, **kwargs) -> tuple:
+    before = set(mixture.warnings)
+    notes: list[str] = []
+    designs = reflux_curve(*args, notes=notes, **kwargs)
+    return designs, notes, tuple(w for w in mixture.warnings if w not in before)
+
+
+def _curve_child(key: str, writer) -> None:
+    """The child's work: the pending curve, sent back whole; nothing on a failure (the parent then
+    draws the curve itself and meets the failure in its own process)."""
+    try:
+        writer.send(_PENDING.pop(key)())
+    except BaseException:  # noqa: BLE001 - reported by the parent's own run
+        pass
+    finally:
+        writer.close()
+
+
+def start_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,
+                table: Sequence[ShortcutPoint], options=None, sizing: SizingOptions = SizingOptions(),
+                scenario: str | None = None) -> CurveJob:
+    """Start :func:`reflux_curve` of ``optimum`` beside the caller's next work (see :class:`CurveJob`).
+
+    Measured on 2 cores, the same curves and TACs either way (DEVELOPERS.md, Speed): the benzene
+    example's work after the search 2.64 -> 2.01 s and 3.51 -> 2.32 s (two pairs of runs), the
+    depentaniser's 13.2 -> 10.0 s.
+    """
+    def run() -> tuple:
+        return _curve_with_notes(mixture, case, mixture, feed, data, optimum, table, options, sizing, scenario)
+
+    config = model_options(options)
+    # the machine's cores, not its load: the load average still counts the search just finished
+    workers = config.workers if config.workers is not None else usable_cores()
+    if workers <= 1 or "fork" not in multiprocessing.get_all_start_methods():
+        return CurveJob(run, mixture)
+    context = multiprocessing.get_context("fork")
+    key = f"{scenario}:{id(optimum)}"
+    reader, writer = context.Pipe(duplex=False)
+    _PENDING[key] = run
+    try:
+        process = context.Process(target=_curve_child, args=(key, writer), name="disteco-curve")
+        process.start()
+    finally:
+        _PENDING.pop(key, None)  # the child has its own copy
+        writer.close()
+    return CurveJob(run, mixture, process, reader)
 
 
 def curve_time(optimum: OptimumDesign, config) -> float:

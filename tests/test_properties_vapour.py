@@ -39,11 +39,16 @@ def _thermo_pr_alpha(names, P, z):
     (("n-pentane", "n-hexane"), 2.5e5, "peng-robinson"),
     (("methanol", "water"), 5e5, "unifac-dortmund"),   # polar: activity coefficients up to 10 bar
     (("methanol", "water"), 12e5, "peng-robinson"),
+    (("nitrogen", "oxygen"), 1.3e5, "ideal"),   # hetero-atoms but no dipole: no UNIFAC groups either
+    (("carbon dioxide", "propane"), 5e5, "peng-robinson"),
+    (("thiophene", "benzene"), 1e5, "unifac-dortmund"),  # thiophene 0.55 D stays polar
 ])
 def test_automatic_method(names, pressure, method):
     """Peng-Robinson above 10 bar; UNIFAC (Dortmund) for a polar mixture below it; Peng-Robinson
     for a non-polar mixture above 2 bar, where Raoult's law's ideal-gas vapour is the larger error
-    (the line is measured, see choose_method), Raoult's law below."""
+    (the line is measured, see choose_method), Raoult's law below. A molecule with hetero-atoms
+    whose dipole moment in the databank is below 0.5 D counts as non-polar (nitrogen 0, oxygen 0,
+    carbon dioxide 0 D: the databank's values, chemicals.dipole)."""
     assert choose_method(resolve_components(names), pressure) == method
 
 

@@ -12,6 +12,10 @@ from .._base.errors import CaseError
 from .data_cache import keep_name, kept_name
 
 POLAR_ELEMENTS = frozenset({"O", "N", "S", "F", "Cl", "Br", "I", "P"})
+# debye; below it a molecule with hetero-atoms counts as non-polar for the method's choice (carbon
+# monoxide 0.11, nitrous oxide 0.17; toluene, a hydrocarbon, 0.33; thiophene 0.55 stays polar).
+# Common practice, no source.
+NONPOLAR_DIPOLE = 0.5
 OBSOLETE = "(obs.)"  # how the databank marks an obsolete synonym
 
 
@@ -26,8 +30,22 @@ class ComponentId:
 
     @property
     def is_polar(self) -> bool:
-        """True when the formula holds a hetero-atom (O, N, S, halogen, P)."""
-        return any(element in POLAR_ELEMENTS for element in _elements(self.formula))
+        """True when the formula holds a hetero-atom (O, N, S, halogen, P), unless the databank gives the
+        molecule a dipole moment below :data:`NONPOLAR_DIPOLE` (nitrogen, oxygen, carbon dioxide, carbon
+        tetrachloride: no groups in UNIFAC and no reason for an activity model)."""
+        if not any(element in POLAR_ELEMENTS for element in _elements(self.formula)):
+            return False
+        dipole = _dipole_moment(self.cas)
+        return dipole is None or dipole >= NONPOLAR_DIPOLE
+
+
+@lru_cache(maxsize=None)
+def _dipole_moment(cas: str) -> float | None:
+    """The databank's dipole moment [debye], None where it has none."""
+    from chemicals.dipole import dipole_moment
+
+    value = dipole_moment(cas)
+    return None if value is None else float(value)
 
 
 def _elements(formula: str) -> set[str]:

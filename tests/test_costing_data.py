@@ -26,10 +26,10 @@ FINGERPRINT = {
     "vessel_pressure_factor.csv": (2, ("pressure_group",)),
     "tray_quantity_factor.csv": (1, ("c1",)),
     "cost_index.csv": (23, ("year",)),
-    "heat_transfer_coefficients.csv": (10, ("service", "process_side", "utility_kind")),
-    "utility_levels.csv": (8, ("name",)),
+    "heat_transfer_coefficients.csv": (11, ("service", "process_side", "utility_kind")),
+    "utility_levels.csv": (9, ("name",)),
     "scenarios.csv": (3, ("scenario",)),
-    "utility_prices.csv": (27, ("scenario", "utility")),
+    "utility_prices.csv": (30, ("scenario", "utility")),
     "utility_price_index.csv": (46, ("index_name", "year")),
 }
 
@@ -116,7 +116,7 @@ MALFORMED = [
     ("purchased_cost_correlations.csv", ",k3,", ",k_three,",
      r"purchased_cost_correlations.csv, row 1, column 'k3': missing column"),
     ("utility_prices.csv", "reference,mp_steam,14.19,", "reference,mp_steam,-14.19,",
-     r"utility_prices.csv, row 7, column 'price': -14.19 is negative"),
+     r"utility_prices.csv, row 8, column 'price': -14.19 is negative"),
     ("material_factors.csv", "process_vessel,SS,3.12,", "process_vessel,SS,three,",
      r"material_factors.csv, row 5, column 'material_factor': 'three' is not a number"),
     ("purchased_cost_correlations.csv", "area,m2,10,100,", "area,m2,100,10,",
@@ -132,7 +132,7 @@ MALFORMED = [
     ("annualisation.toml", 'method = "capital_recovery"\n', 'method = "annuity"\n',
      r"annualisation.toml, column 'method': 'annuity' is not one of"),
     ("utility_levels.csv", "lp_steam,heating,steam,158.9,158.9,2086,", "lp_steam,heating,steam,158.9,158.9,,",
-     r"utility_levels.csv, row 6, column 'latent_heat_kJ_per_kg': steam needs its latent heat"),
+     r"utility_levels.csv, row 7, column 'latent_heat_kJ_per_kg': steam needs its latent heat"),
 ]
 
 

@@ -80,7 +80,7 @@ def test_unknown_price_index_names_file_row_and_column(folder):
     path = folder / "utility_prices.csv"
     path.write_text(path.read_text(encoding="utf-8").replace(",2006,industrial_natural_gas,", ",2006,gas,", 1),
                     encoding="utf-8")
-    with pytest.raises(CostDataError, match=r"utility_prices.csv, row 6, column 'price_index': 'gas' is not one of"):
+    with pytest.raises(CostDataError, match=r"utility_prices.csv, row 7, column 'price_index': 'gas' is not one of"):
         load_cost_data(folder)
 
 

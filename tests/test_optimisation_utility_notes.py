@@ -101,6 +101,18 @@ def test_no_note_when_the_cheapest_levels_fit(benzene_toluene):
     assert _notes(benzene_toluene, profile, sized) == ()
 
 
+def test_no_note_where_no_pressure_frees_the_exchanger(benzene_toluene):
+    """Cooling water as a reboiler's heat source (30 -> 20 degC, offered for reboilers below ambient) is
+    the next cheaper level of a steam-heated benzene-toluene reboiler near 110 degC at 1 bar, which no
+    column pressure above 0.5 kPa brings below 10 degC: no note."""
+    warm = UtilityLevel("warm_water", "heating", "warm_water", C + 30, C + 20, heat_capacity=4180.0)
+    levels = LEVELS + (warm,)
+    profile = make_profile(benzene_toluene)
+    sized = size_column(profile, benzene_toluene, levels, 850.0, 1000.0, SizingOptions())
+    assert sized.reboiler.utility.name == "lp_steam"
+    assert _notes(benzene_toluene, profile, sized, levels) == ()
+
+
 def test_no_pressure_found_is_said(benzene_toluene, vacuum):
     """A shift no pressure within the bracket reaches (500 K warmer) is reported, not invented."""
     profile, _ = vacuum

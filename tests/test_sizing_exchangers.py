@@ -130,3 +130,16 @@ def test_size_condenser():
 def test_bad_coefficient_names_field():
     with pytest.raises(CaseError, match="sizing.U_reboiler"):
         size_exchanger("reboiler", "heating", 1.0e6, C + 100, C + 102, LEVELS, 0.0, 10.0, 8000.0)
+
+
+@pytest.mark.parametrize("process, expected", [(-8.0, "warm_water"), (10.0, "warm_water"), (12.0, "lp_steam"),
+                                               (110.0, "lp_steam")])
+def test_a_reboiler_below_ambient_takes_the_bundled_warm_water(process, expected):
+    """With the bundled levels, a reboiler boiling below ambient (an ethylene/ethane splitter's near
+    -8 degC at 19 bar) is heated by cooling water from its supply header (30 -> 20 degC), not by steam;
+    warm water keeps the 10 K approach up to a process side at 10 degC (its return end)."""
+    from disteco.costing import load_cost_data
+
+    levels = load_cost_data().levels
+    level = choose_utility(levels, "heating", C + process - 0.5, C + process, 10.0, "reboiler")
+    assert level.name == expected

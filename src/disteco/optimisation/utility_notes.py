@@ -9,7 +9,9 @@ own saturation temperature (thermo's bubble point of the liquid distillate or th
 dew point of a vapour distillate) has moved that far, and the level the other exchanger would
 then take, its temperatures moved by its product's saturation temperature at the same pressure
 change. The relative volatility moves with the pressure, so the note asks for a second design
-at that pressure rather than claiming it is cheaper.
+at that pressure rather than claiming it is cheaper. Where no pressure within
+``PRESSURE_STEP ** PRESSURE_STEPS`` of the column's (and above :data:`LOWEST_PRESSURE`) frees the
+exchanger, there is nothing to try and no note.
 """
 
 from __future__ import annotations
@@ -115,8 +117,9 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
                f"{abs(shift):.1f} K {word} than now ({_c(exchanger.process_in)} -> {_c(exchanger.process_out)} "
                f"degC) for the {min_approach:g} K approach")
     if here is None:
-        return (f"{opening}; no column pressure within {PRESSURE_STEP ** PRESSURE_STEPS:.0f} x of today's "
-                f"(and above {LOWEST_PRESSURE / 1e3:g} kPa) gets it there on thermo's saturation temperatures")
+        # no practical pressure gets there: nothing to try (cooling water as the heat source of a reboiler
+        # near 120 degC, 112 K too hot for it, would otherwise be noted on every steam-heated column)
+        return None
     change = here - (top if service == "cooling" else bottom)
     new_top = top + change
     if new_top < LOWEST_PRESSURE:

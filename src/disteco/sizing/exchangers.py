@@ -16,7 +16,7 @@ from .._base.units import HOUR
 from .utilities import UtilityLevel
 
 UTILITY_KINDS = {"cooling": ("cooling_water", "chilled_water", "refrigerant"),
-                 "heating": ("steam", "hot_oil")}
+                 "heating": ("warm_water", "steam", "hot_oil")}
 
 
 def log_mean_temperature_difference(hot_in, hot_out, cold_in, cold_out):

@@ -10,10 +10,11 @@ class UtilityLevel:
     """One utility level.
 
     ``service`` is "cooling" or "heating". ``kind`` is one of "cooling_water",
-    "chilled_water", "refrigerant", "steam", "hot_oil", "electricity".
+    "chilled_water", "refrigerant", "steam", "hot_oil", "warm_water" (cooling water used to
+    heat a reboiler below ambient), "electricity".
     Condensing steam and evaporating refrigerant have supply = return temperature and a
-    latent heat; cooling water, chilled water and hot oil heat or cool sensibly with a
-    heat capacity.
+    latent heat; cooling water, chilled water, warm water and hot oil heat or cool sensibly
+    with a heat capacity.
     """
 
     name: str  # e.g. "low-pressure steam"

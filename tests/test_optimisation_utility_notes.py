@@ -118,3 +118,18 @@ def test_no_pressure_found_is_said(benzene_toluene, vacuum):
     profile, _ = vacuum
     xd = profile.distillate_composition
     assert pressure_for(lambda P: benzene_toluene.bubble_point(P, xd).T, profile.P[0], 500.0) is None
+
+
+def test_no_note_where_the_other_exchanger_would_have_no_level(benzene_toluene):
+    """At 3 bar the reboiler takes mp_steam; lp_steam would need the column near 1.7 bar, where the top
+    (about 100 degC) is too cold for the only cooling level offered here, a tempered-water loop at
+    90 -> 100 degC (invented): no column to try, so no note."""
+    tempered = UtilityLevel("tempered_water", "cooling", "cooling_water", C + 90, C + 100, heat_capacity=4200.0)
+    levels = (tempered,) + LEVELS[2:]
+    profile = make_profile(benzene_toluene, top=3e5)
+    sized = size_column(profile, benzene_toluene, levels, 850.0, 1000.0)
+    assert (sized.condenser.utility.name, sized.reboiler.utility.name) == ("tempered_water", "mp_steam")
+    assert _notes(benzene_toluene, profile, sized, levels) == ()
+    # the same column with cooling water offered too gets its note (the condenser would take it)
+    [note] = _notes(benzene_toluene, profile, sized, LEVELS)
+    assert note.startswith("reboiler on mp_steam: lp_steam") and "condenser would then take cooling_water" in note

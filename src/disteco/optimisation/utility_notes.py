@@ -11,7 +11,8 @@ then take, its temperatures moved by its product's saturation temperature at the
 change. The relative volatility moves with the pressure, so the note asks for a second design
 at that pressure rather than claiming it is cheaper. Where no pressure within
 ``PRESSURE_STEP ** PRESSURE_STEPS`` of the column's (and above :data:`LOWEST_PRESSURE`) frees the
-exchanger, there is nothing to try and no note.
+exchanger, or where the other exchanger would then have no level offered, there is nothing to
+try and no note.
 """
 
 from __future__ import annotations
@@ -128,21 +129,25 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
     other_service = "heating" if service == "cooling" else "cooling"
     then = _level_then(other, other_service, other_exchanger, bottom if service == "cooling" else top, change,
                        levels, min_approach)
+    if then is None:
+        # the other exchanger would have no level there: not a column to try (a 30-bar CO2/ethane column's
+        # reboiler on warm water at about 7.8 bar, where nothing offered condenses its top)
+        return None
     return (f"{opening}, which a top pressure of about {_kpa(new_top)} gives (now {_kpa(top)}); "
             f"the {other_exchanger.name} would then take {then}. The relative volatility moves with the pressure: "
             "design the case again at that top pressure to compare")
 
 
 def _level_then(saturation, service: str, exchanger, pressure: float, change: float, levels,
-                min_approach: float) -> str:
-    """The level the other exchanger would take with its column end ``change`` [Pa] away."""
+                min_approach: float) -> str | None:
+    """The level the other exchanger would take with its column end ``change`` [Pa] away; None where no
+    level offered would fit it."""
     try:
         moved = saturation(pressure + change) - saturation(pressure)
         level = choose_utility(levels, service, exchanger.process_in + moved, exchanger.process_out + moved,
                                min_approach, exchanger.name)
     except InfeasibleSpecError:
-        kind = "cold" if service == "cooling" else "hot"
-        return f"no {service} level offered (none {kind} enough)"
+        return None
     except (DistecoError, ArithmeticError, ValueError):
         return "a level not found here (thermo's saturation temperature failed at that pressure)"
     return f"{level.name} ({_c(exchanger.process_in + moved)} -> {_c(exchanger.process_out + moved)} degC)"

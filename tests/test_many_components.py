@@ -4,7 +4,8 @@ bench/bench_twenty_components.py).
 
 Isopentane boils between the keys (n-butane, n-pentane) and distributes; eleven components
 are traces at the top and three at the bottom. Also a six-component debutaniser with a partial
-condenser (tests/cases/debutaniser_partial.toml).
+condenser (tests/cases/debutaniser_partial.toml) and a seven-component condensate stabiliser with
+light ends over a partial condenser (tests/cases/stabiliser_partial.toml).
 """
 
 from pathlib import Path
@@ -100,3 +101,33 @@ def test_partial_condenser_of_six_components_solves_at_the_first_try(stages, fee
     assert model.D.value * model.yD[lk].value >= 0.99 * F * z[lk] * (1 - 1e-6)
     assert model.L[stages].value * model.x[stages, hk].value >= 0.99 * F * z[hk] * (1 - 1e-6)
     assert model.V[1].value == pytest.approx((model.R.value + 1.0) * model.D.value, rel=1e-6)  # implied, not stated
+
+
+STABILISER = Path(__file__).parent / "cases" / "stabiliser_partial.toml"
+
+
+def test_a_stabilisers_partial_condenser_start_stays_on_the_fitted_forms(capsys):
+    """A condensate stabiliser (methane to n-heptane, partial condenser at 12 bar): the start profile's
+    condenser split takes its K-values at the top stage's liquid. Iterated at the reflux itself they
+    ran away (methane's fitted K 0.007 at 48 degC), the first column had no bubble point and design
+    exited 1; then, with the bracket widened, a reference profile with 78 % methane in a liquid at
+    80 degC was refused as near-critical. Now check finds the first column's utilities (the condenser
+    on cooling water) and the reference settles with the top stage's liquid mostly n-butane and
+    n-pentane, the condenser colder than the top stage."""
+    from disteco.api import cost_data_of
+    from disteco.cli import main
+    from disteco.optimisation.design import resolved_problem, settled_reference
+    from disteco.sizing.options import sizing_options
+
+    assert main(["check", str(STABILISER)]) == 0
+    out = capsys.readouterr().out
+    assert "condenser" in out and "on cooling_water" in out and "Utilities of the search's first column" in out
+    case = load_case(STABILISER)
+    mixture = mixture_of(case)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    config = model_options(None)
+    resolved_problem(case, mixture, feed, config)  # sets the stage bound
+    _, reference = settled_reference(case, mixture, feed, cost_data_of(case), sizing_options(case), config)
+    top = np.array(reference.x[0])
+    assert top[0] < 0.01 and top[3] + top[4] > 0.8  # methane a trace, n-butane and n-pentane the bulk
+    assert reference.condenser_temperature < reference.T[0]

@@ -365,7 +365,7 @@ def initialise(m, start: Profile) -> None:
             m.x[j, i].set_value(_inside(float(start.x[k, i]), m.x[j, i]))
             m.y[j, i].set_value(_inside(float(start.y[k, i]), m.y[j, i]))
     if m.problem.partial_condenser:
-        T_d, x_d, y_d = partial_condenser_split(m.problem, start.y[0], start.reflux_ratio)
+        T_d, x_d, y_d = partial_condenser_split(m.problem, start.y[0], start.reflux_ratio, start.x[0])
         for i in m.C:
             m.xD[i].set_value(_inside(float(x_d[i]), m.xD[i]))
             m.yD[i].set_value(_inside(float(y_d[i]), m.yD[i]))

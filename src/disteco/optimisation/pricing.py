@@ -47,8 +47,8 @@ def total_condensate_temperature(problem: SeparationProblem, y) -> float:
                           if y[i] > 1e-3)
         raise InfeasibleSpecError(
             f"the distillate (largest fractions: {light}) cannot be condensed totally at the top pressure of "
-            f"{problem.top_pressure / 1e3:.4g} kPa (no bubble point between {f.T_low - 50.0:.0f} and "
-            f"{f.T_high + 50.0:.0f} K on the column's fitted forms); use "
+            f"{problem.top_pressure / 1e3:.4g} kPa (no bubble point between {f.search_range[0]:.0f} and "
+            f"{f.search_range[1]:.0f} K on the column's fitted forms); use "
             "column.condenser = \"partial\" or a higher column.top_pressure") from None
 
 
@@ -58,7 +58,7 @@ def stage_profile(problem: SeparationProblem, profile: Profile, feed_stage: int)
     N = len(profile.T)
     R, D = profile.reflux_ratio, profile.distillate_flow
     if problem.partial_condenser:
-        T_d, x_d, y_d = partial_condenser_split(problem, profile.y[0], R)
+        T_d, x_d, y_d = partial_condenser_split(problem, profile.y[0], R, profile.x[0])
         h_reflux, h_distillate = f.liquid_enthalpy_of(T_d, x_d), f.vapour_enthalpy_of(T_d, y_d)
     else:
         T_d, y_d = total_condensate_temperature(problem, profile.y[0]) - problem.subcooling, profile.y[0]

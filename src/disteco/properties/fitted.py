@@ -32,6 +32,7 @@ from .mixture import Mixture
 NRTL_ALPHA = 0.3  # non-randomness the pair fits start from (common practice, no source)
 NRTL_ALPHA_BOUNDS = (0.05, 1.0)  # a free alpha stays within these [-] (the case's NRTL range is 0 to 1)
 RANGE_MARGIN = 5.0  # K added at both ends of the column range
+SEARCH_MARGIN = 50.0  # K beyond the fitted range that root searches on the forms may go
 T_POINTS = 12
 DISSOLVED = 0.01  # mole fraction of a component whose pure liquid does not exist, in the heaviest liquid
 K_SAMPLES = 24  # random liquids for the Peng-Robinson K fit, beside the feed and the near-pure ends
@@ -98,6 +99,12 @@ class FittedMixture:
         """K_i [-] as floats."""
         return np.exp(np.array(self.ln_k(T, P, list(x)), dtype=float))
 
+    @property
+    def search_range(self) -> tuple[float, float]:
+        """Temperatures [K] root searches on the fitted forms look within: the fitted range and
+        :data:`SEARCH_MARGIN` beyond it either side (the forms extrapolate smoothly that far)."""
+        return self.T_low - SEARCH_MARGIN, self.T_high + SEARCH_MARGIN
+
     def bubble_temperature(self, P: float, x) -> float:
         """Bubble temperature [K] of liquid ``x`` at ``P`` [Pa] from the fitted forms."""
         x = list(x)
@@ -105,7 +112,7 @@ class FittedMixture:
         def residual(T):
             return math.log(float(np.dot(self.k_values(T, P, x), x)))
 
-        low, high = self.T_low - 50.0, self.T_high + 50.0
+        low, high = self.search_range
         if residual(low) * residual(high) > 0.0:
             raise PropertyError(f"fitted forms give no bubble point for x={np.round(x, 6).tolist()} at {P:.6g} Pa")
         return brentq(residual, low, high, xtol=1e-9)

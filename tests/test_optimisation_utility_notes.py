@@ -133,3 +133,16 @@ def test_no_note_where_the_other_exchanger_would_have_no_level(benzene_toluene):
     # the same column with cooling water offered too gets its note (the condenser would take it)
     [note] = _notes(benzene_toluene, profile, sized, LEVELS)
     assert note.startswith("reboiler on mp_steam: lp_steam") and "condenser would then take cooling_water" in note
+
+
+def test_no_reboiler_note_below_the_columns_own_pressure_drop(benzene_toluene, vacuum):
+    """At 20 kPa the toluene bottoms boil near 65 degC on lp_steam; warm water would need them near
+    10 degC, a bottom pressure of a few kPa, below what the column's own pressure drop allows: no
+    reboiler note, while the condenser's note (cooling water at a higher top pressure) stays."""
+    warm = UtilityLevel("warm_water", "heating", "warm_water", C + 30, C + 20, heat_capacity=4180.0)
+    levels = LEVELS + (warm,)
+    profile, _ = vacuum
+    sized = size_column(profile, benzene_toluene, levels, 850.0, 1000.0)
+    assert sized.reboiler.utility.name == "lp_steam"
+    notes = _notes(benzene_toluene, profile, sized, levels)
+    assert [n.split(":")[0] for n in notes] == ["condenser on chilled_water"]

@@ -11,8 +11,8 @@ then take, its temperatures moved by its product's saturation temperature at the
 change. The relative volatility moves with the pressure, so the note asks for a second design
 at that pressure rather than claiming it is cheaper. Where no pressure within
 ``PRESSURE_STEP ** PRESSURE_STEPS`` of the column's (and above :data:`LOWEST_PRESSURE`) frees the
-exchanger, or where the other exchanger would then have no level offered, there is nothing to
-try and no note.
+exchanger, where the bottom pressure it needs is below the column's own pressure drop, or where
+the other exchanger would then have no level offered, there is no top pressure to try and no note.
 """
 
 from __future__ import annotations
@@ -124,8 +124,9 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
     change = here - (top if service == "cooling" else bottom)
     new_top = top + change
     if new_top < LOWEST_PRESSURE:
-        return (f"{opening}, which a bottom pressure of about {_kpa(here)} would give: less than the column's own "
-                f"pressure drop ({_kpa(bottom - top)}) allows")
+        # the bottom pressure it needs is below the column's own pressure drop: no top pressure to try
+        # (a chloroform column's reboiler near 70 degC on warm water, 59 K cooler, at about 14 kPa)
+        return None
     other_service = "heating" if service == "cooling" else "cooling"
     then = _level_then(other, other_service, other_exchanger, bottom if service == "cooling" else top, change,
                        levels, min_approach)

@@ -86,7 +86,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     `check` prints; a design gives them for the design it reports).
     """
     from .costing.from_sizing import check_tray_material
-    from .optimisation.pricing import reference_profile
+    from .optimisation.pricing import check_capacity, reference_profile, size_reference
     from .optimisation.problem import remember_column_profile, resolved_problem
     from .optimisation.utility_notes import utility_level_notes
     from .sizing.exchangers import profile_utilities
@@ -127,6 +127,9 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     except (ConvergenceError, PropertyError):
         reference, ends, notes = None, (), ()  # design's own start then says what failed, in its words
     else:
+        keyed = replace(sizing_options(case), light_key=problem.light_key, heavy_key=problem.heavy_key)
+        check_capacity(reference, size_reference(mixture, data, reference, keyed),
+                       given.reflux_ratio if given else estimate.minimum_reflux)
         ends = profile_utilities(reference, data.levels, min_approach)
         notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach) if utility_notes else ()
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,

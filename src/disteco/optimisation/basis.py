@@ -18,6 +18,10 @@ from ..properties.fitted import FittedMixture
 from ..sizing.efficiency import real_trays
 
 
+# m; the largest shell diameter the model allows (common practice, no source: trayed columns much wider are
+# rare, and their trays need multiple passes the sizing layer does not model)
+DIAMETER_MAX = 12.0
+
 @dataclass(frozen=True)
 class SeparationProblem:
     """One column's process specification, SI units.
@@ -104,7 +108,7 @@ class TrayBasis:
     system_factor: float = 1.0  # [-]
     downcomer_fraction: float | None = None  # [-] of the cross-section; None: rule from the flow parameter
     diameter_min: float = 0.3  # m
-    diameter_max: float = 12.0  # m
+    diameter_max: float = DIAMETER_MAX  # m
     shells: int = 1  # shells in series, trays split evenly between them
     max_height_to_diameter: float = math.inf  # [-] of a shell's tangent length over the diameter
 

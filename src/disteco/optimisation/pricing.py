@@ -15,6 +15,7 @@ design, so the reported breakdown is the one the rest of disteco produces.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
 
 from .._base.errors import InfeasibleSpecError, PropertyError
@@ -28,9 +29,13 @@ from ..sizing.exchangers import OverallCoefficient, profile_utilities
 from ..sizing.options import SizingOptions
 from ..sizing.utilities import UtilityLevel
 from ..stages.results import StageProfile
-from .basis import CondensateBasis, CostBasis, ExchangerBasis, SeparationProblem, TrayBasis
+from .basis import DIAMETER_MAX, CondensateBasis, CostBasis, ExchangerBasis, SeparationProblem, TrayBasis
 from .results import DesignEvaluation, ModelCheck, SequentialPrice
 from .start import Profile, partial_condenser_split, shortcut, start_profile, starting_configuration
+
+
+# a needed diameter this far above the model's largest is refused before the search (the estimate's margin)
+CAPACITY_MARGIN = 1.05
 
 
 def total_condensate_temperature(problem: SeparationProblem, y) -> float:
@@ -108,6 +113,26 @@ def _size(mixture, data: CostData, profile: StageProfile, options: SizingOptions
     sizing = size_column(profile, mixture, data.levels, exchangers.condenser_U, exchangers.reboiler_U, options,
                          exchangers.service.reboiler_type, round_diameter)
     return replace(sizing, warnings=sizing.warnings + exchangers.notes)
+
+
+def check_capacity(reference: StageProfile, sized: ColumnSizing, reflux_floor: float,
+                   diameter_max: float = DIAMETER_MAX) -> None:
+    """Refuse a column that needs a wider shell than the model allows even at ``reflux_floor`` [-].
+
+    The top vapour is (R + 1) D, and the flooding area grows with the vapour's volume flow, so the
+    rectifying section of the ``reference`` (sized as ``sized``) needs at least its diameter times
+    sqrt((R_floor + 1) / (R_ref + 1)) at the floor (the minimum reflux, or a given design's reflux;
+    the allowable velocity moving a little with the flow parameter). Beyond
+    :data:`CAPACITY_MARGIN` x ``diameter_max`` [m] every configuration is infeasible in the model,
+    and the search would only spend its time limit on stalled solves (benzene/toluene at
+    20,000 kmol/h: 120 s, then "time limit passed before any configuration gave a design").
+    """
+    needed = sized.rectifying_diameter * math.sqrt((reflux_floor + 1.0) / (reference.reflux_ratio + 1.0))
+    if needed > CAPACITY_MARGIN * diameter_max:
+        raise InfeasibleSpecError(
+            f"the column needs a shell of about {needed:.1f} m diameter at a reflux ratio of {reflux_floor:.4g} "
+            f"(flooding, rectifying section), above the {diameter_max:g} m the optimiser allows: split the feed "
+            "between parallel columns, or raise column.top_pressure for a denser vapour")
 
 
 def size_reference(mixture, data: CostData, profile: StageProfile, options: SizingOptions) -> ColumnSizing:

@@ -61,6 +61,23 @@ def test_constant_alpha_minimum_reflux_equals_underwood():
     assert r_min.reflux_ratio == pytest.approx(closed, rel=1e-4)
 
 
+@pytest.mark.parametrize("q", [1.3, 0.5, 0.0, -0.2, -0.5])
+def test_constant_alpha_minimum_reflux_at_any_feed_condition_equals_underwood(q):
+    """Underwood's equations for a binary at constant alpha with the feed pinch, any q:
+    1 - q = alpha z/(alpha - theta) + (1 - z)/(1 - theta) for theta between 1 and alpha, then
+    Rmin + 1 = alpha x_D/(alpha - theta) + (1 - x_D)/(1 - theta) (Underwood, Chem. Eng. Prog. 44
+    (1948) 603; King, Separation Processes, 2nd ed., 1980, section 9.4). A superheated vapour feed
+    (q < 0) had been said to need no reflux."""
+    from scipy.optimize import brentq
+
+    alpha, z, x_d, x_b = 2.45, 0.4, 0.99, 0.01
+    theta = brentq(lambda t: alpha * z / (alpha - t) + (1.0 - z) / (1.0 - t) - (1.0 - q), 1.0 + 1e-9, alpha - 1e-9)
+    underwood = alpha * x_d / (alpha - theta) + (1.0 - x_d) / (1.0 - theta) - 1.0
+    found = minimum_reflux(constant_alpha_curve(alpha), x_d, x_b, z, q)
+    assert found.kind == "feed pinch"
+    assert found.reflux_ratio == pytest.approx(underwood, rel=1e-4)
+
+
 def test_constant_alpha_total_reflux_equals_fenske():
     """At total reflux with constant alpha, stepping gives Fenske's Nmin (Fenske 1932). The
     bottoms is chosen so that Fenske gives exactly 8 stages and no fractional stage is needed."""

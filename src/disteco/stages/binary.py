@@ -155,7 +155,12 @@ def minimum_reflux(curve: EquilibriumCurve, x_d: float, x_b: float, z: float, q:
         at_feed = float(curve.y_of(x_int) - y_op(x_int))  # the feed pinch exactly, not only on the grid
         return min(float(np.min(y_eq - y_op(grid))), at_feed)
 
-    low, high = 1e-9, 1.0
+    # With a superheated vapour feed (q < 0) a rectifying line flatter than the q-line (R < -q) meets it
+    # beyond the distillate: the construction starts above R = -q (there the lines meet far below the
+    # bottoms and the rectifying line alone crosses the curve). Searched from zero, such a feed's split
+    # was said to need no reflux.
+    low = max(1e-9, -q + 1e-9)
+    high = max(1.0, 2.0 * low)
     while gap(high) <= 0.0:
         high *= 4.0
         if high > REFLUX_CEILING:

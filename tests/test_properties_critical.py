@@ -335,3 +335,33 @@ def test_demethaniser_check_passes(capsys, tmp_path):
     out = capsys.readouterr().out
     assert "degC on refrigerant_minus_100" in out
     assert "Relative volatility methane/ethane: 3.385 to 10.538 [-]" in out
+
+
+@pytest.fixture(scope="module")
+def light_gases():
+    """Hydrogen and methane over benzene and toluene (a stabiliser feed after a hydrotreater)."""
+    return build_mixture(("hydrogen", "methane", "benzene", "toluene"), Thermo("peng-robinson"), 8e5)
+
+
+def test_a_liquid_with_dissolved_gases_has_no_bubble_point_in_words(light_gases):
+    """1 % hydrogen and 3 % methane in benzene/toluene: thermo's own flash puts the liquid's bubble
+    pressure at 26-34 bar from 300 to 500 K, so at 8 bar it has no bubble point at any temperature.
+    That is an infeasible request naming the gases (exit 2), not thermo's internal error (exit 1); and
+    at 15 bar, above hydrogen's critical pressure (13 bar) but far below the liquid's pseudo-critical
+    pressure (Kay's rule, about 44 bar), it is not called the critical region."""
+    z = [0.01, 0.03, 0.40, 0.56]
+    for T in (300.0, 400.0, 500.0):
+        assert light_gases._flash(T=T, VF=0.0, zs=z).P > 25e5
+    with pytest.raises(InfeasibleSpecError, match=r"has no bubble point at 8 bar: its dissolved gases \(hydrogen 0.01"):
+        light_gases.bubble_point(8e5, z)
+    with pytest.raises(InfeasibleSpecError, match="has no bubble point at 15 bar") as caught:
+        light_gases.bubble_point(15e5, z)
+    assert "critical region" not in str(caught.value)
+
+
+def test_azeotrope_scan_passes_over_pairs_without_liquids(light_gases):
+    """At 30 bar hydrogen-rich liquids of the hydrogen pairs have no vapour-liquid split; the scan of
+    every pair passes over them instead of refusing the case (no pair here forms an azeotrope)."""
+    from disteco.properties import all_azeotropes
+
+    assert all_azeotropes(light_gases, 30e5) == []

@@ -8,7 +8,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq
 
-from .._base.errors import PropertyError
+from .._base.errors import InfeasibleSpecError, PropertyError
 from .mixture import Mixture
 
 GRID_POINTS = 101
@@ -146,11 +146,19 @@ def _azeotrope_temperature(mixture: Mixture, pressure: float, first: int, second
 
 
 def all_azeotropes(mixture: Mixture, pressure: float) -> list[Azeotrope]:
-    """Binary azeotropes of every pair of components at ``pressure`` [Pa]."""
+    """Binary azeotropes of every pair of components at ``pressure`` [Pa].
+
+    A pair whose liquids have no bubble point at ``pressure`` (hydrogen and methane at 8 bar: the
+    hydrogen keeps a vapour at any temperature; hydrogen-rich liquids above its critical pressure)
+    forms no azeotrope there and is passed over; the key pair's own liquids are checked elsewhere.
+    """
     if mixture.method in ("ideal",):
         return []  # Raoult's law cannot form an azeotrope between components of distinct vapour pressure
     found = []
     for i in range(mixture.size):
         for j in range(i + 1, mixture.size):
-            found.extend(find_azeotropes(mixture, pressure, i, j))
+            try:
+                found.extend(find_azeotropes(mixture, pressure, i, j))
+            except InfeasibleSpecError:  # no vapour-liquid split of the pair's liquids at this pressure
+                continue
     return found

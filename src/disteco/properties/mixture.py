@@ -258,7 +258,7 @@ class Mixture:
             T0, k0 = wilson_start(P, z, vapour_fraction, c.Tcs, c.Pcs, c.omegas)
             T, x, y = saturation_point(lambda T, x, y: self.k_values(T, P, x, y), z, vapour_fraction, T0, k0)
         except (NoSplit, ValueError):
-            self._no_split(P, z, failure)
+            self._no_split(P, z, failure, vapour_fraction)
         self._note_fallback(z)
         return PhasePoint(T, P, float(vapour_fraction), tuple(map(float, x)), tuple(map(float, y)))
 
@@ -271,17 +271,33 @@ class Mixture:
         self._note("fallback-flash", "thermo's flash failed on some states; they were solved by disteco's own "
                    "successive-substitution route on the same equation of state (see DEVELOPERS.md)")
 
-    def _no_split(self, P: float, z, failure: PropertyError):
-        """Raise: no vapour-liquid split at ``P``; infeasible above a present component's critical pressure."""
+    def _no_split(self, P: float, z, failure: PropertyError, vapour_fraction: float | None = None):
+        """Raise: no vapour-liquid split at ``P``. Infeasible at or above the fluid's pseudo-critical
+        pressure (Kay's rule, the mole-fraction mean of the critical pressures: a trace of a gas above
+        its own critical pressure does not make a mixture critical), and a liquid with no bubble point
+        because light gases in it keep a vapour at any temperature; else ``failure`` itself."""
         present = [i for i, zi in enumerate(z) if zi > 1e-9]
         critical = ", ".join(f"{self.names[i]} {self.critical_pressures[i] / 1e5:.4g} bar" for i in present)
         fluid = ", ".join(f"{self.names[i]} {z[i]:.4g}" for i in present)
-        if P >= min(self.critical_pressures[i] for i in present):
+        pseudo_critical = sum(z[i] * self.critical_pressures[i] for i in present) / sum(z[i] for i in present)
+        if P >= min(self.critical_pressures[i] for i in present) and P >= pseudo_critical:
             raise InfeasibleSpecError(
                 f"no vapour-liquid split exists at {P / 1e5:.4g} bar for a fluid of mole fractions {fluid}: "
                 "the pressure is at or above the mixture's critical region "
                 f"(critical pressures: {critical}), where liquid and vapour become one fluid; "
                 "lower the column pressure") from None
+        # gases above their critical temperature at the heaviest component's normal boiling point
+        heaviest = max(self.normal_boiling_points[i] for i in present)
+        gases = [i for i in present if self.critical_temperatures[i] < heaviest]
+        if vapour_fraction == 0.0 and gases:
+            named = ", ".join(f"{self.names[i]} {z[i]:.3g} (critical temperature "
+                              f"{self.critical_temperatures[i] - 273.15:.0f} degC)" for i in gases)
+            raise InfeasibleSpecError(
+                f"a liquid of mole fractions {fluid} has no bubble point at {P / 1e5:.4g} bar: its dissolved "
+                f"gases ({named}) keep a vapour at every temperature, its bubble pressure lying above "
+                "this pressure; disteco takes the feed's and the column liquids' bubble points at the column "
+                "pressure: raise column.top_pressure, or take the gases off before the column (a flash "
+                "drum ahead of it)") from None
         raise failure
 
     def k_values(self, T: float, P: float, x, y=None) -> np.ndarray:

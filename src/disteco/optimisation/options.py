@@ -128,7 +128,7 @@ class Number:
 
 
 def _optional(domain: Number):
-    """``domain``, or None (the default is then worked out from the problem)."""
+    """``domain``, or None (the default is then worked out from the problem, or the solver's own)."""
     def cast(value):
         return None if value is None else domain(value)
     return cast
@@ -182,7 +182,7 @@ def _options() -> Options:
             description="wall-clock limit of one configuration's NLP [s]; a configuration that hits it counts as "
                         "infeasible (measured: feasible ones take 0.05-0.6 s)"),
         "initial_barrier": Option(
-            default=1e-4, domain=lambda value: None if value is None else POSITIVE(value),
+            default=1e-4, domain=_optional(POSITIVE),
             description="barrier parameter an interior-point solve starts from (its 'mu_init'); None: the solver's "
                         "default (0.1). Every start is a converged profile or one built to be close to the "
                         "column's, so a small barrier keeps the iterate near it. Measured with one worker, same "
@@ -190,7 +190,7 @@ def _options() -> Options:
                         "8.2 -> 7.1 s, the styrene column 21.8 -> 18.9 s, ethanol-water and the depentaniser "
                         "2 % faster, the deethaniser unchanged"),
         "nlp_tolerance": Option(
-            default=1e-3, domain=lambda value: None if value is None else POSITIVE(value),
+            default=1e-3, domain=_optional(POSITIVE),
             description="overall convergence tolerance of an interior-point solve (its 'tol'; the violation of "
                         "the equations and the complementarity keep the solver's own 1e-4); None: the solver's "
                         "default (1e-8). Measured: the examples' optima unchanged (the benzene example's TAC "

@@ -226,18 +226,16 @@ def partial_condenser_split(problem: SeparationProblem, y_top, R: float,
     liquid = np.asarray(liquid, dtype=float)
     low, high = f.search_range
 
-    def reflux(T):
-        return (R + 1.0) * y_top / (R + f.k_values(T, P, liquid))
-
     def excess(T):
-        return float(np.sum(reflux(T))) - 1.0
+        return float(np.sum((R + 1.0) * y_top / (R + f.k_values(T, P, liquid)))) - 1.0
 
     # sum x falls as T rises; beyond the search range the nearer end stands in
     at_low, at_high = excess(low), excess(high)
     T = brentq(excess, low, high) if at_low * at_high < 0.0 else (low if at_low < 0.0 else high)
-    x = reflux(T)
+    k = f.k_values(T, P, liquid)
+    x = (R + 1.0) * y_top / (R + k)
     x /= x.sum()
-    y = f.k_values(T, P, liquid) * x
+    y = k * x
     return T, x, y / y.sum()
 
 

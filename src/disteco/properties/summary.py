@@ -80,20 +80,25 @@ def _key_pair_bubble_points(mixture: Mixture, pressure: float, light: int, heavy
 def key_volatility_range(mixture: Mixture, pressure: float, light: int, heavy: int,
                          points: list[PhasePoint] | None = None) -> tuple[float, float]:
     """Range of alpha(light/heavy) [-] over key-pair liquids from 1 % to 99 % light key at ``pressure`` [Pa]."""
-    points = points or _key_pair_bubble_points(mixture, pressure, light, heavy)
-    alphas = [mixture.relative_volatility(p.T, pressure, p.x, light, heavy, p.y) for p in points]
+    alphas = _key_alphas(mixture, points or _key_pair_bubble_points(mixture, pressure, light, heavy), light, heavy)
     return float(min(alphas)), float(max(alphas))
 
 
-def vapour_association(mixture: Mixture, points: list[PhasePoint], light: int, heavy: int) -> VapourAssociation | None:
+def _key_alphas(mixture: Mixture, points: list[PhasePoint], light: int, heavy: int) -> list[float]:
+    """alpha(light/heavy) [-] at each of the bubble ``points``."""
+    return [mixture.relative_volatility(p.T, p.P, p.x, light, heavy, p.y) for p in points]
+
+
+def vapour_association(mixture: Mixture, points: list[PhasePoint], alphas: list[float], light: int,
+                       heavy: int) -> VapourAssociation | None:
     """The key relative volatility range with the acid's dimerisation in the vapour, with a note, where the
-    mixture has a dimerising acid and the dimerisation moves alpha by more than :data:`ARTEFACT_VOLATILITY`
-    somewhere on the key-pair bubble ``points``; else None."""
+    mixture has a dimerising acid and the dimerisation moves alpha (``alphas`` with the method's ideal-gas
+    vapour) by more than :data:`ARTEFACT_VOLATILITY` somewhere on the key-pair bubble ``points``; else None."""
     acid = mixture.dimerising_acid
     if acid is None:
         return None
-    pairs = [(mixture.relative_volatility(p.T, p.P, p.x, light, heavy, p.y),
-              mixture.dimerised_relative_volatility(p.T, p.P, p.x, light, heavy)) for p in points]
+    pairs = [(ideal, mixture.dimerised_relative_volatility(p.T, p.P, p.x, light, heavy))
+             for p, ideal in zip(points, alphas)]
     if max(abs(np.log(ideal / dimer)) for ideal, dimer in pairs) <= np.log(ARTEFACT_VOLATILITY):
         return None
     ideal, dimer = zip(*pairs)
@@ -115,16 +120,16 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
         ComponentSummary(c.given, c.name, c.cas, float(mw), float(tb), float(zi))
         for c, mw, tb, zi in zip(mixture.components, mixture.molar_masses, mixture.normal_boiling_points, z))
     points = _key_pair_bubble_points(mixture, pressure, light, heavy)
-    low, high = key_volatility_range(mixture, pressure, light, heavy, points)
+    alphas = _key_alphas(mixture, points, light, heavy)
     bubble = mixture.bubble_point(pressure, z)
     return MixtureSummary(
         method=mixture.method, pressure=pressure, components=components,
         light_key=mixture.names[light], heavy_key=mixture.names[heavy],
-        key_volatility_min=low, key_volatility_max=high,
+        key_volatility_min=float(min(alphas)), key_volatility_max=float(max(alphas)),
         feed_bubble_T=bubble.T, feed_dew_T=mixture.dew_point(pressure, z).T,
         azeotropes=tuple(all_azeotropes(mixture, pressure)),
         vapour=vapour_ideality(mixture, bubble, light, heavy),
-        association=vapour_association(mixture, points, light, heavy))
+        association=vapour_association(mixture, points, alphas, light, heavy))
 
 
 def vapour_ideality(mixture: Mixture, bubble: PhasePoint, light: int, heavy: int) -> VapourIdeality | None:

@@ -96,6 +96,7 @@ class Mixture:
         state = dict(T=REFERENCE_T, P=101325.0, zs=z)
         if self.method == "peng-robinson":
             kij = [list(row) for row in spec.kij] if spec.kij else [[0.0] * n for _ in range(n)]
+            self._kij = kij
             eos_kwargs = dict(Tcs=consts.Tcs, Pcs=consts.Pcs, omegas=consts.omegas, kijs=kij)
             gas = CEOSGas(PRMIX, eos_kwargs=eos_kwargs, HeatCapacityGases=props.HeatCapacityGases, **state)
             liquid = CEOSLiquid(PRMIX, eos_kwargs=eos_kwargs, HeatCapacityGases=props.HeatCapacityGases,
@@ -355,6 +356,27 @@ class Mixture:
         """Index of the one component that dimerises in the vapour (``association.DIMERISING_ACIDS``),
         where this method takes the vapour as an ideal gas of monomers; else None."""
         return dimerising_acid([c.cas for c in self.components]) if self.ideal_gas_vapour else None
+
+    @cached_property
+    def untuned_polar_pairs(self) -> tuple[tuple[int, int], ...]:
+        """Pairs (i < j) that Peng-Robinson takes with a zero interaction parameter although one of
+        them is polar (water, ammonia, an alcohol): the quadratic mixing rule with kij = 0 is a
+        non-polar mixture's default and can put a liquid split, an azeotrope or a volatility far from
+        the mixture's own in a polar pair (common practice, no source). Empty for other methods."""
+        if self.method != "peng-robinson":
+            return ()
+        return tuple((i, j) for i in range(self.size) for j in range(i + 1, self.size)
+                     if self._kij[i][j] == 0.0 and (self.components[i].is_polar or self.components[j].is_polar))
+
+    def untuned_pair_caveat(self, light: int, heavy: int) -> str:
+        """A clause naming the key pair where :attr:`untuned_polar_pairs` holds it, else ""."""
+        pair = (min(light, heavy), max(light, heavy))
+        if pair not in self.untuned_polar_pairs:
+            return ""
+        return (f"Peng-Robinson with no interaction parameter (kij = 0) for {self.names[light]}/"
+                f"{self.names[heavy]}, a polar pair, may show this where the mixture has none: give "
+                "[mixture.peng_robinson] kij fitted to equilibrium data for the pair (or NRTL or Wilson "
+                "parameters) and check again")
 
     def dimerised_relative_volatility(self, T: float, P: float, x, light: int, heavy: int) -> float:
         """alpha = K_light / K_heavy [-] of liquid ``x`` at ``T`` [K], ``P`` [Pa] with this method's

@@ -65,6 +65,7 @@ class MixtureSummary:
     azeotropes: tuple[Azeotrope, ...]
     vapour: VapourIdeality | None = None  # only for an ideal-gas vapour above 2 bar
     association: VapourAssociation | None = None  # only for a dimerising acid that moves alpha
+    untuned_polar_pairs: tuple[str, ...] = ()  # "a/b": Peng-Robinson pairs with kij = 0 and a polar member
 
 
 def _key_pair_bubble_points(mixture: Mixture, pressure: float, light: int, heavy: int) -> list[PhasePoint]:
@@ -114,11 +115,24 @@ def vapour_association(mixture: Mixture, points: list[PhasePoint], alphas: list[
     return found
 
 
+def untuned_polar_pairs(mixture: Mixture) -> tuple[str, ...]:
+    """The pairs Peng-Robinson takes with kij = 0 although one of them is polar ("a/b"), with a note."""
+    pairs = tuple(f"{mixture.names[i]}/{mixture.names[j]}" for i, j in mixture.untuned_polar_pairs)
+    if pairs:
+        names = ", ".join(pairs)
+        mixture.note("untuned-polar-pairs",
+                     f"Peng-Robinson takes {names} with no interaction parameter (kij = 0), a non-polar "
+                     "mixture's default: with a polar component the relative volatility can be far off; give "
+                     "[mixture.peng_robinson] kij fitted to equilibrium data for these pairs")
+    return pairs
+
+
 def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: int) -> MixtureSummary:
     """Summarise ``mixture`` with feed ``z`` [-] at ``pressure`` [Pa] for the key pair."""
     components = tuple(
         ComponentSummary(c.given, c.name, c.cas, float(mw), float(tb), float(zi))
         for c, mw, tb, zi in zip(mixture.components, mixture.molar_masses, mixture.normal_boiling_points, z))
+    untuned = untuned_polar_pairs(mixture)
     points = _key_pair_bubble_points(mixture, pressure, light, heavy)
     alphas = _key_alphas(mixture, points, light, heavy)
     bubble = mixture.bubble_point(pressure, z)
@@ -129,7 +143,7 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
         feed_bubble_T=bubble.T, feed_dew_T=mixture.dew_point(pressure, z).T,
         azeotropes=tuple(all_azeotropes(mixture, pressure)),
         vapour=vapour_ideality(mixture, bubble, light, heavy),
-        association=vapour_association(mixture, points, alphas, light, heavy))
+        association=vapour_association(mixture, points, alphas, light, heavy), untuned_polar_pairs=untuned)
 
 
 def vapour_ideality(mixture: Mixture, bubble: PhasePoint, light: int, heavy: int) -> VapourIdeality | None:

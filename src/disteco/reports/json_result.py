@@ -45,6 +45,7 @@ def mixture_json(summary: MixtureSummary) -> dict:
         "heavy_key": summary.heavy_key,
         "key_relative_volatility_min": summary.key_volatility_min,
         "key_relative_volatility_max": summary.key_volatility_max,
+        "polar_pairs_without_interaction_parameter": list(summary.untuned_polar_pairs),
         "ideal_gas_vapour_check": None if summary.vapour is None else {
             "feed_bubble_point_degC": to_degC(summary.vapour.temperature),
             "key_relative_volatility_ideal_gas_vapour": summary.vapour.alpha_ideal_gas,

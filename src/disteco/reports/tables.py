@@ -239,6 +239,8 @@ def mixture_table(mixture: MixtureSummary) -> Table:
     """Method, keys, volatility range, feed bubble and dew points and azeotropes at top pressure."""
     items: list[tuple[str, Cell]] = [
         ("Thermodynamic method (used)", mixture.method),
+        *(() if not mixture.untuned_polar_pairs else (
+            ("Polar pairs without an interaction parameter (kij = 0)", ", ".join(mixture.untuned_polar_pairs)),)),
         ("Top pressure [kPa]", mixture.pressure / KPA),
         ("Light key", mixture.light_key),
         ("Heavy key", mixture.heavy_key),

@@ -36,7 +36,11 @@ def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
 
 def mixture_text(summary: MixtureSummary) -> str:
     """The mixture report printed by the check command."""
-    lines = [f"Thermodynamic method: {summary.method}",
+    lines = [f"Thermodynamic method: {summary.method}"]
+    if summary.untuned_polar_pairs:
+        lines.append(f"Interaction parameters: none given for {', '.join(summary.untuned_polar_pairs)} (kij = 0, "
+                     "with a polar component: give [mixture.peng_robinson] kij fitted to data)")
+    lines += [
              f"Top pressure: {summary.pressure / 1e3:.2f} kPa",
              "",
              f"{'component':<22}{'CAS':>12}{'M [g/mol]':>11}{'Tb [degC]':>11}{'z feed [-]':>12}"]

@@ -31,6 +31,7 @@ class EquilibriumCurve:
     x: tuple[float, ...]
     y: tuple[float, ...]
     pressure: float
+    caveat: str = ""  # why the method itself may put a liquid split in the curve (Mixture.untuned_pair_caveat)
 
     def __post_init__(self):
         from scipy.interpolate import PchipInterpolator  # here: importing it costs `check` a large share of its time
@@ -47,11 +48,16 @@ class EquilibriumCurve:
         flat = np.flatnonzero(np.diff(y_grid) <= 0.0)
         if flat.size:
             low, high = self.x[flat[0]], self.x[flat[-1] + 1]
+            where = (f"the equilibrium curve is not monotone between light-key liquid fractions of about {low:.3g} "
+                     f"and {high:.3g} at {self.pressure / 1e3:.4g} kPa")
+            if self.caveat:
+                raise InfeasibleSpecError(
+                    f"{where}: the method puts a liquid split there. {self.caveat}; where the liquid does split "
+                    "(a heterogeneous azeotrope), disteco models one liquid phase, so a column with a decanter "
+                    "is outside its scope")
             raise InfeasibleSpecError(
-                f"the equilibrium curve is not monotone between light-key liquid fractions of about {low:.3g} and "
-                f"{high:.3g} at {self.pressure / 1e3:.4g} kPa: the liquid splits into two phases there "
-                "(a heterogeneous azeotrope); disteco models one liquid phase, so a column with a decanter "
-                "is outside its scope")
+                f"{where}: the liquid splits into two phases there (a heterogeneous azeotrope); disteco models one "
+                "liquid phase, so a column with a decanter is outside its scope")
         return float(brentq(lambda x: float(self._y_of_x(x)) - y, self.x[0], self.x[-1], xtol=1e-14))
 
 
@@ -103,14 +109,14 @@ def equilibrium_curve(mixture: Mixture, pressure: float, light: int = 0, heavy: 
         z[light], z[heavy] = x1, 1.0 - x1
         point = mixture.bubble_point(pressure, z)
         ys.append(point.y[light] / (point.y[light] + point.y[heavy]))
-    return tabulated_curve(xs, ys, pressure)
+    return tabulated_curve(xs, ys, pressure, mixture.untuned_pair_caveat(light, heavy))
 
 
-def tabulated_curve(xs, ys, pressure: float) -> EquilibriumCurve:
+def tabulated_curve(xs, ys, pressure: float, caveat: str = "") -> EquilibriumCurve:
     """The curve through (``xs``, ``ys``) [-] of :func:`binary_grid` with the pure ends (0, 0) and (1, 1) added."""
     x = np.concatenate([[0.0], np.asarray(xs, dtype=float), [1.0]])
     y = np.concatenate([[0.0], np.asarray(ys, dtype=float), [1.0]])
-    return EquilibriumCurve(tuple(map(float, x)), tuple(map(float, y)), pressure)
+    return EquilibriumCurve(tuple(map(float, x)), tuple(map(float, y)), pressure, caveat)
 
 
 def _intersection(x_d: float, z: float, q: float, reflux: float) -> float:

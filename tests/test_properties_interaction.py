@@ -74,3 +74,24 @@ def test_polar_pair_at_high_pressure_is_checked_with_its_interaction_line(tmp_pa
     out = capsys.readouterr().out
     assert "Thermodynamic method: peng-robinson" in out
     assert "Interaction parameters: none given for methanol/water (kij = 0" in out
+
+
+def test_liquid_viscosity_past_the_aqueous_rule_takes_logarithmic_mixing():
+    """thermo picks Laliberte's aqueous-solution viscosity for ammonia/water, which has no value for
+    an ammonia-rich liquid (the rectifier's top: `design` ended in an internal error). There the
+    viscosity is the molar logarithmic mean of thermo's pure-liquid viscosities, with a note; a
+    water-rich liquid keeps Laliberte's value."""
+    import math
+
+    mixture = build_mixture(("ammonia", "water"), Thermo(method="peng-robinson", kij=((0.0, -0.25), (-0.25, 0.0))),
+                            15e5)
+    mixing = mixture._correlations.ViscosityLiquidMixture
+    pure = [mu(363.15, 15e5) for mu in mixture._correlations.ViscosityLiquids]
+    rich, lean = [0.9, 0.1], [0.1, 0.9]
+    assert mixing.method == "Laliberte" and mixing(363.15, 15e5, rich, mixture.mass_fractions(rich)) is None
+    mixture.clear_warnings()
+    assert mixture.liquid_viscosity(363.15, 15e5, lean) == mixing(363.15, 15e5, lean, mixture.mass_fractions(lean))
+    assert not mixture.warnings
+    expected = math.exp(0.9 * math.log(pure[0]) + 0.1 * math.log(pure[1]))
+    assert mixture.liquid_viscosity(363.15, 15e5, rich) == pytest.approx(expected, rel=1e-12)
+    assert "logarithmic molar mixing" in mixture.warnings[0]

@@ -230,6 +230,27 @@ def test_predicted_start_reaches_the_same_column_in_fewer_newton_steps(ethanol_w
     assert_balances(ethanol_water, feed, predicted)
 
 
+def test_an_extrapolated_start_keeps_the_base_columns_temperature_range(benzene_toluene):
+    """A predicted start whose sensitivities reach far past the base column (a methanol/water column
+    on Peng-Robinson at 12 bar extrapolated to a negative temperature and ended in an internal error)
+    keeps its temperatures within one Newton temperature step of the base column's range, and the
+    column solved from it is the column solved from the base profile."""
+    from dataclasses import replace
+
+    from disteco.stages.mesh import MAX_TEMPERATURE_STEP
+    from disteco.stages.rigorous import PredictedStart, _predicted_unknowns, _unknowns_from_profile
+
+    feed = feed_of(benzene_toluene, (0.45, 0.55))
+    spec = ColumnSpec(16, 8, 2.0, 0.45, P_ATM, 500.0)
+    base = solve_rigorous(benzene_toluene, feed, spec)
+    wild = PredictedStart(base, ((replace(base, T=tuple(t - 100.0 for t in base.T)), 5.0),))
+    U, T = _predicted_unknowns(wild, spec), _unknowns_from_profile(base)[:, -1]
+    assert U[:, -1].min() == pytest.approx(T.min() - MAX_TEMPERATURE_STEP, abs=1e-9)
+    assert U[:, -1].max() <= T.max() + MAX_TEMPERATURE_STEP
+    again = solve_rigorous(benzene_toluene, feed, spec, wild)
+    assert again.T == pytest.approx(base.T, abs=1e-6)
+
+
 @settings(max_examples=6, deadline=None)
 @given(N=st.integers(6, 24), feed_share=st.floats(0.2, 0.8), reflux=st.floats(0.8, 5.0),
        cut=st.floats(0.3, 0.6), q=st.floats(0.0, 1.3), z=st.floats(0.3, 0.6), partial=st.booleans())

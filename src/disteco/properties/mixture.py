@@ -488,7 +488,15 @@ class Mixture:
         x = [float(v) for v in x]
         hot = self._supercritical(T, x)
         if not hot:
-            return float(self._correlations.ViscosityLiquidMixture(T, P, x, self.mass_fractions(x)))
+            mixing, ws = self._correlations.ViscosityLiquidMixture, self.mass_fractions(x)
+            mu = mixing(T, P, x, ws)
+            if mu is None:  # thermo's aqueous-solution rule (Laliberte) past its solute range: an ammonia-rich liquid
+                self._note("viscosity-mixing",
+                           f"the liquid viscosity of {mixing.method} has no value for some column liquids (outside "
+                           "its composition or temperature range); logarithmic molar mixing of the pure-component "
+                           "viscosities is taken there")
+                mu = mixing.calculate(T, P, x, ws, "Logarithmic mixing, molar")
+            return float(mu)
         c, props = self._constants, self._correlations
         values = [supercritical_liquid_viscosity(T, c.Tcs[i], c.Pcs[i], c.omegas[i], self.molar_masses[i],
                                                  props.ViscosityGases[i](T, P))

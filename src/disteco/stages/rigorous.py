@@ -36,7 +36,7 @@ from .._base.errors import CaseError, ConvergenceError, InfeasibleSpecError
 from ..case import Column
 from ..properties import FeedState, Mixture
 from .cmo import cmo_unknowns
-from .mesh import ColumnProblem, Stages
+from .mesh import MAX_TEMPERATURE_STEP, ColumnProblem, Stages
 from .results import StageProfile
 
 @dataclass(frozen=True)
@@ -171,6 +171,11 @@ def _predicted_unknowns(start: PredictedStart, spec: ColumnSpec) -> np.ndarray |
         U += weight * (_unknowns_from_profile(moved) - base)
     flows = U[:, :-1]
     flows[:] = np.where(flows > 0.0, flows, 0.1 * base[:, :-1])
+    # the column's temperatures stay between its products' boiling points, which a step in R and D
+    # hardly moves: an extrapolation far past the base column's range (methanol/water on Peng-Robinson
+    # at 12 bar reached a negative temperature) is cut back to it, one Newton temperature step wide
+    T = base[:, -1]
+    U[:, -1] = np.clip(U[:, -1], T.min() - MAX_TEMPERATURE_STEP, T.max() + MAX_TEMPERATURE_STEP)
     return U
 
 

@@ -135,6 +135,21 @@ def test_no_note_where_the_other_exchanger_would_have_no_level(benzene_toluene):
     assert note.startswith("reboiler on mp_steam: lp_steam") and "condenser would then take cooling_water" in note
 
 
+def test_a_note_that_moves_the_other_exchanger_to_a_dearer_level_says_so(benzene_toluene):
+    """At 3 bar the condenser takes the warmest cooling level offered (tempered water, 90 -> 100 degC,
+    invented) and the reboiler mp_steam; the 1.7 bar that lp_steam needs brings the top near 100 degC,
+    onto cooling water, a dearer level: the note says so instead of reading as a plain saving."""
+    tempered = UtilityLevel("tempered_water", "cooling", "cooling_water", C + 90, C + 100, heat_capacity=4200.0)
+    levels = (tempered,) + LEVELS
+    profile = make_profile(benzene_toluene, top=3e5)
+    sized = size_column(profile, benzene_toluene, levels, 850.0, 1000.0)
+    assert (sized.condenser.utility.name, sized.reboiler.utility.name) == ("tempered_water", "mp_steam")
+    [note] = _notes(benzene_toluene, profile, sized, levels)
+    assert note.startswith("reboiler on mp_steam: lp_steam")
+    assert re.search(r"condenser would then take cooling_water \([\d.]+ -> [\d.]+ degC\), a dearer level than its "
+                     r"tempered_water now: compare both utilities' costs first", note)
+
+
 def test_no_reboiler_note_below_the_columns_own_pressure_drop(benzene_toluene, vacuum):
     """At 20 kPa the toluene bottoms boil near 65 degC on lp_steam; warm water would need them near
     10 degC, a bottom pressure of a few kPa, below what the column's own pressure drop allows: no

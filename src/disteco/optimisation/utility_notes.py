@@ -151,7 +151,13 @@ def _level_then(saturation, service: str, exchanger, pressure: float, change: fl
         return None
     except (DistecoError, ArithmeticError, ValueError):
         return "a level not found here (thermo's saturation temperature failed at that pressure)"
-    return f"{level.name} ({_c(exchanger.process_in + moved)} -> {_c(exchanger.process_out + moved)} degC)"
+    then = f"{level.name} ({_c(exchanger.process_in + moved)} -> {_c(exchanger.process_out + moved)} degC)"
+    names = [u.name for u in offered_levels(levels, service)]
+    if exchanger.utility.name in names and names.index(level.name) > names.index(exchanger.utility.name):
+        # the pressure that frees one exchanger pushes the other onto a dearer level (a glycol drying
+        # column's reboiler off medium-pressure steam at 0.66 kPa, its condenser onto refrigeration)
+        then += f", a dearer level than its {exchanger.utility.name} now: compare both utilities' costs first"
+    return then
 
 
 def _c(kelvin: float) -> str:

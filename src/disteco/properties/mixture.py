@@ -13,6 +13,7 @@ from functools import cached_property, lru_cache
 
 import numpy as np
 from chemicals.interface import Winterfeld_Scriven_Davis
+from fluids.numerics import UnconvergedError
 from scipy.optimize import brentq
 from thermo import (CEOSGas, CEOSLiquid, FlashVL, GibbsExcessLiquid,
                     IdealGas, NRTL, PR, PRMIX, UNIFAC, Wilson)
@@ -215,7 +216,7 @@ class Mixture:
 
     def saturation_temperatures(self, P: float) -> np.ndarray:
         """Pure-component saturation temperatures at ``P`` [Pa] from thermo's vapour pressures [K]."""
-        return np.array([psat.solve_property(P) for psat in self._correlations.VaporPressures])
+        return np.array([_saturation_temperature(psat, P) for psat in self._correlations.VaporPressures])
 
     def vapour_pressures(self, T: float) -> np.ndarray:
         """Pure-component vapour pressures at ``T`` [K] [Pa]."""
@@ -533,6 +534,23 @@ class Mixture:
     def liquid_heat_capacity(self, T: float, P: float, x) -> float:
         """Liquid molar heat capacity [J/(mol K)]."""
         return float(self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).Cp())
+
+
+def _saturation_temperature(psat, P: float) -> float:
+    """T [K] where thermo's vapour-pressure correlation ``psat`` gives ``P`` [Pa]: thermo's own solve, else
+    bisection over the correlation's range (thermo's solve failed for water at 700 Pa, where its
+    correlation holds down to 235 K); PropertyError where the range does not reach ``P``."""
+    try:
+        return float(psat.solve_property(P))
+    except (UnconvergedError, ValueError):
+        low, high = psat.Tmin, psat.Tmax
+        try:
+            if psat(low) < P < psat(high):
+                return float(brentq(lambda T: psat(T) - P, low, high, xtol=1e-9))
+        except (TypeError, ValueError):  # a correlation with no value at an end of its range
+            pass
+        raise PropertyError(f"no saturation temperature at {P:.6g} Pa from the vapour-pressure correlation of "
+                            f"{psat.CASRN}") from None
 
 
 def choose_method(components: tuple[ComponentId, ...], pressure: float) -> str:

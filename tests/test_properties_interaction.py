@@ -95,3 +95,15 @@ def test_liquid_viscosity_past_the_aqueous_rule_takes_logarithmic_mixing():
     expected = math.exp(0.9 * math.log(pure[0]) + 0.1 * math.log(pure[1]))
     assert mixture.liquid_viscosity(363.15, 15e5, rich) == pytest.approx(expected, rel=1e-12)
     assert "logarithmic molar mixing" in mixture.warnings[0]
+
+
+@pytest.mark.parametrize("pressure", [700.0, 2e3, 2e4])
+def test_water_saturation_temperature_near_its_triple_point(pressure):
+    """thermo's solve of its vapour-pressure correlation failed for water at 700 Pa (a glycol drying
+    column's utility note ended in an internal error); the bisection over the correlation's range
+    gives IAPWS-95's saturation temperature (chemicals.iapws.iapws95_Tsat, the reference
+    formulation's saturation curve)."""
+    from chemicals.iapws import iapws95_Tsat
+
+    mixture = build_mixture(("water", "ethylene glycol"), Thermo(method="unifac-dortmund"), 2e4)
+    assert mixture.saturation_temperatures(pressure)[0] == pytest.approx(iapws95_Tsat(pressure), abs=0.01)

@@ -102,6 +102,20 @@ def test_cross_entry_below_zero_is_reported():
     assert CrossTable(("a",), ((5.0,),), "USD").below_zero() == ()
 
 
+def test_a_scenario_beaten_beyond_the_search_tolerance_is_named_with_the_design_that_beats_it():
+    """Scenario 'high' (column 1): its own design costs 200,000, the 'low' design 199,500 under its prices
+    (0.25 %, beyond the 0.1 % tolerance): searched again from 'low'. Scenario 'low' (column 0): beaten by
+    0.05 %, within the tolerance: a note, no search, no warning."""
+    cross = CrossTable(("low", "high"), ((100_000.0, 199_500.0), (99_950.0, 200_000.0)), "USD")
+    assert cross.beaten() == ((1, 0),)
+    warnings = cross.below_zero()
+    assert len(warnings) == 1 and "'low' costs 500 USD/year less under the prices of 'high'" in warnings[0]
+    notes = cross.close_notes()
+    assert len(notes) == 1 and "1 extra TAC value below zero, by at most 0.05 % of the scenario's own TAC" in notes[0]
+    assert CrossTable(("a", "b"), ((100.0, 210.0), (101.0, 200.0)), "USD").beaten() == ()
+    assert CrossTable(("a", "b"), ((100.0, 210.0), (101.0, 200.0)), "USD").close_notes() == ()
+
+
 def test_cross_table_must_be_square():
     with pytest.raises(ValueError, match="2 scenarios need a 2 x 2 matrix"):
         CrossTable(("a", "b"), ((1.0, 2.0),), "USD")

@@ -21,6 +21,7 @@ from .properties import Mixture, build_mixture, feed_state, summarise_mixture
 from .reports.files import ClaimedFolder, claim_folder, write_json
 
 if TYPE_CHECKING:  # the solver interfaces, plotting and the workbook are imported where used (quick `check`)
+    from .optimisation.margin import ControlMargin
     from .optimisation.results import DesignEvaluation, OptimumDesign
     from .optimisation.thermo_checks import ThermoChecks
     from .reports.check_result import CaseCheck
@@ -67,6 +68,18 @@ def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ..
     forms. Raises what ``design`` would raise before optimising; returns what it found.
     """
     return _prepare(case, given, scenarios, options, compare, prices, utility_notes=True).check
+
+
+@dataclass(frozen=True)
+class ScenarioRun:
+    """One scenario's optimum (held to the control margin), its checks on thermo, margin and curve."""
+
+    searched: OptimumDesign  # the search's optimum, before the control margin
+    optimum: OptimumDesign
+    checks: ThermoChecks
+    margin: ControlMargin
+    curve: tuple[DesignEvaluation, ...]  # the TAC-against-reflux curve's designs
+    curve_notes: tuple[str, ...]
 
 
 @dataclass(frozen=True)
@@ -189,10 +202,10 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     """
     from .optimisation.curves import start_curve
     from .optimisation.design import evaluate_design, optimise_design
-    from .optimisation.margin import hold_margin
+    from .optimisation.margin import hold_margin, search_above_floor
     from .optimisation.thermo_checks import thermo_checks
     from .reports.design_result import DesignResult
-    from .reports.progress import ProgressPlan, run_steps
+    from .reports.progress import CHECKS, PRICING, SEARCH, ProgressPlan, run_steps
     from .reports.tables_design import GivenDesignReport, optimum_parts
     from .sizing.options import sizing_options
 
@@ -230,44 +243,77 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings + _utility_notes(mixture, parts, data, sizing)
                                                + diagram_notes, parts), options=_given_options(options))
-    optima, curves, checked, margins, curve_notes = [], [], [], [], []
+    runs: list[ScenarioRun] = []
     minimum = None  # energy-balance minimum reflux, found on the first scenario's optimum
-    for k, name in enumerate(names):
-        plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
-        optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
-        plan.finish(optimum.solver.configurations_solved)
-        chosen = optimum.sizing_options or sizing  # the tray spacing and shells the optimiser chose
+
+    def margin_checks(k: int, name: str, optimum, margin):
+        """The checks on thermo of a design searched above the margin's floor: its own minimum reflux on its
+        own pressures."""
+        return thermo_checks(case, mixture, feed, data, optimum.best, stages, options, optimum.sizing_options or sizing,
+                             name, full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
+                             minimum_near=minimum.reflux_ratio if minimum else None, reflux_floor=margin.reflux_floor)
+
+    def checked_run(k: int, name: str, optimum) -> ScenarioRun:
+        """The scenario's optimum checked on thermo, held to the control margin, with its curve."""
+        nonlocal minimum
+        searched, chosen = optimum, optimum.sizing_options or sizing  # the tray spacing and shells the optimiser chose
+        notes: list[str] = []
         # the curve around the economic optimum (which the margin's floor lies to the right of), drawn
         # meanwhile where a second core is free: nothing below changes it
         with start_curve(case, mixture, feed, data, optimum, stages.table, options, chosen, name) as curve:
-            plan.start(f"checking the '{name}' optimum on thermo"
-                       + (" (with minimum reflux and fit)" if k == 0 else ""))
+            plan.start(f"checking the '{name}' optimum on thermo" + (" (with minimum reflux and fit)" if k == 0 else ""))
             checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
                                    full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
             minimum = checks.minimum if k == 0 else minimum
             optimum, margin = hold_margin(case, mixture, feed, data, optimum, checks.reflux_ratio,
                                           minimum.reflux_ratio if minimum else None, options, sizing, name)
             if margin.binds:  # the reported design's own checks, its minimum reflux on its own pressures
-                chosen = optimum.sizing_options or sizing
-                checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
-                                       full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
-                                       minimum_near=minimum.reflux_ratio if minimum else None,
-                                       reflux_floor=margin.reflux_floor)
+                checks = margin_checks(k, name, optimum, margin)
             plan.finish()
-            optima.append((name, optimum))
-            checked.append((name, checks))
-            margins.append((name, margin))
             plan.start(f"TAC against reflux ratio under '{name}'")
-            curves.append((name, curve.designs(curve_notes)))
+            designs = curve.designs(notes)
             plan.finish()
+        return ScenarioRun(searched, optimum, checks, margin, designs, tuple(notes))
+
+    for k, name in enumerate(names):
+        plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
+        optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
+        plan.finish(optimum.solver.configurations_solved)
+        runs.append(checked_run(k, name, optimum))
+    optima = [(name, run.optimum) for name, run in zip(names, runs)]
     cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
+    if cross is not None and cross.beaten():
+        # a design built for other prices is cheaper under a scenario's own prices than the optimum its
+        # search found (a local optimum: the tray spacing's descent stopped one candidate short): the
+        # scenario is searched again from that design, and kept where the search ends cheaper
+        # (held to the same control margin; the curve, drawn around the economic optimum, stays)
+        for j, i in cross.beaten():
+            run, name = runs[j], names[j]
+            plan.kinds += [SEARCH, CHECKS]
+            plan.start(f"searching again under '{name}' from the '{names[i]}' design, cheaper under its prices")
+            floor = run.margin.reflux_floor if run.margin.factor > 1.0 else None
+            again = search_above_floor(case, mixture, feed, data, floor, runs[i].optimum, options, sizing, name)
+            plan.finish(again.solver.configurations_solved)
+            if again.reported_tac < run.optimum.reported_tac:
+                plan.start(f"checking the '{name}' optimum on thermo")
+                runs[j] = replace(run, optimum=again, checks=margin_checks(j, name, again, run.margin))
+                plan.finish()
+            else:
+                plan.kinds.pop()
+        plan.kinds += [PRICING] * (len(names) * (len(names) - 1))
+        optima = [(name, run.optimum) for name, run in zip(names, runs)]
+        cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
+    checked = [(name, run.checks) for name, run in zip(names, runs)]
+    margins = [(name, run.margin) for name, run in zip(names, runs)]
+    curves = [(name, run.curve) for name, run in zip(names, runs)]
+    curve_notes = [note for run in runs for note in run.curve_notes]
     plan.end()
     best = optima[0][1]
     checks = checked[0][1]
     diagram, diagram_notes = _binary_parts(stages, checks.reflux_ratio, case)
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           scenario_checks=tuple(checked), margins=tuple(margins), **diagram)
-    extra = tuple(cross.below_zero()) + cross.notes if cross is not None else ()
+    extra = tuple(cross.below_zero()) + cross.notes + cross.close_notes() if cross is not None else ()
     extra += diagram_notes
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
@@ -342,7 +388,8 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
 
 
 def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: ProgressPlan) -> CrossTable | None:
-    """Each scenario's optimum priced by the model under every other scenario's prices."""
+    """Each scenario's optimum priced under every other scenario's prices (the model choosing the distillate
+    flow, the reported price of the sizing and costing layers), the diagonal each optimum's reported TAC."""
     from .optimisation.design import evaluate_design
     from .optimisation.pricing import price_design
     from .reports.tables_scenarios import CrossTable
@@ -356,18 +403,17 @@ def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: Progr
         best = optimum_i.best
         for j, name_j in enumerate(names):
             if i == j:
-                row.append(best.tac)
+                row.append(optimum_i.reported_tac)
                 continue
             plan.start(f"pricing the '{name_i}' design under the prices of '{name_j}'")
             chosen = optimum_i.sizing_options or sizing
             try:
                 tac = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages, best.feed_stage,
-                                      options, chosen, name_j, problem=optimum_i.problem).tac
+                                      options, chosen, name_j, problem=optimum_i.problem).reported_tac
             except (SolverError, InfeasibleSpecError, ConvergenceError) as failure:
                 # the design as optimised (its distillate too), priced by the sizing and costing
-                # layers at the flooding diameter, as the model prices it
-                tac = price_design(best, mixture, data, chosen, name_j, case.economics.cost_year,
-                                   round_diameter=False).cost.tac_per_year
+                # layers as the reported designs are
+                tac = price_design(best, mixture, data, chosen, name_j, case.economics.cost_year).cost.tac_per_year
                 notes.append(f"cross table: the '{name_i}' design under the prices of '{name_j}' is priced at its "
                              f"own distillate flow by the sizing and costing layers; the model's solve failed "
                              f"({failure})")

@@ -82,13 +82,23 @@ def hold_margin(case: Case, mixture: Mixture, feed: FeedState, data: CostData, o
             f"the control margin asks for a reflux ratio of at least {floor:.4g} "
             f"({margin.factor:g} x the energy-balance minimum {minimum_reflux:.4g}), above the optimiser's "
             f"highest reflux ratio {config.reflux_max:g}: lower column.min_reflux_ratio_factor or raise reflux_max")
+    bounded = search_above_floor(case, mixture, feed, data, floor, optimum, options, sizing, scenario,
+                                 start_at_floor(optimum, floor))
+    return bounded, replace(margin, unconstrained=optimum)
+
+
+def search_above_floor(case: Case, mixture: Mixture, feed: FeedState, data: CostData, floor: float | None,
+                       warm: OptimumDesign, options=None, sizing: SizingOptions = SizingOptions(),
+                       scenario: str | None = None, start: tuple[int, int] | None = None) -> OptimumDesign:
+    """The lowest-TAC design with the reflux ratio at or above ``floor`` [-] (None: no floor), the search
+    warm-started from ``warm``."""
+    config = model_options(options)
     asked = config.reflux_min
-    config.reflux_min = max(config.reflux_min, floor)
-    bounded = optimise_design(case, mixture, feed, data, config, sizing, scenario, warm=optimum,
-                              start=start_at_floor(optimum, floor))
+    config.reflux_min = max(config.reflux_min, floor or 0.0)
+    bounded = optimise_design(case, mixture, feed, data, config, sizing, scenario, warm=warm, start=start)
     # The floor is the margin's, reported by the margin; the bounds the optimum is judged against
     # (OptimumDesign.limits: headline, solver.limited_by) stay the options' own.
-    return replace(bounded, reflux_range=(asked, config.reflux_max)), replace(margin, unconstrained=optimum)
+    return replace(bounded, reflux_range=(asked, config.reflux_max))
 
 
 def start_at_floor(optimum: OptimumDesign, floor: float) -> tuple[int, int] | None:
@@ -116,4 +126,4 @@ def start_at_floor(optimum: OptimumDesign, floor: float) -> tuple[int, int] | No
     return stages, min(max(2, round(1 + (NF - 1) * (stages - 1) / (N - 1))), stages - 1)
 
 
-__all__ = ["ControlMargin", "hold_margin", "start_at_floor"]
+__all__ = ["ControlMargin", "hold_margin", "search_above_floor", "start_at_floor"]

@@ -144,6 +144,12 @@ class DesignEvaluation:
         """Total annualised cost [currency/yr]."""
         return self.cost.tac_per_year
 
+    @property
+    def reported_tac(self) -> float:
+        """The TAC the reports give [currency/yr]: the sequential price (drum and pump included, the
+        diameter rounded up) where the design has one, else the model's."""
+        return self.sequential.cost.tac_per_year if self.sequential is not None else self.tac
+
 
 def minimum_method(minima_method: str, quantity: str) -> str:
     """The method of ``minima_method`` ("Fenske-Underwood" or "McCabe-Thiele") that gives the minimum
@@ -191,6 +197,11 @@ class OptimumDesign:
     stage_bound: int | None = None  # most stages the search could use
     reflux_range: tuple[float, float] = (0.0, float("inf"))  # lowest and highest reflux ratio of the model [-]
     minima_method: str = "Fenske-Underwood"  # or "McCabe-Thiele" (a binary stepped on the fitted curve)
+
+    @property
+    def reported_tac(self) -> float:
+        """The TAC the reports give for :attr:`best` [currency/yr] (see :attr:`DesignEvaluation.reported_tac`)."""
+        return self.sequential.cost.tac_per_year if self.sequential is not None else self.best.tac
 
     def minimum_by(self, quantity: str) -> str:
         """The method that gave the minimum ``quantity`` ("reflux" or "stages")."""

@@ -31,7 +31,7 @@ class Kind:
 KINDS = (
     Kind("design not vouched for", 0, True, re.compile(
         r"REFLUX BELOW MINIMUM|specification|corrected|did not solve|time limit|not settled|found no design|"
-        r"short of|not found|OUTSIDE TOLERANCE|neighbour", re.IGNORECASE)),
+        r"short of|not found|OUTSIDE TOLERANCE|neighbour|not the lowest", re.IGNORECASE)),
     Kind("properties and model", 1, True, re.compile(
         r"azeotrope|critical|flash|fitted|thermo|deprecated|ideal gas", re.IGNORECASE)),
     Kind("cost data and correlation ranges", 4, False, re.compile(

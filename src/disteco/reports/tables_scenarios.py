@@ -11,11 +11,11 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
+from ..optimisation.layout import SEARCH_AGAIN_TOLERANCE
 from ..optimisation.results import DesignEvaluation, OptimumDesign
 from .tables import KW, TEXT, Cell, Column, Table, quantity_table, text
 
 MONEY = "#,##0"
-CROSS_TOLERANCE = 1e-6  # relative; below the solvers' usual tolerance on the TAC (common practice, no source)
 
 
 def _money(label: str, currency: str) -> Column:
@@ -41,11 +41,34 @@ class CrossTable:
         """Extra TAC of building for scenario i when the prices of j apply: TAC[i][j] - TAC[j][j]."""
         return tuple(tuple(row[j] - self.tac[j][j] for j in range(len(row))) for row in self.tac)
 
-    def below_zero(self, tolerance: float = CROSS_TOLERANCE) -> tuple[str, ...]:
+    def close_notes(self, tolerance: float = SEARCH_AGAIN_TOLERANCE) -> tuple[str, ...]:
+        """A note on the extra TAC values below zero within ``tolerance`` x the column's own optimum, if any."""
+        close = [-value / self.tac[j][j] for row in self.extra for j, value in enumerate(row)
+                 if -tolerance * abs(self.tac[j][j]) <= value < 0.0 and -value >= 0.5]
+        if not close:
+            return ()
+        return (f"cross table: {len(close)} extra TAC value{'s' if len(close) > 1 else ''} below zero, by at most "
+                f"{100.0 * max(close):.2g} % of the scenario's own TAC, within the search's tolerance of "
+                f"{100.0 * tolerance:g} %: designs that close are equally good at the model's resolution (the "
+                "search ranks designs by the model's TAC; the reported price rounds the diameter up and adds the "
+                "reflux drum and pump)",)
+
+    def beaten(self, tolerance: float = SEARCH_AGAIN_TOLERANCE) -> tuple[tuple[int, int], ...]:
+        """(j, i) for each scenario j whose own optimum another scenario's design i, the cheapest under
+        j's prices, beats by more than ``tolerance`` x its TAC."""
+        found = []
+        for j in range(len(self.scenarios)):
+            i = min(range(len(self.scenarios)), key=lambda k: self.tac[k][j])
+            if self.tac[i][j] < self.tac[j][j] * (1.0 - tolerance):
+                found.append((j, i))
+        return tuple(found)
+
+    def below_zero(self, tolerance: float = SEARCH_AGAIN_TOLERANCE) -> tuple[str, ...]:
         """Warnings for every extra TAC below -``tolerance`` x the column's own optimum.
 
-        A design built for other prices cannot beat a scenario's own optimum; if it does,
-        that optimum was not the lowest (a local optimum or a loose solver tolerance).
+        A design built for other prices should not beat a scenario's own optimum by more than the
+        search's tolerance; if it does after the scenario was searched again from that design, the
+        optimum is a local one.
         """
         found = []
         for i, row in enumerate(self.extra):
@@ -53,8 +76,9 @@ class CrossTable:
                 if value < -tolerance * abs(self.tac[j][j]):
                     found.append(f"cross table: the design optimal for '{self.scenarios[i]}' costs "
                                  f"{-value:,.0f} {self.currency}/year less under the prices of "
-                                 f"'{self.scenarios[j]}' than that scenario's own optimum; the optimum of "
-                                 f"'{self.scenarios[j]}' is not the lowest TAC (rerun with a tighter tolerance)")
+                                 f"'{self.scenarios[j]}' than that scenario's own optimum, which is therefore not "
+                                 f"the lowest TAC found (a local optimum the search again from that design did "
+                                 "not leave)")
         return tuple(found)
 
 
@@ -112,7 +136,8 @@ def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
     currency = optima[0][1].best.cost.currency
     columns = (text("Scenario", 22.0), Column("Reflux ratio", "-", "0.000"), Column("R / R_min", "-", "0.000"),
                Column("Stages", "-", "0", 9.0), Column("Feed stage", "-", "0", 10.0),
-               Column("Real trays", "-", "0", 10.0), Column("Diameter", "m", "0.00"), Column("Height", "m", "0.0"),
+               Column("Real trays", "-", "0", 10.0), Column("Diameter", "m", "0.00"),
+               Column("Height, tallest shell", "m", "0.0", 14.0),
                Column("Condenser duty", "kW", "#,##0"), Column("Reboiler duty", "kW", "#,##0"),
                Column("Installed capital", currency, MONEY), _money("Annualised capital", currency),
                _money("Condenser utility", currency), _money("Reboiler utility", currency),
@@ -124,14 +149,30 @@ def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
     rows = []
     for name, opt in optima:
         b = opt.best
-        rows.append((name, b.reflux_ratio, b.reflux_ratio / opt.minimum_reflux_ratio, b.stages, b.feed_stage,
-                     b.sizes.real_trays, b.sizes.diameter, b.sizes.height, b.sizes.condenser_duty / KW,
-                     b.sizes.reboiler_duty / KW, b.cost.capital_installed, b.cost.annualised_capital_per_year,
-                     b.cost.condenser_utility_per_year, b.cost.reboiler_utility_per_year,
-                     b.cost.pump_electricity_per_year, b.cost.utilities_per_year,
-                     b.cost.tac_per_year, opt.solver.status)
+        rows.append((name, b.reflux_ratio, b.reflux_ratio / opt.minimum_reflux_ratio, b.stages, b.feed_stage)
+                    + _reported_sizes_and_costs(opt) + (opt.solver.status,)
                     + _utility_amount(opt, "condenser") + _utility_amount(opt, "reboiler"))
     return Table("Optimum design of each price scenario", columns, tuple(rows))
+
+
+def _reported_sizes_and_costs(optimum: OptimumDesign) -> tuple[Cell, ...]:
+    """(real trays, diameter, height, duties, capital, annualised capital, condenser, reboiler and pump utility,
+    utilities, TAC) as reported: the sequential price where the optimum has one (the console's, the cross
+    table's), else the model's."""
+    b, seq = optimum.best, optimum.sequential
+    duties = (b.sizes.condenser_duty / KW, b.sizes.reboiler_duty / KW)
+    if seq is None:
+        return ((b.sizes.real_trays, b.sizes.diameter, b.sizes.height) + duties
+                + (b.cost.capital_installed, b.cost.annualised_capital_per_year, b.cost.condenser_utility_per_year,
+                   b.cost.reboiler_utility_per_year, b.cost.pump_electricity_per_year, b.cost.utilities_per_year,
+                   b.cost.tac_per_year))
+    cost = seq.cost
+    per_item = {item: sum(u.cost_per_year for u in cost.utilities if u.item == item)
+                for item in ("condenser", "reboiler")}
+    pumps = sum(u.cost_per_year for u in cost.utilities if u.kind == "electricity")
+    return ((seq.sizing.real_trays, seq.sizing.diameter, seq.sizing.tallest_shell.tangent_length) + duties
+            + (cost.capital_installed, cost.annualised_capital, per_item["condenser"], per_item["reboiler"], pumps,
+               cost.utilities_per_year, cost.tac_per_year))
 
 
 def _utility_amount(optimum: OptimumDesign, item: str) -> tuple[Cell, ...]:

@@ -22,7 +22,7 @@ def scenario_lines(parts: ReportParts) -> list[str]:
              f"{'reboiler [kW]':>15}{f'TAC [{currency}/year]':>20}"]
     for name, o in parts.scenarios:
         b = o.best
-        tac = o.sequential.cost.tac_per_year if o.sequential else b.tac
+        tac = o.reported_tac
         lines.append(f"  {_name(name):<{NAME_WIDTH}}{b.reflux_ratio:>8.3f}{b.reflux_ratio / o.minimum_reflux_ratio:>12.3f}"
                      f"{b.stages:>8d}{b.feed_stage:>6d}{b.sizes.reboiler_duty / 1e3:>15,.0f}{_money(tac):>20}")
     if parts.cross is not None:
@@ -46,4 +46,5 @@ def cross_lines(cross: CrossTable) -> list[str]:
     lines += ["", f"Extra TAC of building for the wrong prices [{cross.currency}/year]:", head]
     lines += [f"  {_name(name):<{NAME_WIDTH}}" + "".join(f"{_money(v):>{width}}" for v in row)
               for name, row in zip(cross.scenarios, cross.extra)]
+    lines += ["  " + note[0].upper() + note[1:] for note in cross.close_notes()]
     return lines

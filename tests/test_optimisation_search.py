@@ -87,6 +87,28 @@ def test_a_binding_stage_bound_is_the_headline(problem, cheap_steam, optimum):
                         "to look further")
 
 
+@pytest.mark.parametrize("shells, text, advice", [
+    (1, "the 54 stages one shell within the height limit holds",
+     "raise [sizing] max_height, or let the column go to two shells"),
+    (2, "the 54 stages 2 shells in series within the height limit hold",
+     "raise [sizing] max_height (two shells in series are the most disteco builds)"),
+])
+def test_a_height_limit_names_the_shells_that_hold_it(problem, cheap_steam, optimum, shells, text, advice):
+    """An optimum on the stages the shells within the height limit hold: with two shells the headline
+    no longer advises going to two shells (an o-xylene splitter of 147 stages in two shells was told to)."""
+    from disteco.optimisation.results import Limit
+    from disteco.reports.design_result import DesignResult
+    from disteco.reports.tables_design import optimum_parts
+    from disteco.reports.text import design_text
+    from disteco.sizing import SizingOptions
+
+    best = replace(optimum.best, stages=54)
+    held = replace(optimum, best=best, stage_bound=54, stage_limit=54, sizing_options=SizingOptions(shells=shells))
+    assert held.limits == (Limit("max_height", 54, text, shells),)
+    lines = design_text(DesignResult(None, None, None, parts=optimum_parts(held))).splitlines()
+    assert lines[1] == f"Limited by {text}: {advice}"
+
+
 def test_dearer_steam_never_raises_the_optimum_reflux(problem, cheap_steam, optimum):
     """Raising the steam price never raises the optimum reflux ratio (economic trend)."""
     dear = replace(cheap_steam, reboiler=replace(cheap_steam.reboiler, price=3.0 * cheap_steam.reboiler.price))

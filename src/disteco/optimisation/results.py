@@ -169,6 +169,7 @@ class Limit:
     option: str
     value: float
     text: str
+    shells: int = 1  # shells in series of the design the bound holds (a height limit's advice depends on it)
 
 
 @dataclass(frozen=True)
@@ -214,8 +215,10 @@ class OptimumDesign:
         best = self.best
         if self.stage_bound is not None and best.stages >= self.stage_bound:
             if self.stage_limit is not None and self.stage_bound >= self.stage_limit:
-                found.append(Limit("max_height", self.stage_limit, f"the {self.stage_limit} stages one shell within "
-                                   "the height limit holds"))
+                shells = getattr(self.sizing_options, "shells", 1)
+                held = "one shell within the height limit holds" if shells == 1 else \
+                    f"{shells} shells in series within the height limit hold"
+                found.append(Limit("max_height", self.stage_limit, f"the {self.stage_limit} stages {held}", shells))
             else:
                 found.append(Limit("max_stages", self.stage_bound, f"the stage bound of {self.stage_bound} stages"))
         low, high = self.reflux_range

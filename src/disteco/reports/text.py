@@ -24,7 +24,8 @@ ROW_DEPARTURE = 0.25
 RAISE_ADVICE = {"max_stages": "raise --max-stages (option max_stages) to look further",
                 "reflux_max": "the optimiser option reflux_max caps it; raise it to look further",
                 "reflux_min": "the optimiser option reflux_min holds it; lower it to look further",
-                "max_height": "raise [sizing] max_height, or let the column go to two shells"}
+                "max_height": "raise [sizing] max_height, or let the column go to two shells",
+                ("max_height", 2): "raise [sizing] max_height (two shells in series are the most disteco builds)"}
 
 
 def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
@@ -218,7 +219,8 @@ def design_text(result: DesignResult) -> str:
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
-              *(f"Limited by {limit.text}: {RAISE_ADVICE[limit.option]}" for limit in limits),
+              *(f"Limited by {limit.text}: {RAISE_ADVICE.get((limit.option, limit.shells), RAISE_ADVICE[limit.option])}"
+                for limit in limits),
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)

@@ -254,6 +254,28 @@ def test_a_terminated_design_leaves_nothing(tmp_path):
     assert not out.exists()
 
 
+@pytest.mark.parametrize("raised", [RuntimeError("Error calling __set_name__ on 'cached_property' instance"),
+                                    "case error"])
+def test_an_interrupt_that_comes_back_as_another_error_is_reported_as_one(monkeypatch, capsys, raised):
+    """A SIGTERM raised inside a class body under construction (scipy importing) reached the command
+    line as Python 3.11's RuntimeError "Error calling __set_name__ ...", which was reported as an
+    internal error; any error after a recorded interrupt is now reported as the interruption."""
+    from disteco import cli
+    from disteco._base import interrupt
+    from disteco._base.errors import CaseError
+
+    def terminated(args):
+        interrupt.request()  # what the signal handler does before raising
+        raise raised if isinstance(raised, Exception) else CaseError("feed.flow", "bad", "good")
+
+    monkeypatch.setattr(cli, "_run", terminated)
+    try:
+        assert cli.main(["check", CASE]) == 1
+    finally:
+        interrupt.clear()
+    assert capsys.readouterr().err == "interrupted\n"
+
+
 def test_an_interrupt_the_solver_interface_swallows_still_stops_the_run(monkeypatch):
     """SIGTERM raises KeyboardInterrupt; while the modelling library waits for the solver's process
     its output capture can turn that into a RuntimeError, which used to count as a failed

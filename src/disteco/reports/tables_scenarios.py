@@ -77,8 +77,8 @@ class CrossTable:
                     found.append(f"cross table: the design optimal for '{self.scenarios[i]}' costs "
                                  f"{-value:,.0f} {self.currency}/year less under the prices of "
                                  f"'{self.scenarios[j]}' than that scenario's own optimum, which is therefore not "
-                                 f"the lowest TAC found (a local optimum the search again from that design did "
-                                 "not leave)")
+                                 "the lowest TAC found (a local optimum: searched again from that design, the "
+                                 "search did not reach it)")
         return tuple(found)
 
 

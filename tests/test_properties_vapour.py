@@ -4,6 +4,8 @@ The reference library is thermo: its Peng-Robinson flash and its gamma-phi liqui
 databank's vapour pressures with saturation fugacity coefficients and Poynting factors).
 """
 
+import re
+
 import pytest
 from thermo import ChemicalConstantsPackage, CEOSGas, CEOSLiquid, FlashVL, PRMIX
 
@@ -42,6 +44,11 @@ def _thermo_pr_alpha(names, P, z):
     (("nitrogen", "oxygen"), 1.3e5, "ideal"),   # hetero-atoms but no dipole: no UNIFAC groups either
     (("carbon dioxide", "propane"), 5e5, "peng-robinson"),
     (("thiophene", "benzene"), 1e5, "unifac-dortmund"),  # thiophene 0.55 D stays polar
+    (("benzene", "cyclohexane"), 1.05e5, "unifac-dortmund"),  # aromatic with aliphatic: not an ideal liquid
+    (("n-hexane", "benzene", "toluene"), 1.5e5, "unifac-dortmund"),
+    (("benzene", "toluene"), 1.15e5, "ideal"),  # aromatics alone
+    (("ethylbenzene", "styrene"), 8e3, "ideal"),
+    (("benzene", "cyclohexane"), 5e5, "peng-robinson"),  # above 2 bar the vapour is the larger error
 ])
 def test_automatic_method(names, pressure, method):
     """Peng-Robinson above 10 bar; UNIFAC (Dortmund) for a polar mixture below it; Peng-Robinson
@@ -50,6 +57,22 @@ def test_automatic_method(names, pressure, method):
     whose dipole moment in the databank is below 0.5 D counts as non-polar (nitrogen 0, oxygen 0,
     carbon dioxide 0 D: the databank's values, chemicals.dipole)."""
     assert choose_method(resolve_components(names), pressure) == method
+
+
+def test_benzene_cyclohexane_azeotrope_refuses_a_split_across_it(tmp_path, capsys):
+    """Benzene/cyclohexane at 1.05 bar: the automatic method takes UNIFAC (Dortmund) and finds the
+    minimum-boiling azeotrope (about 54 % benzene, 77.6 degC at 1 atm, from memory: Gmehling et al.,
+    Azeotropic Data); with Raoult's law the same case was sent on to an 18.6 m shell at a reflux ratio
+    of 138 (the key relative volatility near 1.02)."""
+    case = tmp_path / "case.toml"
+    case.write_text('title = "t"\n[mixture]\ncomponents = ["benzene", "cyclohexane"]\n[feed]\nflow = "50 kmol/h"\n'
+                    'composition = { benzene = 0.3, cyclohexane = 0.7 }\nq = 1.0\n[column]\ntop_pressure = "1.05 bar"\n'
+                    '[products]\ndistillate_light_key_fraction = 0.9\nbottoms_light_key_fraction = 0.01\n')
+    assert main(["check", str(case)]) == 2
+    err = capsys.readouterr().err
+    found = re.search(r"minimum-boiling azeotrope of benzene and cyclohexane at ([\d.]+) \(([\d.]+) degC", err)
+    assert found, err
+    assert 0.50 < float(found.group(1)) < 0.58 and 77.0 < float(found.group(2)) < 79.5
 
 
 def test_real_vapour_of_raoults_law_agrees_with_peng_robinson():

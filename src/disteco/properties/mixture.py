@@ -555,7 +555,8 @@ def _saturation_temperature(psat, P: float) -> float:
 
 def choose_method(components: tuple[ComponentId, ...], pressure: float) -> str:
     """Default method: Peng-Robinson above 10 bar, UNIFAC (Dortmund) for polar mixtures below it,
-    Peng-Robinson for non-polar mixtures above 2 bar, else ideal (Raoult's law).
+    Peng-Robinson for non-polar mixtures above 2 bar, else ideal (Raoult's law), or UNIFAC
+    (Dortmund) where aromatic and aliphatic hydrocarbons mix (:func:`mixes_aromatic_and_aliphatic`).
 
     Activity-coefficient liquids for polar liquids at low pressure and a cubic equation of state
     at high pressure are common practice, no source. The 2-bar line for non-polar mixtures is
@@ -572,7 +573,25 @@ def choose_method(components: tuple[ComponentId, ...], pressure: float) -> str:
         return "unifac-dortmund"
     if pressure > IDEAL_GAS_VAPOUR_LIMIT:
         return "peng-robinson"
-    return "ideal"
+    return "unifac-dortmund" if mixes_aromatic_and_aliphatic(components) else "ideal"
+
+
+# Dortmund UNIFAC main groups of carbon in an aromatic ring (ACH, ACCH2)
+AROMATIC_MAIN_GROUPS = frozenset({3, 4})
+
+
+def mixes_aromatic_and_aliphatic(components: tuple[ComponentId, ...]) -> bool:
+    """True for hydrocarbons of which some have an aromatic ring and some none (benzene/cyclohexane),
+    each with Dortmund UNIFAC groups: their liquid is not ideal (benzene/cyclohexane has a
+    minimum-boiling azeotrope near 54 % benzene at 1 atm, from memory: Gmehling et al., Azeotropic
+    Data; Raoult's law shows none and puts the key relative volatility near 1.02), so the automatic
+    method takes activity coefficients for them where it would take Raoult's law. Aromatics alone
+    (benzene/toluene, ethylbenzene/styrene) or aliphatics alone stay ideal."""
+    groups = component_packages([c.cas for c in components])[0].UNIFAC_Dortmund_groups
+    if not all(groups):
+        return False
+    aromatic = [any(DOUFSG[g].main_group_id in AROMATIC_MAIN_GROUPS for g in found) for found in groups]
+    return any(aromatic) and not all(aromatic)
 
 
 @lru_cache(maxsize=16)

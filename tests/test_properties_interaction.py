@@ -44,6 +44,8 @@ bottoms_light_key_fraction = 0.10
 def test_polar_pairs_without_interaction_parameter(names, thermo, pairs):
     mixture = build_mixture(names, thermo, 15e5)
     assert mixture.untuned_polar_pairs == pairs
+    # an azeotrope of the first pair is one the case's own parameters stand behind only with a kij given
+    assert mixture.pair_parameters_given(0, 1) == (thermo.method == "peng-robinson" and bool(thermo.kij))
     mixture.clear_warnings()
     named = untuned_polar_pairs(mixture)
     assert named == tuple(f"{names[i]}/{names[j]}" for i, j in pairs)

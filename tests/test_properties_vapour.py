@@ -73,6 +73,8 @@ def test_benzene_cyclohexane_azeotrope_refuses_a_split_across_it(tmp_path, capsy
     found = re.search(r"minimum-boiling azeotrope of benzene and cyclohexane at ([\d.]+) \(([\d.]+) degC", err)
     assert found, err
     assert 0.50 < float(found.group(1)) < 0.58 and 77.0 < float(found.group(2)) < 79.5
+    assert ("predicted by unifac-dortmund without parameters fitted to the pair: where equilibrium data show none, "
+            "give NRTL or Wilson parameters fitted to them") in err
 
 
 def test_real_vapour_of_raoults_law_agrees_with_peng_robinson():

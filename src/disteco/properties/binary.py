@@ -46,6 +46,9 @@ class Azeotrope:
     # liquid with the dimerisation (``association``), which the method's ideal-gas vapour leaves out
     alpha_dimerised: float | None = None
     dimerising: str | None = None  # the acid's name
+    # the method that predicts it without parameters fitted to the pair ("unifac-dortmund", or
+    # "peng-robinson" with kij = 0); "" where the case gave the pair's parameters
+    predicted_by: str = ""
 
     @property
     def vapour_artefact(self) -> bool:
@@ -103,7 +106,8 @@ def find_azeotropes(mixture: Mixture, pressure: float, first: int = 0, second: i
         T_az = _azeotrope_temperature(mixture, pressure, first, second, x_az, a, b)
         kind = "minimum-boiling" if T_az < min(pure_T) else "maximum-boiling"
         found.append(Azeotrope(mixture.names[first], mixture.names[second], pressure, float(x_az),
-                               float(T_az), kind, *_dimerised(mixture, pressure, first, second, x_az, T_az)))
+                               float(T_az), kind, *_dimerised(mixture, pressure, first, second, x_az, T_az),
+                               predicted_by="" if mixture.pair_parameters_given(first, second) else mixture.method))
     return found
 
 

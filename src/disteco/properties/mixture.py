@@ -369,6 +369,13 @@ class Mixture:
         return tuple((i, j) for i in range(self.size) for j in range(i + 1, self.size)
                      if self._kij[i][j] == 0.0 and (self.components[i].is_polar or self.components[j].is_polar))
 
+    def pair_parameters_given(self, i: int, j: int) -> bool:
+        """Whether the case fitted the pair (i, j): NRTL and Wilson always, Peng-Robinson where kij is not
+        zero; UNIFAC (Dortmund) predicts from groups and Raoult's law has no parameters."""
+        if self.method in ("nrtl", "wilson"):
+            return True
+        return self.method == "peng-robinson" and self._kij[i][j] != 0.0
+
     def untuned_pair_caveat(self, light: int, heavy: int) -> str:
         """A clause naming the key pair where :attr:`untuned_polar_pairs` holds it, else ""."""
         pair = (min(light, heavy), max(light, heavy))

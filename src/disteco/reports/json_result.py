@@ -56,7 +56,8 @@ def mixture_json(summary: MixtureSummary) -> dict:
         "azeotropes": [
             {"first": a.first, "second": a.second, "mole_fraction_first": a.x_first,
              "temperature_degC": to_degC(a.T), "pressure_kPa": a.pressure / 1e3, "kind": a.kind,
-             "relative_volatility_with_dimerisation": a.alpha_dimerised}
+             "relative_volatility_with_dimerisation": a.alpha_dimerised,
+             "predicted_by": a.predicted_by or None}
             for a in summary.azeotropes],
         "vapour_dimerisation_check": None if summary.association is None else {
             "acid": summary.association.acid,

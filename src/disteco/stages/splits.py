@@ -180,8 +180,17 @@ def key_azeotrope_crossings(split: ProductSplit, z, azeotropes) -> tuple[str, ..
                 found.append(
                     f"{name} light-key fraction of the key pair {x:.6g} lies beyond the {az.kind} azeotrope "
                     f"of {az.first} and {az.second} at {az.x_first:.4g} ({az.T - 273.15:.1f} degC, "
-                    f"{az.pressure / 1e5:.4g} bar) while the feed has {z_key:.4g}{_artefact(az)}")
+                    f"{az.pressure / 1e5:.4g} bar{_predicted(az)}) while the feed has {z_key:.4g}{_artefact(az)}")
     return tuple(found)
+
+
+def _predicted(az) -> str:
+    """Where no parameters fitted to the pair stand behind the azeotrope, which method predicts it and
+    what would settle it."""
+    if not az.predicted_by:
+        return ""
+    return (f"; predicted by {az.predicted_by} without parameters fitted to the pair: where equilibrium "
+            "data show none, give NRTL or Wilson parameters fitted to them")
 
 
 def _artefact(az) -> str:

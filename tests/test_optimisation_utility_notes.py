@@ -138,7 +138,10 @@ def test_no_note_where_the_other_exchanger_would_have_no_level(benzene_toluene):
 def test_a_note_that_moves_the_other_exchanger_to_a_dearer_level_says_so(benzene_toluene):
     """At 3 bar the condenser takes the warmest cooling level offered (tempered water, 90 -> 100 degC,
     invented) and the reboiler mp_steam; the 1.7 bar that lp_steam needs brings the top near 100 degC,
-    onto cooling water, a dearer level: the note says so instead of reading as a plain saving."""
+    onto cooling water, a dearer level: the note says so. With prices (invented, per GJ of duty) it
+    gives both yearly changes at the profile's duties, and is left out where their sum is no saving."""
+    from disteco.optimisation.utility_notes import UtilityPricing
+
     tempered = UtilityLevel("tempered_water", "cooling", "cooling_water", C + 90, C + 100, heat_capacity=4200.0)
     levels = (tempered,) + LEVELS
     profile = make_profile(benzene_toluene, top=3e5)
@@ -147,7 +150,23 @@ def test_a_note_that_moves_the_other_exchanger_to_a_dearer_level_says_so(benzene
     [note] = _notes(benzene_toluene, profile, sized, levels)
     assert note.startswith("reboiler on mp_steam: lp_steam")
     assert re.search(r"condenser would then take cooling_water \([\d.]+ -> [\d.]+ degC\), a dearer level than its "
-                     r"tempered_water now: compare both utilities' costs first", note)
+                     r"tempered_water now\. ", note)
+
+    def priced(per_gj):
+        seconds = 8000.0 * 3600.0
+        return UtilityPricing(lambda name, duty: duty * seconds * per_gj[name] / 1e9, "USD")
+
+    prices = {"tempered_water": 0.2, "cooling_water": 0.5, "lp_steam": 6.0, "mp_steam": 8.0}
+    [note] = utility_level_notes(benzene_toluene, profile, sized.condenser, sized.reboiler, levels, 10.0,
+                                 priced(prices))
+    year = 8000.0 * 3600.0 / 1e9
+    reboiler = profile.reboiler_duty * year * (6.0 - 8.0)
+    condenser = profile.condenser_duty * year * (0.5 - 0.2)
+    assert (f"at the present duties the two utilities would cost about {-(reboiler + condenser):,.0f} USD a year less "
+            f"(reboiler {reboiler:+,.0f}, condenser {condenser:+,.0f})") in note
+    dear_water = dict(prices, cooling_water=8.0)  # the condenser's move would cost more than the steam saves
+    assert utility_level_notes(benzene_toluene, profile, sized.condenser, sized.reboiler, levels, 10.0,
+                               priced(dear_water)) == ()
 
 
 def test_no_reboiler_note_below_the_columns_own_pressure_drop(benzene_toluene, vacuum):

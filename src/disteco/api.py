@@ -144,7 +144,8 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         check_capacity(reference, size_reference(mixture, data, reference, keyed),
                        given.reflux_ratio if given else estimate.minimum_reflux)
         ends = profile_utilities(reference, data.levels, min_approach)
-        notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach) if utility_notes else ()
+        notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach,
+                                    _utility_pricing(data, names[0], year, currency)) if utility_notes else ()
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),
@@ -334,7 +335,16 @@ def _utility_notes(mixture, parts: ReportParts, data: CostData, sizing) -> tuple
     if parts.sizing is None:
         return ()
     return utility_level_notes(mixture, parts.profile, parts.sizing.condenser, parts.sizing.reboiler, data.levels,
-                               sizing.min_approach)
+                               sizing.min_approach, None if parts.cost is None else _utility_pricing(
+                                   data, parts.cost.scenario, parts.cost.cost_year, parts.cost.currency))
+
+
+def _utility_pricing(data: CostData, scenario: str, year: int | None, currency: str):
+    """The yearly cost of a duty on a level under ``scenario``'s prices, in ``currency`` of ``year``."""
+    from .optimisation.utility_notes import UtilityPricing
+
+    seconds = data.settings.operating_hours_per_year * 3600.0
+    return UtilityPricing(lambda name, duty: duty * seconds * data.price_per_joule(scenario, name, year), currency)
 
 
 def _given_options(options) -> tuple[tuple[str, object], ...]:

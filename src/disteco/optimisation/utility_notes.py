@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Sequence
+from dataclasses import dataclass
 
 from scipy.optimize import brentq
 
@@ -30,8 +31,16 @@ PRESSURE_STEPS = 16  # at most 1.25**16 = 36 x up or down from the column's own 
 LOWEST_PRESSURE = 500.0  # Pa; below it a column pressure is no longer a practical answer
 
 
+@dataclass(frozen=True)
+class UtilityPricing:
+    """Yearly cost [currency/yr] of ``duty`` [W] on the level named, under the run's first scenario."""
+
+    yearly: Callable[[str, float], float]
+    currency: str
+
+
 def utility_level_notes(mixture, profile, condenser, reboiler, levels: Sequence,
-                        min_approach: float) -> tuple[str, ...]:
+                        min_approach: float, pricing: UtilityPricing | None = None) -> tuple[str, ...]:
     """Notes for a condenser or reboiler whose utility is not the cheapest offered, each about the next
     cheaper level.
 
@@ -39,14 +48,17 @@ def utility_level_notes(mixture, profile, condenser, reboiler, levels: Sequence,
     ``condenser`` and ``reboiler`` its exchangers (a sizing's, or
     :class:`~disteco.sizing.exchangers.ExchangerEnds`),
     ``levels`` the utility levels offered and ``min_approach`` [K] the sizing option. Empty
-    when both exchangers already take the cheapest level.
+    when both exchangers already take the cheapest level. With ``pricing`` the note says how much
+    the two utilities would cost a year at the profile's duties, and is left out where moving the
+    pressure would not make them cheaper (a depropaniser's reboiler freed for warm water at 1.9 bar,
+    its condenser then on refrigeration at -50 degC).
     """
     top, bottom = _top_saturation(mixture, profile), _bottom_saturation(mixture, profile)
     notes = []
     with mixture.quiet():  # probed states, not the column's: no property notes from them
         for exchanger, other, service, own, other_side in ((condenser, reboiler, "cooling", top, bottom),
                                                            (reboiler, condenser, "heating", bottom, top)):
-            note = _note(exchanger, other, service, own, other_side, profile, levels, min_approach)
+            note = _note(exchanger, other, service, own, other_side, profile, levels, min_approach, pricing)
             if note:
                 notes.append(note)
     return tuple(notes)
@@ -102,7 +114,7 @@ def pressure_for(saturation: Callable[[float], float], pressure: float, shift: f
 
 
 def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
-          min_approach: float) -> str | None:
+          min_approach: float, pricing: UtilityPricing | None = None) -> str | None:
     offered = offered_levels(levels, service)
     names = [u.name for u in offered]
     if exchanger.utility.name not in names[1:]:
@@ -134,15 +146,33 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
         # the other exchanger would have no level there: not a column to try (a 30-bar CO2/ethane column's
         # reboiler on warm water at about 7.8 bar, where nothing offered condenses its top)
         return None
+    text, other_level = then
+    money = ""
+    if pricing is not None and other_level is not None:
+        duties = {"condenser": profile.condenser_duty, "reboiler": profile.reboiler_duty}
+        own_change = (pricing.yearly(cheaper.name, duties[exchanger.name])
+                      - pricing.yearly(exchanger.utility.name, duties[exchanger.name]))
+        other_change = (pricing.yearly(other_level.name, duties[other_exchanger.name])
+                        - pricing.yearly(other_exchanger.utility.name, duties[other_exchanger.name]))
+        if own_change + other_change >= 0.0:
+            return None  # the utilities would cost no less: nothing to try
+        money = (f"; at the present duties the two utilities would cost about {_money(-(own_change + other_change))} "
+                 f"{pricing.currency} a year less ({exchanger.name} {_money(own_change, sign=True)}, "
+                 f"{other_exchanger.name} {_money(other_change, sign=True) if abs(other_change) >= 0.5 else 'unchanged'})")
     return (f"{opening}, which a top pressure of about {_kpa(new_top)} gives (now {_kpa(top)}); "
-            f"the {other_exchanger.name} would then take {then}. The relative volatility moves with the pressure: "
-            "design the case again at that top pressure to compare")
+            f"the {other_exchanger.name} would then take {text}{money}. The relative volatility moves with the "
+            "pressure: design the case again at that top pressure to compare")
+
+
+def _money(value: float, sign: bool = False) -> str:
+    """Whole money with thousands separators, with its sign where asked ("+5,700", "-18,000")."""
+    return f"{value:+,.0f}" if sign else f"{value:,.0f}"
 
 
 def _level_then(saturation, service: str, exchanger, pressure: float, change: float, levels,
-                min_approach: float) -> str | None:
-    """The level the other exchanger would take with its column end ``change`` [Pa] away; None where no
-    level offered would fit it."""
+                min_approach: float) -> tuple[str, object] | None:
+    """(in words, the level) the other exchanger would take with its column end ``change`` [Pa] away (the level
+    None where thermo could not say); None where no level offered would fit it."""
     try:
         moved = saturation(pressure + change) - saturation(pressure)
         level = choose_utility(levels, service, exchanger.process_in + moved, exchanger.process_out + moved,
@@ -150,14 +180,14 @@ def _level_then(saturation, service: str, exchanger, pressure: float, change: fl
     except InfeasibleSpecError:
         return None
     except (DistecoError, ArithmeticError, ValueError):
-        return "a level not found here (thermo's saturation temperature failed at that pressure)"
+        return "a level not found here (thermo's saturation temperature failed at that pressure)", None
     then = f"{level.name} ({_c(exchanger.process_in + moved)} -> {_c(exchanger.process_out + moved)} degC)"
     names = [u.name for u in offered_levels(levels, service)]
     if exchanger.utility.name in names and names.index(level.name) > names.index(exchanger.utility.name):
         # the pressure that frees one exchanger pushes the other onto a dearer level (a glycol drying
         # column's reboiler off medium-pressure steam at 0.66 kPa, its condenser onto refrigeration)
-        then += f", a dearer level than its {exchanger.utility.name} now: compare both utilities' costs first"
-    return then
+        then += f", a dearer level than its {exchanger.utility.name} now"
+    return then, level
 
 
 def _c(kelvin: float) -> str:

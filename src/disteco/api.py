@@ -102,7 +102,8 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     from .optimisation.pricing import check_capacity, reference_profile, size_reference
     from .optimisation.problem import remember_column_profile, resolved_problem
     from .optimisation.utility_notes import utility_level_notes
-    from .sizing.exchangers import profile_utilities
+    from .sizing.column import condensate
+    from .sizing.exchangers import condensate_freezing_warning, profile_utilities
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut
@@ -146,6 +147,8 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         ends = profile_utilities(reference, data.levels, min_approach)
         notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach,
                                     _utility_pricing(data, names[0], year, currency)) if utility_notes else ()
+        freezing = condensate_freezing_warning(mixture.liquidus(condensate(reference)), ends[0].utility)
+        notes += (freezing,) if freezing and utility_notes else ()
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),

@@ -52,6 +52,9 @@ class FittedSizingProperties:
     def molar_mass(self, z) -> float:
         return self.fitted.molar_mass(list(z))
 
+    def liquidus(self, x):
+        return self.mixture.liquidus(x)
+
     def relative_volatility(self, T: float, P: float, x, light: int, heavy: int, y=None) -> float:
         k = self.fitted.k_values(T, P, list(x))
         return float(k[light] / k[heavy])

@@ -22,6 +22,7 @@ from thermo.unifac import DOUFIP2016, DOUFSG
 from .._base.errors import CaseError, InfeasibleSpecError, PropertyError
 from ..case import Thermo
 from .association import DIMERISING_ACIDS, dimerised_k_values, dimerising_acid
+from .solid_liquid import Liquidus, liquidus
 from .components import ComponentId, resolve_components
 from .data_cache import component_packages
 from .vle_fallback import NoSplit, isothermal_split, saturation_point, wilson_k, wilson_start
@@ -368,6 +369,12 @@ class Mixture:
             return ()
         return tuple((i, j) for i in range(self.size) for j in range(i + 1, self.size)
                      if self._kij[i][j] == 0.0 and (self.components[i].is_polar or self.components[j].is_polar))
+
+    def liquidus(self, x) -> Liquidus | None:
+        """Where liquid ``x`` [-] starts to freeze (``solid_liquid``): the databank's melting points and
+        heats of fusion in the Schroeder-van Laar equation; None where no component has them."""
+        c = self._constants
+        return liquidus(x, self.names, c.Tms, c.Hfus_Tms)
 
     def pair_parameters_given(self, i: int, j: int) -> bool:
         """Whether the case fitted the pair (i, j): NRTL and Wilson always, Peng-Robinson where kij is not

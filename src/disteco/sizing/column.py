@@ -18,7 +18,7 @@ from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .boiling import reboiler_flux_warning, zuber_peak_heat_flux
 from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchanger_service import REBOILER_KINDS
-from .exchangers import ExchangerSizing, OverallCoefficient, exchanger_ends, size_exchanger
+from .exchangers import ExchangerSizing, OverallCoefficient, condensate_freezing_warning, exchanger_ends, size_exchanger
 from .materials import low_temperature_warning, material
 from .flooding import FLOW_PARAMETER_RANGE
 from .tray_pressure_drop import TrayPressureDrop, sieve_tray_pressure_drop, weir_height_for
@@ -38,6 +38,7 @@ class SizingProperties(Protocol):
     def liquid_viscosity(self, T: float, P: float, x) -> float: ...
     def molar_mass(self, z) -> float: ...
     def relative_volatility(self, T: float, P: float, x, light: int, heavy: int, y=None) -> float: ...
+    def liquidus(self, x): ...  # where liquid x starts to freeze (properties.solid_liquid.Liquidus) or None
 
 
 @dataclass(frozen=True)
@@ -171,14 +172,19 @@ def _efficiency(profile: StageProfile, mixture: SizingProperties, options: Sizin
     return TrayEfficiency(value, "O'Connell (Lockett fit)", mu, alpha)
 
 
+def condensate(profile: StageProfile):
+    """Mole fractions [-] of the liquid the condenser makes: the distillate for a total condenser, the
+    reflux (taken at the top tray's liquid composition) for a partial one."""
+    return profile.x[0] if profile.partial_condenser else profile.distillate_composition
+
+
 def _condenser_liquid(profile: StageProfile, mixture: SizingProperties) -> tuple[float, float]:
     """Liquid from the condenser to the drum: volume flow [m^3/s] and density [kg/m^3].
 
-    Reflux and liquid distillate for a total condenser; reflux alone (taken at the top
-    tray's liquid composition) for a partial one.
+    Reflux and liquid distillate for a total condenser; reflux alone for a partial one.
     """
     molar = profile.reflux_ratio * profile.distillate_flow
-    x = profile.x[0] if profile.partial_condenser else profile.distillate_composition
+    x = condensate(profile)
     if not profile.partial_condenser:
         molar += profile.distillate_flow
     density = mixture.liquid_density(profile.condenser_temperature, profile.P[0], x)
@@ -258,6 +264,9 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
                                options.min_approach, options.operating_hours, "fixed_tube_sheet")
     reboiler = size_exchanger(r_name, r_service, profile.reboiler_duty, r_in, r_out, utilities, U_reboiler,
                               options.min_approach, options.operating_hours, reboiler_type)
+
+    freezing = condensate_freezing_warning(mixture.liquidus(condensate(profile)), condenser.utility)
+    warnings.extend([freezing] if freezing else [])
 
     boiling = trays[-1]  # the liquid the reboiler boils and the vapour above it
     latent = profile.reboiler_duty / (profile.V[n - 1] * mixture.molar_mass(profile.y[n - 1]))

@@ -291,3 +291,17 @@ def size_exchanger(name: str, service: str, duty: float, process_in: float, proc
                            exchanger_area(duty, coefficient.value, dtm), flow,
                            None if flow is None else flow * seconds, duty * seconds, operating_hours,
                            coefficient.process_side, coefficient.source, exchanger_type)
+
+
+def condensate_freezing_warning(found, level: UtilityLevel) -> str | None:
+    """A warning where the condensate starts to freeze (``found``, a ``Liquidus`` or None) above the
+    cooling level's supply temperature: the tube walls at the cold end, near the coolant's temperature,
+    would foul with solid (a naphthalene distillate melting near 80 degC on cooling water at 30 degC)."""
+    if found is None or level.supply_temperature >= found.temperature:
+        return None
+    return (f"condenser: the condensate starts to freeze at about {found.temperature - 273.15:.1f} degC "
+            f"({found.component} comes out as solid; ideal solubility from its melting point "
+            f"{found.melting_point - 273.15:.1f} degC and heat of fusion), above the {level.name} supply at "
+            f"{level.supply_temperature - 273.15:.1f} degC: the tubes at the cold end would foul with solid; cool it "
+            "with a level supplied above that temperature (tempered water, or raising steam: add one to the cost "
+            "data's utility_levels.csv)")

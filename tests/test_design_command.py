@@ -177,7 +177,7 @@ def test_reported_optimum_priced_as_a_given_design(result, tmp_path, capsys):
     assert optimum["tac_per_year"] == pytest.approx(data["cost"]["tac_per_year"], rel=0.005)
     assert abs(compared["extra_tac_fraction"]) < 0.005
     assert "Given design (priced): " in out and "Lowest-TAC" not in out
-    assert "benzene in the bottoms 0.015 (specification at most 0.015)" in out
+    assert "benzene in the bottoms 0.0150 (specification at most 0.015)" in out
     assert "benzene in the distillate 0.98" in out and "(specification at least 0.985)" in out
     assert "Optimum under the same prices: " in out
     summary = load_workbook(tmp_path / "design.xlsx")["Summary"]

@@ -236,3 +236,13 @@ def test_mixture_table_names_the_azeotrope(ethanol_water):
     rows = dict(mixture_table(summary).rows)
     assert 0.85 < rows["Azeotrope ethanol/water (minimum-boiling): mole fraction ethanol [-]"] < 0.92
     assert 77.5 < rows["Azeotrope ethanol/water (minimum-boiling): temperature [degC]"] < 79.0
+
+
+@pytest.mark.parametrize("value, shown", [(0.5, "0.00000"), (1e-6, "0.000E+00"), (0.99995, "0.000000"),
+                                          (0.9999998, "0.00000000"), (0.0, "0.00000")])
+def test_a_mole_fraction_keeps_the_digits_that_tell_it_from_zero_or_one(value, shown):
+    """A 1 ppm bottoms specification met on thermo was written as 0.00000 in the workbook and on the
+    console; a small fraction is shown in scientific notation, one near 1 to its first differing digit."""
+    from disteco.reports.workbook_cells import number_format_of
+
+    assert number_format_of(value, "mole fraction") == shown

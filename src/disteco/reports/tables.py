@@ -84,6 +84,21 @@ class Table:
         return frame
 
 
+def fraction_decimals(value: float, decimals: int) -> int | None:
+    """Decimal places that tell a fraction [-] apart from 0 or 1: ``decimals`` in between, one past
+    the first digit that differs from 1 near 1 (at most 9); None below 0.001, where three
+    significant figures in scientific notation say more than fixed decimals (a 1 ppm bottoms).
+
+    >>> fraction_decimals(0.98512, 5), fraction_decimals(0.999998, 4), fraction_decimals(1e-6, 5)
+    (5, 7, None)
+    """
+    if 0.0 < value < 1e-3:
+        return None
+    if 0.999 < value < 1.0:
+        return min(max(decimals, math.ceil(-math.log10(1.0 - value)) + 1), 9)
+    return decimals
+
+
 def is_number(value: Cell) -> bool:
     """True for a finite int or float (bool excluded)."""
     return isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)

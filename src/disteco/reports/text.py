@@ -14,7 +14,7 @@ from .design_result import DesignResult
 from .notes import console_warnings
 from .tables import KMOL_PER_H
 from .tables_design import GivenDesignReport
-from .text_checks import checks_lines
+from .text_checks import checks_lines, fraction_text
 from .text_scenarios import scenario_lines
 
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
@@ -121,20 +121,20 @@ def products_lines(products: Products, feed: FeedState, profile: StageProfile, n
     reached = []
     if products.light_key_spec.kind == "recovery":
         recovery = profile.distillate_flow * x_d[light] / (feed.molar_flow * feed.z[light])
-        reached.append(f"{names[light]} recovery to the distillate {recovery:.4f} (specification at least "
+        reached.append(f"{names[light]} recovery to the distillate {fraction_text(recovery, 4)} (specification at least "
                        f"{products.light_key_spec.value:.4g})")
     else:
-        reached.append(f"{names[light]} in the bottoms {x_b[light]:.4g} (specification at most "
+        reached.append(f"{names[light]} in the bottoms {fraction_text(x_b[light], 4)} (specification at most "
                        f"{products.light_key_spec.value:.4g})")
     if products.heavy_key_spec.kind == "recovery":
         recovery = profile.bottoms_flow * x_b[heavy] / (feed.molar_flow * feed.z[heavy])
-        reached.append(f"{names[heavy]} recovery to the bottoms {recovery:.4f} (specification at least "
+        reached.append(f"{names[heavy]} recovery to the bottoms {fraction_text(recovery, 4)} (specification at least "
                        f"{products.heavy_key_spec.value:.4g})")
     elif len(names) == 2:  # a binary's distillate is specified by its light-key fraction
-        reached.append(f"{names[light]} in the distillate {x_d[light]:.4f} (specification at least "
+        reached.append(f"{names[light]} in the distillate {fraction_text(x_d[light], 4)} (specification at least "
                        f"{1.0 - products.heavy_key_spec.value:.4g})")
     else:
-        reached.append(f"{names[heavy]} in the distillate {x_d[heavy]:.4g} (specification at most "
+        reached.append(f"{names[heavy]} in the distillate {fraction_text(x_d[heavy], 4)} (specification at most "
                        f"{products.heavy_key_spec.value:.4g})")
     return [f"Held: reflux ratio {profile.reflux_ratio:.4g} [-], {profile.stages} stages, feed on stage "
             f"{profile.feed_stage}; the distillate flow ({profile.distillate_flow * KMOL_PER_H:,.2f} kmol/h) is "

@@ -4,8 +4,23 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
+from .tables import fraction_decimals
+
 if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver interfaces
     from ..optimisation.thermo_checks import ThermoChecks
+
+
+def fraction_text(value: float, decimals: int = 5) -> str:
+    """A mole fraction or recovery [-] with the digits that tell it apart from 0 or 1 (:func:`fraction_decimals`):
+    a 1 ppm bottoms read "0.00000" and a recovery of 0.999998 "1.0000".
+
+    >>> fraction_text(0.98512), fraction_text(1e-06), fraction_text(0.999998, 4), fraction_text(0.0)
+    ('0.98512', '1e-06', '0.9999980', '0')
+    """
+    if value <= 0.0 or value >= 1.0:
+        return f"{value:g}"
+    places = fraction_decimals(value, decimals)
+    return f"{value:.3g}" if places is None else f"{value:.{places}f}"
 
 
 def checks_lines(checks: ThermoChecks | None, reflux_ratio: float, cmo_minimum: float | None) -> list[str]:
@@ -15,9 +30,9 @@ def checks_lines(checks: ThermoChecks | None, reflux_ratio: float, cmo_minimum: 
     v, k = checks.verification, checks.verification.keys
     state = "specifications met" if v.specifications_met else "SPECIFICATIONS MISSED by the model's design"
     lines = [f"Verified on thermo (energy balances, {v.profile.stages} stages): {state} (tolerance "
-             f"{100 * v.tolerance:g} %); light key {k.distillate_light_key_fraction:.5f} in the distillate, "
-             f"{k.bottoms_light_key_fraction:.5f} in the bottoms; recoveries {k.light_key_recovery:.4f} / "
-             f"{k.heavy_key_recovery:.4f} [-]",
+             f"{100 * v.tolerance:g} %); light key {fraction_text(k.distillate_light_key_fraction)} in the "
+             f"distillate, {fraction_text(k.bottoms_light_key_fraction)} in the bottoms; recoveries "
+             f"{fraction_text(k.light_key_recovery, 4)} / {fraction_text(k.heavy_key_recovery, 4)} [-]",
              f"  model against thermo: largest difference {v.max_temperature_difference:.3g} K, "
              f"{v.max_composition_difference:.3g} mole fraction; thermo duties condenser "
              f"{v.condenser_duty / 1e3:,.0f} kW, reboiler {v.reboiler_duty / 1e3:,.0f} kW ({v.wall_time:.1f} s)"]

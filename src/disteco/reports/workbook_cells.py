@@ -9,7 +9,7 @@ from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.worksheet import Worksheet
 
-from .tables import MIXED, TEXT, Cell, Table, is_number
+from .tables import MIXED, TEXT, Cell, Table, fraction_decimals, is_number
 
 # A spreadsheet treats text starting with one of these as the start of a formula when the
 # cell is edited or the data re-imported (formula injection).
@@ -26,7 +26,7 @@ SMALL_POWER = 100.0  # kW; below it a power or duty is shown to a tenth
 UNIT_FORMATS = {"kW": "#,##0", "MW": "#,##0.00", "h/year": "#,##0", "year": "0", "kPa": "0.00",
                 "kPa gauge": "0.0", "degC": "0.0", "kmol/h": "0.00", "m": "0.00", "m^2": "0.0", "m^3": "0.00",
                 "kg": "#,##0", "mm": "0.0", "kg/s": "0.000", "GJ/year": "#,##0", "s": "0.0", "W/(m^2 K)": "0",
-                "g/mol": "0.00", "1/year": "0.0000", "mole fraction": "0.00000"}
+                "g/mol": "0.00", "1/year": "0.0000"}
 
 
 def put_text(ws: Worksheet, row: int, column: int, value: str):
@@ -59,6 +59,9 @@ def number_format_of(value: float | int, unit: str | None = None) -> str:
             return "#,##0"
         if unit == "kW" and abs(value) < SMALL_POWER:
             return "0.0"  # a pump's few kW keep their tenth
+        if unit == "mole fraction":  # a ppm impurity or a recovery near 1 keeps its digits
+            places = fraction_decimals(value, 5)
+            return "0.000E+00" if places is None else "0." + "0" * places
         if unit in UNIT_FORMATS:
             return UNIT_FORMATS[unit]
     size = abs(value)

@@ -213,36 +213,41 @@ def test_control_margin_binds_and_both_designs_are_reported(result):
     assert values["Without the margin: total annualised cost [USD/year]"] == pytest.approx(free["tac_per_year"])
 
 
-def test_cross_table_prices_a_design_whose_model_solve_fails(monkeypatch):
-    """A cross-table cell whose model solve fails is priced by the sizing and costing layers at the
-    design's own distillate, as the reported designs are, with a note, instead of ending the run:
-    the fallback agrees with the reported TAC of the same design under the same prices."""
+def test_cross_table_prices_each_reported_design_under_the_other_prices():
+    """A cross-table cell is the scenario's reported design, its column fixed, priced by the sizing and
+    costing layers under the other scenario's prices; that pricing under the design's own prices gives its
+    reported TAC, the diagonal. A design corrected on thermo enters as corrected (its reflux, its price)."""
+    from dataclasses import replace
     from types import SimpleNamespace
 
-    import disteco.optimisation.design as design_module
-    from disteco.api import _cross_table, cost_data_of, load_case, mixture_of
+    from disteco.api import _cross_table, cost_data_of, load_case, mixture_of, reported_design
     from disteco.optimisation.design import evaluate_design
+    from disteco.optimisation.pricing import price_design
     from disteco.properties import feed_state
     from disteco.sizing.options import sizing_options
-    from disteco._base.errors import SolverError
 
     case = load_case(EXAMPLES / "aromatics_binary.toml")
     mixture, data = mixture_of(case), cost_data_of(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     sizing = sizing_options(case)
     best = evaluate_design(case, mixture, feed, data, 1.9, 25, 12, None, sizing, "reference")
-    optima = [(name, SimpleNamespace(best=best, sizing_options=sizing, problem=None, reported_tac=best.reported_tac))
-              for name in ("reference", "reference")]
-
-    def failing(*args, **kwargs):
-        raise SolverError("ripopt stopped (test)")
-
-    monkeypatch.setattr(design_module, "evaluate_design", failing)
+    plain = SimpleNamespace(verification=SimpleNamespace(corrected=None, corrected_price=None))
+    runs = [SimpleNamespace(optimum=SimpleNamespace(best=best, sizing_options=sizing, reported_tac=best.reported_tac),
+                            checks=plain) for _ in range(2)]
+    names = ("reference", "cheap-steam-demo")
     plan = SimpleNamespace(start=lambda label: None, finish=lambda *done: None)
-    cross = _cross_table(case, mixture, feed, data, None, sizing, optima, plan)
-    assert best.sequential is not None and cross.tac[0][0] == best.reported_tac
-    assert cross.tac[0][1] == pytest.approx(best.reported_tac, rel=1e-6)
-    assert len(cross.notes) == 2 and "the model's solve failed (ripopt stopped (test))" in cross.notes[0]
+    cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
+    keyed = replace(sizing, light_key=0, heavy_key=1)
+    assert cross.tac[0][0] == best.reported_tac
+    assert price_design(best, mixture, data, keyed, "reference", 2023).cost.tac_per_year == pytest.approx(
+        best.reported_tac, rel=1e-9)
+    cheap = price_design(best, mixture, data, keyed, "cheap-steam-demo", 2023).cost.tac_per_year
+    assert cross.tac[0][1] == cheap < best.reported_tac  # cheaper steam, the same column
+    corrected = SimpleNamespace(verification=SimpleNamespace(
+        corrected=replace(best.profile, reflux_ratio=2.0), corrected_price=SimpleNamespace(
+            cost=SimpleNamespace(tac_per_year=123.0))))
+    design, tac = reported_design(SimpleNamespace(optimum=runs[0].optimum, checks=corrected))
+    assert (design.reflux_ratio, design.profile.reflux_ratio, tac) == (2.0, 2.0, 123.0)
 
 
 def test_curve_steps_scale_with_the_column():

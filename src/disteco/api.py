@@ -12,7 +12,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from ._base.errors import CaseError, ConvergenceError, CostDataError, InfeasibleSpecError, PropertyError, SolverError
+from ._base.errors import CaseError, ConvergenceError, CostDataError, InfeasibleSpecError, PropertyError
 from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
@@ -284,8 +284,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
         plan.finish(optimum.solver.configurations_solved)
         runs.append(checked_run(k, name, optimum))
-    optima = [(name, run.optimum) for name, run in zip(names, runs)]
-    cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
+    cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
     if cross is not None and cross.beaten():
         # a design built for other prices is cheaper under a scenario's own prices than the optimum its
         # search found (a local optimum: the tray spacing's descent stopped one candidate short): the
@@ -305,8 +304,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
             else:
                 plan.kinds.pop()
         plan.kinds += [PRICING] * (len(names) * (len(names) - 1))
-        optima = [(name, run.optimum) for name, run in zip(names, runs)]
-        cross = _cross_table(case, mixture, feed, data, options, sizing, optima, plan)
+        cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
+    optima = [(name, run.optimum) for name, run in zip(names, runs)]
     checked = [(name, run.checks) for name, run in zip(names, runs)]
     margins = [(name, run.margin) for name, run in zip(names, runs)]
     curves = [(name, run.curve) for name, run in zip(names, runs)]
@@ -317,7 +316,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     diagram, diagram_notes = _binary_parts(stages, checks.reflux_ratio, case)
     parts = optimum_parts(best, cost_data=data, scenarios=tuple(optima), cross=cross, tac_curves=tuple(curves),
                           scenario_checks=tuple(checked), margins=tuple(margins), **diagram)
-    extra = tuple(cross.below_zero()) + cross.notes + cross.close_notes() if cross is not None else ()
+    extra = cross.below_zero() + cross.close_notes() if cross is not None else ()
     extra += diagram_notes
     extra += tuple(w if k == 0 else f"scenario '{name}': {w}" for k, (name, c) in enumerate(checked)
                    for w in c.warnings)
@@ -400,40 +399,39 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
                        coefficients=sequential.coefficients if sequential else ())
 
 
-def _cross_table(case, mixture, feed, data, options, sizing, optima, plan: ProgressPlan) -> CrossTable | None:
-    """Each scenario's optimum priced under every other scenario's prices (the model choosing the distillate
-    flow, the reported price of the sizing and costing layers), the diagonal each optimum's reported TAC."""
-    from .optimisation.design import evaluate_design
+def reported_design(run: ScenarioRun) -> tuple[DesignEvaluation, float]:
+    """A scenario's reported design and its TAC [currency/yr]: the design corrected on thermo where the
+    verification corrected it (what the console's cost line and result.json give), else the optimum."""
+    v = run.checks.verification
+    if v.corrected is not None and v.corrected_price is not None:
+        design = replace(run.optimum.best, profile=v.corrected, reflux_ratio=v.corrected.reflux_ratio)
+        return design, v.corrected_price.cost.tac_per_year
+    return run.optimum.best, run.optimum.reported_tac
+
+
+def _cross_table(case, mixture, data, sizing, names, runs, plan: ProgressPlan) -> CrossTable | None:
+    """Each scenario's reported design (its column fixed: stages, feed, reflux, distillate) priced by the
+    sizing and costing layers under every scenario's prices; the diagonal is each one's reported TAC."""
     from .optimisation.pricing import price_design
     from .reports.tables_scenarios import CrossTable
 
-    if len(optima) < 2:
+    if len(runs) < 2:
         return None
-    names = tuple(name for name, _ in optima)
-    rows, notes = [], []
-    for i, (name_i, optimum_i) in enumerate(optima):
+    rows = []
+    for name_i, run in zip(names, runs):
+        design, own = reported_design(run)
+        chosen = replace(run.optimum.sizing_options or sizing, light_key=case.products.light_key,
+                         heavy_key=case.products.heavy_key)
         row = []
-        best = optimum_i.best
-        for j, name_j in enumerate(names):
-            if i == j:
-                row.append(optimum_i.reported_tac)
+        for name_j in names:
+            if name_j == name_i:
+                row.append(own)
                 continue
             plan.start(f"pricing the '{name_i}' design under the prices of '{name_j}'")
-            chosen = optimum_i.sizing_options or sizing
-            try:
-                tac = evaluate_design(case, mixture, feed, data, best.reflux_ratio, best.stages, best.feed_stage,
-                                      options, chosen, name_j, problem=optimum_i.problem).reported_tac
-            except (SolverError, InfeasibleSpecError, ConvergenceError) as failure:
-                # the design as optimised (its distillate too), priced by the sizing and costing
-                # layers as the reported designs are
-                tac = price_design(best, mixture, data, chosen, name_j, case.economics.cost_year).cost.tac_per_year
-                notes.append(f"cross table: the '{name_i}' design under the prices of '{name_j}' is priced at its "
-                             f"own distillate flow by the sizing and costing layers; the model's solve failed "
-                             f"({failure})")
+            row.append(price_design(design, mixture, data, chosen, name_j, case.economics.cost_year).cost.tac_per_year)
             plan.finish()
-            row.append(tac)
         rows.append(tuple(row))
-    return CrossTable(names, tuple(rows), optima[0][1].best.cost.currency, tuple(notes))
+    return CrossTable(tuple(names), tuple(rows), runs[0].optimum.best.cost.currency)
 
 
 def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:

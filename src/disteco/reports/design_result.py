@@ -51,7 +51,7 @@ class DesignResult:
 
     def scenario_frame(self):
         """Each price scenario's optimum as a pandas DataFrame (an optimised run only)."""
-        return _frame(scenario_table(self.parts.scenarios) if self.parts.scenarios else None, "scenario table")
+        return _frame(scenario_table(self.parts.scenarios, self.parts.scenario_checks) if self.parts.scenarios else None, "scenario table")
 
 
 def _frame(table: Table | None, what: str):

@@ -27,6 +27,7 @@ from .design_result import SCHEMA_VERSION, DesignResult
 from .json_checks import checks_json, scenario_verification_json
 from .tables_prices import economics_json
 from .tables_design import GivenDesignReport
+from .tables_scenarios import reported
 
 KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
 
@@ -257,18 +258,16 @@ def model_check_json(sequential: SequentialPrice | None) -> dict | None:
 
 
 def scenario_json(name: str, optimum: OptimumDesign, minimum_reflux: float | None, checks=None) -> dict:
-    best = optimum.best
-    sequential = optimum.sequential
-    if checks is not None and checks.verification.corrected_price is not None:
-        sequential = checks.verification.corrected_price
+    best, shown = optimum.best, reported(optimum, checks)
+    sequential = shown.price
     return {
         "scenario": name,
-        "reflux_ratio": best.reflux_ratio,
-        "reflux_ratio_over_minimum": best.reflux_ratio / minimum_reflux if minimum_reflux else None,
+        "reflux_ratio": shown.reflux_ratio,
+        "reflux_ratio_over_minimum": shown.reflux_ratio / minimum_reflux if minimum_reflux else None,
         "stages": best.stages,
         "feed_stage": best.feed_stage,
-        "condenser_duty_kW": best.sizes.condenser_duty / 1e3,
-        "reboiler_duty_kW": best.sizes.reboiler_duty / 1e3,
+        "condenser_duty_kW": shown.condenser_duty / 1e3,
+        "reboiler_duty_kW": shown.reboiler_duty / 1e3,
         "cost": cost_json(sequential.cost) if sequential else None,
         "model_check": model_check_json(sequential),
         "diameter_m": sequential.sizing.diameter if sequential else best.sizes.diameter,

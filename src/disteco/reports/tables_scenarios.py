@@ -12,7 +12,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..optimisation.layout import SEARCH_AGAIN_TOLERANCE
-from ..optimisation.results import DesignEvaluation, OptimumDesign
+from ..optimisation.results import DesignEvaluation, OptimumDesign, SequentialPrice
 from .tables import KW, TEXT, Cell, Column, Table, quantity_table, text
 
 MONEY = "#,##0"
@@ -29,7 +29,6 @@ class CrossTable:
     scenarios: tuple[str, ...]
     tac: tuple[tuple[float, ...], ...]
     currency: str
-    notes: tuple[str, ...] = ()  # how cells were priced where the model's solve failed
 
     def __post_init__(self):
         n = len(self.scenarios)
@@ -131,7 +130,29 @@ def search_table(optimum: OptimumDesign) -> Table:
     return Table("Configurations visited", columns, rows)
 
 
-def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
+@dataclass(frozen=True)
+class ReportedDesign:
+    """A scenario's design as reported: corrected on thermo where its verification corrected it."""
+
+    reflux_ratio: float  # [-]
+    condenser_duty: float  # W
+    reboiler_duty: float  # W
+    price: SequentialPrice | None  # the sizing and costing layers' price; None: the model's only
+
+
+def reported(optimum: OptimumDesign, checks=None) -> ReportedDesign:
+    """``optimum`` as the run reports it, given its :class:`ThermoChecks` (the console's cost line, result.json
+    and the scenario tables then give one design: an ethanol/1-propanol column corrected on thermo from
+    R 2.855 to 2.756 showed the model's design in the scenario table and the corrected one above it)."""
+    v = None if checks is None else checks.verification
+    if v is not None and v.corrected is not None and v.corrected_price is not None:
+        c = v.corrected
+        return ReportedDesign(c.reflux_ratio, c.condenser_duty, c.reboiler_duty, v.corrected_price)
+    b = optimum.best
+    return ReportedDesign(b.reflux_ratio, b.sizes.condenser_duty, b.sizes.reboiler_duty, optimum.sequential)
+
+
+def scenario_table(optima: Sequence[tuple[str, OptimumDesign]], checks=()) -> Table:
     """The optimum of every price scenario side by side (one row per scenario)."""
     currency = optima[0][1].best.cost.currency
     columns = (text("Scenario", 22.0), Column("Reflux ratio", "-", "0.000"), Column("R / R_min", "-", "0.000"),
@@ -147,20 +168,21 @@ def scenario_table(optima: Sequence[tuple[str, OptimumDesign]]) -> Table:
                text("Reboiler utility", 18.0), Column("Reboiler utility amount", "per year, unit in next column",
                                                        MONEY, 18.0), text("Unit", 8.0))
     rows = []
+    by_name = dict(checks)
     for name, opt in optima:
-        b = opt.best
-        rows.append((name, b.reflux_ratio, b.reflux_ratio / opt.minimum_reflux_ratio, b.stages, b.feed_stage)
-                    + _reported_sizes_and_costs(opt) + (opt.solver.status,)
-                    + _utility_amount(opt, "condenser") + _utility_amount(opt, "reboiler"))
+        b, shown = opt.best, reported(opt, by_name.get(name))
+        rows.append((name, shown.reflux_ratio, shown.reflux_ratio / opt.minimum_reflux_ratio, b.stages, b.feed_stage)
+                    + _reported_sizes_and_costs(opt, shown) + (opt.solver.status,)
+                    + _utility_amount(shown, "condenser") + _utility_amount(shown, "reboiler"))
     return Table("Optimum design of each price scenario", columns, tuple(rows))
 
 
-def _reported_sizes_and_costs(optimum: OptimumDesign) -> tuple[Cell, ...]:
+def _reported_sizes_and_costs(optimum: OptimumDesign, shown: ReportedDesign) -> tuple[Cell, ...]:
     """(real trays, diameter, height, duties, capital, annualised capital, condenser, reboiler and pump utility,
-    utilities, TAC) as reported: the sequential price where the optimum has one (the console's, the cross
-    table's), else the model's."""
-    b, seq = optimum.best, optimum.sequential
-    duties = (b.sizes.condenser_duty / KW, b.sizes.reboiler_duty / KW)
+    utilities, TAC) as reported (:func:`reported`): the sizing and costing layers' price where there is one
+    (the console's, the cross table's), else the model's."""
+    b, seq = optimum.best, shown.price
+    duties = (shown.condenser_duty / KW, shown.reboiler_duty / KW)
     if seq is None:
         return ((b.sizes.real_trays, b.sizes.diameter, b.sizes.height) + duties
                 + (b.cost.capital_installed, b.cost.annualised_capital_per_year, b.cost.condenser_utility_per_year,
@@ -175,10 +197,10 @@ def _reported_sizes_and_costs(optimum: OptimumDesign) -> tuple[Cell, ...]:
                cost.utilities_per_year, cost.tac_per_year))
 
 
-def _utility_amount(optimum: OptimumDesign, item: str) -> tuple[Cell, ...]:
-    """(utility, yearly amount, unit) of an item from the sequential price, when the optimum has one."""
-    if optimum.sequential is not None:
-        for u in optimum.sequential.cost.utilities:
+def _utility_amount(shown: ReportedDesign, item: str) -> tuple[Cell, ...]:
+    """(utility, yearly amount, unit) of an item from the reported price, where there is one."""
+    if shown.price is not None:
+        for u in shown.price.cost.utilities:
             if u.item == item:
                 return u.utility, u.amount_per_year, u.amount_unit
     return "", None, ""

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from .tables_design import ReportParts
-from .tables_scenarios import CrossTable
+from .tables_scenarios import CrossTable, reported
 
 NAME_WIDTH = 24  # characters of a scenario name shown in a console table
 
@@ -20,11 +20,13 @@ def scenario_lines(parts: ReportParts) -> list[str]:
     lines = ["", "Optimum of each price scenario:",
              f"  {'scenario':<{NAME_WIDTH}}{'R [-]':>8}{'R/Rmin [-]':>12}{'stages':>8}{'feed':>6}"
              f"{'reboiler [kW]':>15}{f'TAC [{currency}/year]':>20}"]
+    checks = dict(parts.scenario_checks)
     for name, o in parts.scenarios:
-        b = o.best
-        tac = o.reported_tac
-        lines.append(f"  {_name(name):<{NAME_WIDTH}}{b.reflux_ratio:>8.3f}{b.reflux_ratio / o.minimum_reflux_ratio:>12.3f}"
-                     f"{b.stages:>8d}{b.feed_stage:>6d}{b.sizes.reboiler_duty / 1e3:>15,.0f}{_money(tac):>20}")
+        b, shown = o.best, reported(o, checks.get(name))
+        tac = shown.price.cost.tac_per_year if shown.price else b.tac
+        lines.append(f"  {_name(name):<{NAME_WIDTH}}{shown.reflux_ratio:>8.3f}"
+                     f"{shown.reflux_ratio / o.minimum_reflux_ratio:>12.3f}{b.stages:>8d}{b.feed_stage:>6d}"
+                     f"{shown.reboiler_duty / 1e3:>15,.0f}{_money(tac):>20}")
     if parts.cross is not None:
         lines += cross_lines(parts.cross)
     return lines

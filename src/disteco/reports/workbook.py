@@ -92,7 +92,7 @@ def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -
 def _scenario_tables(parts: ReportParts) -> tuple[Table, ...]:
     tables: list[Table] = []
     if parts.scenarios:
-        tables.append(scenario_table(parts.scenarios))
+        tables.append(scenario_table(parts.scenarios, parts.scenario_checks))
     if parts.cross is not None:
         tables += cross_tables(parts.cross)
     limits = {name: optimum.stage_limit for name, optimum in parts.scenarios}

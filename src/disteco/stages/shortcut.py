@@ -130,6 +130,23 @@ def minimum_reflux_underwood(alpha, z, q: float, split: ProductSplit) -> tuple[f
     return float(r_min), roots
 
 
+def _fenske(split, names, alpha_feed, alpha_top, alpha_bottom) -> float:
+    """Fenske's minimum stages at the geometric mean of the key relative volatility at the products'
+    bubble points, refused in words where that mean is not above one although the feed's is (the keys'
+    order turns between feed and products: ethyl acetate/ethanol with water, 0.99 on average)."""
+    light, heavy = split.light_key, split.heavy_key
+    mean = math.sqrt(alpha_top[light] * alpha_bottom[light])
+    if mean <= 1.0:
+        raise InfeasibleSpecError(
+            f"the light key {names[light]} (products.light_key) is more volatile than the heavy key {names[heavy]} "
+            f"(products.heavy_key) at the feed (relative volatility {alpha_feed[light]:.4g}) but not on average "
+            f"through the column ({alpha_top[light]:.4g} at the distillate's bubble point, mean {mean:.4g}): the "
+            "keys' order of volatility turns between feed and products, as near an azeotrope; ask for products on "
+            "the feed's side of it, or choose other keys")
+    return fenske_minimum_stages(split.distillate[light], split.bottoms[light], split.distillate[heavy],
+                                 split.bottoms[heavy], mean)
+
+
 def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, column: Column) -> ShortcutDesign:
     """Fenske minimum stages, Underwood minimum reflux and the product split for the case.
 
@@ -150,14 +167,11 @@ def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, colum
         check_binary_azeotropes(split, z, key_azeotropes)
     for _ in range(ALPHA_PASSES):
         alpha_top, T_top = _alpha_at_bubble(mixture, P_top, split.distillate_composition, heavy)
-        n_min = fenske_minimum_stages(split.distillate[light], split.bottoms[light], split.distillate[heavy],
-                                      split.bottoms[heavy], math.sqrt(alpha_top[light] * alpha_bottom[light]))
+        n_min = _fenske(split, mixture.names, alpha_feed, alpha_top, alpha_bottom)
         P_bottom = P_top + column.pressure_drop_per_stage * STAGE_ESTIMATE * max(n_min, 1.0)
         alpha_bottom, T_bottom = _alpha_at_bubble(mixture, P_bottom, split.bottoms_composition, heavy)
         split = product_split(products, z, feed.molar_flow, np.sqrt(alpha_top * alpha_bottom))
-    alpha_mean = np.sqrt(alpha_top * alpha_bottom)
-    n_min = fenske_minimum_stages(split.distillate[light], split.bottoms[light], split.distillate[heavy],
-                                  split.bottoms[heavy], alpha_mean[light])
+    n_min = _fenske(split, mixture.names, alpha_feed, alpha_top, alpha_bottom)
     r_min, roots = minimum_reflux_underwood(alpha_feed, z, feed.q, split)
     return ShortcutDesign(light, heavy, feed.molar_flow, feed.q, tuple(map(float, z)), split,
                           tuple(map(float, alpha_top)), tuple(map(float, alpha_bottom)),

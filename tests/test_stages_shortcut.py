@@ -21,6 +21,8 @@ from disteco.stages.correlations import (fenske_distribution, fenske_minimum_sta
 from disteco.stages.shortcut import shortcut_design
 from disteco.stages.splits import product_split
 
+from conftest import EXAMPLES
+
 # Benzene-toluene-cumene at 1 atm with constant volatilities (toluene = 1), 100 mol feed
 # of 40/30/30 mol %, 95 % of toluene to the distillate and 95 % of cumene to the bottoms.
 BTC_ALPHA = np.array([2.25, 1.0, 0.21])
@@ -201,3 +203,26 @@ def test_fraction_specs_iterate_with_non_keys(hydrocarbons):
     assert split.bottoms_composition[1] == pytest.approx(0.01, rel=1e-9)
     assert split.distillate_composition[2] == pytest.approx(0.02, rel=1e-9)
     assert math.isclose(split.distillate_flow + split.bottoms_flow, feed.molar_flow, rel_tol=1e-12)
+
+
+def test_feed_stage_of_a_lopsided_split_follows_fenske_by_section(tmp_path, capsys):
+    """A depentaniser losing 10 ppm of its n-pentane against a 2 % n-hexane slip: Kirkbride's squared
+    purity ratio puts the feed on stage 3 of 41, where no reflux met the specifications (check ran
+    2 min 19 s and exited 1); Fenske's equation by section puts it on stage 11, where the stage profile
+    meets both (exit 0). Where the two rules agree within 15 % of the stages Kirkbride's stands."""
+    from disteco.cli import main
+    from disteco.stages.correlations import fenske_section_ratio, kirkbride_feed_stage, kirkbride_ratio
+
+    text = (EXAMPLES / "depentaniser.toml").read_text().replace("light_key_recovery = 0.98", "light_key_recovery = 0.99999")
+    assert "0.99999" in text
+    case = tmp_path / "lopsided.toml"
+    case.write_text(text)
+    assert main(["check", str(case)]) == 0
+    out = capsys.readouterr().out
+    assert "Stage profile meeting both specifications: 41 stages (the 1.3 x minimum-reflux row), feed on stage 11" in out
+    # the same split by both rules, per mole of feed: 0.25 of each key, butane and isopentane all overhead,
+    # heptane all below (distillate 0.555, bottoms 0.445)
+    d = (0.25 * 0.99999, 0.25 * 0.02)
+    b = (0.25 - d[0], 0.25 - d[1])
+    assert kirkbride_feed_stage(41, kirkbride_ratio(0.25, 0.25, b[0] / 0.445, d[1] / 0.555, 0.445, 0.555)) <= 4
+    assert kirkbride_feed_stage(41, fenske_section_ratio(0.25, 0.25, d[0], d[1], b[0], b[1])) >= 10

@@ -140,6 +140,7 @@ def test_a_note_that_moves_the_other_exchanger_to_a_dearer_level_says_so(benzene
     invented) and the reboiler mp_steam; the 1.7 bar that lp_steam needs brings the top near 100 degC,
     onto cooling water, a dearer level: the note says so. With prices (invented, per GJ of duty) it
     gives both yearly changes at the profile's duties, and is left out where their sum is no saving."""
+    from disteco._base.errors import CostDataError
     from disteco.optimisation.utility_notes import UtilityPricing
 
     tempered = UtilityLevel("tempered_water", "cooling", "cooling_water", C + 90, C + 100, heat_capacity=4200.0)
@@ -167,6 +168,13 @@ def test_a_note_that_moves_the_other_exchanger_to_a_dearer_level_says_so(benzene
     dear_water = dict(prices, cooling_water=8.0)  # the condenser's move would cost more than the steam saves
     assert utility_level_notes(benzene_toluene, profile, sized.condenser, sized.reboiler, levels, 10.0,
                                priced(dear_water)) == ()
+
+    def unpriced(name, duty):  # a level the scenario has no price for: the note stands without money
+        raise CostDataError("utility_prices.csv", f"no price for {name}")
+
+    [note] = utility_level_notes(benzene_toluene, profile, sized.condenser, sized.reboiler, levels, 10.0,
+                                 UtilityPricing(unpriced, "USD"))
+    assert note.startswith("reboiler on mp_steam: lp_steam") and "a year less" not in note
 
 
 def test_no_reboiler_note_below_the_columns_own_pressure_drop(benzene_toluene, vacuum):

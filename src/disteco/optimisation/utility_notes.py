@@ -148,12 +148,9 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
         return None
     text, other_level = then
     money = ""
-    if pricing is not None and other_level is not None:
-        duties = {"condenser": profile.condenser_duty, "reboiler": profile.reboiler_duty}
-        own_change = (pricing.yearly(cheaper.name, duties[exchanger.name])
-                      - pricing.yearly(exchanger.utility.name, duties[exchanger.name]))
-        other_change = (pricing.yearly(other_level.name, duties[other_exchanger.name])
-                        - pricing.yearly(other_exchanger.utility.name, duties[other_exchanger.name]))
+    changes = _yearly_changes(pricing, profile, exchanger, cheaper, other_exchanger, other_level)
+    if changes is not None:
+        own_change, other_change = changes
         if own_change + other_change >= 0.0:
             return None  # the utilities would cost no less: nothing to try
         money = (f"; at the present duties the two utilities would cost about {_money(-(own_change + other_change))} "
@@ -162,6 +159,23 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
     return (f"{opening}, which a top pressure of about {_kpa(new_top)} gives (now {_kpa(top)}); "
             f"the {other_exchanger.name} would then take {text}{money}. The relative volatility moves with the "
             "pressure: design the case again at that top pressure to compare")
+
+
+def _yearly_changes(pricing: UtilityPricing | None, profile, exchanger, level, other_exchanger,
+                    other_level) -> tuple[float, float] | None:
+    """(change of the exchanger's, of the other's utility cost) [currency/yr] at the profile's duties when they
+    move to ``level`` and ``other_level``; None without prices or where the scenario prices a level not."""
+    if pricing is None or other_level is None:
+        return None
+    duties = {"condenser": profile.condenser_duty, "reboiler": profile.reboiler_duty}
+
+    def change(item, new, old) -> float:
+        return pricing.yearly(new.name, duties[item.name]) - pricing.yearly(old.name, duties[item.name])
+
+    try:
+        return change(exchanger, level, exchanger.utility), change(other_exchanger, other_level, other_exchanger.utility)
+    except DistecoError:
+        return None
 
 
 def _money(value: float, sign: bool = False) -> str:

@@ -220,10 +220,11 @@ def test_cross_table_prices_each_reported_design_under_the_other_prices():
     from dataclasses import replace
     from types import SimpleNamespace
 
-    from disteco.api import _cross_table, cost_data_of, load_case, mixture_of, reported_design
+    from disteco.api import _cross_table, cost_data_of, load_case, mixture_of
     from disteco.optimisation.design import evaluate_design
     from disteco.optimisation.pricing import price_design
     from disteco.properties import feed_state
+    from disteco.reports.tables_scenarios import reported
     from disteco.sizing.options import sizing_options
 
     case = load_case(EXAMPLES / "aromatics_binary.toml")
@@ -231,9 +232,10 @@ def test_cross_table_prices_each_reported_design_under_the_other_prices():
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     sizing = sizing_options(case)
     best = evaluate_design(case, mixture, feed, data, 1.9, 25, 12, None, sizing, "reference")
+    optimum = SimpleNamespace(best=best, sizing_options=sizing, sequential=best.sequential,
+                              reported_tac=best.reported_tac)
     plain = SimpleNamespace(verification=SimpleNamespace(corrected=None, corrected_price=None))
-    runs = [SimpleNamespace(optimum=SimpleNamespace(best=best, sizing_options=sizing, reported_tac=best.reported_tac),
-                            checks=plain) for _ in range(2)]
+    runs = [SimpleNamespace(optimum=optimum, checks=plain) for _ in range(2)]
     names = ("reference", "cheap-steam-demo")
     plan = SimpleNamespace(start=lambda label: None, finish=lambda *done: None)
     cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
@@ -242,12 +244,13 @@ def test_cross_table_prices_each_reported_design_under_the_other_prices():
     assert price_design(best, mixture, data, keyed, "reference", 2023).cost.tac_per_year == pytest.approx(
         best.reported_tac, rel=1e-9)
     cheap = price_design(best, mixture, data, keyed, "cheap-steam-demo", 2023).cost.tac_per_year
-    assert cross.tac[0][1] == cheap < best.reported_tac  # cheaper steam, the same column
-    corrected = SimpleNamespace(verification=SimpleNamespace(
-        corrected=replace(best.profile, reflux_ratio=2.0), corrected_price=SimpleNamespace(
-            cost=SimpleNamespace(tac_per_year=123.0))))
-    design, tac = reported_design(SimpleNamespace(optimum=runs[0].optimum, checks=corrected))
-    assert (design.reflux_ratio, design.profile.reflux_ratio, tac) == (2.0, 2.0, 123.0)
+    assert cross.tac[0][1] == pytest.approx(cheap, rel=1e-12) and cheap < best.reported_tac  # cheaper steam
+    corrected_profile = replace(best.profile, reflux_ratio=2.0)
+    corrected = SimpleNamespace(verification=SimpleNamespace(corrected=corrected_profile, corrected_price=SimpleNamespace(
+        cost=SimpleNamespace(tac_per_year=123.0))))
+    shown = reported(optimum, corrected)
+    assert (shown.profile, shown.reflux_ratio, shown.tac) == (corrected_profile, 2.0, 123.0)
+    assert reported(optimum, plain).tac == best.reported_tac
 
 
 def test_curve_steps_scale_with_the_column():

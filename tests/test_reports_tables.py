@@ -245,4 +245,4 @@ def test_a_mole_fraction_keeps_the_digits_that_tell_it_from_zero_or_one(value, s
     console; a small fraction is shown in scientific notation, one near 1 to its first differing digit."""
     from disteco.reports.workbook_cells import number_format_of
 
-    assert number_format_of(value, "mole fraction") == shown
+    assert number_format_of(value, "mole fraction") == shown == number_format_of(value, "fraction")  # a recovery

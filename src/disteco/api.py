@@ -147,8 +147,9 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         ends = profile_utilities(reference, data.levels, min_approach)
         notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach,
                                     _utility_pricing(data, names[0], year, currency)) if utility_notes else ()
-        freezing = condensate_freezing_warning(mixture.liquidus(condensate(reference)), ends[0].utility)
-        notes += (freezing,) if freezing and utility_notes else ()
+        if utility_notes:
+            freezing = condensate_freezing_warning(mixture.liquidus(condensate(reference)), ends[0].utility)
+            notes += (freezing,) if freezing else ()
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),
@@ -399,36 +400,28 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
                        coefficients=sequential.coefficients if sequential else ())
 
 
-def reported_design(run: ScenarioRun) -> tuple[DesignEvaluation, float]:
-    """A scenario's reported design and its TAC [currency/yr]: the design corrected on thermo where the
-    verification corrected it (what the console's cost line and result.json give), else the optimum."""
-    v = run.checks.verification
-    if v.corrected is not None and v.corrected_price is not None:
-        design = replace(run.optimum.best, profile=v.corrected, reflux_ratio=v.corrected.reflux_ratio)
-        return design, v.corrected_price.cost.tac_per_year
-    return run.optimum.best, run.optimum.reported_tac
-
-
 def _cross_table(case, mixture, data, sizing, names, runs, plan: ProgressPlan) -> CrossTable | None:
-    """Each scenario's reported design (its column fixed: stages, feed, reflux, distillate) priced by the
-    sizing and costing layers under every scenario's prices; the diagonal is each one's reported TAC."""
-    from .optimisation.pricing import price_design
-    from .reports.tables_scenarios import CrossTable
+    """Each scenario's reported design (``reports.tables_scenarios.reported``: its column fixed, stages, feed,
+    reflux, distillate) priced by the sizing and costing layers under every scenario's prices; the diagonal
+    is each one's reported TAC."""
+    from .optimisation.pricing import price_profile
+    from .reports.tables_scenarios import CrossTable, reported
 
     if len(runs) < 2:
         return None
     rows = []
     for name_i, run in zip(names, runs):
-        design, own = reported_design(run)
+        shown = reported(run.optimum, run.checks)
         chosen = replace(run.optimum.sizing_options or sizing, light_key=case.products.light_key,
                          heavy_key=case.products.heavy_key)
         row = []
         for name_j in names:
             if name_j == name_i:
-                row.append(own)
+                row.append(shown.tac)
                 continue
             plan.start(f"pricing the '{name_i}' design under the prices of '{name_j}'")
-            row.append(price_design(design, mixture, data, chosen, name_j, case.economics.cost_year).cost.tac_per_year)
+            _, cost = price_profile(shown.profile, mixture, data, chosen, name_j, case.economics.cost_year)
+            row.append(cost.tac_per_year)
             plan.finish()
         rows.append(tuple(row))
     return CrossTable(tuple(names), tuple(rows), runs[0].optimum.best.cost.currency)

@@ -161,27 +161,24 @@ def main(argv: list[str] | None = None) -> int:
     try:
         with _terminate_as_interrupt():
             return _run(args)
-    except DistecoError as exc:
-        if interrupt.requested():  # the interrupt came back as another error (see below)
-            print("interrupted", file=sys.stderr)
-            return EXIT_FAILURE
-        print(f"error: {_as_option(exc)}", file=sys.stderr)
-        if isinstance(exc, ValueError):  # a user mistake or an infeasible request
-            return EXIT_BAD_INPUT
-        if getattr(args, "debug", False):
-            traceback.print_exc()
-        return EXIT_FAILURE
     except KeyboardInterrupt:
         interrupt.request()  # for run(): the process ends at once after an interrupt
         print("interrupted", file=sys.stderr)
         return EXIT_FAILURE
-    except Exception as exc:  # an internal failure, not the user's mistake
+    except Exception as exc:
         if interrupt.requested():
             # the interrupt raised inside a library came back as another exception: Python 3.11 wraps what a
             # class body's __set_name__ raises in a RuntimeError (a run terminated while scipy imported)
             print("interrupted", file=sys.stderr)
             return EXIT_FAILURE
-        print(f"internal error: {type(exc).__name__}: {exc}", file=sys.stderr)
+        if isinstance(exc, DistecoError):
+            print(f"error: {_as_option(exc)}", file=sys.stderr)
+            if isinstance(exc, ValueError):  # a user mistake or an infeasible request
+                return EXIT_BAD_INPUT
+            if getattr(args, "debug", False):
+                traceback.print_exc()
+            return EXIT_FAILURE
+        print(f"internal error: {type(exc).__name__}: {exc}", file=sys.stderr)  # not the user's mistake
         if getattr(args, "debug", False):
             traceback.print_exc()
         else:

@@ -368,7 +368,8 @@ class Mixture:
         if self.method != "peng-robinson":
             return ()
         return tuple((i, j) for i in range(self.size) for j in range(i + 1, self.size)
-                     if self._kij[i][j] == 0.0 and (self.components[i].is_polar or self.components[j].is_polar))
+                     if not self.pair_parameters_given(i, j)
+                     and (self.components[i].is_polar or self.components[j].is_polar))
 
     def liquidus(self, x) -> Liquidus | None:
         """Where liquid ``x`` [-] starts to freeze (``solid_liquid``): the databank's melting points and

@@ -13,6 +13,7 @@ from dataclasses import dataclass
 
 from ..optimisation.layout import SEARCH_AGAIN_TOLERANCE
 from ..optimisation.results import DesignEvaluation, OptimumDesign, SequentialPrice
+from ..stages.results import StageProfile
 from .tables import KW, TEXT, Cell, Column, Table, quantity_table, text
 
 MONEY = "#,##0"
@@ -134,10 +135,15 @@ def search_table(optimum: OptimumDesign) -> Table:
 class ReportedDesign:
     """A scenario's design as reported: corrected on thermo where its verification corrected it."""
 
-    reflux_ratio: float  # [-]
+    profile: StageProfile
     condenser_duty: float  # W
     reboiler_duty: float  # W
     price: SequentialPrice | None  # the sizing and costing layers' price; None: the model's only
+    tac: float  # currency/yr: the price's, else the model's
+
+    @property
+    def reflux_ratio(self) -> float:
+        return self.profile.reflux_ratio
 
 
 def reported(optimum: OptimumDesign, checks=None) -> ReportedDesign:
@@ -147,9 +153,11 @@ def reported(optimum: OptimumDesign, checks=None) -> ReportedDesign:
     v = None if checks is None else checks.verification
     if v is not None and v.corrected is not None and v.corrected_price is not None:
         c = v.corrected
-        return ReportedDesign(c.reflux_ratio, c.condenser_duty, c.reboiler_duty, v.corrected_price)
+        return ReportedDesign(c, c.condenser_duty, c.reboiler_duty, v.corrected_price,
+                              v.corrected_price.cost.tac_per_year)
     b = optimum.best
-    return ReportedDesign(b.reflux_ratio, b.sizes.condenser_duty, b.sizes.reboiler_duty, optimum.sequential)
+    return ReportedDesign(b.profile, b.sizes.condenser_duty, b.sizes.reboiler_duty, optimum.sequential,
+                          optimum.reported_tac)
 
 
 def scenario_table(optima: Sequence[tuple[str, OptimumDesign]], checks=()) -> Table:

@@ -23,10 +23,9 @@ def scenario_lines(parts: ReportParts) -> list[str]:
     checks = dict(parts.scenario_checks)
     for name, o in parts.scenarios:
         b, shown = o.best, reported(o, checks.get(name))
-        tac = shown.price.cost.tac_per_year if shown.price else b.tac
         lines.append(f"  {_name(name):<{NAME_WIDTH}}{shown.reflux_ratio:>8.3f}"
                      f"{shown.reflux_ratio / o.minimum_reflux_ratio:>12.3f}{b.stages:>8d}{b.feed_stage:>6d}"
-                     f"{shown.reboiler_duty / 1e3:>15,.0f}{_money(tac):>20}")
+                     f"{shown.reboiler_duty / 1e3:>15,.0f}{_money(shown.tac):>20}")
     if parts.cross is not None:
         lines += cross_lines(parts.cross)
     return lines

@@ -59,7 +59,7 @@ def number_format_of(value: float | int, unit: str | None = None) -> str:
             return "#,##0"
         if unit == "kW" and abs(value) < SMALL_POWER:
             return "0.0"  # a pump's few kW keep their tenth
-        if unit == "mole fraction":  # a ppm impurity or a recovery near 1 keeps its digits
+        if unit in ("mole fraction", "fraction"):  # a ppm impurity or a recovery near 1 keeps its digits
             places = fraction_decimals(value, 5)
             return "0.000E+00" if places is None else "0." + "0" * places
         if unit in UNIT_FORMATS:

@@ -402,7 +402,8 @@ def fenske_section_ratio(z_light: float, z_heavy: float, x_light_distillate: flo
 
 
 def kirkbride_feed_stage(stages: float, ratio: float) -> int:
-    """Feed stage counted from the top from the total stages and Kirkbride's N_R/N_S [-].
+    """Feed stage counted from the top from the total stages and a ratio N_R/N_S [-] (Kirkbride's, or
+    :func:`fenske_section_ratio`).
 
     .. math:: f = \\mathrm{round}\\left(\\frac{N\\,r}{1 + r}\\right) + 1
 

@@ -11,7 +11,10 @@ temperature to that range:
   coefficients (alpha starts at 0.3 and is kept free where that fits better);
 * Peng-Robinson: ln K_i = a_i + b_i/T + c_i ln(P/Pa), fitted at the feed composition;
 * pure-component liquid and ideal-gas enthalpies (quadratic in T), liquid molar volume and
-  surface tension (linear in T), mixed by mole fraction.
+  surface tension (linear in T), mixed by mole fraction;
+* liquid excess enthalpy (activity-coefficient methods): a Redlich-Kister sum over pairs,
+  fitted to the method's own liquid enthalpy (Peng-Robinson's mixing is carried by its
+  enthalpies fitted at saturated states instead).
 
 Every evaluator takes the exponential/logarithm as arguments (default ``math``), so the
 equation model builds the same algebra from Pyomo's functions: one formula, two uses.
@@ -65,6 +68,9 @@ class FittedMixture:
     liquid_volume: tuple[tuple[float, float], ...]  # m^3/mol, m^3/(mol K) about T_low
     surface_tension: tuple[tuple[float, float], ...]  # N/m, N/(m K) about T_low
     molar_masses: tuple[float, ...]  # kg/mol
+    # per pair i < j (in that order): H_E = x_i x_j (c0 + c1 d + c2 d^2 + c3 (T - T_low)), d = x_i - x_j;
+    # c0..c2 [J/mol], c3 [J/(mol K)]; empty where the liquid mixes ideally in the forms
+    excess_enthalpy: tuple[tuple[float, float, float, float], ...] = ()
 
     @property
     def size(self) -> int:
@@ -127,8 +133,21 @@ class FittedMixture:
         return value
 
     def liquid_enthalpy_of(self, T, x):
-        """Liquid molar enthalpy [J/mol], ideal mixing of the fitted pure liquids."""
-        return sum(x[i] * self._poly(self.liquid_enthalpy[i], T) for i in range(self.size))
+        """Liquid molar enthalpy [J/mol]: the fitted pure liquids mixed by mole fraction, plus the excess enthalpy."""
+        return sum(x[i] * self._poly(self.liquid_enthalpy[i], T) for i in range(self.size)) \
+            + self.excess_enthalpy_of(T, x)
+
+    def excess_enthalpy_of(self, T, x):
+        """Liquid excess molar enthalpy [J/mol]: the Redlich-Kister sum over pairs (0 where none is fitted).
+
+        Redlich, O., Kister, A. T., Ind. Eng. Chem. 40 (1948) 345: G_E (here H_E) of a binary as
+        x1 x2 times a power series in (x1 - x2); a multicomponent liquid sums its pairs' terms.
+        """
+        terms = []
+        for (i, j), c in zip(_pairs(self.size), self.excess_enthalpy):
+            d = x[i] - x[j]
+            terms.append(x[i] * x[j] * (c[0] + d * (c[1] + d * c[2]) + c[3] * (T - self.T_low)))
+        return sum(terms) if terms else 0.0
 
     def vapour_enthalpy_of(self, T, y):
         """Vapour molar enthalpy [J/mol], ideal-gas mixing."""
@@ -179,7 +198,7 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
     basis = np.column_stack([np.ones_like(Ts), 1.0 / Ts, np.log(Ts)])
     antoine = tuple(tuple(map(float, np.linalg.lstsq(basis, np.log(psat[:, i]), rcond=None)[0])) for i in range(n))
     zero = tuple(tuple(0.0 for _ in range(n)) for _ in range(n))
-    nrtl_a, nrtl_b, nrtl_alpha, k_fit, states = zero, zero, zero, (), None
+    nrtl_a, nrtl_b, nrtl_alpha, k_fit, states, excess = zero, zero, zero, (), None, ()
     if mixture.method == "peng-robinson":
         form = "k-fit"
         states = saturated_states(mixture, P_low, P_high, np.full(n, 1.0 / n) if z is None else np.asarray(z),
@@ -222,6 +241,8 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
         if states is None:
             h_liquid = tuple(_fit_pure(lambda T: liquid_enthalpy(T, i), Ts, 2) for i in pure)
             h_vapour = tuple(_fit_pure(lambda T: mixture.vapour_enthalpy(T, P_mid, unit[i]), Ts, 2) for i in pure)
+            if form == "nrtl":
+                excess = _fit_excess_enthalpy(mixture, Ts[:: max(1, T_POINTS // 4)], P_mid, T_low)
         else:  # an equation of state: enthalpies where the column's phases exist (see _fit_saturated_enthalpy)
             h_liquid = _fit_saturated_enthalpy(mixture, states, "liquid", T_low)
             h_vapour = _fit_saturated_enthalpy(mixture, states, "vapour", T_low)
@@ -233,7 +254,7 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
                                 for i in pure),
             surface_tension=tuple(_fit_pure(lambda T: mixture.surface_tension(T, unit[i]), Ts, 1,
                                             dissolved(mixture.surface_tension, i)) for i in pure),
-            molar_masses=tuple(float(m) for m in mixture.molar_masses))
+            molar_masses=tuple(float(m) for m in mixture.molar_masses), excess_enthalpy=excess)
 
 
 def _fit_pure(function, Ts, degree: int, fallback=None) -> tuple[float, ...]:
@@ -351,6 +372,36 @@ def _fit_saturated_enthalpy(mixture: Mixture, states, phase: str, T_low: float) 
         values.append(value)
     coef = np.linalg.lstsq(np.array(rows), np.array(values), rcond=None)[0]
     return tuple(tuple(float(coef[3 * i + k]) for k in range(3)) for i in range(len(states[0][2])))
+
+
+def _pairs(n: int) -> list[tuple[int, int]]:
+    return [(i, j) for i in range(n) for j in range(i + 1, n)]
+
+
+def _fit_excess_enthalpy(mixture: Mixture, Ts, P: float, T_low: float) -> tuple[tuple[float, ...], ...]:
+    """Redlich-Kister coefficients of each pair's liquid excess enthalpy (see
+    :meth:`FittedMixture.excess_enthalpy_of`), fitted over ``Ts`` and ``X_GRID`` to the mixture's
+    liquid enthalpy less its pure liquids'.
+
+    The forms' ideal mixing alone left acetone/water (UNIFAC-Dortmund, 1.1 bar) 0.61 kJ/mol and
+    isopropanol/water 0.88 kJ/mol below thermo's liquid enthalpy, outside the fit check's
+    tolerance; with the pairs' excess enthalpy within 0.05 kJ/mol (``tests/test_fitted_forms.py``).
+    """
+    n = mixture.size
+    unit = np.eye(n)
+    rows = []
+    for i, j in _pairs(n):
+        basis, values = [], []
+        for T in Ts:
+            h_i, h_j = (mixture.liquid_enthalpy(T, P, unit[k]) for k in (i, j))
+            for xi in X_GRID:
+                x = np.zeros(n)
+                x[i], x[j] = xi, 1.0 - xi
+                w, d = xi * (1.0 - xi), 2.0 * xi - 1.0
+                basis.append([w, w * d, w * d * d, w * (T - T_low)])
+                values.append(mixture.liquid_enthalpy(T, P, x) - xi * h_i - (1.0 - xi) * h_j)
+        rows.append(tuple(float(c) for c in np.linalg.lstsq(np.array(basis), np.array(values), rcond=None)[0]))
+    return tuple(rows)
 
 
 def _fit_nrtl(mixture: Mixture, Ts, P: float):

@@ -87,10 +87,14 @@ class Stages:
             k = m.k_values(T, P, y)  # bubble point of the distillate
             h_l = m.liquid_enthalpy(T - self.p.subcooling, P, y) if self.p.energy else 0.0
             return np.concatenate([k, [h_l, h_l]])
-        k = m.k_values(T, P, x, y)
-        if not self.p.energy and j > 0:
-            return np.concatenate([k, [0.0, 0.0]])
-        h_l = base[C] if moved == "vapour" else m.liquid_enthalpy(T, P, x)
+        if not self.p.energy:
+            return np.concatenate([m.k_values(T, P, x, y), [0.0, 0.0]])
+        if moved == "vapour":
+            # an ideal-gas vapour leaves K = gamma Psat phi_sat / P to the liquid: only h_V moved
+            k = base[:C] if m.ideal_gas_vapour else m.k_values(T, P, x, y)
+            h_l = base[C]
+        else:
+            k, h_l = m.k_values_and_liquid_enthalpy(T, P, x, y)
         h_v = base[C + 1] if moved == "liquid" else m.vapour_enthalpy(T, P, y)
         return np.concatenate([k, [h_l, h_v]])
 
@@ -185,6 +189,10 @@ class Stages:
         raise ConvergenceError(f"stage equations not converged in {MAX_ITERATIONS} Newton steps "
                                f"(largest scaled residual {norm:.3g}); the specification may be near "
                                "minimum reflux or the distillate flow may be impossible for the stage count")
+
+    def linear_response(self, J: np.ndarray, dR: np.ndarray) -> np.ndarray:
+        """dU with J dU = -dR: the unknowns' first-order response to a change dR of the residuals."""
+        return self._newton_step(J, dR)
 
     def _newton_step(self, J: np.ndarray, R: np.ndarray) -> np.ndarray:
         try:

@@ -229,3 +229,31 @@ def solve_rigorous(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
     constant-molar-overflow solution of the same spec.
     """
     return _solve(mixture, feed, spec, True, guess)
+
+
+def linearised_moves(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool, profile: StageProfile,
+                     moved_specs: tuple[ColumnSpec, ...]) -> tuple[StageProfile, ...]:
+    """The converged ``profile`` of ``spec`` moved to each of ``moved_specs`` (the same column at a
+    slightly different reflux ratio or distillate flow) along the stage equations' own sensitivities:
+    U + dU with J dU = -(R(U; moved) - R(U; spec)), J the Jacobian at the solution (implicit function
+    theorem), instead of solving each moved column.
+
+    One Jacobian in place of a Newton solve per move. Measured on acetone/water's energy-balance
+    minimum (46 stages, UNIFAC): the distillate-flow move took 48 to 49 Newton steps (2.3 s) each
+    time it was solved, as a pinched column's response to D is poorly conditioned for a fresh
+    solve; a linear response costs one Jacobian. Raises ConvergenceError where J is singular.
+    """
+    stages = Stages(mixture, _problem(spec, feed, energy))
+    U = _unknowns_from_profile(profile)
+    if not spec.partial_condenser:
+        U[0, -1] += spec.subcooling
+    props = stages.all_properties(U)
+    R0 = stages.residuals(U, props)
+    J = stages.jacobian(U, props, R0)
+    moved = []
+    for other in moved_specs:
+        shifted = Stages(mixture, _problem(other, feed, energy))
+        U1 = U + stages.linear_response(J, shifted.residuals(U, props) - R0)
+        moved.append(_profile(shifted, U1, shifted.all_properties(U1), feed))
+    return tuple(moved)
+

@@ -3,7 +3,9 @@
 For a fixed number of stages and feed stage the two end specifications of the case
 (``case.Products``) are met by adjusting D and R: Newton's method on
 (ln R, D), with the stage solution (CMO or energy balances) warm-started from the
-previous one. The start comes from the shortcut design (its D, and R from Gilliland).
+previous one; the specifications' Jacobian from the column moved along the stage
+equations' own sensitivities (``linearised_moves``), not from two more column solves.
+The start comes from the shortcut design (its D, and R from Gilliland).
 """
 
 from __future__ import annotations
@@ -19,13 +21,13 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError
 from ..case import Column, EndSpec, Products
 from ..properties import FeedState, Mixture
 from .results import StageProfile
-from .rigorous import ColumnSpec, PredictedStart, solve_cmo, solve_rigorous
+from .rigorous import ColumnSpec, PredictedStart, linearised_moves, solve_cmo, solve_rigorous
 from .shortcut import ShortcutDesign
 
 TOLERANCE = 1e-7  # on the log residuals of the specifications
 MAX_ITERATIONS = 30
 MAX_LOG_REFLUX_STEP = 0.5
-DIFFERENCE = 1e-6  # relative step of the finite-difference Jacobian
+DIFFERENCE = 1e-6  # step in ln R and in D / F of the specifications' Jacobian (columns moved linearly)
 
 
 def spec_residuals(profile: StageProfile, products: Products, feed: FeedState) -> np.ndarray:
@@ -84,13 +86,19 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
     def run(log_r: float, D: float, guess: StageProfile | None):
         # checked before every column solve, not only between Newton steps: one step of a
         # 278-stage column (two Jacobian solves and a line search) took longer than the limit
+        in_time()
+        profile = solve(mixture, feed, column_spec(log_r, D), guess)
+        return profile, spec_residuals(profile, products, feed)
+
+    def in_time():
         if time_limit is not None and time.monotonic() - began > time_limit:
             raise ConvergenceError(f"time limit of {time_limit:g} s passed")
+
+    def column_spec(log_r: float, D: float) -> ColumnSpec:
         spec = ColumnSpec.from_column(column, stages, feed_stage, math.exp(log_r), D)
         if pressure_drop_per_stage is not None:
             spec = replace(spec, pressure_drop_per_stage=pressure_drop_per_stage)
-        profile = solve(mixture, feed, spec, guess)
-        return profile, spec_residuals(profile, products, feed)
+        return spec
 
     if start_reflux is not None:
         reflux = start_reflux
@@ -101,15 +109,14 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
     for _ in range(MAX_ITERATIONS):
         if np.abs(r).max() < TOLERANCE:
             return profile
-        if time_limit is not None and time.monotonic() - began > time_limit:
-            break
+        in_time()
         J = np.empty((2, 2))
         moved = []
-        for k, h in enumerate((DIFFERENCE, DIFFERENCE * F)):
-            shifted = u.copy()
-            shifted[k] += h
-            moved_profile, moved_r = run(shifted[0], shifted[1], profile)
-            J[:, k] = (moved_r - r) / h
+        differences = (DIFFERENCE, DIFFERENCE * F)
+        moved_specs = tuple(column_spec(*(u + h * unit)) for h, unit in zip(differences, np.eye(2)))
+        for k, (h, moved_profile) in enumerate(zip(differences, linearised_moves(
+                mixture, feed, column_spec(*u), energy, profile, moved_specs))):
+            J[:, k] = (spec_residuals(moved_profile, products, feed) - r) / h
             moved.append((moved_profile, h))
         step = np.linalg.solve(J, -r)
         step *= min(1.0, max_log_reflux_step / max(abs(step[0]), 1e-30))
@@ -120,6 +127,7 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
                 # columns (measured: ethanol-water's energy-balance minimum, 22 column solves, took
                 # 10.9 s from the last profile, 2.4 s from the extrapolated one)
                 predicted = PredictedStart(profile, tuple((p, s / h) for (p, h), s in zip(moved, step)))
+                in_time()  # raised here, not taken for a failed trial below
                 try:
                     new_profile, new_r = run(trial[0], trial[1], predicted)
                     if np.abs(new_r).max() < np.abs(r).max():

@@ -23,7 +23,7 @@ def test_binary_design_uses_the_real_curve(ethanol_water):
     assert all(a.stages > b.stages for a, b in zip(design.table, design.table[1:]))
     assert abs(spec_residuals(design.profile, products, feed)).max() < 1e-6
     assert design.profile.reflux_ratio == pytest.approx(1.3 * design.minimum_reflux, rel=0.15)
-    assert design.duties.condenser > 0.0 and design.duties.reboiler > 0.0
+    assert design.profile.condenser_duty > 0.0 and design.profile.reboiler_duty > 0.0
 
 
 def test_multicomponent_design_partial_condenser():

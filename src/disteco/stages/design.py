@@ -14,8 +14,7 @@ from ..case import Column, Products
 from ..properties import FeedState, Mixture
 from .binary import (EquilibriumCurve, MinimumReflux, SteppedColumn, equilibrium_curve, minimum_reflux,
                      step_stages, total_reflux_stages)
-from .duties import duties
-from .results import Duties, StageProfile
+from .results import StageProfile
 from .rigorous import ColumnSpec, solve_cmo, solve_rigorous
 from .shortcut import REFLUX_FACTORS, ShortcutDesign, ShortcutPoint, shortcut_design
 from .specs import solve_to_specs
@@ -50,7 +49,6 @@ class StageDesign:
     table: tuple[ShortcutPoint, ...]
     reflux_factor: float
     profile: StageProfile
-    duties: Duties
     meets_specs: bool
     shortcut: ShortcutDesign
     binary: BinaryStepping | None
@@ -115,5 +113,4 @@ def design_stages(mixture: Mixture, feed: FeedState, products: Products, column:
         spec = ColumnSpec.from_column(column, point.whole_stages, point.feed_stage, point.reflux_ratio,
                                       shortcut.distillate_flow)
         profile = (solve_rigorous if energy else solve_cmo)(mixture, feed, spec)
-    return StageDesign(basis, r_min, n_min, table, reflux_factor, profile, duties(mixture, feed, profile),
-                       meet_specs, shortcut, binary)
+    return StageDesign(basis, r_min, n_min, table, reflux_factor, profile, meet_specs, shortcut, binary)

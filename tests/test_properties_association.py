@@ -8,7 +8,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from disteco.case import load_case
+from disteco.case import Thermo, load_case
 from disteco.cli import main
 from disteco.properties import all_azeotropes, build_mixture, summarise_mixture
 from disteco.properties.association import DIMERISING_ACIDS, dimer_amount, fugacity_coefficients
@@ -72,6 +72,23 @@ def test_an_azeotrope_without_an_acid_is_left_alone(ethanol_water):
     (found,) = all_azeotropes(ethanol_water, 101325.0)
     assert found.alpha_dimerised is None and not found.vapour_artefact
     assert ethanol_water.dimerising_acid is None
+
+
+@pytest.mark.parametrize("names, acids", [
+    (("water", "formic acid"), ("formic acid",)),           # a carboxylic acid without constants
+    (("acetic acid", "propionic acid"), ("acetic acid", "propionic acid")),  # two acids: cross-dimers
+    (("water", "acetic acid"), ()),                          # measured by chemical theory instead
+    (("ethanol", "water"), ()),
+    (("methyl formate", "methanol"), ()),                    # an ester's HCOO group is no acid
+])
+def test_acids_whose_dimerisation_is_not_measured_are_named(names, acids, tmp_path, capsys):
+    """Formic acid dimerises in the vapour as acetic acid does (both carboxylic acids, COOH or HCOOH
+    groups), but disteco has constants for acetic acid alone: a water/formic acid column designed
+    with no word of it. Such acids are named in the mixture summary, with a note."""
+    mixture = build_mixture(names, Thermo("unifac-dortmund"), 105e3)
+    summary = summarise_mixture(mixture, [0.5, 0.5], 105e3, 0, 1)
+    assert summary.acids_without_dimerisation == acids
+    assert any("carboxylic acid vapour dimerises" in w for w in mixture.warnings) == bool(acids)
 
 
 def test_refusal_past_the_artefact_says_what_it_is(tmp_path, capsys):

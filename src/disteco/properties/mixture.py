@@ -364,10 +364,29 @@ class Mixture:
         return k
 
     @cached_property
+    def _carboxylic_acids(self) -> tuple[int, ...]:
+        """Indices of the components with a Dortmund UNIFAC COOH or HCOOH group, or dimerisation constants."""
+        groups = component_packages([c.cas for c in self.components])[0].UNIFAC_Dortmund_groups
+        return tuple(i for i, found in enumerate(groups)
+                     if any(DOUFSG[g].main_group_id in ACID_MAIN_GROUPS for g in (found or {}))
+                     or self.components[i].cas in DIMERISING_ACIDS)
+
+    @cached_property
+    def acids_without_dimerisation(self) -> tuple[int, ...]:
+        """Indices of the carboxylic acids whose vapour dimerisation disteco cannot measure, where this
+        method takes the vapour as an ideal gas of monomers: every acid but :attr:`dimerising_acid`."""
+        if not self.ideal_gas_vapour:
+            return ()
+        return tuple(i for i in self._carboxylic_acids if i != self.dimerising_acid)
+
+    @cached_property
     def dimerising_acid(self) -> int | None:
-        """Index of the one component that dimerises in the vapour (``association.DIMERISING_ACIDS``),
-        where this method takes the vapour as an ideal gas of monomers; else None."""
-        return dimerising_acid([c.cas for c in self.components]) if self.ideal_gas_vapour else None
+        """Index of the component that dimerises in the vapour (``association.DIMERISING_ACIDS``) where it is
+        the only carboxylic acid (chemical theory with one self-dimerising acid; cross-dimers are not
+        covered) and this method takes the vapour as an ideal gas of monomers; else None."""
+        if not self.ideal_gas_vapour or len(self._carboxylic_acids) != 1:
+            return None
+        return dimerising_acid([c.cas for c in self.components])
 
     @cached_property
     def untuned_polar_pairs(self) -> tuple[tuple[int, int], ...]:
@@ -603,6 +622,8 @@ def choose_method(components: tuple[ComponentId, ...], pressure: float) -> str:
 
 # Dortmund UNIFAC main groups of carbon in an aromatic ring (ACH, ACCH2)
 AROMATIC_MAIN_GROUPS = frozenset({3, 4})
+# Dortmund UNIFAC main groups of a carboxylic acid (COOH; HCOOH, formic acid)
+ACID_MAIN_GROUPS = frozenset({20, 44})
 
 
 def mixes_aromatic_and_aliphatic(components: tuple[ComponentId, ...]) -> bool:

@@ -66,6 +66,7 @@ class MixtureSummary:
     vapour: VapourIdeality | None = None  # only for an ideal-gas vapour above 2 bar
     association: VapourAssociation | None = None  # only for a dimerising acid that moves alpha
     untuned_polar_pairs: tuple[str, ...] = ()  # "a/b": Peng-Robinson pairs with kij = 0 and a polar member
+    acids_without_dimerisation: tuple[str, ...] = ()  # carboxylic acids whose vapour dimerisation is not measured
 
 
 def _key_pair_bubble_points(mixture: Mixture, pressure: float, light: int, heavy: int) -> list[PhasePoint]:
@@ -127,6 +128,20 @@ def untuned_polar_pairs(mixture: Mixture) -> tuple[str, ...]:
     return pairs
 
 
+def acids_without_dimerisation(mixture: Mixture) -> tuple[str, ...]:
+    """The carboxylic acids whose vapour dimerisation the ideal-gas vapour leaves out and disteco
+    cannot measure (``Mixture.acids_without_dimerisation``), with a note."""
+    acids = tuple(mixture.names[i] for i in mixture.acids_without_dimerisation)
+    if acids:
+        mixture.note("unmeasured-association",
+                     f"{', '.join(acids)}: carboxylic acid vapour dimerises (acetic acid's is more than half dimers "
+                     f"near its boiling point), which the {mixture.method} method's ideal-gas vapour leaves out and "
+                     "disteco has no dimerisation constants to measure here; treat the relative volatility, any "
+                     "azeotrope, the stages and the reflux as uncertain, or give NRTL or Wilson parameters "
+                     "regressed from equilibrium data with an ideal-gas vapour")
+    return acids
+
+
 def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: int) -> MixtureSummary:
     """Summarise ``mixture`` with feed ``z`` [-] at ``pressure`` [Pa] for the key pair."""
     components = tuple(
@@ -143,7 +158,8 @@ def summarise_mixture(mixture: Mixture, z, pressure: float, light: int, heavy: i
         feed_bubble_T=bubble.T, feed_dew_T=mixture.dew_point(pressure, z).T,
         azeotropes=tuple(all_azeotropes(mixture, pressure)),
         vapour=vapour_ideality(mixture, bubble, light, heavy),
-        association=vapour_association(mixture, points, alphas, light, heavy), untuned_polar_pairs=untuned)
+        association=vapour_association(mixture, points, alphas, light, heavy), untuned_polar_pairs=untuned,
+        acids_without_dimerisation=acids_without_dimerisation(mixture))
 
 
 def vapour_ideality(mixture: Mixture, bubble: PhasePoint, light: int, heavy: int) -> VapourIdeality | None:

@@ -47,6 +47,7 @@ def mixture_json(summary: MixtureSummary) -> dict:
         "key_relative_volatility_min": summary.key_volatility_min,
         "key_relative_volatility_max": summary.key_volatility_max,
         "polar_pairs_without_interaction_parameter": list(summary.untuned_polar_pairs),
+        "acids_without_vapour_dimerisation": list(summary.acids_without_dimerisation),
         "ideal_gas_vapour_check": None if summary.vapour is None else {
             "feed_bubble_point_degC": to_degC(summary.vapour.temperature),
             "key_relative_volatility_ideal_gas_vapour": summary.vapour.alpha_ideal_gas,

@@ -41,6 +41,11 @@ def mixture_text(summary: MixtureSummary) -> str:
     if summary.untuned_polar_pairs:
         lines.append(f"Interaction parameters: none given for {', '.join(summary.untuned_polar_pairs)} (kij = 0, "
                      "with a polar component: give [mixture.peng_robinson] kij fitted to data)")
+    if summary.acids_without_dimerisation:
+        acids = summary.acids_without_dimerisation
+        lines.append(f"Vapour association: {', '.join(acids)} {'dimerises' if len(acids) == 1 else 'dimerise'} in "
+                     "the vapour, left out by the ideal-gas vapour and not measured (no constants): the relative "
+                     "volatilities are uncertain")
     lines += [
              f"Top pressure: {summary.pressure / 1e3:.2f} kPa",
              "",

@@ -109,10 +109,10 @@ def test_one_shell_without_a_design_falls_back_to_two_shells(tmp_path_factory, m
     reported (measured: 48 stages, R 8.3), and the one-shell option says why it has none. Gilliland's
     correlation at the highest reflux searched (50) asks 24.5 stages, so the one-shell search is
     skipped; with that screen switched off the search itself finds no design (the backstop)."""
-    import disteco.optimisation.design as design_module
+    import disteco.optimisation.first_round as first_round
 
     if not gilliland:
-        monkeypatch.setattr(design_module, "stages_from_gilliland", lambda *args: 0.0)
+        monkeypatch.setattr(first_round, "stages_from_gilliland", lambda *args: 0.0)
     design = reduced_design(tmp_path_factory, 'tray_spacing = "0.6 m"\nmax_height = "24 m"')
     options = {o.label: o for o in design.layout.options}
     assert design.layout.chosen == "two shells" and design.best.stages == options["two shells"].stages > 24

@@ -139,6 +139,24 @@ def test_depentaniser_energy_balance_minimum_lies_above_underwood(depentaniser):
     assert latent == sorted(latent)
 
 
+def test_the_lower_of_two_minima_is_reported_with_its_column(depentaniser):
+    """Both energy-balance minima bound the true minimum from above: a minimum found on another design
+    (the control margin's, on the design without the margin) replaces this design's own where it is
+    lower, its basis naming that column, and is left aside where it is higher."""
+    case, mixture, feed, data, design, checks = depentaniser
+    own = checks.minimum
+    stages = design_stages(mixture, feed, case.products, case.column, meet_specs=False)
+    for scale, expected in ((0.99, "lower"), (1.01, "own")):
+        near = replace(own, reflux_ratio=scale * own.reflux_ratio, stages=own.stages + 4)
+        again = thermo_checks(case, mixture, feed, data, design, stages, None, minimum_near=near).minimum
+        if expected == "lower":
+            assert again.reflux_ratio == near.reflux_ratio and again.stages == own.stages + 4
+            assert "x the design's without the control margin" in again.basis
+        else:
+            assert again.reflux_ratio == pytest.approx(own.reflux_ratio, rel=1e-6)
+            assert again.stages == own.stages and "x the design's)" in again.basis
+
+
 def test_depentaniser_reported_design_meets_the_specifications_on_thermo(depentaniser):
     """Whether or not the model's design needed a correction, the design reported meets both
     recoveries (0.98) on thermo within the stated tolerance."""

@@ -99,11 +99,12 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     `check` prints; a design gives them for the design it reports).
     """
     from .costing.from_sizing import check_tray_material
-    from .optimisation.pricing import check_capacity, reference_profile, size_reference
+    from .optimisation.pricing import check_capacity, reference_profile, size_reference, tray_basis
     from .optimisation.problem import remember_column_profile, resolved_problem
     from .optimisation.utility_notes import utility_level_notes
     from .sizing.column import condensate
     from .sizing.exchangers import condensate_freezing_warning, profile_utilities
+    from .optimisation.first_round import check_layouts_hold
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut
@@ -142,8 +143,11 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
         reference, ends, notes = None, (), ()  # design's own start then says what failed, in its words
     else:
         keyed = replace(sizing_options(case), light_key=problem.light_key, heavy_key=problem.heavy_key)
-        check_capacity(reference, size_reference(mixture, data, reference, keyed),
-                       given.reflux_ratio if given else estimate.minimum_reflux)
+        sized = size_reference(mixture, data, reference, keyed)
+        check_capacity(reference, sized, given.reflux_ratio if given else estimate.minimum_reflux)
+        if given is None:  # the height limit's refusal of every layout, as the search's first round gives it
+            check_layouts_hold(case, mixture, feed, data, config, sizing_options(case), names[0], problem,
+                               tray_basis(sized, keyed))
         ends = profile_utilities(reference, data.levels, min_approach)
         notes = utility_level_notes(mixture, reference, *ends, data.levels, min_approach,
                                     _utility_pricing(data, names[0], year, currency)) if utility_notes else ()
@@ -253,10 +257,10 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
 
     def margin_checks(k: int, name: str, optimum, margin):
         """The checks on thermo of a design searched above the margin's floor: its own minimum reflux on its
-        own pressures."""
+        own pressures, or the margin's where that is lower."""
         return thermo_checks(case, mixture, feed, data, optimum.best, stages, options, optimum.sizing_options or sizing,
                              name, full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
-                             minimum_near=minimum.reflux_ratio if minimum else None, reflux_floor=margin.reflux_floor)
+                             minimum_near=minimum, reflux_floor=margin.reflux_floor)
 
     def checked_run(k: int, name: str, optimum) -> ScenarioRun:
         """The scenario's optimum checked on thermo, held to the control margin, with its curve."""

@@ -22,9 +22,7 @@ from .._base.errors import InfeasibleSpecError, SolverError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
-from ..sizing.column import ColumnSizing
 from ..sizing.options import SizingOptions
-from ..stages.correlations import stages_from_gilliland
 from .basis import CostBasis, SeparationProblem
 from .options import model_options
 from .pricing import cost_basis_from_data, price_design, reference_profile, size_reference
@@ -36,11 +34,11 @@ from .problem import resolved_problem, separation_problem
 from .search import optimise
 from .solve import solve_configuration
 from .start import shortcut
+from .first_round import DROP_TOLERANCE, NO_MORE_SHELLS, ROUNDS, HeightLimitError, check_height_limit, \
+    cheapest_spacing, close_enough, keyed, shells_hold, first_reference, settled_reference, stage_pressure_drop
 
-ROUNDS = 4  # most optimisations with re-evaluated constants
 SPACING_ROUNDS = 1  # one more round allowed when the spacing changes at the first optimum
 TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
-DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
 SPEC_SHORTFALL = 1e-4  # relative shortfall below which a given design is said to meet its specifications [-]
 # A neighbouring tray spacing is re-optimised when its TAC at the chosen optimum's configuration
 # lies within this fraction of the chosen spacing's (measured: re-optimising gained 0.8 % on
@@ -49,45 +47,10 @@ SPACING_SCREEN = 0.02
 GIVEN_SHORTFALL = 0.05  # relative shortfall of a specification a given design is priced at, with a warning [-]
 
 
-def stage_pressure_drop(case: Case, sizing: ColumnSizing) -> float:
-    """Drop per equilibrium stage [Pa] of a sized design: per-tray drop (case or hydraulics) over its efficiency.
-
-    With N - 1 equilibrium trays at efficiency E, the column has (N - 1)/E real trays, so
-    the drop per real tray times (N - 1)/E spreads as drop/E over each equilibrium stage.
-    """
-    return case.column.stage_pressure_drop(sizing.efficiency.value, sizing.tray_pressure_drop)
-
-
-def _keyed(sizing: SizingOptions, problem: SeparationProblem) -> SizingOptions:
-    return replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
-
-
-def settled_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostData, sizing: SizingOptions,
-                      config, configuration: tuple[int, int] | None = None, reflux: float | None = None):
-    """Problem and reference profile whose pressure drop per stage agrees with the reference's trays.
-
-    The per-stage drop is the per-tray drop over the efficiency, both from sizing the
-    reference; repeated (at most :data:`ROUNDS` times) until it moves less than :data:`DROP_TOLERANCE`.
-    """
-    drop = None
-    for _ in range(ROUNDS):
-        problem = separation_problem(case, mixture, feed, config.max_stages, drop)
-        reference = reference_profile(problem, config, configuration, reflux)
-        new = stage_pressure_drop(case, size_reference(mixture, data, reference, _keyed(sizing, problem)))
-        if _close(new, problem.stage_pressure_drop, DROP_TOLERANCE):
-            break
-        drop = new
-    return problem, reference
-
-
-def _close(new: float, old: float, tolerance: float) -> bool:
-    return abs(new - old) <= tolerance * abs(old)
-
-
 def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostData, sizing: SizingOptions,
                      scenario: str | None, cost_year: int | None, config) -> tuple[CostBasis, list[str]]:
     """Cost basis frozen at the search's starting configuration (Gilliland reflux, CMO profile)."""
-    return cost_basis_from_data(data, mixture, reference_profile(problem, config), _keyed(sizing, problem),
+    return cost_basis_from_data(data, mixture, reference_profile(problem, config), keyed(sizing, problem),
                                 scenario, cost_year)
 
 
@@ -139,6 +102,9 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         attempt(TWO_SHELLS, 2, config, None if single is None else (single.best.stages + 1, single.best.feed_stage))
     found = [(label, r) for label, (_, r, _) in optima.items() if r is not None]
     if not found:
+        failures = [failure for _, _, failure in optima.values()]
+        if all(isinstance(failure, HeightLimitError) for failure in failures):
+            raise HeightLimitError(f"{'; '.join(map(str, failures))}: {NO_MORE_SHELLS}")
         raise optima[ONE_SHELL][2]
     label, best = min(found, key=lambda item: item[1].sequential.cost.tac_per_year)
     if best.best.stages >= config.max_stages:  # the search's bound, not a shell's height, stopped it
@@ -153,10 +119,6 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
     return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free,
                                               sections))
-
-
-class HeightLimitError(InfeasibleSpecError):
-    """No design of a shell layout: its shells within the height limit hold too few stages."""
 
 
 def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config,
@@ -176,32 +138,29 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
             sizing = replace(sizing, tray_spacing=warm.sizing_options.tray_spacing)
         problem, reference = warm.problem, warm.best.profile
         start = start or (warm.best.stages, warm.best.feed_stage)
+        problem, reference, sizing, spacings = cheapest_spacing(case, mixture, feed, data, config, sizing, scenario,
+                                                                 problem, reference)
     else:
-        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
-    spacings = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
-    spacing = best_spacing(spacings, sizing.tray_spacing)
-    if spacing != sizing.tray_spacing:  # the trays' pressure drop moves with the diameter the spacing gives
-        sizing = replace(sizing, tray_spacing=spacing)
-        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+        problem, reference, sizing, spacings = first_reference(case, mixture, feed, data, config, sizing, scenario)
     previous, kept, previous_at_limit, two_back = None, (), False, None
     visited, wall, solved = (), 0.0, 0  # over all rounds
     allowed = most_rounds or ROUNDS
     for rounds in range(1, allowed + SPACING_ROUNDS + 1):
         # Reference-design warnings would describe a column nobody asked about; the sequential
         # price repeats those that hold for the result.
-        basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(sizing, problem), scenario, year)
+        basis, _ = cost_basis_from_data(data, mixture, reference, keyed(sizing, problem), scenario, year)
         run = model_options(config)
         run.max_stages = basis.trays.stage_limit(sizing.max_height, config.max_stages)
         limit = run.max_stages if run.max_stages < config.max_stages else None
         try:
             if limit is not None:
-                _check_height_limit(problem, basis, sizing, run.max_stages, run.reflux_max)
+                check_height_limit(problem, basis.trays, sizing, run.max_stages, run.reflux_max)
             result = optimise(problem, basis, run, start=start)
         except (InfeasibleSpecError, SolverError) as failure:
             if previous is None and limit is not None and type(failure) is InfeasibleSpecError:
                 # the height limit cut the stage range: more shells may hold the stages needed
                 raise HeightLimitError(
-                    f"{_shells_hold(sizing, basis, limit)}, and no design within them meets the product "
+                    f"{shells_hold(sizing, basis.trays, limit)}, and no design within them meets the product "
                     "specifications") from failure
             if previous is None:
                 raise
@@ -215,7 +174,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         wall += result.solver.wall_time
         solved += result.solver.configurations_solved
         best = result.best
-        priced = price_design(best, mixture, data, _keyed(sizing, problem), scenario, year)
+        priced = price_design(best, mixture, data, keyed(sizing, problem), scenario, year)
         if result.solver.status.startswith("time limit"):
             break  # the time limit holds for each round; a stopped search is reported as it stands
         drop = stage_pressure_drop(case, priced.sizing)
@@ -225,8 +184,8 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                                                                             previous.best.feed_stage)
                                          or (at_limit and previous_at_limit))
         previous_at_limit = at_limit
-        drop_settled = _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
-        spacings = spacing_prices(best.profile, mixture, data, _keyed(sizing, problem), scenario, year)
+        drop_settled = close_enough(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
+        spacings = spacing_prices(best.profile, mixture, data, keyed(sizing, problem), scenario, year)
         # chosen again at the first optimum only: a spacing moves the diameter and so the trays'
         # pressure drop, and later swaps kept the vacuum example from settling
         spacing = best_spacing(spacings, sizing.tray_spacing) if rounds == 1 else sizing.tray_spacing
@@ -264,7 +223,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         warnings = tuple(w for w in warnings if "raise max_stages" not in w)
     return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,
                    problem=problem, basis=basis, visited=visited, solver=solver, stage_limit=limit,
-                   sizing_options=_keyed(sizing, problem), spacings=spacings)
+                   sizing_options=keyed(sizing, problem), spacings=spacings)
 
 
 def _spacing_descent(result: OptimumDesign, sizing: SizingOptions, optimise_at, mixture: Mixture, data: CostData,
@@ -333,37 +292,6 @@ def _final_spacing(design: DesignEvaluation, priced, mixture: Mixture, data: Cos
     return sizing, priced, spacings
 
 
-def _check_height_limit(problem: SeparationProblem, basis: CostBasis, sizing: SizingOptions, limit: int,
-                        reflux_max: float) -> None:
-    """Refuse, in engineering words, a layout whose shells cannot hold Fenske's minimum stages, or
-    fewer stages than Gilliland's correlation asks at the highest reflux ratio searched.
-
-    The second saves the search the configurations just above Fenske's minimum, each of which
-    runs the solver to its iteration limit (a propylene/propane splitter in one 50 m shell:
-    68 stages held, Fenske 66, Gilliland at R = 50 about 74; the one-shell search spent a
-    minute proving it). Near total reflux Gilliland's stages approach Fenske's, so the estimate
-    is closest where it decides.
-    """
-    estimate = shortcut(problem)
-    minimum = estimate.minimum_stages
-    if limit <= minimum:
-        raise HeightLimitError(f"{_shells_hold(sizing, basis, limit)}, not above the minimum of {minimum:.1f} "
-                               "stages at total reflux")
-    if reflux_max > estimate.minimum_reflux:
-        needed = stages_from_gilliland(minimum, estimate.minimum_reflux, reflux_max)
-        if limit < needed:
-            raise HeightLimitError(f"{_shells_hold(sizing, basis, limit)}, fewer than the {needed:.1f} stages "
-                                   f"Gilliland's correlation asks at the highest reflux ratio searched "
-                                   f"({reflux_max:g})")
-
-
-def _shells_hold(sizing: SizingOptions, basis: CostBasis, limit: int) -> str:
-    shells = "one shell" if sizing.shells == 1 else f"{sizing.shells} shells"
-    hold = "holds" if sizing.shells == 1 else "hold"
-    return (f"{shells} of at most {sizing.max_height:g} m {hold} at most {limit} stages at {sizing.tray_spacing:.2f} m "
-            f"tray spacing and {100 * basis.trays.efficiency:.0f} % tray efficiency")
-
-
 def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostData, reflux_ratio: float,
                     stages: int, feed_stage: int, options=None, sizing: SizingOptions = SizingOptions(),
                     scenario: str | None = None, problem: SeparationProblem | None = None,
@@ -401,25 +329,25 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         problem, reference = settled_reference(case, mixture, feed, data, sizing, config, (stages, feed_stage),
                                                reflux_ratio)
     if choose_spacing:
-        prices = spacing_prices(reference, mixture, data, _keyed(sizing, problem), scenario, year)
+        prices = spacing_prices(reference, mixture, data, keyed(sizing, problem), scenario, year)
         sizing = replace(sizing, tray_spacing=best_spacing(prices, sizing.tray_spacing))
     # the spacing of the model's solve stays the one-shell choice; the final spacing is chosen again
     # for the shells below
-    sizing, split = _given_shells(reference, mixture, data, _keyed(sizing, problem), stages)
+    sizing, split = _given_shells(reference, mixture, data, keyed(sizing, problem), stages)
     previous = None
     for rounds in range(1, ROUNDS + 1):
         # The model's basis stays one shell (with the reflux and stages held only the distillate is
         # free); the sequential price below prices the shells chosen.
-        basis, _ = cost_basis_from_data(data, mixture, reference, _keyed(replace(sizing, shells=1), problem),
+        basis, _ = cost_basis_from_data(data, mixture, reference, keyed(replace(sizing, shells=1), problem),
                                         scenario, year)
         try:
             design = solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio)
         except SolverError as failure:
             raise explain_failure(estimate, reflux_ratio, stages, failure) from failure
-        priced = price_design(design, mixture, data, _keyed(sizing, problem), scenario, year)
+        priced = price_design(design, mixture, data, keyed(sizing, problem), scenario, year)
         drop = stage_pressure_drop(case, priced.sizing)
         change = abs(design.tac / previous.tac - 1.0) if previous else float("inf")
-        drop_settled = fixed_pressures or _close(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
+        drop_settled = fixed_pressures or close_enough(drop, problem.stage_pressure_drop, DROP_TOLERANCE)
         if change <= TAC_TOLERANCE and drop_settled:
             break
         if rounds == ROUNDS:
@@ -429,7 +357,7 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         if not drop_settled:
             problem = separation_problem(case, mixture, feed, config.max_stages, drop)
     if choose_spacing:
-        sizing, priced, _ = _final_spacing(design, priced, mixture, data, _keyed(sizing, problem), scenario, year)
+        sizing, priced, _ = _final_spacing(design, priced, mixture, data, keyed(sizing, problem), scenario, year)
     short = ()
     if design.shortfall > SPEC_SHORTFALL:
         short = (f"the given design falls {100 * design.shortfall:.2g} % short of a product specification on the "

@@ -13,7 +13,7 @@ five alkanes 0.7527 and 0.7525; ethanol-water 1.0942 and 1.0939).
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError
 from ..case import Case
@@ -42,6 +42,16 @@ class EnergyBalanceMinimum:
     basis: str
     failure: str = ""
 
+    def of_unconstrained_design(self) -> "EnergyBalanceMinimum":
+        """The same minimum, its basis naming the design without the control margin as its column's source."""
+        return replace(self, basis=_basis(self.stages, self.feed_stage, self.top_pressure, self.bottom_pressure,
+                                          "the design's without the control margin"))
+
+
+def _basis(stages: int, feed_stage: int, top: float, bottom: float, whose: str = "the design's") -> str:
+    return (f"energy balances on thermo, {stages} stages ({STAGE_FACTOR} x {whose}), feed on stage "
+            f"{feed_stage}, pressures {top / 1e3:.4g} to {bottom / 1e3:.4g} kPa as in the design")
+
 
 def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortcut: ShortcutDesign,
                            verified: StageProfile, time_limit: float | None = None,
@@ -59,8 +69,7 @@ def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortc
         time_limit = TIME_LIMIT * max(1.0, stages * mixture.size / SIZE_REFERENCE)
     feed_stage = round(1 + (NF - 1) * (stages - 1) / (N - 1))
     top, bottom = verified.P[0], verified.P[-1]
-    basis = (f"energy balances on thermo, {stages} stages ({STAGE_FACTOR} x the design's), feed on stage "
-             f"{feed_stage}, pressures {top / 1e3:.4g} to {bottom / 1e3:.4g} kPa as in the design")
+    basis = _basis(stages, feed_stage, top, bottom)
     try:
         profile = solve_to_specs(mixture, feed, case.products, case.column, shortcut, stages, feed_stage,
                                  energy=True, start_reflux=start_reflux, start=verified,

@@ -153,6 +153,17 @@ def condensate_basis(ref: ColumnSizing, profile: StageProfile, costs: dict, elec
         pump=costs["reflux pump"], electricity_price=electricity_price)
 
 
+def tray_basis(ref: ColumnSizing, options: SizingOptions) -> TrayBasis:
+    """The model's tray numbers frozen at the reference sizing ``ref`` (efficiency, allowances) and ``options``."""
+    height = ref.height
+    return TrayBasis(
+        tray_spacing=options.tray_spacing, flooding_fraction=options.flood_fraction,
+        efficiency=ref.efficiency.value, extra_height=height.top_space + height.bottom_space + height.sump_liquid,
+        flooding_method=options.flooding_method, system_factor=options.system_factor,
+        downcomer_fraction=options.downcomer_area_fraction, shells=options.shells,
+        max_height_to_diameter=options.max_height_to_diameter)
+
+
 def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options: SizingOptions = SizingOptions(),
                          scenario: str | None = None, cost_year: int | None = None) -> tuple[CostBasis, list[str]]:
     """The model's cost basis, with constants frozen at the reference design ``profile``.
@@ -168,15 +179,8 @@ def cost_basis_from_data(data: CostData, mixture, profile: StageProfile, options
     cost = cost_column(data, cost_input(ref, options), scenario, cost_year)
     warnings = list(ref.warnings) + list(cost.warnings)
     costs = {e.item: e.pricing for e in cost.items}
-    height = ref.height
-    trays = TrayBasis(
-        tray_spacing=options.tray_spacing, flooding_fraction=options.flood_fraction,
-        efficiency=ref.efficiency.value, extra_height=height.top_space + height.bottom_space + height.sump_liquid,
-        flooding_method=options.flooding_method, system_factor=options.system_factor,
-        downcomer_fraction=options.downcomer_area_fraction, shells=options.shells,
-        max_height_to_diameter=options.max_height_to_diameter)
     basis = CostBasis(
-        trays=trays, shell=costs["column shell"], tray_cost=costs["trays"],
+        trays=tray_basis(ref, options), shell=costs["column shell"], tray_cost=costs["trays"],
         condenser=ExchangerBasis(exchangers.condenser_U.value, condenser.supply_temperature,
                                  condenser.return_temperature, options.min_approach,
                                  data.price_per_joule(scenario, condenser.name, cost.cost_year), costs["condenser"], "cooling"),

@@ -40,12 +40,15 @@ class ThermoChecks:
 def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData, design: DesignEvaluation,
                   stages: StageDesign, options=None, sizing: SizingOptions = SizingOptions(),
                   scenario: str | None = None, full: bool = True, fitted=None,
-                  minimum_near: float | None = None, reflux_floor: float | None = None) -> ThermoChecks:
+                  minimum_near: EnergyBalanceMinimum | None = None, reflux_floor: float | None = None) -> ThermoChecks:
     """Verify ``design`` on thermo; with ``full`` also its energy-balance minimum reflux and the fit check.
 
     ``fitted``: the fitted forms the design was optimised on (:attr:`OptimumDesign.problem`); None
     fits them again as the optimiser would. ``minimum_near``: the minimum reflux found on a
-    nearby design, where the search for this one's starts. ``reflux_floor``: the control margin's
+    nearby design (the control margin's, on the design without the margin), where the search for
+    this one's starts; where it is the lower of the two it is the one reported: both bound the
+    true minimum from above (the columns' stage counts are finite), and the margin's floor was
+    set on it (a water/acetic acid design held at 1.1 x 0.7736 read "1.096 x" its own 0.7768). ``reflux_floor``: the control margin's
     least reflux ratio, which a correction on thermo keeps (:func:`verify_design`).
     """
     verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario,
@@ -53,7 +56,11 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
     if not full:
         return ThermoChecks(verification, None, None, verification.warnings)
     reported = verification.corrected or verification.profile
-    minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported, start_reflux=minimum_near)
+    minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported,
+                                     start_reflux=minimum_near.reflux_ratio if minimum_near else None)
+    if minimum_near is not None and minimum_near.reflux_ratio is not None and (
+            minimum.reflux_ratio is None or minimum_near.reflux_ratio < minimum.reflux_ratio):
+        minimum = minimum_near.of_unconstrained_design()
     if fitted is None:
         fitted = resolved_problem(case, mixture, feed, model_options(options), at_least=design.stages).fitted
     fit = check_fit(fitted, mixture, verification.profile)

@@ -1,0 +1,160 @@
+"""The search's first round of a shell layout, before any model solve: the reference design whose
+pressure drop per stage agrees with its own trays, the cheapest tray spacing at it, and the height
+limit's refusal of a layout whose shells cannot hold the column.
+
+Kept apart from :mod:`.design` so that ``check`` refuses what the first round would refuse with the
+same functions, without importing the modelling layer.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+from .._base.errors import InfeasibleSpecError
+from ..case import Case
+from ..costing.data import CostData
+from ..properties import FeedState, Mixture
+from ..sizing.column import ColumnSizing
+from ..sizing.options import SizingOptions
+from ..stages.correlations import stages_from_gilliland
+from .basis import SeparationProblem, TrayBasis
+from .layout import best_spacing, spacing_prices
+from .pricing import cost_basis_from_data, reference_profile, size_reference
+from .problem import separation_problem
+from .start import shortcut
+
+ROUNDS = 4  # most optimisations with re-evaluated constants
+DROP_TOLERANCE = 0.01  # relative change of the per-stage pressure drop that counts as settled [-]
+HEIGHT_ALLOWANCE = 0.25  # the check's first column against the search's first reference: efficiency, spacing
+NO_MORE_SHELLS = ("two shells in series are the most disteco builds; raise [sizing] max_height, or ask for purities "
+                  "that need fewer stages")
+
+
+def stage_pressure_drop(case: Case, sizing: ColumnSizing) -> float:
+    """Drop per equilibrium stage [Pa] of a sized design: per-tray drop (case or hydraulics) over its efficiency.
+
+    With N - 1 equilibrium trays at efficiency E, the column has (N - 1)/E real trays, so
+    the drop per real tray times (N - 1)/E spreads as drop/E over each equilibrium stage.
+    """
+    return case.column.stage_pressure_drop(sizing.efficiency.value, sizing.tray_pressure_drop)
+
+
+def keyed(sizing: SizingOptions, problem: SeparationProblem) -> SizingOptions:
+    return replace(sizing, light_key=problem.light_key, heavy_key=problem.heavy_key)
+
+
+def settled_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostData, sizing: SizingOptions,
+                      config, configuration: tuple[int, int] | None = None, reflux: float | None = None):
+    """Problem and reference profile whose pressure drop per stage agrees with the reference's trays.
+
+    The per-stage drop is the per-tray drop over the efficiency, both from sizing the
+    reference; repeated (at most :data:`ROUNDS` times) until it moves less than :data:`DROP_TOLERANCE`.
+    """
+    drop = None
+    for _ in range(ROUNDS):
+        problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+        reference = reference_profile(problem, config, configuration, reflux)
+        new = stage_pressure_drop(case, size_reference(mixture, data, reference, keyed(sizing, problem)))
+        if close_enough(new, problem.stage_pressure_drop, DROP_TOLERANCE):
+            break
+        drop = new
+    return problem, reference
+
+
+def first_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config, sizing: SizingOptions,
+                    scenario: str | None):
+    """Problem, reference profile, sizing options (the cheapest tray spacing at the reference) and the
+    spacings' prices a layout's search starts from without a warm start."""
+    problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+    return cheapest_spacing(case, mixture, feed, data, config, sizing, scenario, problem, reference)
+
+
+def cheapest_spacing(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config, sizing: SizingOptions,
+                      scenario: str | None, problem: SeparationProblem, reference):
+    """``sizing`` at the cheapest tray spacing for ``reference``, with the problem and reference settled again
+    where the spacing changed (the trays' pressure drop moves with the diameter the spacing gives), and the
+    spacings' prices at ``reference``."""
+    spacings = spacing_prices(reference, mixture, data, keyed(sizing, problem), scenario, case.economics.cost_year)
+    spacing = best_spacing(spacings, sizing.tray_spacing)
+    if spacing != sizing.tray_spacing:
+        sizing = replace(sizing, tray_spacing=spacing)
+        problem, reference = settled_reference(case, mixture, feed, data, sizing, config)
+    return problem, reference, sizing, spacings
+
+
+def check_layouts_hold(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config,
+                       sizing: SizingOptions, scenario: str | None, problem: SeparationProblem,
+                       near: TrayBasis) -> None:
+    """Refuse, with the words :func:`optimise_design` would use before its first search, a column
+    that neither one shell nor two in series within the height limit can hold
+    (:func:`check_height_limit` on the same first references). ``near``: the trays of a nearby
+    reference (the check's first column); where two shells :data:`HEIGHT_ALLOWANCE` shorter than
+    the limit would hold the column on them, the first references are not built (they cost `check`
+    about 0.7 s on the benzene example)."""
+    shorter = replace(sizing, shells=2, max_height=(1.0 - HEIGHT_ALLOWANCE) * sizing.max_height)
+    trays = replace(near, shells=2)
+    limit = trays.stage_limit(shorter.max_height, config.max_stages)
+    try:
+        if limit >= config.max_stages:
+            return
+        check_height_limit(problem, trays, shorter, limit, config.reflux_max)
+        return
+    except HeightLimitError:
+        pass
+    failures = [_layout_refusal(case, mixture, feed, data, config, replace(sizing, shells=n), scenario) for n in (1, 2)]
+    if all(failures):
+        raise HeightLimitError(f"{'; '.join(map(str, failures))}: {NO_MORE_SHELLS}")
+
+
+def _layout_refusal(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config, sizing: SizingOptions,
+                    scenario: str | None) -> HeightLimitError | None:
+    """The refusal the first round of ``sizing``'s layout gives before searching (None: it searches)."""
+    problem, reference, sizing, _ = first_reference(case, mixture, feed, data, config, sizing, scenario)
+    basis, _ = cost_basis_from_data(data, mixture, reference, keyed(sizing, problem), scenario,
+                                    case.economics.cost_year)
+    limit = basis.trays.stage_limit(sizing.max_height, config.max_stages)
+    if limit < config.max_stages:
+        try:
+            check_height_limit(problem, basis.trays, sizing, limit, config.reflux_max)
+        except HeightLimitError as failure:
+            return failure
+    return None
+
+
+def close_enough(new: float, old: float, tolerance: float) -> bool:
+    return abs(new - old) <= tolerance * abs(old)
+
+
+class HeightLimitError(InfeasibleSpecError):
+    """No design of a shell layout: its shells within the height limit hold too few stages."""
+
+
+def check_height_limit(problem: SeparationProblem, trays: TrayBasis, sizing: SizingOptions, limit: int,
+                        reflux_max: float) -> None:
+    """Refuse, in engineering words, a layout whose shells cannot hold Fenske's minimum stages, or
+    fewer stages than Gilliland's correlation asks at the highest reflux ratio searched.
+
+    The second saves the search the configurations just above Fenske's minimum, each of which
+    runs the solver to its iteration limit (a propylene/propane splitter in one 50 m shell:
+    68 stages held, Fenske 66, Gilliland at R = 50 about 74; the one-shell search spent a
+    minute proving it). Near total reflux Gilliland's stages approach Fenske's, so the estimate
+    is closest where it decides.
+    """
+    estimate = shortcut(problem)
+    minimum = estimate.minimum_stages
+    if limit <= minimum:
+        raise HeightLimitError(f"{shells_hold(sizing, trays, limit)}, not above the minimum of {minimum:.1f} "
+                               "stages at total reflux")
+    if reflux_max > estimate.minimum_reflux:
+        needed = stages_from_gilliland(minimum, estimate.minimum_reflux, reflux_max)
+        if limit < needed:
+            raise HeightLimitError(f"{shells_hold(sizing, trays, limit)}, fewer than the {needed:.1f} stages "
+                                   f"Gilliland's correlation asks at the highest reflux ratio searched "
+                                   f"({reflux_max:g})")
+
+
+def shells_hold(sizing: SizingOptions, trays: TrayBasis, limit: int) -> str:
+    shells = "one shell" if sizing.shells == 1 else f"{sizing.shells} shells"
+    hold = "holds" if sizing.shells == 1 else "hold"
+    return (f"{shells} of at most {sizing.max_height:g} m {hold} at most {limit} stages at {sizing.tray_spacing:.2f} m "
+            f"tray spacing and {100 * trays.efficiency:.0f} % tray efficiency")

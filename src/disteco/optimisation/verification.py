@@ -100,6 +100,20 @@ def _differences(model: StageProfile, thermo: StageProfile) -> tuple[float, floa
     return dT, dx
 
 
+
+def _beyond_tolerance(excess: float) -> str:
+    """``excess`` in per cent with the digits that tell it from the tolerance (an acetone/methanol
+    design read "1 % above its specification (tolerance 1 %)").
+
+    >>> _beyond_tolerance(0.01004), _beyond_tolerance(0.0212)
+    ('1.004', '2.12')
+    """
+    digits = 3
+    while digits < 8 and f"{100 * excess:.{digits}g}" == f"{100 * SPEC_TOLERANCE:.{digits}g}":
+        digits += 1
+    return f"{100 * excess:.{digits}g}"
+
+
 def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignEvaluation,
                   shortcut: ShortcutDesign, data: CostData, sizing: SizingOptions = SizingOptions(),
                   scenario: str | None = None, reflux_floor: float | None = None) -> Verification:
@@ -118,7 +132,7 @@ def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignE
     corrected = price = None
     warnings: list[str] = []
     if not met:
-        missed = "; ".join(f"{name} key impurity {100 * e:.3g} % above its specification"
+        missed = "; ".join(f"{name} key impurity {_beyond_tolerance(e)} % above its specification"
                            for name, e in zip(("light", "heavy"), keys.excess) if e > SPEC_TOLERANCE)
         try:
             corrected = solve_to_specs(mixture, feed, case.products, case.column, shortcut, spec.stages,

@@ -153,7 +153,7 @@ def test_the_lower_of_two_minima_is_reported_with_its_column(depentaniser):
             assert again.reflux_ratio == near.reflux_ratio and again.stages == own.stages + 4
             assert "x the design's without the control margin" in again.basis
         else:
-            assert again.reflux_ratio == pytest.approx(own.reflux_ratio, rel=1e-6)
+            assert again.reflux_ratio == pytest.approx(own.reflux_ratio, rel=1e-4)  # REFLUX_RESOLUTION 1e-5 in ln R
             assert again.stages == own.stages and "x the design's)" in again.basis
 
 
@@ -264,3 +264,31 @@ def test_energy_balance_minimum_time_limit_grows_with_the_column(monkeypatch):
         found = minimum_reflux.energy_balance_minimum(case, SimpleNamespace(size=size), None, None, verified)
         assert found.reflux_ratio is None
     assert limits == [pytest.approx(117.0), 30.0]
+
+
+def test_energy_balance_minimum_of_a_ppm_bottoms_is_found(tmp_path):
+    """Benzene/toluene (ideal, 1.15 bar) with 1 ppm benzene in the bottoms and 50 ppm toluene in the
+    distillate, on a 55-stage design (feed 21): near the minimum reflux of the 110-stage column the
+    bottoms' log-residual jumps by about 3 over 1e-5 in ln R, so Newton on the specifications crept
+    from the far side and the minimum was "not found" after 57 s. Steps that cross a residual's zero
+    by more than the linear model moved it are halved, and a column meeting both specifications ends
+    the search once the step in ln R is below 1e-5: found (measured 1.8230 on this pressure profile;
+    1.8330 in `design`, on its trays' drop) between the constant-molar-overflow minimum on the
+    fitted forms (1.658) and the design's reflux."""
+    from disteco.optimisation.minimum_reflux import energy_balance_minimum
+    from disteco.stages import solve_to_specs
+
+    text = (EXAMPLES / "aromatics_binary.toml").read_text()
+    text = text.replace("distillate_light_key_fraction = 0.985", "distillate_light_key_fraction = 0.99995")
+    text = text.replace("bottoms_light_key_fraction = 0.015", "bottoms_light_key_fraction = 0.000001")
+    path = tmp_path / "ppm.toml"
+    path.write_text(text)
+    case = load_case(path)
+    mixture = mixture_of(case)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    shortcut = shortcut_design(mixture, feed, case.products, case.column)
+    design = solve_to_specs(mixture, feed, case.products, case.column, shortcut, 55, 21, energy=True,
+                            start_reflux=2.1)
+    found = energy_balance_minimum(case, mixture, feed, shortcut, design)
+    assert found.reflux_ratio == pytest.approx(1.823, rel=2e-3)
+    assert 1.65 < found.reflux_ratio < design.reflux_ratio

@@ -22,6 +22,7 @@ from ..stages import ShortcutDesign, StageProfile, solve_to_specs
 
 STAGE_FACTOR = 2  # stages of the minimum-reflux column over the design's
 REFLUX_STEP = 0.1  # largest Newton step in ln R: small steps keep the warm starts near the pinch good
+REFLUX_RESOLUTION = 1e-5  # ln R: a column meeting both specifications ends the search once Newton's step is smaller
 TIME_LIMIT = 30.0  # s per SIZE_REFERENCE; past it the minimum is reported as not found
 # stage-components the plain time limit is for; a larger column gets it in proportion. Measured: a
 # six-component debutaniser, 78 stages (468), took 29.8 s on a 2-core machine with one other run
@@ -74,7 +75,8 @@ def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortc
         profile = solve_to_specs(mixture, feed, case.products, case.column, shortcut, stages, feed_stage,
                                  energy=True, start_reflux=start_reflux, start=verified,
                                  pressure_drop_per_stage=(bottom - top) / (stages - 1),
-                                 max_log_reflux_step=REFLUX_STEP, time_limit=time_limit)
+                                 max_log_reflux_step=REFLUX_STEP, time_limit=time_limit,
+                                 reflux_resolution=REFLUX_RESOLUTION)
     except (ConvergenceError, InfeasibleSpecError) as failure:
         spent = time.monotonic() - began
         why = (f"stopped after {spent:.0f} s (limit {time_limit:g} s) before both specifications were met"

@@ -207,8 +207,8 @@ def test_predicted_start_reaches_the_same_column_in_fewer_newton_steps(ethanol_w
     steps = []
     solve = mesh.Stages.solve
 
-    def counting(self, U):
-        found = solve(self, U)
+    def counting(self, U, *rest):
+        found = solve(self, U, *rest)
         steps.append(found[2])
         return found
 
@@ -319,3 +319,19 @@ def test_time_limit_is_held_within_one_column_solve(alkanes, monkeypatch):
         solve_to_specs(mixture, feed, products, column, design, 40, design.feed_stage(40), energy=True,
                        time_limit=15.0)
     assert clock[0] == 20.0
+
+
+def test_a_passed_deadline_stops_the_newton_steps(benzene_toluene):
+    """A column solve stops before its next Newton step once the caller's deadline has passed (a 10 ppm
+    depentaniser's energy-balance minimum, limited to 125 s, ran to 180 s inside single solves), and
+    solves as before without one."""
+    import time
+
+    from disteco._base.errors import ConvergenceError
+
+    feed = feed_of(benzene_toluene, (0.45, 0.55))
+    spec = ColumnSpec(16, 8, 2.0, 0.45, P_ATM, 500.0)
+    with pytest.raises(ConvergenceError, match="time limit passed"):
+        solve_rigorous(benzene_toluene, feed, spec, deadline=time.monotonic() - 1.0)
+    assert_balances(benzene_toluene, feed, solve_rigorous(benzene_toluene, feed, spec,
+                                                          deadline=time.monotonic() + 60.0))

@@ -14,6 +14,7 @@ With ``energy=False`` the stage enthalpy balances are replaced by constant molar
 
 from __future__ import annotations
 
+import time
 from dataclasses import dataclass
 
 import numpy as np
@@ -159,8 +160,12 @@ class Stages:
         return J
 
     # ------------------------------------------------------------ Newton
-    def solve(self, U: np.ndarray) -> tuple[np.ndarray, np.ndarray, int]:
+    def solve(self, U: np.ndarray, deadline: float | None = None) -> tuple[np.ndarray, np.ndarray, int]:
         """Newton iteration from U; returns the solution, its properties and the iteration count.
+
+        ``deadline`` (a ``time.monotonic()`` value): past it the iteration stops with ConvergenceError
+        before its next step (a step of an 88-stage, five-component column took seconds, and whole
+        solves overran a 125 s limit of the caller's to 180 s).
 
         A Jacobian is kept for the next step while its last full step cut the largest residual
         to :data:`KEEP_JACOBIAN` of it or less (a chord step costs one property sweep instead of
@@ -175,6 +180,8 @@ class Stages:
         for iteration in range(1, MAX_ITERATIONS + 1):
             if norm < TOLERANCE:
                 return U, props, iteration - 1
+            if deadline is not None and time.monotonic() > deadline:
+                raise ConvergenceError("the caller's time limit passed during the stage equations' Newton steps")
             fresh = J is None
             if fresh:
                 J = self.jacobian(U, props, R)

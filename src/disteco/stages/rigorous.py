@@ -180,7 +180,7 @@ def _predicted_unknowns(start: PredictedStart, spec: ColumnSpec) -> np.ndarray |
 
 
 def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
-           guess: StageProfile | PredictedStart | None) -> StageProfile:
+           guess: StageProfile | PredictedStart | None, deadline: float | None = None) -> StageProfile:
     _check(spec, feed)
     stages = Stages(mixture, _problem(spec, feed, energy))
     if isinstance(guess, PredictedStart):
@@ -189,7 +189,7 @@ def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
             if not guess.base.partial_condenser:
                 U0[0, -1] += spec.subcooling
             try:
-                U, props, _ = stages.solve(U0)
+                U, props, _ = stages.solve(U0, deadline)
                 return _profile(stages, U, props, feed)
             except ConvergenceError:
                 pass  # the extrapolation went too far: start from the base profile itself
@@ -201,16 +201,16 @@ def _solve(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool,
         if guess.stages != spec.stages or guess.feed_stage != spec.feed_stage:
             U0 = _resampled(U0, guess.feed_stage, spec)
         try:
-            U, props, _ = stages.solve(U0)
+            U, props, _ = stages.solve(U0, deadline)
             return _profile(stages, U, props, feed)
         except ConvergenceError:
             pass  # a start too far from this spec: begin again from the CMO column
-    U, props, _ = stages.solve(cmo_unknowns(mixture, _problem(spec, feed, energy=False)))
+    U, props, _ = stages.solve(cmo_unknowns(mixture, _problem(spec, feed, energy=False)), deadline)
     return _profile(stages, U, props, feed)
 
 
 def solve_cmo(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
-              guess: StageProfile | PredictedStart | None = None) -> StageProfile:
+              guess: StageProfile | PredictedStart | None = None, deadline: float | None = None) -> StageProfile:
     """Stage profile under constant molar overflow (no stage energy balances).
 
     Duties: condenser from its energy balance on the converged vapour, reboiler from the
@@ -218,17 +218,17 @@ def solve_cmo(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
     condenser type; stretched onto this N and feed stage) warm-starts Newton, with a cold
     start if that fails.
     """
-    return _solve(mixture, feed, spec, False, guess)
+    return _solve(mixture, feed, spec, False, guess, deadline)
 
 
 def solve_rigorous(mixture: Mixture, feed: FeedState, spec: ColumnSpec,
-                   guess: StageProfile | PredictedStart | None = None) -> StageProfile:
+                   guess: StageProfile | PredictedStart | None = None, deadline: float | None = None) -> StageProfile:
     """Stage profile with energy balances on every stage (MESH equations).
 
     Starts from ``guess`` when given (as in :func:`solve_cmo`), else from the
     constant-molar-overflow solution of the same spec.
     """
-    return _solve(mixture, feed, spec, True, guess)
+    return _solve(mixture, feed, spec, True, guess, deadline)
 
 
 def linearised_moves(mixture: Mixture, feed: FeedState, spec: ColumnSpec, energy: bool, profile: StageProfile,

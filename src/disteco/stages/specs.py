@@ -106,7 +106,8 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
         # checked before every column solve, not only between Newton steps: one step of a
         # 278-stage column (two Jacobian solves and a line search) took longer than the limit
         in_time()
-        profile = solve(mixture, feed, column_spec(log_r, D), guess)
+        profile = solve(mixture, feed, column_spec(log_r, D), guess,
+                        None if time_limit is None else began + time_limit)
         return profile, spec_residuals(profile, products, feed)
 
     def in_time():

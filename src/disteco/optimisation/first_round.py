@@ -70,7 +70,7 @@ def first_reference(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
 
 
 def cheapest_spacing(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config, sizing: SizingOptions,
-                      scenario: str | None, problem: SeparationProblem, reference):
+                     scenario: str | None, problem: SeparationProblem, reference):
     """``sizing`` at the cheapest tray spacing for ``reference``, with the problem and reference settled again
     where the spacing changed (the trays' pressure drop moves with the diameter the spacing gives), and the
     spacings' prices at ``reference``."""

@@ -54,6 +54,12 @@ BEFORE_OPTIMISING = [
      "2 shells of at most 50 m hold at most 110 stages at 0.61 m tray spacing and 73 % tray efficiency, fewer "
      "than the 156.1 stages Gilliland's correlation asks at the highest reflux ratio searched (50): two shells "
      "in series are the most disteco builds"),
+    # ethanol/water at 15 kPa, its distillate 0.93 just below the azeotrope there (0.936): on the stage design's
+    # 53 stages (pressures 15 to 84 kPa) Newton met no specification and check exited 1 (internal error)
+    (ETHANOL.replace('top_pressure = "1.05 bar"', 'top_pressure = "15 kPa"').replace(
+        "distillate_light_key_fraction = 0.80", "distillate_light_key_fraction = 0.93"),
+     "the key pair has a minimum-boiling azeotrope at 0.936 ethanol at 15 kPa, which pinches the equilibrium "
+     "curve near it"),
 ]
 
 

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError
 from ..case import Column, Products
-from ..properties import FeedState, Mixture
+from ..properties import FeedState, Mixture, all_azeotropes
 from .binary import (EquilibriumCurve, MinimumReflux, SteppedColumn, equilibrium_curve, minimum_reflux,
                      step_stages, total_reflux_stages)
 from .results import StageProfile
@@ -52,6 +52,21 @@ class StageDesign:
     meets_specs: bool
     shortcut: ShortcutDesign
     binary: BinaryStepping | None
+
+
+def _unreached(mixture: Mixture, products: Products, column: Column, point: ShortcutPoint,
+               failure: ConvergenceError) -> str:
+    """Why no stage profile on thermo reaches the specifications at the stage design's ``point``, in words."""
+    bottom = column.top_pressure + (point.whole_stages - 1) * column.pressure_drop_per_stage
+    light, heavy = mixture.names[products.light_key], mixture.names[products.heavy_key]
+    near = [a for a in all_azeotropes(mixture, column.top_pressure) if {a.first, a.second} == {light, heavy}]
+    where = "".join(f"; the key pair has a {a.kind} azeotrope at {a.x_first:.4g} {a.first} at "
+                    f"{column.top_pressure / 1e3:.4g} kPa, which pinches the equilibrium curve near it" for a in near)
+    return (f"no stage profile of thermo's column reaches both key specifications at the stage design's "
+            f"{point.whole_stages} stages (feed on {point.feed_stage}) and reflux ratio {point.reflux_ratio:.4g}, "
+            f"pressures {column.top_pressure / 1e3:.4g} to {bottom / 1e3:.4g} kPa ({failure}){where}: ask for "
+            "key-pair purities further from the pinch, or a smaller column.pressure_drop_per_tray where the "
+            "pressure profile spans much of the column's pressure")
 
 
 def binary_stepping(mixture: Mixture, feed: FeedState, products: Products, column: Column,
@@ -104,7 +119,7 @@ def design_stages(mixture: Mixture, feed: FeedState, products: Products, column:
                                      point.feed_stage, energy, start_reflux=point.reflux_ratio)
         except ConvergenceError as failure:
             if not shortcut.azeotrope_crossings:
-                raise
+                raise InfeasibleSpecError(_unreached(mixture, products, column, point, failure)) from failure
             raise InfeasibleSpecError(
                 f"{shortcut.azeotrope_crossings[0]}, and no stage profile reaches the key specifications: "
                 "the azeotrope bounds the product; ask for a key-pair purity on the feed's side of it or "

@@ -398,11 +398,12 @@ def _fit_excess_enthalpy(mixture: Mixture, Ts, P: float, T_low: float) -> tuple[
     """
     n = mixture.size
     unit = np.eye(n)
+    pure = {T: [mixture.liquid_enthalpy(T, P, unit[k]) for k in range(n)] for T in Ts}  # once, not per pair
     rows = []
     for i, j in _pairs(n):
         basis, values = [], []
         for T in Ts:
-            h_i, h_j = (mixture.liquid_enthalpy(T, P, unit[k]) for k in (i, j))
+            h_i, h_j = pure[T][i], pure[T][j]
             for xi in X_GRID:
                 x = np.zeros(n)
                 x[i], x[j] = xi, 1.0 - xi

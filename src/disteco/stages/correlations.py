@@ -384,8 +384,8 @@ def fenske_section_ratio(z_light: float, z_heavy: float, x_light_distillate: flo
     """Ratio of stages above to stages below the feed from Fenske's equation applied to each section
     between the feed and its product, at one relative volatility (which cancels).
 
-    .. math:: \frac{N_R}{N_S} = \ln\left[\frac{x_{LK,D}/x_{HK,D}}{z_{LK}/z_{HK}}\right] \Big/
-              \ln\left[\frac{z_{LK}/z_{HK}}{x_{LK,B}/x_{HK,B}}\right]
+    .. math:: \\frac{N_R}{N_S} = \\ln\\left[\\frac{x_{LK,D}/x_{HK,D}}{z_{LK}/z_{HK}}\\right] \\Big/
+              \\ln\\left[\\frac{z_{LK}/z_{HK}}{x_{LK,B}/x_{HK,B}}\\right]
 
     Mole fractions [-]. Common practice, no source. Unlike Kirkbride's fit it weighs each product's
     purity by its logarithm: with a 10 ppm light-key loss against a 2 % heavy-key slip Kirkbride put a

@@ -282,3 +282,21 @@ def test_rounds_cut_short_report_their_constants_unsettled():
     assert cut.rounds == 1 and not cut.settled
     assert any(w.startswith("the model's constants") and "had not settled after 1 rounds" in w for w in cut.warnings)
     assert solver_json(cut.solver, cut.rounds, cut.settled)["constants_settled"] is False
+
+
+def test_a_height_limit_where_two_shells_cost_more_does_not_advise_them():
+    """Where two shells in series were designed beside the one shell the height limit holds and cost
+    more, the headline names their stages and extra cost instead of advising them (an isopentane
+    splitter's 76-stage shell was told to go to two shells that its Layout line priced 0.1 % dearer)."""
+    from disteco.optimisation.results import LayoutChoice, LayoutOption, Limit
+    from disteco.reports.text import limit_advice
+
+    limit = Limit("max_height", 76, "the 76 stages one shell within the height limit holds", 1)
+    options = (LayoutOption("one shell", 1, 2_296_277.0, stages=76), LayoutOption("two shells", 2, 2_298_600.0, stages=88))
+    layout = LayoutChoice("one shell", "one shell chosen", 50.0, 30.0, ("shell height",), options, ())
+    assert limit_advice(limit, layout) == ("raise [sizing] max_height; two shells in series (88 stages) were "
+                                           "designed too and cost 0.1 % more a year")
+    cheaper = LayoutChoice("two shells", "two shells chosen", 50.0, 30.0, ("shell height",),
+                           (options[0], replace(options[1], tac=2_000_000.0)), ())
+    assert limit_advice(limit, cheaper) == "raise [sizing] max_height, or let the column go to two shells"
+    assert limit_advice(limit, None) == "raise [sizing] max_height, or let the column go to two shells"

@@ -28,6 +28,19 @@ RAISE_ADVICE = {"max_stages": "raise --max-stages (option max_stages) to look fu
                 ("max_height", 2): "raise [sizing] max_height (two shells in series are the most disteco builds)"}
 
 
+def limit_advice(limit, layout) -> str:
+    """What to do about a bound the optimum sits on. A height limit on one shell where two shells in
+    series were designed and cost more says so: advising two shells there contradicts the Layout line
+    (an isopentane splitter of 76 stages was told to go to two shells that cost 0.1 % more)."""
+    two = [] if layout is None or limit.option != "max_height" or limit.shells != 1 else [
+        o for o in layout.options if o.shells == 2 and o.tac is not None]
+    chosen = [] if not two else [o for o in layout.options if o.label == layout.chosen and o.tac is not None]
+    if two and chosen and two[0].tac > chosen[0].tac:
+        return (f"raise [sizing] max_height; two shells in series ({two[0].stages} stages) were designed too and "
+                f"cost {100.0 * (two[0].tac / chosen[0].tac - 1.0):.1f} % more a year")
+    return RAISE_ADVICE.get((limit.option, limit.shells), RAISE_ADVICE[limit.option])
+
+
 def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
     """The case title on one console line: whitespace runs folded to one space and the text
     shortened to ``limit`` characters with "..." (the files keep the whole title)."""
@@ -224,8 +237,7 @@ def design_text(result: DesignResult) -> str:
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"(reboiler included), feed on stage {profile.feed_stage} from the top",
-              *(f"Limited by {limit.text}: {RAISE_ADVICE.get((limit.option, limit.shells), RAISE_ADVICE[limit.option])}"
-                for limit in limits),
+              *(f"Limited by {limit.text}: {limit_advice(limit, parts.optimum.layout)}" for limit in limits),
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)

@@ -22,6 +22,7 @@ def run_cli(tmp_path, text, capsys, command="check"):
 @pytest.mark.parametrize("edit, field, fragment", [
     (("toluene\"]", "tolunee\"]"), "feed.composition", "not in mixture.components"),
     (("0.58 }", "0.68 }"), "feed.composition", "sum to 1.1"),
+    (('"toluene"]', '"toluene", "Benzene"]'), "mixture.components", "'benzene' listed twice"),
     (("180 kmol/h", "-180 kmol/h"), "feed.flow", "not positive"),
     (("flow = \"180 kmol/h\"\n", ""), "flow", "missing field"),
     (("method = \"ideal\"", "method = \"magic\""), "mixture.method", "unknown method 'magic'"),

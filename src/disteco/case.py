@@ -318,8 +318,9 @@ def _components(mixture: dict) -> tuple[str, ...]:
         if not isinstance(name, str) or not name.strip():
             raise CaseError("mixture.components", f"{name!r} is not a name", "text names or CAS numbers")
     lowered = [n.strip().lower() for n in names]
-    if len(set(lowered)) != len(lowered):
-        raise CaseError("mixture.components", "a component is listed twice", "distinct components")
+    twice = sorted({n for n in lowered if lowered.count(n) > 1})
+    if twice:
+        raise CaseError("mixture.components", f"{', '.join(map(repr, twice))} listed twice", "distinct components")
     return tuple(n.strip() for n in names)
 
 

@@ -80,3 +80,25 @@ def test_no_shell_exceeds_the_limits(result):
     assert chosen and chosen[0]["tac_per_year"] == min(o["tac_per_year"] for o in layout["options"]
                                                         if o["tac_per_year"] is not None)
     assert any("full vacuum" in w and "not done" in w for w in data["warnings"])
+
+
+def test_wegstein_step_settles_a_swinging_pressure_drop():
+    """A drop found that falls as the drop assumed rises (slope -0.9, as a 1-octanol/1-decanol column at
+    5 kPa showed) swings under plain substitution: it needs 31 rounds to come within 1 %. Wegstein's step
+    (Wegstein, Commun. ACM 1 (6), 9 (1958)) lands on a linear map's fixed point after two rounds."""
+    from disteco.optimisation.first_round import DROP_TOLERANCE, WEGSTEIN_BOUNDS, next_drop
+
+    def found(assumed):
+        return 2500.0 - 0.9 * assumed
+    fixed = 2500.0 / 1.9
+    x, substitution = 1144.4, 0
+    while abs(found(x) - x) > DROP_TOLERANCE * x:
+        x, substitution = found(x), substitution + 1
+    assert substitution == 31
+    trials = [(1144.4, found(1144.4))]
+    assert next_drop(trials) == found(1144.4)  # one round: the drop found
+    trials.append((trials[0][1], found(trials[0][1])))
+    assert next_drop(trials) == pytest.approx(fixed, rel=1e-12)
+    # a map steeper than the bounds allow moves at most the bounded step
+    steep = [(1000.0, 1100.0), (1100.0, 2100.0)]  # slope 10: q = 10/9 above the upper bound
+    assert next_drop(steep) == pytest.approx(WEGSTEIN_BOUNDS[1] * 1100.0 + (1 - WEGSTEIN_BOUNDS[1]) * 2100.0)

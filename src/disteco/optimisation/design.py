@@ -35,7 +35,8 @@ from .search import optimise
 from .solve import solve_configuration
 from .start import shortcut
 from .first_round import DROP_TOLERANCE, NO_MORE_SHELLS, ROUNDS, HeightLimitError, check_height_limit, \
-    cheapest_spacing, close_enough, keyed, shells_hold, first_reference, settled_reference, stage_pressure_drop
+    cheapest_spacing, close_enough, keyed, next_drop, shells_hold, first_reference, settled_reference, \
+    stage_pressure_drop
 
 SPACING_ROUNDS = 1  # one more round allowed when the spacing changes at the first optimum
 TAC_TOLERANCE = 1e-3  # relative TAC change between rounds that counts as settled [-]
@@ -142,7 +143,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                                                                  problem, reference)
     else:
         problem, reference, sizing, spacings = first_reference(case, mixture, feed, data, config, sizing, scenario)
-    previous, kept, previous_at_limit, two_back = None, (), False, None
+    previous, kept, previous_at_limit, two_back, drops = None, (), False, None, []
     visited, wall, solved = (), 0.0, 0  # over all rounds
     allowed = most_rounds or ROUNDS
     for rounds in range(1, allowed + SPACING_ROUNDS + 1):
@@ -212,9 +213,12 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         kept = (priced, problem, basis, sizing, limit)
         if spacing != sizing.tray_spacing:  # a new spacing restarts the pressure drop's settling
             allowed = min(allowed + 1, (most_rounds or ROUNDS) + SPACING_ROUNDS)
+        if spacing != sizing.tray_spacing:
+            drops = []  # the trays' hydraulics changed: earlier rounds say nothing of the slope
         sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
-            problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+            drops.append((problem.stage_pressure_drop, drop))
+            problem = separation_problem(case, mixture, feed, config.max_stages, next_drop(drops))
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
     # the chosen configuration's cost-curve range notes from the model: the sequential price
     # reports the same curves' ranges for the reported sizes (they were printed twice)
@@ -334,7 +338,7 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     # the spacing of the model's solve stays the one-shell choice; the final spacing is chosen again
     # for the shells below
     sizing, split = _given_shells(reference, mixture, data, keyed(sizing, problem), stages)
-    previous = None
+    previous, drops = None, []
     for rounds in range(1, ROUNDS + 1):
         # The model's basis stays one shell (with the reflux and stages held only the distillate is
         # free); the sequential price below prices the shells chosen.
@@ -355,7 +359,8 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
             break
         previous, reference = design, design.profile
         if not drop_settled:
-            problem = separation_problem(case, mixture, feed, config.max_stages, drop)
+            drops.append((problem.stage_pressure_drop, drop))
+            problem = separation_problem(case, mixture, feed, config.max_stages, next_drop(drops))
     if choose_spacing:
         sizing, priced, _ = _final_spacing(design, priced, mixture, data, keyed(sizing, problem), scenario, year)
     short = ()

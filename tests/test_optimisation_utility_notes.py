@@ -188,3 +188,14 @@ def test_no_reboiler_note_below_the_columns_own_pressure_drop(benzene_toluene, v
     assert sized.reboiler.utility.name == "lp_steam"
     notes = _notes(benzene_toluene, profile, sized, levels)
     assert [n.split(":")[0] for n in notes] == ["condenser on chilled_water"]
+
+
+def test_suggested_top_pressure_never_reads_as_the_present_one():
+    """A suggested top pressure 0.15 % above the present one gets the digits that tell them apart (a
+    dimethyl ether column at 13 bar was told "about 13 bar (now 13 bar)")."""
+    from disteco.optimisation.utility_notes import _kpa
+
+    assert _kpa(13.02e5, 13e5) == "13.02 bar"
+    assert _kpa(8.46e5, 13e5) == "8.46 bar"
+    assert _kpa(45.123e3, 45.1e3) == "45.12 kPa"
+    assert _kpa(13e5, 13e5) == "13 bar"  # the same pressure stops at 6 digits

@@ -156,7 +156,7 @@ def _note(exchanger, other_exchanger, service: str, own, other, profile, levels,
         money = (f"; at the present duties the two utilities would cost about {_money(-(own_change + other_change))} "
                  f"{pricing.currency} a year less ({exchanger.name} {_money(own_change, sign=True)}, "
                  f"{other_exchanger.name} {_money(other_change, sign=True) if abs(other_change) >= 0.5 else 'unchanged'})")
-    return (f"{opening}, which a top pressure of about {_kpa(new_top)} gives (now {_kpa(top)}); "
+    return (f"{opening}, which a top pressure of about {_kpa(new_top, top)} gives (now {_kpa(top)}); "
             f"the {other_exchanger.name} would then take {text}{money}. The relative volatility moves with the "
             "pressure: design the case again at that top pressure to compare")
 
@@ -208,5 +208,11 @@ def _c(kelvin: float) -> str:
     return f"{kelvin - 273.15:.1f}"
 
 
-def _kpa(pascal: float) -> str:
-    return f"{pascal / 1e5:.3g} bar" if pascal >= 1e5 else f"{pascal / 1e3:.3g} kPa"
+def _kpa(pascal: float, other: float | None = None) -> str:
+    """``pascal`` in bar (kPa below 1 bar) to 3 significant digits, more (up to 6) where it would read as
+    ``other`` (a dimethyl ether column at 13 bar was told to go to "about 13 bar (now 13 bar)")."""
+    unit, scale = ("bar", 1e5) if pascal >= 1e5 else ("kPa", 1e3)
+    digits = 3
+    while other is not None and digits < 6 and f"{pascal / scale:.{digits}g}" == f"{other / scale:.{digits}g}":
+        digits += 1
+    return f"{pascal / scale:.{digits}g} {unit}"

@@ -56,6 +56,25 @@ def test_search_from_a_previous_optimum_only_descends(problem, cheap_steam, opti
     assert again.solver.configurations_solved <= 9
 
 
+def test_a_round_whose_constants_barely_move_is_confirmed_by_one_solve(problem, cheap_steam, optimum):
+    """A re-evaluation round whose constants move the optimum's TAC by at most half the rounds' tolerance
+    solves that configuration alone (design._confirmed): the same configuration and TAC as the round's
+    full search from it, which solves its neighbourhood. A larger move searches again."""
+    from disteco.optimisation.design import TAC_TOLERANCE, _confirmed
+    from disteco.optimisation.options import model_options
+
+    run = model_options(OPTIONS)
+    nudged = replace(cheap_steam, annualisation=cheap_steam.annualisation * 1.0002)
+    confirmed = _confirmed(optimum, problem, nudged, run)
+    searched = optimise(problem, nudged, OPTIONS, start=(optimum.best.stages, optimum.best.feed_stage))
+    assert confirmed.solver.configurations_solved == 1 and searched.solver.configurations_solved >= 9
+    assert (confirmed.best.stages, confirmed.best.feed_stage) == (searched.best.stages, searched.best.feed_stage)
+    assert confirmed.best.tac == pytest.approx(searched.best.tac, rel=1e-6)
+    assert 0.0 < abs(confirmed.best.tac / optimum.best.tac - 1.0) <= 0.5 * TAC_TOLERANCE
+    dearer = replace(cheap_steam, annualisation=cheap_steam.annualisation * 1.05)
+    assert _confirmed(optimum, problem, dearer, run) is None
+
+
 def test_optimum_is_interior_and_above_minimum_reflux(optimum):
     """The optimum lies inside the stage range, above Underwood's minimum reflux and Fenske's minimum stages."""
     best = optimum.best

@@ -27,3 +27,5 @@ def test_time_limit_reported_honestly(tmp_path, capsys):
     assert f"after {solver['configurations_solved']} configurations" in warning
     assert f"Warning: {warning}" in out
     assert "Best design found (search incomplete" in out and "Lowest-TAC design" not in out
+    # the rounds did not settle anything: the optimiser line says the time limit stopped the last one
+    assert "1 round, the last stopped by its time limit before the model's constants settled" in out

@@ -90,9 +90,12 @@ def reflux_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, 
                     unit)
         except TimeoutError:  # the curve keeps the points found within its time
             if notes is not None:
+                # a time limit below the floor caps the curve too ("cut after 0 s (..., at least 30 s)" read before)
+                why = ("the search's time limit, --time-limit" if allowed >= config.time_limit else
+                       f"the optimisation's own time, at least {CURVE_TIME_FLOOR:g} s")
                 notes.append(f"the TAC-against-reflux curve{f' of {scenario!r}' if scenario else ''} was cut after "
-                             f"{allowed:.0f} s (the optimisation's own time, at least {CURVE_TIME_FLOOR:g} s): it "
-                             f"shows {len({n for n, _ in evaluator.evaluations})} stage counts around the optimum")
+                             f"{allowed:.3g} s ({why}): it shows {len({n for n, _ in evaluator.evaluations})} stage "
+                             "counts around the optimum")
     return along_reflux(evaluator.evaluations.values())
 
 

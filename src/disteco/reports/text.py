@@ -273,7 +273,9 @@ def design_text(result: DesignResult) -> str:
         rounds = f"{optimum.rounds} round{'s' if optimum.rounds != 1 else ''}"
         lines.append(f"Optimiser: {optimum.solver.status}{gap}, {optimum.solver.configurations_solved} "
                      f"configurations tried{failed} in {optimum.solver.wall_time:.1f} s, "
-                     + (f"{rounds} until the model's constants settled" if optimum.settled
+                     + (f"{rounds}, the last stopped by its time limit before the model's constants settled"
+                        if optimum.solver.status.startswith("time limit") else
+                        f"{rounds} until the model's constants settled" if optimum.settled
                         else f"{rounds} without the model's constants settling (see the warnings)"))
     lines += scenario_lines(parts)
     return "\n".join(lines)

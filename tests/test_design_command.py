@@ -397,3 +397,26 @@ def test_a_scenario_beaten_by_another_design_is_searched_again_from_it(monkeypat
     assert reference.reported_tac <= first.parts.scenarios[0][1].reported_tac * (1.0 + 1e-9)
     cross = result.parts.cross
     assert [cross.tac[k][k] for k in range(2)] == [o.reported_tac for _, o in result.parts.scenarios]
+
+
+def test_a_height_limit_the_final_spacing_lifts_is_not_reported_as_binding(searched):
+    """The search's stage limit came from one shell at its tray spacing; where the spacing chosen after
+    the search (the swaged shell's) holds one stage more within the height limit, the optimum is not
+    reported as held by it (a depropaniser at 28 bar read "Limited by the 54 stages one shell ... holds"
+    at 34.4 m of a 50 m limit), and a note says what the search was held to."""
+    from dataclasses import replace
+
+    from disteco.optimisation.design import _height_limit_at_final_spacing
+
+    optimum = searched[-1]
+    held = replace(optimum, stage_limit=optimum.best.stages, stage_bound=optimum.best.stages)
+    assert held.limits[0].option == "max_height"
+    spacing = optimum.sizing_options.tray_spacing
+    lifted = _height_limit_at_final_spacing(held, spacing + 0.3, 60)
+    assert lifted.stage_limit is None and lifted.stage_bound == 60 and lifted.limits == ()
+    (note,) = [w for w in lifted.warnings if w.startswith("the search ran at")]
+    assert f"holds {optimum.best.stages} stages" in note and f'tray_spacing = "{spacing:g} m"' in note
+    assert _height_limit_at_final_spacing(held, spacing, 60) is held  # the same spacing: the limit stands
+    tangent = optimum.sequential.sizing.height.tangent_length
+    tight = replace(held, sizing_options=replace(held.sizing_options, max_height=tangent + 0.01))
+    assert _height_limit_at_final_spacing(tight, spacing + 0.3, 60) is tight  # no room for one stage more

@@ -115,11 +115,41 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         if more is not None and more.sequential.cost.tac_per_year < best.sequential.cost.tac_per_year:
             label, best = MORE_STAGES, more
     free = unconstrained_tac([r for _, r, _ in optima.values()], mixture, data, best.sizing_options, scenario, year)
+    searched_spacing = best.sizing_options.tray_spacing
     best, sections = swaged_design(best, mixture, data, scenario, year)
+    best = _height_limit_at_final_spacing(best, searched_spacing, config.max_stages)
     optima[label] = (optima[label][0], best, None)
     records = [layout_option(name, shells, result, failure) for name, (shells, result, failure) in optima.items()]
     return replace(best, layout=choose_layout(records, sizing, best.sequential.sizing, best.spacings, free,
                                               sections))
+
+
+def _height_limit_at_final_spacing(optimum: OptimumDesign, searched_spacing: float, bound: int) -> OptimumDesign:
+    """``optimum`` without its height limit where the swaged shell's tray spacing, chosen after the
+    search, holds one stage more within the limit; a note says what the search was held to, and the
+    stage bound is the search's own ``bound`` again.
+
+    A depropaniser at 28 bar was searched at 0.75 m (one diameter: the widest spacing gave the
+    narrowest column) up to the 54 stages one shell of it holds; the swaged shell priced afterwards
+    at 0.50 m put those stages in 34.4 m, yet the console said "Limited by the 54 stages one shell ...
+    holds" and priced the limit at -54,095 USD a year (swaged against one diameter). Searched again
+    at 0.50 m, the optimum was the same 54 stages within 0.03 % of TAC.
+    """
+    limit, sized = optimum.stage_limit, optimum.sequential.sizing
+    options = optimum.sizing_options
+    if limit is None or optimum.best.stages < limit or options is None or sized.split is not None or \
+            options.tray_spacing == searched_spacing:
+        return optimum
+    height = sized.height
+    per_stage = math.ceil(1.0 / max(sized.efficiency.value, 1e-3)) * height.tray_spacing  # trays of one stage more
+    if height.tangent_length + per_stage > options.max_height:
+        return optimum  # the limit binds at the final spacing too
+    note = (f"the search ran at {searched_spacing:.2f} m tray spacing, where one shell within the height limit of "
+            f"{options.max_height:g} m holds {limit} stages, and its optimum lies there; the swaged shell chosen "
+            f"afterwards has {height.tray_spacing:.2f} m spacing and holds them in {height.tangent_length:.1f} m, so "
+            "the limit does not bind the reported design; to search more stages at that spacing, set [sizing] "
+            f"tray_spacing = \"{height.tray_spacing:g} m\"")
+    return replace(optimum, stage_limit=None, stage_bound=bound, warnings=optimum.warnings + (note,))
 
 
 def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostData, config,

@@ -222,3 +222,26 @@ def test_steam_price_sweep_moves_reflux_down_and_tac_up():
         assert dearer <= cheaper * (1 + 1e-6)
     assert refluxes[-1] < refluxes[0] * 0.99  # the sweep does move the optimum
     assert all(b > a for a, b in zip(tacs, tacs[1:]))
+
+
+def test_a_power_price_that_the_design_s_power_following_utilities_do_not_follow_is_noted():
+    """A scenario whose electricity price the case sets, run on a design cooled by cooling water (priced
+    by the cost data, escalated by an electricity index), gets a note naming that utility; a scenario
+    that sets the cooling water as well, or leaves the power price alone, gets none."""
+    from types import SimpleNamespace
+
+    from disteco.reports.tables_prices import power_price_notes
+
+    tables = {"dear_power": {"based_on": "reference", "electricity": "0.15 USD/kWh"},
+              "dear_both": {"based_on": "reference", "electricity": "0.15 USD/kWh", "cooling_water": "0.8 USD/GJ"}}
+    data = _apply(tables=tables)
+    cost = cost_column(data, INPUT, "reference", 2023)
+    assert data.price("reference", "cooling_water", 2023).price_index.endswith("electricity")
+
+    def notes(*scenarios):
+        return power_price_notes(SimpleNamespace(cost_data=data, cost=cost,
+                                                 scenarios=tuple((name, None) for name in scenarios)))
+    (note,) = notes("reference", "dear_power", "dear_both")
+    assert note.startswith("scenario 'dear_power': electricity is set to 0.15 USD/kWh (prices.dear_power.electricity)")
+    assert "cooling_water" in note and "lp_steam" not in note  # steam follows a gas index
+    assert notes("reference") == ()

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from ..costing.operating import UtilityPrice
+from ..costing.operating import ELECTRICITY, UtilityPrice
 from .tables import Column, Table, text
 
 if TYPE_CHECKING:  # the design parts pull in the optimiser; `check` prints prices without it
@@ -50,7 +50,33 @@ def prices_text(parts: ReportParts) -> list[str]:
         by = f", set by {p.set_by}" if p.set_by else ""
         kept = " KEPT AS GIVEN (no index fits)" if p.note else ""
         lines.append(f"  {p.scenario} / {p.utility}: {p.price:.4g} {p.unit} = {_as_given(p)}{by}{kept}")
-    return lines
+    return lines + [f"  Note: {note}" for note in power_price_notes(parts)]
+
+
+def power_price_notes(parts: ReportParts) -> tuple[str, ...]:
+    """A note for each scenario run whose electricity price a case field or option set while a utility the
+    design uses keeps the cost data's price escalated by an electricity index.
+
+    Refrigeration and chilled water are mostly compressor power (cooling water pumps and fans): an
+    ethylene column's "dear_power" scenario at 0.15 USD/kWh moved its TAC by 0.2 % because only the
+    reflux pump's power followed, its -50 degC refrigerant staying at the cost data's price.
+    """
+    prices = run_prices(parts)
+    used = {u.utility for u in parts.cost.utilities} if parts.cost is not None else set()
+    notes = []
+    for name in run_scenarios(parts):
+        power = next((p for p in prices if p.scenario == name and p.utility == ELECTRICITY), None)
+        if power is None or power.set_by is None:
+            continue
+        follows = [p for p in prices if p.scenario == name and p.utility in used and p.utility != ELECTRICITY
+                   and p.set_by is None and "electricity" in p.price_index]
+        if follows:
+            kept = ", ".join(f"{p.utility} {p.price:.4g} {p.unit}" for p in follows)
+            notes.append(f"scenario '{name}': electricity is set to {power.price:.4g} {power.unit} ({power.set_by}) "
+                         f"but the design's {kept} keep the cost data's prices, escalated by an electricity "
+                         f"index, not by this power price: refrigeration and chilled water are mostly compressor "
+                         f"power; set them in [prices.{name}] (or --price {name}.UTILITY=...) where they follow it")
+    return tuple(notes)
 
 
 def prices_table(parts: ReportParts) -> Table | None:
@@ -85,4 +111,4 @@ def economics_json(parts: ReportParts) -> dict | None:
     }
 
 
-__all__ = ["economics_json", "prices_table", "prices_text", "run_prices", "run_scenarios"]
+__all__ = ["economics_json", "power_price_notes", "prices_table", "prices_text", "run_prices", "run_scenarios"]

@@ -173,7 +173,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                                                                  problem, reference)
     else:
         problem, reference, sizing, spacings = first_reference(case, mixture, feed, data, config, sizing, scenario)
-    previous, kept, previous_at_limit, two_back, drops = None, (), False, None, []
+    previous, kept, previous_at_limit, two_back, drops, searched = None, (), False, None, [], None
     visited, wall, solved = (), 0.0, 0  # over all rounds
     allowed = most_rounds or ROUNDS
     for rounds in range(1, allowed + SPACING_ROUNDS + 1):
@@ -187,8 +187,11 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
             if limit is not None:
                 check_height_limit(problem, basis.trays, sizing, run.max_stages, run.reflux_max)
             same_trays = bool(kept) and kept[3].tray_spacing == sizing.tray_spacing and kept[4] == limit
-            result = (_confirmed(previous, problem, basis, run) if same_trays else None) \
-                or optimise(problem, basis, run, start=start)
+            # measured from the last round that searched, so that confirmations cannot drift in steps
+            confirmed = _confirmed(searched, problem, basis, run) if same_trays and searched is not None and \
+                start == (searched.best.stages, searched.best.feed_stage) else None
+            result = confirmed or optimise(problem, basis, run, start=start)
+            searched = searched if confirmed is not None else result
         except (InfeasibleSpecError, SolverError) as failure:
             if previous is None and limit is not None and type(failure) is InfeasibleSpecError:
                 # the height limit cut the stage range: more shells may hold the stages needed
@@ -263,8 +266,8 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
 
 
 def _confirmed(previous: OptimumDesign, problem: SeparationProblem, basis: CostBasis, run) -> OptimumDesign | None:
-    """``previous``'s optimum solved again alone at the re-evaluated constants, where that confirms it;
-    else None, and the round searches its neighbourhood again.
+    """``previous``'s optimum (the last round that searched) solved again alone at the re-evaluated
+    constants, where that confirms it; else None, and the round searches its neighbourhood again.
 
     A round at the same tray spacing and height limit changes the cost constants (efficiency,
     exchanger coefficients, factors) and the pressure profile a little, which move every

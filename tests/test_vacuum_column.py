@@ -102,3 +102,14 @@ def test_wegstein_step_settles_a_swinging_pressure_drop():
     # a map steeper than the bounds allow moves at most the bounded step
     steep = [(1000.0, 1100.0), (1100.0, 2100.0)]  # slope 10: q = 10/9 above the upper bound
     assert next_drop(steep) == pytest.approx(WEGSTEIN_BOUNDS[1] * 1100.0 + (1 - WEGSTEIN_BOUNDS[1]) * 2100.0)
+
+
+def test_a_trays_pressure_drop_that_multiplies_the_vacuum_is_pointed_out(result):
+    """The trays take the styrene column from 8 kPa at the top to several times that at the bottom (the
+    drop tested above): a warning gives the ratio and that vacuum columns are usually packed."""
+    _, data = result
+    design = data["design"]
+    ratio = design["bottom_pressure_kPa"] / design["top_pressure_kPa"]
+    assert ratio > 3.0
+    (warning,) = [w for w in data["warnings"] if "vacuum columns are usually packed" in w]
+    assert f"{ratio:.1f} x the top's {design['top_pressure_kPa']:.3g} kPa" in warning

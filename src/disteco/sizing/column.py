@@ -12,6 +12,7 @@ from dataclasses import dataclass
 from typing import Protocol, Sequence
 
 from .._base.errors import CaseError, CorrelationRangeError
+from .._base.units import ATMOSPHERE
 from .._base.validity import OutOfRange, ValidityRange
 from ..stages.results import StageProfile
 from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
@@ -27,6 +28,10 @@ from .options import SizingOptions
 from .shells import ShellSplit, shell_trays, split_stage, vapour_line
 from .utilities import UtilityLevel
 from .vessel import ColumnHeight, VesselDesign, column_height, design_pressure, design_vessel, least_diameter
+
+# bottom over top pressure of a vacuum column above which its trays' drop is pointed out [-]
+# (common practice, no source: packing's drop per stage is a fraction of a tray's)
+VACUUM_DROP_RATIO = 3.0
 
 
 class SizingProperties(Protocol):
@@ -240,6 +245,14 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     if diameter < 0.6:
         warnings.append(f"column diameter {diameter:.2f} m is below 0.6 m (common practice, no source): "
                         "trays are hard to install; consider packing")
+    top, bottom = profile.P[0], profile.P[-1]
+    if top < ATMOSPHERE and bottom > VACUUM_DROP_RATIO * top:
+        # a glycol column at 2 kPa reached 21.6 kPa in its sump through 37 trays, with no word about it
+        warnings.append(f"the trays' pressure drop takes the bottom of this vacuum column to {bottom / 1e3:.3g} kPa, "
+                        f"{bottom / top:.1f} x the top's {top / 1e3:.3g} kPa, and its temperature up with it (a "
+                        "dearer heating level, a heat-sensitive bottoms); vacuum columns are usually packed, with "
+                        "a fraction of a tray's drop per stage (common practice, no source); disteco designs trays "
+                        "only")
 
     def shell(trays_in: int, sump_flow: float, first: int, last: int) -> tuple[ColumnHeight, VesselDesign]:
         height = column_height(trays_in, options.tray_spacing, diameter, sump_flow, options.sump_residence_time,

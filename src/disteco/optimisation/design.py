@@ -248,7 +248,6 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
         kept = (priced, problem, basis, sizing, limit)
         if spacing != sizing.tray_spacing:  # a new spacing restarts the pressure drop's settling
             allowed = min(allowed + 1, (most_rounds or ROUNDS) + SPACING_ROUNDS)
-        if spacing != sizing.tray_spacing:
             drops = []  # the trays' hydraulics changed: earlier rounds say nothing of the slope
         sizing = replace(sizing, tray_spacing=spacing)
         if not drop_settled:
@@ -271,14 +270,14 @@ def _confirmed(previous: OptimumDesign, problem: SeparationProblem, basis: CostB
 
     A round at the same tray spacing and height limit changes the cost constants (efficiency,
     exchanger coefficients, factors) and the pressure profile a little, which move every
-    configuration's TAC about alike. Where the previous optimum was a local optimum of its round (every neighbour solved and
-    none cheaper) and its own TAC moves by at most half of :data:`TAC_TOLERANCE`, no neighbour can have
-    become cheaper by more than the tolerance, within which designs count as equally good: the
-    neighbourhood is not solved again (measured on the benzene example: the confirming round of the
-    search and the one of the control margin's second search, 9 solves each, 0.36 and 0.73 s, became
-    one solve each). The curve's seeds are the previous round's neighbours (as a searching round leaves
-    its neighbourhood; the whole of an earlier round's configurations thinned the curve), their TACs
-    within about the same half tolerance.
+    configuration's TAC about alike. Where the previous optimum was a local optimum of its round
+    (every neighbour solved and none cheaper) and its own TAC moves by at most half of
+    :data:`TAC_TOLERANCE`, no neighbour can have become cheaper by more than the tolerance, within
+    which designs count as equally good: the neighbourhood is not solved again (measured on the
+    benzene example: the confirming round of the search and the one of the control margin's second
+    search, 9 solves each, 0.36 and 0.73 s, became one solve each). The curve's seeds are the
+    previous round's neighbours (as a searching round leaves its neighbourhood; the whole of an
+    earlier round's configurations thinned the curve), their TACs within about the same half tolerance.
     """
     if previous is None or not previous.solver.status.startswith("locally optimal"):
         return None
@@ -294,7 +293,7 @@ def _confirmed(previous: OptimumDesign, problem: SeparationProblem, basis: CostB
     here = (best.stages, best.feed_stage)
     near = {(here[0] + dn, here[1] + df) for dn, df in DIRECTIONS}  # what a searching round would leave
     seeds = (centre,) + tuple(d for d in previous.solved if (d.stages, d.feed_stage) in near)
-    return replace(previous, best=centre, visited=(), solved=seeds, warnings=previous.warnings,
+    return replace(previous, best=centre, visited=(), solved=seeds,
                    solver=replace(previous.solver, wall_time=centre.solver.wall_time, configurations_solved=1))
 
 

@@ -74,7 +74,7 @@ def power_price_notes(parts: ReportParts) -> tuple[str, ...]:
             kept = ", ".join(f"{p.utility} {p.price:.4g} {p.unit}" for p in follows)
             notes.append(f"scenario '{name}': electricity is set to {power.price:.4g} {power.unit} ({power.set_by}) "
                          f"but the design's {kept} keep the cost data's prices, escalated by an electricity "
-                         f"index, not by this power price: refrigeration and chilled water are mostly compressor "
+                         "index, not by this power price: refrigeration and chilled water are mostly compressor "
                          f"power; set them in [prices.{name}] (or --price {name}.UTILITY=...) where they follow it")
     return tuple(notes)
 

@@ -105,4 +105,16 @@ def test_solver_failure_short_of_gilliland_stages_is_explained():
     explained = explain_failure(ESTIMATE, 1.8, 12, failure)
     assert isinstance(explained, InfeasibleDesignError) and explained.field == "stages"
     assert "Gilliland's correlation asks for about" in str(explained)
-    assert explain_failure(ESTIMATE, 1.8, 80, failure) is failure
+    assert explain_failure(ESTIMATE, 2.0, 80, failure) is failure
+
+
+def test_solver_failure_near_the_minimum_reflux_is_put_down_to_it():
+    """A failed solve at a reflux within 25 % above the constant-molar-overflow minimum, on stages enough
+    by Gilliland's correlation, names the reflux (exit 2): the energy balances and the pressure drop can
+    raise the column's minimum above it (the benzene example at R = 1.6 on 60 stages ended in exit 1)."""
+    failure = SolverError("iteration limit")
+    explained = explain_failure(ESTIMATE, 1.6, 80, failure)
+    assert isinstance(explained, InfeasibleDesignError) and explained.field == "reflux_ratio"
+    assert "reflux ratio 1.6 is 1.07 x the minimum reflux ratio 1.5" in str(explained)
+    assert "(allowed: a reflux ratio of at least 1.875 (1.25 x the minimum)" in str(explained)
+    assert explain_failure(ESTIMATE, 1.49, 80, failure).field == "reflux_ratio"  # below it: the same words

@@ -9,7 +9,8 @@ from __future__ import annotations
 
 import math
 
-from .._base.errors import CaseError, CorrelationRangeError, InfeasibleDesignError, SolverError
+from .._base.errors import CaseError, CorrelationRangeError, InfeasibleDesignError, InfeasibleSpecError, \
+    SolverError
 from ..stages.correlations import stages_from_gilliland
 from .start import Shortcut
 
@@ -72,13 +73,27 @@ def explain_failure(estimate: Shortcut, reflux_ratio: float, stages: int, failur
     """The error to raise when the solver failed on a given design that passed the checks.
 
     When Gilliland's correlation asks for more stages at this reflux than the design has, the
-    design is most likely short of stages (the solver then wanders without a feasible point):
-    an :class:`InfeasibleDesignError` saying so; otherwise ``failure`` itself.
+    design is most likely short of stages (the solver then wanders without a feasible point);
+    when the reflux lies within :data:`ENERGY_BALANCE_ALLOWANCE` above the constant-molar-overflow
+    minimum, the energy balances and the pressure drop most likely put the column's own minimum
+    above it (the benzene example at R = 1.6, 1.006 x that minimum, on 60 stages: its energy-balance
+    minimum is about 1.74, and ripopt ended at its iteration limit, exit 1): an
+    :class:`InfeasibleDesignError` saying which; otherwise ``failure`` itself.
     """
     try:
         needed = stages_from_gilliland(estimate.minimum_stages, estimate.minimum_reflux, reflux_ratio)
-    except CorrelationRangeError:
-        return failure
+    except (CorrelationRangeError, InfeasibleSpecError):
+        needed = 0.0  # at or below the minimum reflux: the reflux is what to name
+    r_min = estimate.minimum_reflux
+    if stages >= needed and reflux_ratio < (1.0 + ENERGY_BALANCE_ALLOWANCE) * r_min:
+        return InfeasibleDesignError(
+            REFLUX, f"reflux ratio {reflux_ratio:.4g} is {reflux_ratio / r_min:.3g} x the minimum reflux ratio "
+            f"{r_min:.4g} ({estimate.minimum_by('reflux')}); with the stage energy balances and the column's "
+            "pressure drop the minimum can lie higher, and the design most likely cannot meet the product "
+            f"specifications at any number of stages (the solver found no solution: {failure})",
+            f"a reflux ratio of at least {(1.0 + ENERGY_BALANCE_ALLOWANCE) * r_min:.4g} "
+            f"({1.0 + ENERGY_BALANCE_ALLOWANCE:g} x the minimum), or run design without --reflux for the "
+            "energy-balance minimum", reflux_ratio)
     if stages >= needed:
         return failure
     return InfeasibleDesignError(

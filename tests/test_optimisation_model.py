@@ -97,7 +97,7 @@ def test_specifications_met_at_solution(solved, problem):
 
 def test_too_few_stages_is_infeasible_in_words(problem, basis):
     """Below the minimum stages the configuration is reported infeasible, naming what to change."""
-    with pytest.raises(InfeasibleSpecError, match="more stages, more reflux or a feed stage nearer"):
+    with pytest.raises(InfeasibleSpecError, match="more stages, more reflux or another feed stage"):
         solve_configuration(problem, basis, 6, 3, {"max_stages": MAX})
 
 

@@ -204,8 +204,8 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
         at = f"reflux ratio {fixed_reflux:.4g}, " if fixed_reflux is not None else ""
         raise InfeasibleSpecError(
             f"{at}{stages} stages with the feed on stage {feed_stage}: the product specifications cannot be met "
-            f"(best reachable falls {100 * missed:.3g} % short); more stages, more reflux or a feed stage nearer the "
-            "feed's own composition on the column are needed")
+            f"(best reachable falls {100 * missed:.3g} % short); more stages, more reflux or another feed stage "
+            "are needed")
     return model, report
 
 

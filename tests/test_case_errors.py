@@ -34,6 +34,7 @@ def run_cli(tmp_path, text, capsys, command="check"):
     (('"180 kmol/h"', "100"), "feed.flow", "a unit is missing: 100 is a bare number"),
     (('"1.15 bar"', '"1.15"'), "column.top_pressure", "a unit is missing in '1.15'"),
     (("q = 1.0", "q = 1.0\ntemperature = \"90 degC\""), "feed", "2 thermal conditions"),
+    (("q = 1.0  ", "# "), "feed", "no thermal condition given (allowed: exactly one of temperature"),
     (("0.985", "1.5"), "products.distillate_light_key_fraction", "not a fraction"),
     (('"auto"', '"9 kPa"'), "column.pressure_drop_per_tray", "0 to 5 kPa per real tray"),
     (('pressure_drop_per_tray = "auto"', 'pressure_drop_per_tray = "auto"\npressure_drop_per_stage = "1 kPa"'),

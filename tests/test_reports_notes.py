@@ -61,3 +61,22 @@ def test_a_corrected_design_below_the_control_margin_says_so():
         in warning and "column.min_reflux_ratio_factor" in warning
     assert kind_of(warning).rank == 0 and console_warnings((warning,))[0] == (warning,)
     assert ControlMargin(1.1, None).holds(0.1)
+
+
+def test_a_margin_design_as_cheap_as_the_one_without_is_not_said_to_bind():
+    """Two local optima can tie: an NGL debutaniser's design held to the margin (35 stages) came out
+    1 USD a year cheaper than the search's optimum without it (36 stages, reflux 1.163). The console
+    then says the margin costs nothing rather than that it binds at -1 USD; a dearer margin design
+    (the benzene example's +5,606 USD a year) still binds. Invented numbers of the shape of both runs."""
+    from types import SimpleNamespace
+
+    from disteco.reports.choices import margin_text
+
+    free = SimpleNamespace(best=SimpleNamespace(reflux_ratio=1.163, stages=36, feed_stage=11, tac=483_211.0),
+                           sequential=None)
+    margin = ControlMargin(1.1, 1.0596, unconstrained=free)
+    tie = margin_text(margin, "USD", 483_210.0)
+    assert tie.startswith("Control margin held at no cost: reflux ratio at least 1.166 [-]")
+    assert "36 stages" in tie and "(-1 per year with the margin)" in tie and "within the search's 0.1 % tolerance" in tie
+    dearer = margin_text(margin, "USD", 483_211.0 * 1.002)
+    assert dearer.startswith("Control margin binds: reflux ratio at least 1.166 [-]") and "+966 per year" in dearer

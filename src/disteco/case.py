@@ -358,8 +358,9 @@ def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
                         f"{low:g} to {high:g} {si_unit} for a {unit.basis} flow")
     conditions = [k for k in ("temperature", "vapour_fraction", "q") if k in feed]
     if len(conditions) != 1:
-        raise CaseError("feed", f"{len(conditions)} thermal conditions given ({', '.join(conditions) or 'none'})",
-                        "exactly one of temperature, vapour_fraction, q")
+        found = (f"{len(conditions)} thermal conditions given ({', '.join(conditions)})" if conditions
+                 else "no thermal condition given")
+        raise CaseError("feed", found, "exactly one of temperature, vapour_fraction, q")
     kind = conditions[0]
     if kind == "temperature":
         value, _ = parse_quantity(feed["temperature"], "temperature", "feed.temperature")

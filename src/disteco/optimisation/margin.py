@@ -19,7 +19,7 @@ from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages.correlations import stages_from_gilliland
-from .design import optimise_design
+from .design import TAC_TOLERANCE, optimise_design
 from .options import model_options
 from .results import OptimumDesign
 from .start import shortcut
@@ -33,6 +33,7 @@ class ControlMargin:
     factor: float  # least reflux ratio over the energy-balance minimum [-]
     minimum_reflux: float | None  # energy-balance minimum [-]; None: not found, the margin not applied
     unconstrained: OptimumDesign | None = None  # the optimum without the margin, where the margin binds
+    tac_tolerance: float = TAC_TOLERANCE  # relative TAC difference within which two designs tie [-]
 
     @property
     def reflux_floor(self) -> float | None:
@@ -42,6 +43,12 @@ class ControlMargin:
     @property
     def binds(self) -> bool:
         return self.unconstrained is not None
+
+    def costs_nothing(self, tac: float, free_tac: float) -> bool:
+        """Whether the design held to the margin, at ``tac``, costs no more than the one without it, at
+        ``free_tac`` [money/year], beyond the search's tolerance: two local optima can tie (an NGL column's
+        margin design, one stage shorter, came out 1 USD a year cheaper)."""
+        return tac - free_tac <= self.tac_tolerance * abs(free_tac)
 
     def holds(self, reflux_ratio: float) -> bool:
         """Whether ``reflux_ratio`` [-] keeps the margin (within 0.1 %, the rounds' tolerance)."""

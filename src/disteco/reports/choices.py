@@ -104,14 +104,17 @@ def margin_text(margin: ControlMargin | None, currency: str, reported_tac: float
         return None
     free = margin.unconstrained
     extra = f" ({reported_tac - _tac(free):+,.0f} per year with the margin)" if reported_tac is not None else ""
+    free_design = (f"reflux ratio {free.best.reflux_ratio:.3f} [-], {free.best.stages} stages, feed on stage "
+                   f"{free.best.feed_stage}, TAC {_tac(free):,.0f} {currency} per year{extra}")
     # "at least": with fewer stages the specifications can ask more reflux than the floor (a ketone column
     # read "held at 0.683" above a design at 0.688); the minimum is the one on the design without the margin,
     # which can differ from the reported design's own
-    return (f"Control margin binds: reflux ratio at least {margin.reflux_floor:.3f} [-] ({margin.factor:g} x the "
-            f"energy-balance minimum {margin.minimum_reflux:.4f} of the design without it); without it the "
-            "lowest-TAC design is reflux "
-            f"ratio {free.best.reflux_ratio:.3f} [-], {free.best.stages} stages, feed on stage "
-            f"{free.best.feed_stage}, TAC {_tac(free):,.0f} {currency} per year{extra}")
+    floor = (f"reflux ratio at least {margin.reflux_floor:.3f} [-] ({margin.factor:g} x the energy-balance minimum "
+             f"{margin.minimum_reflux:.4f} of the design without it)")
+    if reported_tac is not None and margin.costs_nothing(reported_tac, _tac(free)):
+        return (f"Control margin held at no cost: {floor}; the lowest-TAC design found without it, {free_design}, "
+                f"costs the same within the search's {margin.tac_tolerance * 100:g} % tolerance")
+    return f"Control margin binds: {floor}; without it the lowest-TAC design is {free_design}"
 
 
 def margin_items(margin: ControlMargin | None, currency: str) -> list[tuple[str, Cell]]:

@@ -131,9 +131,10 @@ def product_split(products: Products, z, feed_flow: float, alpha, names=None) ->
     if alpha[light] <= alpha[heavy]:
         label = names or [f"component {i + 1}" for i in range(len(z))]
         raise InfeasibleSpecError(
-            f"the light key {label[light]} (products.light_key) is not more volatile than the heavy key "
-            f"{label[heavy]} (products.heavy_key) at column conditions (relative volatility "
-            f"{alpha[light] / alpha[heavy]:.4g}); swap the keys")
+            f"the light key {label[light]} (products.light_key; in a binary case without it, the first of "
+            f"mixture.components) is not more volatile than the heavy key {label[heavy]} at column conditions "
+            f"(relative volatility {alpha[light] / alpha[heavy]:.4g}); swap the keys (or the order of "
+            "mixture.components)")
     f = z * feed_flow
     others = [i for i in range(len(z)) if i not in (light, heavy)]
     d = np.where(alpha > alpha[light], f, 0.0)  # first guess: sharp split of the non-keys

@@ -319,3 +319,32 @@ def test_a_height_limit_where_two_shells_cost_more_does_not_advise_them():
                            (options[0], replace(options[1], tac=2_000_000.0)), ())
     assert limit_advice(limit, cheaper) == "raise [sizing] max_height, or let the column go to two shells"
     assert limit_advice(limit, None) == "raise [sizing] max_height, or let the column go to two shells"
+
+
+def test_line_minimum_batches_the_points_it_needs_whatever_their_values():
+    """The line search finds the integer minimum of a unimodal function (a parabola with its minimum
+    at 31.4, from 20 on [3, 60]: worked by hand, doubling 21, 23, 27, 35, 51, then ternary on [27, 51]
+    with 35 and 43 first) and hands
+    its ternary pairs and last bracket over as batches: every point of a batch is evaluated, and
+    the batched points are the only ones evaluated besides the doubling steps."""
+    from disteco.optimisation.search import line_minimum
+
+    evaluated, batches = [], []
+
+    def value(n):
+        if n not in evaluated:
+            evaluated.append(n)
+        return (n - 31.4) ** 2
+
+    def batch(points):
+        batches.append(list(points))
+        for n in points:
+            value(n)
+
+    assert line_minimum(value, 20, 3, 60, batch) == 31
+    assert batches[0] == [20, 21, 19]  # the first steps both ways as one batch
+    assert all(len(b) == 2 for b in batches[1:-1]) and 2 <= len(batches[-1]) <= 3
+    assert 31 in batches[-1]
+    doubling = [n for n in evaluated if not any(n in b for b in batches)]
+    assert doubling == [23, 27, 51] and batches[1] == [35, 43]
+    assert line_minimum(lambda n: (n - 2.2) ** 2, 10, 3, 60) == 3  # on the lower bound, no batch given

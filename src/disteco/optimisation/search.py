@@ -236,12 +236,19 @@ def start_of(design) -> Profile:
                    np.array(p.V))
 
 
-def line_minimum(value, start: int, low: int, high: int) -> int:
+def line_minimum(value, start: int, low: int, high: int, batch=None) -> int:
     """Integer minimiser of ``value`` on [low, high] near ``start``: doubling steps downhill, then ternary.
 
     ``value`` may return infinity (no feasible design). Along the lines searched here the
     TAC is close to unimodal; the neighbourhood descent that follows corrects small departures.
+    ``batch(points)``, where given, evaluates several points as one batch (side by side where
+    workers are free) before ``value`` reads them: the two first steps, the two points of each
+    ternary step and the last bracket, all needed whatever their values, at the cost of at most
+    one point the first step may not need (measured on the benzene example: the stage line
+    search's nine solves in six batches instead of nine one after the other).
     """
+    batch = batch or (lambda points: [value(n) for n in points])
+    batch([n for n in (start, start + 1, start - 1) if low <= n <= high])
     here = value(start)
     if start < high and value(start + 1) < here:
         direction = 1
@@ -258,10 +265,12 @@ def line_minimum(value, start: int, low: int, high: int) -> int:
     left, right = sorted((behind, ahead))
     while right - left > 2:
         one, two = left + (right - left) // 3, right - (right - left) // 3
+        batch([one, two])
         if value(one) <= value(two):
             right = two
         else:
             left = one
+    batch(list(range(left, right + 1)))
     return min(range(left, right + 1), key=value)
 
 
@@ -270,13 +279,17 @@ def stage_search(evaluator: Evaluator, stages: int, feed_of) -> tuple[int, int]:
     def value(n: int) -> float:
         return evaluator.tac(n, feed_of(n))
 
-    best = line_minimum(value, stages, evaluator.low, evaluator.config.max_stages)
+    def batch(points) -> None:
+        evaluator.tac_all([(n, feed_of(n)) for n in points if evaluator.allowed(n, feed_of(n))])
+
+    best = line_minimum(value, stages, evaluator.low, evaluator.config.max_stages, batch)
     return best, feed_of(best)
 
 
 def feed_search(evaluator: Evaluator, stages: int, feed: int) -> int:
     """Best feed stage for ``stages``, starting from ``feed``."""
-    return line_minimum(lambda f: evaluator.tac(stages, f), feed, 2, stages - 1)
+    return line_minimum(lambda f: evaluator.tac(stages, f), feed, 2, stages - 1,
+                        lambda points: evaluator.tac_all([(stages, f) for f in points]))
 
 
 FEED_TRIALS = (0.25, 0.5, 0.75)  # fractions of the column tried when Kirkbride's feed stage fails

@@ -16,6 +16,7 @@ from test_cli_refusals import REFUSALS
 
 BENZENE = (EXAMPLES / "aromatics_binary.toml").read_text()
 ETHANOL = (EXAMPLES / "ethanol_water.toml").read_text()
+DEPENTANISER = (EXAMPLES / "depentaniser.toml").read_text()
 DEMETHANISER = (Path(__file__).parent / "cases" / "demethaniser_partial.toml").read_text()
 
 # Cases `check` once passed and `design` refused (text, fragment of the message): design is run
@@ -31,6 +32,11 @@ BEFORE_OPTIMISING = [
     # wrong way round were told to swap products.light_key, a field the case did not have)
     (BENZENE.replace('components = ["benzene", "toluene"]', 'components = ["toluene", "benzene"]'),
      "swap the keys (or the order of mixture.components)"),
+    # a multicomponent case names its keys: no word of a binary's component order
+    (DEPENTANISER.replace('light_key = "n-pentane"\nheavy_key = "n-hexane"',
+                          'light_key = "n-hexane"\nheavy_key = "n-pentane"'),
+     "the light key n-hexane (products.light_key) is not more volatile than the heavy key n-pentane at column "
+     "conditions (relative volatility 0."),
     (ETHANOL.replace("distillate_light_key_fraction = 0.80", "distillate_light_key_fraction = 0.95"),
      "beyond the minimum-boiling azeotrope of ethanol and water"),
     (BENZENE.replace("cost_year = 2023", "cost_year = 2030"), "economics.cost_year: 2030"),

@@ -18,6 +18,8 @@ from .correlations import fenske_distribution, fenske_minimum_stages
 
 MAX_ITERATIONS = 200
 TOLERANCE = 1e-12  # relative change of the key flows between iterations
+# where a binary case without products.light_key takes its keys from
+BINARY_KEYS = ("; in a binary case without it, the first of mixture.components", " (or the order of mixture.components)")
 
 
 @dataclass(frozen=True)
@@ -131,10 +133,9 @@ def product_split(products: Products, z, feed_flow: float, alpha, names=None) ->
     if alpha[light] <= alpha[heavy]:
         label = names or [f"component {i + 1}" for i in range(len(z))]
         raise InfeasibleSpecError(
-            f"the light key {label[light]} (products.light_key; in a binary case without it, the first of "
-            f"mixture.components) is not more volatile than the heavy key {label[heavy]} at column conditions "
-            f"(relative volatility {alpha[light] / alpha[heavy]:.4g}); swap the keys (or the order of "
-            "mixture.components)")
+            f"the light key {label[light]} (products.light_key{BINARY_KEYS[0] if len(z) == 2 else ''}) is not more "
+            f"volatile than the heavy key {label[heavy]} at column conditions (relative volatility "
+            f"{alpha[light] / alpha[heavy]:.4g}); swap the keys{BINARY_KEYS[1] if len(z) == 2 else ''}")
     f = z * feed_flow
     others = [i for i in range(len(z)) if i not in (light, heavy)]
     d = np.where(alpha > alpha[light], f, 0.0)  # first guess: sharp split of the non-keys

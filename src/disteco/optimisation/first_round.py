@@ -180,5 +180,9 @@ def check_height_limit(problem: SeparationProblem, trays: TrayBasis, sizing: Siz
 def shells_hold(sizing: SizingOptions, trays: TrayBasis, limit: int) -> str:
     shells = "one shell" if sizing.shells == 1 else f"{sizing.shells} shells"
     hold = "holds" if sizing.shells == 1 else "hold"
-    return (f"{shells} of at most {sizing.max_height:g} m {hold} at most {limit} stages at {sizing.tray_spacing:.2f} m "
-            f"tray spacing and {100 * trays.efficiency:.0f} % tray efficiency")
+    at = f"at {sizing.tray_spacing:.2f} m tray spacing and {100 * trays.efficiency:.0f} % tray efficiency"
+    if trays.height(limit) > sizing.max_height:  # the least stage count searched does not fit either
+        return (f"{shells} of at most {sizing.max_height:g} m {hold} fewer than {limit} stages {at} ({limit} make "
+                f"{trays.height(limit):.1f} m{'' if sizing.shells == 1 else ' in the taller shell'}, of which "
+                f"{trays.extra_height:.1f} m sump, top space and nozzles)")
+    return f"{shells} of at most {sizing.max_height:g} m {hold} at most {limit} stages {at}"

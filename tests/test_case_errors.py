@@ -84,7 +84,14 @@ def test_not_toml(tmp_path):
     ("14.696 psia", "pressure", 101325.0),
     ("85 degC", "temperature", 358.15),
     ("212 degF", "temperature", 373.15),
+    ("212 F", "temperature", 373.15),
     ("0.7 kPa", "pressure difference", 700.0),
+    # "hr" and "day" as engineers write them
+    ("200 kmol/hr", "flow", 200e3 / 3600),
+    ("25000 lb/hr", "flow", 25000 * 0.45359237 / 3600),
+    ("240 t/day", "flow", 240e3 / 86400),
+    ("5 min", "time", 300.0),
+    ("0.5 hr", "time", 1800.0),
 ])
 def test_units_to_si(text, kind, expected):
     """Unit conversions against the defining values (1 psi = 6894.757 Pa, NIST SP 811 appendix B)."""

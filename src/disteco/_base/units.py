@@ -33,6 +33,7 @@ TEMPERATURE = {
     "K": Unit(1.0),
     "degC": Unit(1.0, 273.15), "°C": Unit(1.0, 273.15), "C": Unit(1.0, 273.15),
     "degF": Unit(5.0 / 9.0, 273.15 - 32.0 * 5.0 / 9.0), "°F": Unit(5.0 / 9.0, 273.15 - 32.0 * 5.0 / 9.0),
+    "F": Unit(5.0 / 9.0, 273.15 - 32.0 * 5.0 / 9.0),
     "R": Unit(5.0 / 9.0),
 }
 
@@ -79,6 +80,11 @@ _BARE_NUMBER = re.compile(rf"^\s*{_NUMBER}\s*$")
 
 def _normalise_unit(text: str) -> str:
     text = text.replace("³", "3").replace(" ", "")
+    # "hr" and "day" as engineers often write them ("200 kmol/hr", "5 t/day")
+    text = {"hr": "h"}.get(text, text)
+    for long, short in (("/hr", "/h"), ("/day", "/d")):
+        if text.endswith(long):
+            text = text[:-len(long)] + short
     return {"bar(a)": "bara", "bar(g)": "barg", "kPa(a)": "kPaa", "kPa(g)": "kPag",
             "psi(a)": "psia", "psi(g)": "psig"}.get(text, text)
 

@@ -85,6 +85,7 @@ def test_not_toml(tmp_path):
     ("85 degC", "temperature", 358.15),
     ("212 degF", "temperature", 373.15),
     ("212 F", "temperature", 373.15),
+    ("18 F", "temperature difference", 10.0),
     ("0.7 kPa", "pressure difference", 700.0),
     # "hr" and "day" as engineers write them
     ("200 kmol/hr", "flow", 200e3 / 3600),

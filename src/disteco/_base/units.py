@@ -37,8 +37,8 @@ TEMPERATURE = {
     "R": Unit(5.0 / 9.0),
 }
 
-TEMPERATURE_DIFFERENCE = {"K": Unit(1.0), "degC": Unit(1.0), "°C": Unit(1.0),
-                          "degF": Unit(5.0 / 9.0), "°F": Unit(5.0 / 9.0)}
+TEMPERATURE_DIFFERENCE = {"K": Unit(1.0), "degC": Unit(1.0), "°C": Unit(1.0), "C": Unit(1.0),
+                          "degF": Unit(5.0 / 9.0), "°F": Unit(5.0 / 9.0), "F": Unit(5.0 / 9.0)}
 
 _PRESSURE_ABS = {"Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "bar": 1e5, "mbar": 1e2, "atm": ATMOSPHERE,
                  "psi": PSI, "mmHg": 133.322387415, "torr": ATMOSPHERE / 760.0}

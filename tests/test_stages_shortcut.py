@@ -226,3 +226,27 @@ def test_feed_stage_of_a_lopsided_split_follows_fenske_by_section(tmp_path, caps
     b = (0.25 - d[0], 0.25 - d[1])
     assert kirkbride_feed_stage(41, kirkbride_ratio(0.25, 0.25, b[0] / 0.445, d[1] / 0.555, 0.445, 0.555)) <= 4
     assert kirkbride_feed_stage(41, fenske_section_ratio(0.25, 0.25, d[0], d[1], b[0], b[1])) >= 10
+
+
+def test_partial_condenser_top_is_the_distillate_dew_point(hydrocarbons):
+    """A partial condenser's vapour distillate leaves at its dew point over the reflux, so the top's
+    volatilities and temperature are taken there, not at the bubble point of a liquid of the
+    distillate's composition (which a stabiliser's off-gas does not have). Checked against the dew
+    point by Raoult's law solved here by bisection on the mixture's own vapour pressures (ideal
+    mixture: sum y_i P / Psat_i(T) = 1), and the Fenske minimum of the partial condenser against the
+    total condenser's: the same split with the top hotter, so the top volatility of the keys is lower."""
+    from scipy.optimize import brentq
+
+    mixture, feed, total = hydrocarbons
+    partial = Column(total.top_pressure, total.pressure_drop_per_tray, "partial", 0.0)
+    products = Products(1, 2, EndSpec("recovery", 0.98), EndSpec("recovery", 0.98))
+    on_total = shortcut_design(mixture, feed, products, total)
+    on_partial = shortcut_design(mixture, feed, products, partial)
+    y = np.array(on_partial.split.distillate_composition)
+    P = partial.top_pressure
+    dew = brentq(lambda T: float(np.sum(y * P / mixture.vapour_pressures(T))) - 1.0, 250.0, 450.0, xtol=1e-10)
+    assert on_partial.top_temperature == pytest.approx(dew, abs=0.01)
+    assert on_partial.top_temperature > on_total.top_temperature + 5.0
+    psat = mixture.vapour_pressures(dew)
+    assert on_partial.alpha_top[1] == pytest.approx(psat[1] / psat[2], rel=1e-4)
+    assert on_partial.alpha_top[1] < on_total.alpha_top[1]

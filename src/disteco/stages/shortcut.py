@@ -54,7 +54,7 @@ class ShortcutDesign:
     alpha_top: tuple[float, ...]
     alpha_bottom: tuple[float, ...]
     alpha_feed: tuple[float, ...]
-    top_temperature: float  # K, bubble point of the distillate
+    top_temperature: float  # K, bubble point of the distillate (its dew point in a partial condenser)
     bottom_temperature: float  # K, bubble point of the bottoms
     top_pressure: float  # Pa
     bottom_pressure: float  # Pa, estimated at STAGE_ESTIMATE x Nmin stages
@@ -121,6 +121,18 @@ def _alpha_at_bubble(mixture: Mixture, pressure: float, x, heavy: int) -> tuple[
     return k / k[heavy], point.T
 
 
+def _alpha_at_top(mixture: Mixture, column: Column, distillate, heavy: int) -> tuple[np.ndarray, float]:
+    """Relative volatilities [-] and temperature [K] of the column's top: the distillate's bubble point
+    below a total condenser, its dew point in a partial one, whose vapour product leaves in equilibrium
+    with the reflux (a stabiliser's off-gas carries hydrogen and methane, whose liquid of the
+    distillate's composition has no bubble point at column pressure)."""
+    if column.condenser != "partial":
+        return _alpha_at_bubble(mixture, column.top_pressure, distillate, heavy)
+    point = mixture.dew_point(column.top_pressure, distillate)
+    k = mixture.k_values(point.T, column.top_pressure, point.x, point.y)
+    return k / k[heavy], point.T
+
+
 def minimum_reflux_underwood(alpha, z, q: float, split: ProductSplit) -> tuple[float, tuple[float, ...]]:
     """Underwood minimum reflux L0/D [-] and the roots used, with the impossible cases explained."""
     alpha = np.asarray(alpha, dtype=float)
@@ -180,7 +192,7 @@ def shortcut_design(mixture: Mixture, feed: FeedState, products: Products, colum
     if mixture.size == 2:
         check_binary_azeotropes(split, z, key_azeotropes)
     for _ in range(ALPHA_PASSES):
-        alpha_top, T_top = _alpha_at_bubble(mixture, P_top, split.distillate_composition, heavy)
+        alpha_top, T_top = _alpha_at_top(mixture, column, split.distillate_composition, heavy)
         n_min = _fenske(split, mixture.names, alpha_feed, alpha_top, alpha_bottom)
         P_bottom = P_top + column.pressure_drop_per_stage * STAGE_ESTIMATE * max(n_min, 1.0)
         alpha_bottom, T_bottom = _alpha_at_bubble(mixture, P_bottom, split.bottoms_composition, heavy)

@@ -68,6 +68,13 @@ BEFORE_OPTIMISING = [
     # sump, top space and nozzles alone took 5.8 m (3 is the least stage count searched)
     (BENZENE.replace("[economics]", '[sizing]\nmax_height = "5 m"\n[economics]'),
      "one shell of at most 5 m holds fewer than 3 stages at 0.61 m tray spacing"),
+    # p-xylene/m-xylene (relative volatility about 1.02): several hundred stages at total reflux, more
+    # than two 50 m shells hold at any efficiency; check spent 15 s on a 584-stage column on thermo
+    # before saying that it did not converge (no textbook value: Fenske's count is the program's own)
+    ('title = "t"\n[mixture]\ncomponents = ["p-xylene", "m-xylene"]\n[feed]\nflow = "100 kmol/h"\n'
+     'composition = [0.5, 0.5]\nq = 1.0\n[column]\ntop_pressure = "1.2 bar"\n[products]\n'
+     'distillate_light_key_fraction = 0.95\nbottoms_light_key_fraction = 0.05\n',
+     "equilibrium stages even at total reflux (Fenske, the keys' relative volatility 1.0"),
     # ethanol/water at 15 kPa, its distillate 0.93 just below the azeotrope there (0.936): on the stage design's
     # 53 stages (pressures 15 to 84 kPa) Newton met no specification and check exited 1 (internal error)
     (ETHANOL.replace('top_pressure = "1.05 bar"', 'top_pressure = "15 kPa"').replace(
@@ -115,3 +122,17 @@ def test_a_valid_case_and_design_pass_check(tmp_path, capsys):
     assert "Utilities of the given design (25 stages, constant molar overflow on the fitted forms): condenser" in out
     assert "degC on cooling_water; reboiler" in out and out.count("degC on lp_steam") == 1 and "Note:" not in out
     assert "Case file is valid. design with these options will not refuse it before optimising." in out
+
+
+def test_most_stages_two_shells_hold_at_best():
+    """Hand arithmetic on the default sizing options: (50 m - 1.2 m top space - 1.0 m bottom space) /
+    0.45 m closest spacing = 106.2 trays a shell, 106 whole; two shells 212 trays, each an equilibrium
+    stage at best, plus the reboiler and a partial condenser: 214. A 30 m limit: 27.8 m of trays at
+    0.45 m, 61.8, 61 a shell, 124."""
+    from dataclasses import replace
+
+    from disteco.optimisation.first_round import most_stages_held
+    from disteco.sizing.options import SizingOptions
+
+    assert most_stages_held(SizingOptions()) == 214
+    assert most_stages_held(replace(SizingOptions(), max_height=30.0)) == 124

@@ -104,7 +104,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     from .optimisation.utility_notes import utility_level_notes
     from .sizing.column import condensate
     from .sizing.exchangers import condensate_freezing_warning, profile_utilities
-    from .optimisation.first_round import check_layouts_hold
+    from .optimisation.first_round import check_layouts_hold, check_stages_fit
     from .optimisation.given import check_given_design, check_stage_bound
     from .optimisation.options import model_options
     from .optimisation.start import shortcut
@@ -125,7 +125,8 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     summary = summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
                                 products.light_key, products.heavy_key)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
-    stages = design_stages(mixture, feed, products, case.column)
+    stages = design_stages(mixture, feed, products, case.column,
+                           before_profile=lambda shortcut: check_stages_fit(shortcut, sizing_options(case)))
     remember_column_profile(case, mixture, feed, stages.profile)
     problem = resolved_problem(case, mixture, feed, config, at_least=given.stages if given else 0)
     estimate = shortcut(problem)

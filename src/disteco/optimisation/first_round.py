@@ -8,6 +8,7 @@ same functions, without importing the modelling layer.
 
 from __future__ import annotations
 
+import math
 from dataclasses import replace
 
 from .._base.errors import InfeasibleSpecError
@@ -15,7 +16,8 @@ from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.column import ColumnSizing
-from ..sizing.options import SizingOptions
+from ..sizing.options import SHELL_COUNTS, SizingOptions
+from ..stages import ShortcutDesign
 from ..stages.correlations import stages_from_gilliland
 from .basis import SeparationProblem, TrayBasis
 from .layout import best_spacing, spacing_prices
@@ -175,6 +177,33 @@ def check_height_limit(problem: SeparationProblem, trays: TrayBasis, sizing: Siz
             raise HeightLimitError(f"{shells_hold(sizing, trays, limit)}, fewer than the {needed:.1f} stages "
                                    f"Gilliland's correlation asks at the highest reflux ratio searched "
                                    f"({reflux_max:g})")
+
+
+def most_stages_held(sizing: SizingOptions) -> int:
+    """Equilibrium stages two shells in series within the height limit hold at best [-]: every tray
+    an equilibrium stage at the closest tray spacing offered, no sump liquid, plus the reboiler and
+    a partial condenser. Above this no layout disteco builds can hold the column."""
+    trays = max(0.0, sizing.max_height - sizing.top_space - sizing.bottom_space) / min(sizing.spacing_candidates)
+    return max(SHELL_COUNTS) * math.floor(trays) + 2
+
+
+def check_stages_fit(shortcut: ShortcutDesign, sizing: SizingOptions) -> None:
+    """Refuse, before any column on thermo is solved, a split whose Fenske minimum stages exceed
+    :func:`most_stages_held` (an m-/p-xylene splitter at 95 %: about 300 stages at total reflux;
+    `check` spent 15 s on a 584-stage column before saying only that it did not converge)."""
+    most = most_stages_held(sizing)
+    if shortcut.minimum_stages <= most:
+        return
+    light, heavy = shortcut.light_key, shortcut.heavy_key
+    top = shortcut.alpha_top[light] / shortcut.alpha_top[heavy]
+    bottom = shortcut.alpha_bottom[light] / shortcut.alpha_bottom[heavy]
+    raise HeightLimitError(
+        f"the key purities need {shortcut.minimum_stages:.0f} equilibrium stages even at total reflux (Fenske, "
+        f"the keys' relative volatility {min(top, bottom):.4g} to {max(top, bottom):.4g}); "
+        f"{max(SHELL_COUNTS)} shells of at most {sizing.max_height:g} m hold at most {most}, even with every tray an "
+        f"equilibrium stage at the closest tray spacing offered ({min(sizing.spacing_candidates):.2f} m): ask for "
+        "looser purities, raise [sizing] max_height, or separate the keys another way (extractive distillation, "
+        "crystallisation, adsorption)")
 
 
 def shells_hold(sizing: SizingOptions, trays: TrayBasis, limit: int) -> str:

@@ -93,14 +93,18 @@ def _stepped_point(binary: BinaryStepping, factor: float) -> ShortcutPoint:
 
 def design_stages(mixture: Mixture, feed: FeedState, products: Products, column: Column,
                   reflux_factor: float = DEFAULT_REFLUX_FACTOR, energy: bool = True,
-                  meet_specs: bool = True) -> StageDesign:
+                  meet_specs: bool = True, before_profile=None) -> StageDesign:
     """Everything the stages layer reports for a case.
 
     ``energy`` selects energy balances (True) or constant molar overflow for the profile;
     ``meet_specs`` adjusts R and D at the table's stage count so both key specifications
     hold (else the profile is at R = reflux_factor x Rmin and the shortcut's D).
+    ``before_profile(shortcut)``, where given, may refuse the case from its shortcut design before
+    the stage profile on thermo is solved (a caller's limit on the stages a column can hold).
     """
     shortcut = shortcut_design(mixture, feed, products, column)
+    if before_profile is not None:
+        before_profile(shortcut)
     if mixture.size == 2:
         binary = binary_stepping(mixture, feed, products, column, shortcut, reflux_factor)
         basis = "McCabe-Thiele on the equilibrium curve"

@@ -6,6 +6,8 @@ Handbook, ammonia-water equilibrium tables, from memory); Peng-Robinson with kij
 near 40 to 50 % ammonia at 15 bar.
 """
 
+import re
+
 import pytest
 
 from disteco.case import Thermo
@@ -39,6 +41,8 @@ bottoms_light_key_fraction = 0.10
     (("ammonia", "water"), Thermo(method="peng-robinson", kij=((0.0, -0.25), (-0.25, 0.0))), ()),
     (("propane", "n-butane"), Thermo(method="peng-robinson"), ()),   # non-polar: kij = 0 is the default
     (("nitrogen", "oxygen"), Thermo(method="peng-robinson"), ()),    # below 0.5 D: non-polar
+    # carbon dioxide and nitrogen beside a hydrocarbon: kij = 0 misses carbon dioxide/ethane's azeotrope
+    (("carbon dioxide", "ethane", "nitrogen"), Thermo(method="peng-robinson"), ((0, 1), (1, 2))),
     (("methanol", "water"), Thermo(method="unifac-dortmund"), ()),   # not an equation of state
 ])
 def test_polar_pairs_without_interaction_parameter(names, thermo, pairs):
@@ -60,7 +64,7 @@ def test_a_liquid_split_of_zero_kij_names_the_parameter_not_a_decanter(tmp_path,
     assert main(["check", str(case)]) == 2
     err = capsys.readouterr().err
     assert "not monotone between light-key liquid fractions of about 0.393 and 0.5 at 1500 kPa" in err
-    assert "kij = 0) for ammonia/water, a polar pair, may show this where the mixture has none" in err
+    assert "kij = 0) for ammonia/water, a pair that needs one, may show this where the mixture has none" in err
 
 
 def test_polar_pair_at_high_pressure_is_checked_with_its_interaction_line(tmp_path, capsys):
@@ -109,3 +113,40 @@ def test_water_saturation_temperature_near_its_triple_point(pressure):
 
     mixture = build_mixture(("water", "ethylene glycol"), Thermo(method="unifac-dortmund"), 2e4)
     assert mixture.saturation_temperatures(pressure)[0] == pytest.approx(iapws95_Tsat(pressure), abs=0.01)
+
+
+CO2_ETHANE = """title = "t"
+[mixture]
+components = ["carbon dioxide", "ethane"]
+method = "peng-robinson"
+{kij}
+[feed]
+flow = "100 kmol/h"
+composition = [0.3, 0.7]
+q = 1.0
+[column]
+top_pressure = "20 bar"
+[products]
+distillate_light_key_fraction = 0.6
+bottoms_light_key_fraction = 0.02
+"""
+
+
+def test_carbon_dioxide_ethane_azeotrope_needs_its_kij(tmp_path, capsys):
+    """Carbon dioxide and ethane form a minimum-boiling azeotrope near 70 % carbon dioxide (from memory),
+    which Peng-Robinson finds only with an interaction parameter: with kij = 0 `check` finds none and
+    says that one can be missed and which pair wants kij; with kij = 0.13 (from memory) it finds one
+    between 60 and 75 % carbon dioxide at 20 bar."""
+    case = tmp_path / "co2.toml"
+    case.write_text(CO2_ETHANE.format(kij=""))
+    assert main(["check", str(case)]) == 0
+    out = capsys.readouterr().out
+    assert "Interaction parameters: none given for carbon dioxide/ethane (kij = 0" in out
+    assert ("Azeotropes: none found between any pair at top pressure (with kij = 0 for carbon dioxide/ethane: an "
+            "azeotrope of those pairs can be missed)") in out
+    case.write_text(CO2_ETHANE.format(kij="[mixture.peng_robinson]\nkij = [[0, 0.13], [0.13, 0]]"))
+    main(["check", str(case)])
+    captured = capsys.readouterr()
+    found = re.search(r"Azeotrope \(minimum-boiling\): ([0-9.]+) mole fraction carbon dioxide in ethane",
+                      captured.out + captured.err)
+    assert found and 0.60 < float(found.group(1)) < 0.75

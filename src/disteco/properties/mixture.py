@@ -391,14 +391,15 @@ class Mixture:
     @cached_property
     def untuned_polar_pairs(self) -> tuple[tuple[int, int], ...]:
         """Pairs (i < j) that Peng-Robinson takes with a zero interaction parameter although one of
-        them is polar (water, ammonia, an alcohol): the quadratic mixing rule with kij = 0 is a
-        non-polar mixture's default and can put a liquid split, an azeotrope or a volatility far from
-        the mixture's own in a polar pair (common practice, no source). Empty for other methods."""
+        them is polar (water, ammonia, an alcohol), or is carbon dioxide or nitrogen beside a
+        hydrocarbon: the quadratic mixing rule with kij = 0 is a non-polar mixture's default and can
+        put a liquid split, an azeotrope or a volatility far from the mixture's own in such a pair,
+        or miss one (carbon dioxide/ethane's azeotrope) (common practice, no source). Empty for other
+        methods."""
         if self.method != "peng-robinson":
             return ()
         return tuple((i, j) for i in range(self.size) for j in range(i + 1, self.size)
-                     if not self.pair_parameters_given(i, j)
-                     and (self.components[i].is_polar or self.components[j].is_polar))
+                     if not self.pair_parameters_given(i, j) and _needs_kij(self.components[i], self.components[j]))
 
     def liquidus(self, x) -> Liquidus | None:
         """Where liquid ``x`` [-] starts to freeze (``solid_liquid``): the databank's melting points and
@@ -419,7 +420,7 @@ class Mixture:
         if pair not in self.untuned_polar_pairs:
             return ""
         return (f"Peng-Robinson with no interaction parameter (kij = 0) for {self.names[light]}/"
-                f"{self.names[heavy]}, a polar pair, may show this where the mixture has none: give "
+                f"{self.names[heavy]}, a pair that needs one, may show this where the mixture has none: give "
                 "[mixture.peng_robinson] kij fitted to equilibrium data for the pair (or NRTL or Wilson "
                 "parameters) and check again")
 
@@ -651,3 +652,8 @@ def build_mixture(names: tuple[str, ...], thermo_spec: Thermo, pressure: float) 
     if method == "auto":
         method = choose_method(components, pressure)
     return Mixture(components, method, thermo_spec)
+
+
+def _needs_kij(a, b) -> bool:
+    """Whether Peng-Robinson's kij = 0 is a poor default for the pair of components ``a``, ``b``."""
+    return a.is_polar or b.is_polar or (a.is_kij_gas and b.is_hydrocarbon) or (b.is_kij_gas and a.is_hydrocarbon)

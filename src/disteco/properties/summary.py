@@ -117,13 +117,16 @@ def vapour_association(mixture: Mixture, points: list[PhasePoint], alphas: list[
 
 
 def untuned_polar_pairs(mixture: Mixture) -> tuple[str, ...]:
-    """The pairs Peng-Robinson takes with kij = 0 although one of them is polar ("a/b"), with a note."""
+    """The pairs Peng-Robinson takes with kij = 0 although they need one ("a/b": a polar member, or carbon
+    dioxide or nitrogen beside a hydrocarbon), with a note."""
     pairs = tuple(f"{mixture.names[i]}/{mixture.names[j]}" for i, j in mixture.untuned_polar_pairs)
     if pairs:
         names = ", ".join(pairs)
         mixture.note("untuned-polar-pairs",
                      f"Peng-Robinson takes {names} with no interaction parameter (kij = 0), a non-polar "
-                     "mixture's default: with a polar component the relative volatility can be far off; give "
+                     "mixture's default: with a polar component, or carbon dioxide or nitrogen beside a hydrocarbon, the "
+                     "relative volatility can be far off and an azeotrope missed (carbon dioxide/ethane's) or put "
+                     "where there is none; give "
                      "[mixture.peng_robinson] kij fitted to equilibrium data for these pairs")
     return pairs
 

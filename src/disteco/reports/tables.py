@@ -255,7 +255,7 @@ def mixture_table(mixture: MixtureSummary) -> Table:
     items: list[tuple[str, Cell]] = [
         ("Thermodynamic method (used)", mixture.method),
         *(() if not mixture.untuned_polar_pairs else (
-            ("Polar pairs without an interaction parameter (kij = 0)", ", ".join(mixture.untuned_polar_pairs)),)),
+            ("Pairs needing an interaction parameter, none given (kij = 0)", ", ".join(mixture.untuned_polar_pairs)),)),
         *(() if not mixture.acids_without_dimerisation else (
             ("Acids whose vapour dimerisation is left out, unmeasured", ", ".join(mixture.acids_without_dimerisation)),)),
         ("Top pressure [kPa]", mixture.pressure / KPA),

@@ -53,7 +53,8 @@ def mixture_text(summary: MixtureSummary) -> str:
     lines = [f"Thermodynamic method: {summary.method}"]
     if summary.untuned_polar_pairs:
         lines.append(f"Interaction parameters: none given for {', '.join(summary.untuned_polar_pairs)} (kij = 0, "
-                     "with a polar component: give [mixture.peng_robinson] kij fitted to data)")
+                     "with a polar component, or carbon dioxide or nitrogen beside a hydrocarbon: give "
+                     "[mixture.peng_robinson] kij fitted to data)")
     if summary.acids_without_dimerisation:
         acids = summary.acids_without_dimerisation
         lines.append(f"Vapour association: {', '.join(acids)} {'dimerises' if len(acids) == 1 else 'dimerise'} in "
@@ -90,7 +91,9 @@ def mixture_text(summary: MixtureSummary) -> str:
             lines.append(f"Azeotrope ({a.kind}): {a.x_first:.4f} mole fraction {a.first} in {a.second} "
                          f"at {to_degC(a.T):.2f} degC{artefact}")
     else:
-        lines.append("Azeotropes: none found between any pair at top pressure")
+        lines.append("Azeotropes: none found between any pair at top pressure" + (
+            f" (with kij = 0 for {', '.join(summary.untuned_polar_pairs)}: an azeotrope of those pairs can be "
+            "missed)" if summary.untuned_polar_pairs else ""))
     return "\n".join(lines)
 
 

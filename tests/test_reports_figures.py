@@ -44,6 +44,22 @@ def test_pngs_exist_and_are_not_blank(plots, tmp_path):
     assert sorted(p.name for p in tmp_path.iterdir()) == sorted(p.name for p in paths)  # no leftovers
 
 
+def test_figures_drawn_beside_are_the_figures_drawn_here(plots, tmp_path, monkeypatch):
+    """Every other plot drawn by a forked child gives the same bytes as all drawn in this process; a
+    child that fails has its plots drawn here."""
+    import disteco.reports.figures as figures
+
+    beside = write_figures(plots, tmp_path / "beside")
+    monkeypatch.setattr(figures, "usable_cores", lambda: 1)
+    here = write_figures(plots, tmp_path / "here")
+    assert [p.name for p in beside] == [p.name for p in here]
+    assert all(a.read_bytes() == b.read_bytes() for a, b in zip(beside, here))
+    monkeypatch.setattr(figures, "usable_cores", lambda: 2)
+    monkeypatch.setattr(figures, "_draw_child", lambda plots, folder: figures.os._exit(1))
+    again = write_figures(plots, tmp_path / "again")
+    assert all(a.read_bytes() == b.read_bytes() for a, b in zip(again, here))
+
+
 def test_every_axis_carries_its_unit(plots, scenario_plots):
     for plot in list(plots) + list(scenario_plots[0].values()):
         figure = draw(plot)

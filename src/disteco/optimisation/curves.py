@@ -28,7 +28,8 @@ from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
-from .search import Evaluator, usable_cores, worker_pool
+from .._base.cores import can_fork, usable_cores
+from .search import Evaluator, worker_pool
 from .start import shortcut, stage_floor
 
 CURVE_FACTORS = (1.1, 1.3, 1.5, 2.0)  # R / Rmin of the stages layer's table rows: the largest ends the curve
@@ -197,7 +198,7 @@ def start_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, o
     config = model_options(options)
     # the machine's cores, not its load: the load average still counts the search just finished
     workers = config.workers if config.workers is not None else usable_cores()
-    if workers <= 1 or "fork" not in multiprocessing.get_all_start_methods():
+    if workers <= 1 or not can_fork():
         return CurveJob(run, mixture)
     context = multiprocessing.get_context("fork")
     key = f"{scenario}:{id(optimum)}"

@@ -31,6 +31,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import pyomo.environ as pyo
 
+from .._base.cores import usable_cores
 from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError
 from .given import check_stage_bound
 from .problem import default_max_stages
@@ -189,14 +190,6 @@ def solve_job(job) -> tuple[str, object]:
 
 
 MAX_WORKERS = 4  # the default's cap: a neighbourhood holds 8 configurations, a line search 1
-
-
-def usable_cores() -> int:
-    """Cores this process may run on."""
-    try:
-        return len(os.sched_getaffinity(0))
-    except AttributeError:  # not on every platform
-        return os.cpu_count() or 1
 
 
 def free_cores() -> int:

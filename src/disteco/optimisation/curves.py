@@ -20,6 +20,7 @@ import time
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 
+from .._base.cores import can_fork, usable_cores
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
@@ -28,7 +29,6 @@ from ..stages.shortcut import ShortcutPoint
 from .design import model_cost_basis, resolved_problem
 from .options import barrier_order, first_strategy, model_options
 from .results import DesignEvaluation, OptimumDesign
-from .._base.cores import can_fork, usable_cores
 from .search import Evaluator, worker_pool
 from .start import shortcut, stage_floor
 

@@ -124,10 +124,10 @@ def untuned_polar_pairs(mixture: Mixture) -> tuple[str, ...]:
         names = ", ".join(pairs)
         mixture.note("untuned-polar-pairs",
                      f"Peng-Robinson takes {names} with no interaction parameter (kij = 0), a non-polar "
-                     "mixture's default: with a polar component, or carbon dioxide or nitrogen beside a hydrocarbon, the "
-                     "relative volatility can be far off and an azeotrope missed (carbon dioxide/ethane's) or put "
-                     "where there is none; give "
-                     "[mixture.peng_robinson] kij fitted to equilibrium data for these pairs")
+                     "mixture's default: with a polar component, or carbon dioxide or nitrogen beside a "
+                     "hydrocarbon, the relative volatility can be far off and an azeotrope missed (carbon "
+                     "dioxide/ethane's) or put where there is none; give [mixture.peng_robinson] kij fitted to "
+                     "equilibrium data for these pairs")
     return pairs
 
 

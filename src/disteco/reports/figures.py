@@ -133,8 +133,9 @@ def write_figures(plots: tuple[Plot, ...] | list[Plot], folder: str | Path) -> l
 
     Where a second core is free and processes fork, every other plot is drawn by a forked child
     beside this process (the same files; measured on the benzene example's five figures, four
-    times each way on an idle 2-core machine: 0.60-0.72 s drawn here, 0.35-0.46 s with the child). Where the child fails, its plots are drawn here, which meets the failure in
-    this process.
+    times each way on an idle 2-core machine: 0.60-0.72 s drawn here, 0.35-0.46 s with the
+    child). Where the child fails, its plots are drawn here, which meets the failure in this
+    process.
     """
     plots = list(plots)
     theirs = plots[1::2]

@@ -368,6 +368,10 @@ def test_a_liquid_with_dissolved_gases_has_no_bubble_point_in_words(light_gases)
         assert light_gases._flash(T=T, VF=0.0, zs=z).P > 25e5
     with pytest.raises(InfeasibleSpecError, match=r"has no bubble point at 8 bar: its dissolved gases \(hydrogen 0.01"):
         light_gases.bubble_point(8e5, z)
+    # the gases named are those supercritical at the liquid's mean normal boiling point (94 degC here)
+    with pytest.raises(InfeasibleSpecError, match=r"gases \(hydrogen 0.01 \(critical temperature -240 degC\), methane "
+                                                  r"0.03 \(critical temperature -83 degC\)\) keep a vapour"):
+        light_gases.bubble_point(8e5, z)
     with pytest.raises(InfeasibleSpecError, match="has no bubble point at 15 bar") as caught:
         light_gases.bubble_point(15e5, z)
     assert "critical region" not in str(caught.value)

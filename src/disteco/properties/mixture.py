@@ -289,9 +289,13 @@ class Mixture:
                 "the pressure is at or above the mixture's critical region "
                 f"(critical pressures: {critical}), where liquid and vapour become one fluid; "
                 "lower the column pressure") from None
-        # gases above their critical temperature at the heaviest component's normal boiling point
+        # gases: above their critical temperature at the liquid's mean normal boiling point (a stabiliser's
+        # liquid named its ethane and propane beside its hydrogen and methane when the heaviest one's was
+        # taken), else at the heaviest one's
+        mean = sum(z[i] * self.normal_boiling_points[i] for i in present) / sum(z[i] for i in present)
         heaviest = max(self.normal_boiling_points[i] for i in present)
-        gases = [i for i in present if self.critical_temperatures[i] < heaviest]
+        gases = [i for i in present if self.critical_temperatures[i] < mean] or \
+            [i for i in present if self.critical_temperatures[i] < heaviest]
         if vapour_fraction == 0.0 and gases:
             named = ", ".join(f"{self.names[i]} {z[i]:.3g} (critical temperature "
                               f"{self.critical_temperatures[i] - 273.15:.0f} degC)" for i in gases)

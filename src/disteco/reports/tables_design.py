@@ -89,15 +89,23 @@ def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:
                        coefficients=sequential.coefficients if sequential else (), **others)
 
 
-def summary_table(title: str, parts: ReportParts) -> Table:
-    """The chosen design in one table: case title, then the headline numbers that are present."""
+def summary_table(title: str, parts: ReportParts, minimum_reflux: float | None = None) -> Table:
+    """The chosen design in one table: case title, then the headline numbers that are present.
+
+    ``minimum_reflux`` [-]: the stage design's constant-molar-overflow minimum on thermo, the one the
+    console gives (else the optimiser's own on its fitted forms); the ratio is the reported reflux
+    ratio's (ethanol-water's Summary gave 1.204, the model's reflux over the model's minimum, two rows
+    below a reported reflux ratio of 1.282 and beside the console's 1.23).
+    """
     items: list[tuple[str, Cell]] = [("Case title", title)]
     if parts.profile is not None:
         items += design_items(parts.profile)[:7]
     if parts.optimum is not None:
         o = parts.optimum
-        items += [("Minimum reflux ratio [-]", o.minimum_reflux_ratio),
-                  ("Reflux ratio / minimum [-]", o.best.reflux_ratio / o.minimum_reflux_ratio),
+        minimum = minimum_reflux or o.minimum_reflux_ratio
+        reflux = parts.profile.reflux_ratio if parts.profile is not None else o.best.reflux_ratio
+        items += [("Minimum reflux ratio, constant molar overflow [-]", minimum),
+                  ("Reflux ratio / minimum [-]", reflux / minimum),
                   ("Optimiser status", o.solver.status)]
         items += margin_items(parts.margin, o.best.cost.currency)
     if parts.sizing is not None:

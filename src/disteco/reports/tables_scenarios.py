@@ -92,10 +92,10 @@ def optimum_table(optimum: OptimumDesign) -> Table:
     c = best.cost.currency
     items: list[tuple[str, Cell]] = [
         ("Reflux ratio [-]", best.reflux_ratio),
-        ("Minimum reflux ratio [-]", optimum.minimum_reflux_ratio),
-        ("Reflux ratio / minimum [-]", best.reflux_ratio / optimum.minimum_reflux_ratio),
+        ("Minimum reflux ratio, on the model's fitted forms [-]", optimum.minimum_reflux_ratio),
+        ("Reflux ratio / that minimum [-]", best.reflux_ratio / optimum.minimum_reflux_ratio),
         ("Equilibrium stages, reboiler included [-]", best.stages),
-        ("Minimum stages, reboiler included [-]", optimum.minimum_stages),
+        ("Minimum stages on the model's fitted forms, reboiler included [-]", optimum.minimum_stages),
         ("Feed stage, from the top [-]", best.feed_stage),
         ("Real trays [-]", best.sizes.real_trays),
         ("Tray efficiency [-]", best.sizes.tray_efficiency),

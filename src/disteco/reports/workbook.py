@@ -57,11 +57,11 @@ class WorkbookContent:
 def workbook_content(result: DesignResult, parts: ReportParts = ReportParts()) -> WorkbookContent:
     """Sheets and plots for ``result``; sheets whose data is absent are left out."""
     names = result.case.components
-    summary = [summary_table(result.case.title, parts)]
+    minimum = result.stages.minimum_reflux if result.stages is not None else None
+    summary = [summary_table(result.case.title, parts, minimum)]
     if parts.cost is not None:
         summary.append(tac_table(parts.cost))
     if parts.checks is not None and parts.profile is not None:
-        minimum = result.stages.minimum_reflux if result.stages is not None else None
         summary.append(checks_table(parts.checks, parts.profile.reflux_ratio, minimum))
     inputs = [run_table(parts, result.options, result.evaluation), case_table(result.case), sizing_table(result.case),
               mixture_table(result.mixture), components_table(result.mixture), feed_table(result.feed, names)]

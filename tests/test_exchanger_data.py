@@ -63,6 +63,8 @@ def test_benzene_reboiler_is_a_thermosyphon_priced_on_its_own_curve(benzene):
 def test_process_side_and_reboiler_type_rules():
     """The stated rules (common practice / from memory, see disteco.sizing.exchanger_service)."""
     assert condenser_side(0.6) == "aqueous vapours" and condenser_side(0.4) == "organic vapours"
+    assert condenser_side(0.4, gas=True) == "organics with some non-condensables"
+    assert condenser_side(0.6, gas=True) == "aqueous vapours"
     assert reboiler_side(0.9, 0.3e-3) == "aqueous solutions"
     assert reboiler_side(0.0, 0.99 * HEAVY_ORGANIC_VISCOSITY) == "light organics"
     assert reboiler_side(0.0, HEAVY_ORGANIC_VISCOSITY) == "heavy organics"
@@ -88,3 +90,16 @@ def test_missing_process_side_row_falls_back_to_the_lowest_U_with_a_note():
     assert row.u_typical == 350.0
     assert "no overall coefficient for 'aqueous solutions' against hot_oil" in note
     assert row.process_side in ("heavy organics", "light organics")
+
+
+def test_vacuum_condenser_takes_the_non_condensables_row():
+    """The styrene example's condenser at 8 kPa condenses with the air that leaks into a vacuum column:
+    the row of organics with some non-condensables against cooling water (from memory: Towler and
+    Sinnott, Chemical Engineering Design, 2nd ed., Table 19.1, 500-700 W/(m2 K), mid-point 600)."""
+    _, mixture, _ = example("styrene_vacuum")
+    problem = example_problem("styrene_vacuum")
+    profile = stage_profile(problem, start_profile(problem, 40, 20, factor=1.5), 20)
+    found = exchanger_data(load_cost_data(), mixture, profile, SizingOptions())
+    assert found.service.condenser_side == "organics with some non-condensables"
+    assert found.condenser_U.value == 600.0 and found.condenser_level.kind == "cooling_water"
+    assert "under vacuum (air leaks in)" in found.service.reasons[0]

@@ -8,6 +8,10 @@ Rules
 -----
 - Aqueous: water is at least half of the stream by moles (the top vapour for the condenser,
   the bottoms liquid for the reboiler). *Common practice, no source.*
+- Organics with some non-condensables (condenser): an organic top vapour condensed under vacuum
+  (air leaks into the column and gathers in the condenser) or in a partial condenser (the vapour
+  product leaves uncondensed through it); reference 2's row for such condensers lies below the
+  plain organic one. *Common practice, no source.*
 - Light or heavy organics (reboiler): the bottoms liquid's viscosity at the reboiler is below
   1 mPa s (light) or not (heavy). Reference 1 calls organics below 0.5 mPa s light, 0.5-1 mPa s
   medium and above 1 mPa s heavy (*from memory*); medium organics are taken with the light
@@ -36,7 +40,8 @@ AQUEOUS_WATER_FRACTION = 0.5  # [-] mole fraction of water from which a stream i
 HEAVY_ORGANIC_VISCOSITY = 1.0e-3  # Pa s, from which an organic liquid is "heavy"
 VACUUM_PRESSURE = ATMOSPHERE  # Pa, below which the column bottom is under vacuum
 
-CONDENSER_SIDES = {"aqueous": "aqueous vapours", "organic": "organic vapours"}
+CONDENSER_SIDES = {"aqueous": "aqueous vapours", "organic": "organic vapours",
+                   "gas": "organics with some non-condensables"}
 REBOILER_SIDES = {"aqueous": "aqueous solutions", "light": "light organics", "heavy": "heavy organics"}
 REBOILER_KINDS = {"kettle": "kettle reboiler", "thermosiphon": "vertical thermosyphon reboiler"}
 
@@ -57,9 +62,12 @@ def water_fraction(mixture, z) -> float:
     return sum(float(zi) for c, zi in zip(components, z) if getattr(c, "cas", None) == WATER_CAS)
 
 
-def condenser_side(water: float) -> str:
-    """Process side of the condenser from the water mole fraction of the top vapour [-]."""
-    return CONDENSER_SIDES["aqueous" if water >= AQUEOUS_WATER_FRACTION else "organic"]
+def condenser_side(water: float, gas: bool = False) -> str:
+    """Process side of the condenser from the water mole fraction of the top vapour [-] and whether
+    gas passes through it uncondensed (``gas``: under vacuum or in a partial condenser)."""
+    if water >= AQUEOUS_WATER_FRACTION:
+        return CONDENSER_SIDES["aqueous"]
+    return CONDENSER_SIDES["gas" if gas else "organic"]
 
 
 def reboiler_side(water: float, viscosity: float) -> str:
@@ -82,14 +90,18 @@ def exchanger_service(profile, mixture) -> ExchangerService:
     top_water = water_fraction(mixture, profile.y[0])
     bottom_water = water_fraction(mixture, profile.x[n - 1])
     viscosity = mixture.liquid_viscosity(profile.T[n - 1], profile.P[n - 1], profile.x[n - 1])
-    cond = condenser_side(top_water)
+    vacuum, partial = profile.P[0] < VACUUM_PRESSURE, profile.partial_condenser
+    cond = condenser_side(top_water, vacuum or partial)
     reb = reboiler_side(bottom_water, viscosity)
     kind = reboiler_type(profile.P[n - 1], reb)
     why = "under vacuum" if profile.P[n - 1] < VACUUM_PRESSURE else \
         "heavy organic bottoms" if kind == "kettle" else "above atmospheric pressure, not a heavy organic"
+    gas = (", under vacuum (air leaks in)" if vacuum else ", a partial condenser (its vapour product passes "
+           "uncondensed)") if cond == CONDENSER_SIDES["gas"] else ""
     reasons = (
-        f"condenser process side '{cond}': top vapour {100 * top_water:.0f} mol% water "
-        f"(aqueous from {100 * AQUEOUS_WATER_FRACTION:.0f} mol%, common practice, no source)",
+        f"condenser process side '{cond}': top vapour {100 * top_water:.0f} mol% water{gas} "
+        f"(aqueous from {100 * AQUEOUS_WATER_FRACTION:.0f} mol%; non-condensables under vacuum or in a partial "
+        "condenser; common practice, no source)",
         f"reboiler process side '{reb}': bottoms {100 * bottom_water:.0f} mol% water, liquid viscosity "
         f"{viscosity * 1e3:.3g} mPa s (heavy organics from {HEAVY_ORGANIC_VISCOSITY * 1e3:g} mPa s, from memory: "
         "Sinnott, Coulson and Richardson Vol. 6, Table 12.1)",

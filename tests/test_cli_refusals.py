@@ -45,6 +45,8 @@ REFUSALS = [  # (arguments of design and check on the benzene example, option na
     ("--price lp_steam=20", "--price", "a unit is missing in '20'"),
     ("--price lp_steam=20USD/MJ", "--price", "per GJ, kWh, t, m3"),
     ("--scenario no-such-prices", "--scenario", "unknown scenario 'no-such-prices'"),
+    ("--scenario reference --scenario cheap-steam-demo --scenario reference", "--scenario",
+     "scenario 'reference' named twice (allowed: each scenario once)"),
 ]
 
 

@@ -186,6 +186,9 @@ def resolve_scenarios(data: CostData, requested: tuple[str, ...] = (),
         return tuple(dict.fromkeys((data.settings.default_scenario,) + inline))
     for name in requested:
         data.scenario(name, field)
+    twice = next((name for i, name in enumerate(requested) if name in requested[:i]), None)
+    if twice is not None:
+        raise CaseError(field, f"scenario {twice!r} named twice", "each scenario once")
     return tuple(requested)
 
 

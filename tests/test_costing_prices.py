@@ -245,3 +245,25 @@ def test_a_power_price_that_the_design_s_power_following_utilities_do_not_follow
     assert note.startswith("scenario 'dear_power': electricity is set to 0.15 USD/kWh (prices.dear_power.electricity)")
     assert "cooling_water" in note and "lp_steam" not in note  # steam follows a gas index
     assert notes("reference") == ()
+
+
+def test_a_price_far_from_the_cost_data_s_own_is_noted_as_a_likely_unit_mistake():
+    """20 USD/kWh of low-pressure steam (meant per GJ) is 5,556 USD/GJ, 418 x the bundled reference's
+    13.28 USD/GJ of 2006 (cost_data/utility_prices.csv): a note asks to check the number and its unit;
+    20 USD/GJ (1.5 x) gets none, nor does a utility the design does not use."""
+    from types import SimpleNamespace
+
+    from disteco.reports.tables_prices import price_notes
+
+    def notes(*options):
+        data = _apply(*options)
+        cost = cost_column(data, INPUT, "reference", 2023)
+        return price_notes(SimpleNamespace(cost_data=data, cost=cost, scenarios=(("reference", None),)))
+
+    (note,) = notes("reference.lp_steam=20USD/kWh")
+    assert note.startswith("scenario 'reference': lp_steam is set to 20 USD/kWh (--price), 418 x the cost data's own")
+    assert "check the number and its unit (per GJ, kWh, t or m3)" in note
+    assert notes("reference.lp_steam=20USD/GJ") == ()
+    assert notes("reference.hot_oil=20USD/kWh") == ()  # not a utility of this design
+    assert _apply("lp_steam=20USD/kWh").price("reference", "lp_steam").cost_data_ratio == pytest.approx(
+        20.0 / 3.6e-3 / 13.28, rel=1e-3)

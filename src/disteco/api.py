@@ -217,7 +217,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     from .reports.design_result import DesignResult
     from .reports.progress import CHECKS, PRICING, SEARCH, ProgressPlan, run_steps
     from .reports.tables_design import GivenDesignReport, optimum_parts
-    from .reports.tables_prices import power_price_notes
+    from .reports.tables_prices import price_notes
     from .sizing.options import sizing_options
 
     prepared = _prepare(case, given, scenarios, options, compare, prices)
@@ -329,7 +329,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                    for w in c.warnings)
     extra += mixture.warnings + tuple(curve_notes)
     parts = _checked(parts, checks)
-    extra += _utility_notes(mixture, parts, data, sizing) + power_price_notes(parts)
+    extra += _utility_notes(mixture, parts, data, sizing) + price_notes(parts)
     extra += tuple(w for _, margin in margins[:1] for w in margin.warnings + margin.below_floor(
         parts.profile.reflux_ratio))
     return DesignResult(case, summary, feed, stages=stages, parts=parts,

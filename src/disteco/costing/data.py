@@ -138,10 +138,13 @@ class CostData:
 
         The linear coefficient of a utility's yearly cost: cost = duty x hours x 3600 x this.
         """
-        price = self.price(scenario, utility, year)
-        if utility == ELECTRICITY:
+        return self.joule_price(self.price(scenario, utility, year))
+
+    def joule_price(self, price: UtilityPrice) -> float:
+        """``price`` per joule of duty of its utility [currency/J], in its own year's money."""
+        if price.utility == ELECTRICITY:
             return price_per_joule(price.price, price.per)
-        return price_per_joule(price.price, price.per, self.level(utility), self.density(utility))
+        return price_per_joule(price.price, price.per, self.level(price.utility), self.density(price.utility))
 
     def heat_transfer_coefficient(self, service: str, utility_kind: str,
                                   process_side: str | None = None) -> HeatTransferCoefficient:

@@ -116,6 +116,8 @@ class UtilityPrice:
     escalation_factor: float = 1.0  # price / given_price [-]
     set_by: str | None = None  # the case field or option that set it; None: the cost data
     note: str | None = None  # a price kept as given in an estimate of another year
+    # a set price over the cost data's price it replaced, per joule of duty, each in its own year's money [-]
+    cost_data_ratio: float | None = None
 
     @property
     def unit(self) -> str:

@@ -67,9 +67,12 @@ def _set(data: CostData, prices: list[UtilityPrice], scenario: str, setting: Pri
     for price in prices:
         if price.scenario == scenario and price.utility == setting.utility:
             found = True
+            replaced = data.joule_price(price) if price.set_by is None else None
             price = UtilityPrice(scenario, setting.utility, setting.price, setting.currency, setting.per,
                                  setting.year if setting.year is not None else year, f"{where}, {setting.origin}",
                                  price.price_index, set_by=setting.origin)
+            if replaced:
+                price = replace(price, cost_data_ratio=data.joule_price(price) / replaced)
         out.append(price)
     if not found:  # the cost data prices every utility in every scenario (checked on loading)
         raise CaseError(setting.origin, f"scenario '{scenario}' has no price for '{setting.utility}'")

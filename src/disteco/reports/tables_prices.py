@@ -50,7 +50,25 @@ def prices_text(parts: ReportParts) -> list[str]:
         by = f", set by {p.set_by}" if p.set_by else ""
         kept = " KEPT AS GIVEN (no index fits)" if p.note else ""
         lines.append(f"  {p.scenario} / {p.utility}: {p.price:.4g} {p.unit} = {_as_given(p)}{by}{kept}")
-    return lines + [f"  Note: {note}" for note in power_price_notes(parts)]
+    return lines + [f"  Note: {note}" for note in price_notes(parts)]
+
+
+# a set price this many times the cost data's own (or its inverse) is taken for a unit mistake
+# (20 USD/kWh of steam meant per GJ is 720 x); common practice, no source
+PRICE_SCALE = 20.0
+
+
+def price_notes(parts: ReportParts) -> tuple[str, ...]:
+    """The notes on the prices of the scenarios run: :func:`power_price_notes`, then a note for each
+    price a case field or option set that the design uses and that lies more than :data:`PRICE_SCALE`
+    times above or below the cost data's own price it replaced (per joule of duty)."""
+    used = ({u.utility for u in parts.cost.utilities} if parts.cost is not None else set()) | {ELECTRICITY}
+    far = [p for p in run_prices(parts) if p.set_by is not None and p.utility in used and p.cost_data_ratio
+           and not 1.0 / PRICE_SCALE <= p.cost_data_ratio <= PRICE_SCALE]
+    return power_price_notes(parts) + tuple(
+        f"scenario '{p.scenario}': {p.utility} is set to {p.given_price if p.given_price is not None else p.price:.4g} "
+        f"{p.unit} ({p.set_by}), {p.cost_data_ratio:.3g} x the cost data's own price for it per unit of duty: "
+        f"check the number and its unit (per GJ, kWh, t or m3)" for p in far)
 
 
 def power_price_notes(parts: ReportParts) -> tuple[str, ...]:
@@ -111,4 +129,4 @@ def economics_json(parts: ReportParts) -> dict | None:
     }
 
 
-__all__ = ["economics_json", "power_price_notes", "prices_table", "prices_text", "run_prices", "run_scenarios"]
+__all__ = ["economics_json", "power_price_notes", "price_notes", "prices_table", "prices_text", "run_prices", "run_scenarios"]

@@ -205,8 +205,23 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
         raise InfeasibleSpecError(
             f"{at}{stages} stages with the feed on stage {feed_stage}: the product specifications cannot be met "
             f"(best reachable falls {100 * missed:.3g} % short); more stages, more reflux or another feed stage "
-            "are needed")
+            f"are needed{_pressure_rise(problem, stages) if fixed_reflux is not None else ''}")
     return model, report
+
+
+PRESSURE_RISE = 1.2  # bottom over top pressure from which a given design's shortfall names the pressure drop [-]
+
+
+def _pressure_rise(problem: SeparationProblem, stages: int) -> str:
+    """A clause on the trays' pressure drop where it raises the reboiler's pressure by a fifth or more: a
+    given benzene column of 110 stages at a reflux above the energy-balance minimum of a 48-stage one
+    fell 30 % short, its reboiler at 200 kPa against 115 at the top (common practice, no source)."""
+    top, bottom = problem.top_pressure, problem.pressure(stages)
+    if bottom < PRESSURE_RISE * top:
+        return ""
+    return (f"; its trays take the pressure from {top / 1e3:.4g} kPa at the top to {bottom / 1e3:.4g} kPa in the "
+            "reboiler, which lowers the relative volatility down the column: on so many stages more reflux helps "
+            "where more stages raise the pressure further")
 
 
 def _tries(problem: SeparationProblem, basis: CostBasis, stages: int, feed_stage: int, config,

@@ -408,7 +408,10 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
                               pool=pool)
         try:
             if start is not None and evaluator.allowed(*start):
-                descend(evaluator, start)
+                # along the stage count first, the feed in proportion: a round whose constants moved its
+                # optimum far (an NGL debutaniser, 23 -> 33 stages) walked there one stage per solve
+                ratio = (start[1] - 1) / (start[0] - start[1] + 1)
+                descend(evaluator, stage_search(evaluator, start[0], lambda n: feed_stage_of(n, ratio)))
             else:
                 stages, feed = first_feasible(evaluator, *starting_configuration(problem, estimate, config))
                 feed = feed_search(evaluator, stages, feed)

@@ -215,7 +215,7 @@ PRESSURE_RISE = 1.2  # bottom over top pressure from which a given design's shor
 def _pressure_rise(problem: SeparationProblem, stages: int) -> str:
     """A clause on the trays' pressure drop where it raises the reboiler's pressure by a fifth or more: a
     given benzene column of 110 stages at a reflux above the energy-balance minimum of a 48-stage one
-    fell 30 % short, its reboiler at 200 kPa against 115 at the top (common practice, no source)."""
+    fell 30 % short, its reboiler at 232 kPa against 115 at the top (common practice, no source)."""
     top, bottom = problem.top_pressure, problem.pressure(stages)
     if bottom < PRESSURE_RISE * top:
         return ""

@@ -212,3 +212,31 @@ def test_reboiler_flux_against_the_peak_heat_flux(mixture, sized):
     assert f"mean heat flux {flux / 1e3:,.0f} kW/m2" in warning and "film boiling" in warning
     needed = float(warning.split("at least ")[1].split(" m2")[0].replace(",", ""))
     assert tiny.reboiler.area < needed < sized.reboiler.area
+
+
+def test_an_efficiency_far_beyond_o_connell_s_data_is_said_on_the_console():
+    """A water/glycol regenerator's keys (relative volatility about 77 at the column's mean, liquid
+    0.6 mPa s) put viscosity x volatility at 46 cP, six times the top of O'Connell's data (7.5 cP,
+    Lockett's fit): the efficiency 0.492 x 46.2^-0.245 = 0.19 sets the real trays, so a sizing warning
+    that the console shows says so; a benzene-like 0.75 cP gives none."""
+    from types import SimpleNamespace
+
+    from disteco.reports.notes import console_warnings, kind_of
+    from disteco.sizing.column import _efficiency
+    from disteco.sizing.options import SizingOptions
+
+    profile = SimpleNamespace(stages=2, T=[350.0, 400.0], P=[2e4, 3e4], x=[[0.99, 0.01], [0.01, 0.99]],
+                              y=[[1.0, 0.0], [0.5, 0.5]])
+
+    def efficiency(alpha):
+        mixture = SimpleNamespace(liquid_viscosity=lambda T, P, x: 0.6e-3,
+                                  relative_volatility=lambda T, P, x, light, heavy, y: alpha)
+        warnings: list[str] = []
+        found = _efficiency(profile, mixture, SizingOptions(light_key=0, heavy_key=1), warnings)
+        return found.value, [w for w in warnings if w.startswith("tray efficiency")]
+
+    value, (warning,) = efficiency(77.0)
+    assert value == pytest.approx(0.492 * 46.2 ** -0.245, rel=1e-9)
+    assert warning.startswith("tray efficiency 0.19 from O'Connell's correlation at 6.16 times the top of its data")
+    assert kind_of(warning).name == "sizing and mechanical" and console_warnings((warning,))[0] == (warning,)
+    assert efficiency(1.25)[1] == []

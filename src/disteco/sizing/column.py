@@ -17,7 +17,7 @@ from .._base.validity import OutOfRange, ValidityRange
 from ..stages.results import StageProfile
 from .auxiliaries import DrumSizing, PumpSizing, size_drum, size_pump
 from .boiling import reboiler_flux_warning, zuber_peak_heat_flux
-from .efficiency import OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
+from .efficiency import CENTIPOISE, OCONNELL_RANGE, TrayEfficiency, oconnell_efficiency_lockett, real_trays
 from .exchanger_service import REBOILER_KINDS
 from .exchangers import ExchangerSizing, OverallCoefficient, condensate_freezing_warning, exchanger_ends, size_exchanger
 from .materials import low_temperature_warning, material
@@ -160,6 +160,9 @@ def _hydraulics(profile: StageProfile, mixture: SizingProperties, options: Sizin
     return tuple(trays)
 
 
+FAR_BEYOND = 2.0  # O'Connell's mu x alpha over the top of its data from which the console says so [-]
+
+
 def _efficiency(profile: StageProfile, mixture: SizingProperties, options: SizingOptions,
                 warnings: list[str]) -> TrayEfficiency:
     if options.tray_efficiency is not None:
@@ -171,6 +174,14 @@ def _efficiency(profile: StageProfile, mixture: SizingProperties, options: Sizin
     _range_warning(OCONNELL_RANGE, {0: mu * 1e3 * alpha}, options.out_of_range, warnings,
                    "the column's mean of top tray and reboiler")
     value = oconnell_efficiency_lockett(mu, alpha)
+    beyond = mu / CENTIPOISE * alpha / OCONNELL_RANGE.high
+    if beyond >= FAR_BEYOND:
+        # said where the console shows it: the efficiency sets the real trays, the height and their cost
+        warnings.append(
+            f"tray efficiency {value:.2f} from O'Connell's correlation at {beyond:.3g} times the top of its data "
+            f"(viscosity x relative volatility {mu / CENTIPOISE * alpha:.3g} cP at the column's mean, data to "
+            f"{OCONNELL_RANGE.high:g} cP): the real trays, the column's height and their cost are that uncertain; "
+            "set [sizing] tray_efficiency from experience with the service")
     if value > 1.0:
         warnings.append(f"O'Connell efficiency {value:.3f} above 1 outside its range: 1.0 used")
         value = 1.0

@@ -90,7 +90,8 @@ def test_workbook_numbers_equal_result_json(result):
     # the headline minimum is the console's and result.json's (the stage design's on thermo, not the
     # optimiser's on its fitted forms), the ratio the reported reflux ratio's over it
     assert values["Minimum reflux ratio, constant molar overflow [-]"] == pytest.approx(data["minimum_reflux_ratio"])
-    assert values["Reflux ratio / minimum [-]"] == pytest.approx(values["Reflux ratio [-]"] / data["minimum_reflux_ratio"])
+    assert values["Reflux ratio / minimum [-]"] == pytest.approx(
+        values["Reflux ratio [-]"] / data["minimum_reflux_ratio"])
 
 
 def test_given_design_below_minimum_reflux_is_refused(tmp_path, capsys):

@@ -54,7 +54,7 @@ def prices_text(parts: ReportParts) -> list[str]:
 
 
 # a set price this many times the cost data's own (or its inverse) is taken for a unit mistake
-# (20 USD/kWh of steam meant per GJ is 720 x); common practice, no source
+# (20 USD/kWh of steam meant per GJ is 418 x the bundled price); common practice, no source
 PRICE_SCALE = 20.0
 
 
@@ -66,9 +66,14 @@ def price_notes(parts: ReportParts) -> tuple[str, ...]:
     far = [p for p in run_prices(parts) if p.set_by is not None and p.utility in used and p.cost_data_ratio
            and not 1.0 / PRICE_SCALE <= p.cost_data_ratio <= PRICE_SCALE]
     return power_price_notes(parts) + tuple(
-        f"scenario '{p.scenario}': {p.utility} is set to {p.given_price if p.given_price is not None else p.price:.4g} "
-        f"{p.unit} ({p.set_by}), {p.cost_data_ratio:.3g} x the cost data's own price for it per unit of duty: "
-        f"check the number and its unit (per GJ, kWh, t or m3)" for p in far)
+        f"scenario '{p.scenario}': {p.utility} is set to {_given(p):.4g} {p.unit} ({p.set_by}), "
+        f"{p.cost_data_ratio:.3g} x the cost data's own price for it per unit of duty: check the number and its "
+        "unit (per GJ, kWh, t or m3)" for p in far)
+
+
+def _given(p: UtilityPrice) -> float:
+    """The price as it was given, before any move to the cost year."""
+    return p.given_price if p.given_price is not None else p.price
 
 
 def power_price_notes(parts: ReportParts) -> tuple[str, ...]:
@@ -129,4 +134,5 @@ def economics_json(parts: ReportParts) -> dict | None:
     }
 
 
-__all__ = ["economics_json", "power_price_notes", "price_notes", "prices_table", "prices_text", "run_prices", "run_scenarios"]
+__all__ = ["economics_json", "power_price_notes", "price_notes", "prices_table", "prices_text", "run_prices",
+           "run_scenarios"]

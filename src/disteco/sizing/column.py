@@ -160,7 +160,8 @@ def _hydraulics(profile: StageProfile, mixture: SizingProperties, options: Sizin
     return tuple(trays)
 
 
-FAR_BEYOND = 2.0  # O'Connell's mu x alpha over the top of its data from which the console says so [-]
+# O'Connell's mu x alpha over the top of its data from which the console says so [-]; common practice, no source
+FAR_BEYOND = 2.0
 
 
 def _efficiency(profile: StageProfile, mixture: SizingProperties, options: SizingOptions,
@@ -171,15 +172,16 @@ def _efficiency(profile: StageProfile, mixture: SizingProperties, options: Sizin
     mu = sum(mixture.liquid_viscosity(profile.T[i], profile.P[i], profile.x[i]) for i in ends) / 2.0
     alpha = sum(mixture.relative_volatility(profile.T[i], profile.P[i], profile.x[i], options.light_key,
                                             options.heavy_key, profile.y[i]) for i in ends) / 2.0
-    _range_warning(OCONNELL_RANGE, {0: mu * 1e3 * alpha}, options.out_of_range, warnings,
+    mu_alpha = mu / CENTIPOISE * alpha  # cP
+    _range_warning(OCONNELL_RANGE, {0: mu_alpha}, options.out_of_range, warnings,
                    "the column's mean of top tray and reboiler")
     value = oconnell_efficiency_lockett(mu, alpha)
-    beyond = mu / CENTIPOISE * alpha / OCONNELL_RANGE.high
+    beyond = mu_alpha / OCONNELL_RANGE.high
     if beyond >= FAR_BEYOND:
         # said where the console shows it: the efficiency sets the real trays, the height and their cost
         warnings.append(
             f"tray efficiency {value:.2f} from O'Connell's correlation at {beyond:.3g} times the top of its data "
-            f"(viscosity x relative volatility {mu / CENTIPOISE * alpha:.3g} cP at the column's mean, data to "
+            f"(viscosity x relative volatility {mu_alpha:.3g} cP at the column's mean, data to "
             f"{OCONNELL_RANGE.high:g} cP): the real trays, the column's height and their cost are that uncertain; "
             "set [sizing] tray_efficiency from experience with the service")
     if value > 1.0:

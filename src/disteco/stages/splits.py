@@ -19,7 +19,8 @@ from .correlations import fenske_distribution, fenske_minimum_stages
 MAX_ITERATIONS = 200
 TOLERANCE = 1e-12  # relative change of the key flows between iterations
 # where a binary case without products.light_key takes its keys from
-BINARY_KEYS = ("; in a binary case without it, the first of mixture.components", " (or the order of mixture.components)")
+BINARY_KEYS = ("; in a binary case without it, the first of mixture.components",
+               " (or the order of mixture.components)")
 
 
 @dataclass(frozen=True)

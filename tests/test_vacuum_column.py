@@ -104,6 +104,22 @@ def test_wegstein_step_settles_a_swinging_pressure_drop():
     assert next_drop(steep) == pytest.approx(WEGSTEIN_BOUNDS[1] * 1100.0 + (1 - WEGSTEIN_BOUNDS[1]) * 2100.0)
 
 
+def test_pressure_drop_trials_of_another_configuration_do_not_steer_wegstein():
+    """Wegstein's slope is one design's response to the drop assumed. An acetone/methanol column at 1.1 bar
+    (its diameter held by the height-to-diameter limit) found 1199 Pa at its first optimum and 1283 Pa at
+    the next one, other stages: the slope between them sent the next round to 1261 Pa, 1.8 % from the
+    1284 Pa found there, and the rounds ended unsettled. A trial of a new configuration starts afresh."""
+    from disteco.optimisation.first_round import next_drop, record_drop
+
+    trials = []
+    assert record_drop(trials, (24, 14), 1438.1, 1198.6) == 1198.6  # one trial: the drop found
+    assert record_drop(trials, (26, 15), 1198.6, 1283.5) == 1283.5  # another configuration: found again
+    # the same configuration twice: Wegstein's step, as next_drop takes it
+    assert record_drop(trials, (26, 15), 1283.5, 1284.1) == pytest.approx(
+        next_drop([(1198.6, 1283.5), (1283.5, 1284.1)]), rel=1e-12)
+    assert len(trials) == 2
+
+
 def test_a_trays_pressure_drop_that_multiplies_the_vacuum_is_pointed_out(result):
     """The trays take the styrene column from 8 kPa at the top to several times that at the bottom (the
     drop tested above): a warning gives the ratio and that vacuum columns are usually packed."""

@@ -388,6 +388,45 @@ def test_a_run_that_ends_early_stops_the_curves_process(searched):
     assert child.exitcode is not None and not child.is_alive()
 
 
+def test_a_curve_child_that_sent_its_curve_ends_quietly():
+    """The child that drew a curve hands it over and then ends as is: an interrupt arriving as it closes
+    its end of the pipe (the parent's cancel racing its exit printed the interrupt's traceback on the
+    console) is swallowed, and a later SIGTERM ends the process without unwinding it."""
+    import signal
+
+    from disteco.optimisation import curves
+
+    class Pipe:
+        sent = None
+
+        def send(self, outcome):
+            Pipe.sent = outcome
+
+        def close(self):
+            raise KeyboardInterrupt  # the SIGTERM handler's interrupt, raised inside the close
+
+    previous = signal.getsignal(signal.SIGTERM)
+    try:
+        curves._PENDING["test"] = lambda: ("designs", [], ())
+        curves._curve_child("test", Pipe())  # returns: nothing raised
+        assert Pipe.sent == ("designs", [], ()) and "test" not in curves._PENDING
+        assert signal.getsignal(signal.SIGTERM) is signal.SIG_DFL
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+
+
+def test_a_curve_drawn_beside_ends_its_child_by_itself(searched):
+    """After the curve came through the pipe its child ends on its own (exit code 0), not by a terminate."""
+    from disteco.optimisation.curves import start_curve
+
+    case, mixture, feed, data, stages, optimum = searched
+    with start_curve(case, mixture, feed, data, optimum, stages.table, {"workers": 2, "time_limit": 1e-3},
+                     optimum.sizing_options) as job:
+        child = job.process
+        job.designs()
+    assert child.exitcode == 0
+
+
 def test_a_scenario_beaten_by_another_design_is_searched_again_from_it(monkeypatch):
     """The first cross table says the cheap-steam design beats the reference optimum under reference
     prices: the reference is searched again from that design (the progress names the step), kept only

@@ -13,9 +13,11 @@ curve passes through the optimum.
 
 from __future__ import annotations
 
+import contextlib
 import math
 import multiprocessing
 import pickle
+import signal
 import time
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
@@ -132,7 +134,8 @@ class CurveJob:
             except (EOFError, OSError, pickle.UnpicklingError):  # the child died or sent what cannot be read
                 outcome = None
             finally:
-                self.cancel()
+                # a child that sent its curve is ending on its own: terminating it then raced its exit
+                self.cancel(wait=CHILD_GRACE if outcome is not None else 0.0)
         if outcome is None:  # in place: also what reproduces a failure of the child in this process
             designs, found, _ = self.run()
             mixture_notes = ()  # noted on the mixture here
@@ -145,10 +148,12 @@ class CurveJob:
             notes.extend(found)
         return designs
 
-    def cancel(self) -> None:
-        """Stop the child (if any) and wait for it to go."""
+    def cancel(self, wait: float = 0.0) -> None:
+        """Stop the child (if any) and wait for it to go; ``wait`` [s]: first let it end on its own that long."""
         if self.process is None:
             return
+        if wait > 0.0:
+            self.process.join(wait)
         if self.process.is_alive():
             self.process.terminate()  # the run's own SIGTERM handling: the child unwinds
             self.process.join(CHILD_GRACE)
@@ -176,11 +181,16 @@ def _curve_child(key: str, writer) -> None:
     """The child's work: the pending curve, sent back whole; nothing on a failure (the parent then
     draws the curve itself and meets the failure in its own process)."""
     try:
-        writer.send(_PENDING.pop(key)())
-    except BaseException:  # noqa: BLE001 - reported by the parent's own run
+        outcome = _PENDING.pop(key)()
+        # done: a cancel from now on ends the process as is (unwinding it printed a traceback of the
+        # interrupt raised inside the pipe's close)
+        signal.signal(signal.SIGTERM, signal.SIG_DFL)
+        writer.send(outcome)
+    except BaseException:  # noqa: BLE001 - reported by the parent's own run; an interrupt ends the child quietly
         pass
     finally:
-        writer.close()
+        with contextlib.suppress(BaseException):
+            writer.close()
 
 
 def start_curve(case: Case, mixture: Mixture, feed: FeedState, data: CostData, optimum: OptimumDesign,

@@ -209,8 +209,12 @@ def layout_lines(layout, currency: str) -> list[str]:
     limits = f"limits {layout.max_height:g} m per shell, height-to-diameter {layout.max_height_to_diameter:g}"
     if layout.binding:
         cost = layout.limit_cost
-        extra = "" if cost is None else (f"; {cost:,.0f} {currency} per year above the same designs priced as "
-                                         "one shell without limits")
+        if cost is None:
+            extra = ""
+        elif round(cost) <= 0:  # the limit's size rounds to the standard size flooding asks, say
+            extra = "; at no cost: the same designs priced as one shell without limits cost no less"
+        else:
+            extra = f"; {cost:,.0f} {currency} per year above the same designs priced as one shell without limits"
         lines.append(f"Binding: {', '.join(layout.binding)} ({limits}, common practice, no source){extra}")
     else:
         lines.append(f"No shell limit binds ({limits}, common practice, no source)")

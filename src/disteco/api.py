@@ -297,6 +297,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         # search found (a local optimum: the tray spacing's descent stopped one candidate short): the
         # scenario is searched again from that design, and kept where the search ends cheaper
         # (held to the same control margin; the curve, drawn around the economic optimum, stays)
+        ranked = []
         for j, i in cross.beaten():
             run, name = runs[j], names[j]
             plan.kinds += [SEARCH, CHECKS]
@@ -310,8 +311,10 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
                 plan.finish()
             else:
                 plan.kinds.pop()
+            ranked += _model_ranked(again, runs[i].optimum, i, j)
         plan.kinds += [PRICING] * (len(names) * (len(names) - 1))
         cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
+        cross = replace(cross, model_ranked=tuple(ranked))
     optima = [(name, run.optimum) for name, run in zip(names, runs)]
     checked = [(name, run.checks) for name, run in zip(names, runs)]
     margins = [(name, run.margin) for name, run in zip(names, runs)]
@@ -431,6 +434,16 @@ def _cross_table(case, mixture, data, sizing, names, runs, plan: ProgressPlan) -
             plan.finish()
         rows.append(tuple(row))
     return CrossTable(tuple(names), tuple(rows), runs[0].optimum.best.cost.currency)
+
+
+def _model_ranked(again, other, i: int, j: int) -> list[tuple[int, int, float]]:
+    """[(i, j, difference)] where scenario j's search again from design i (``other``) ended on a design its
+    model prices ``difference`` [currency/year] below design i's configuration under j's prices; else []."""
+    key = (other.best.stages, other.best.feed_stage)
+    at_other = next((d for d in again.solved if (d.stages, d.feed_stage) == key), None)
+    if at_other is None or again.best.tac >= at_other.tac:
+        return []
+    return [(i, j, at_other.tac - again.best.tac)]
 
 
 def _warnings(own: tuple[str, ...], parts: ReportParts) -> tuple[str, ...]:

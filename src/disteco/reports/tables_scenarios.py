@@ -17,6 +17,8 @@ from ..stages.results import StageProfile
 from .tables import KW, TEXT, Cell, Column, Table, quantity_table, text
 
 MONEY = "#,##0"
+# what moves a design's reported TAC from the model's: the sizing layer's standard sizes
+ROUNDED_SIZES = "the reported price rounds the diameter and the shell's plate up to standard sizes"
 
 
 def _money(label: str, currency: str) -> Column:
@@ -53,8 +55,7 @@ class CrossTable:
         return (f"cross table: {len(close)} extra TAC value{'s' if len(close) > 1 else ''} below zero, by at most "
                 f"{100.0 * max(close):.2g} % of the scenario's own TAC, within the search's tolerance of "
                 f"{100.0 * tolerance:g} %: designs that close are equally good at the model's resolution (the "
-                "search ranks designs by the model's TAC; the reported price rounds the diameter up and adds the "
-                "reflux drum and pump)",)
+                f"search ranks designs by the model's TAC; {ROUNDED_SIZES})",)
 
     def beaten(self, tolerance: float = SEARCH_AGAIN_TOLERANCE) -> tuple[tuple[int, int], ...]:
         """(j, i) for each scenario j whose own optimum another scenario's design i, the cheapest under
@@ -86,9 +87,8 @@ class CrossTable:
                     found.append(
                         f"{beaten}; searched again from that design, the optimiser's model ranks the scenario's own "
                         f"design {ranked[i, j]:,.0f} {self.currency}/year cheaper: the model prices continuous "
-                        "sizes, while the reported TAC rounds the diameter up and adds the reflux drum and pump, "
-                        "which here orders the two the other way; either is the optimum at the model's resolution "
-                        "(compare both rows of the cross table)")
+                        f"sizes ({ROUNDED_SIZES}), which here orders the two the other way; either is the optimum "
+                        "at the model's resolution (compare both rows of the cross table)")
                 else:
                     found.append(f"{beaten}, which is therefore not the lowest TAC found (a local optimum: searched "
                                  "again from that design, the search did not reach it)")
@@ -98,8 +98,9 @@ class CrossTable:
 def optimum_table(optimum: OptimumDesign) -> Table:
     """The lowest-TAC design: decisions, shortcut bounds, sizes, duties, costs and the solver's report.
 
-    Costs here are the optimisation model's (column, trays and exchangers); the cost sheets
-    hold the same design priced by the sizing and costing layers (drum and pump included).
+    Costs here are the optimisation model's (column, trays, exchangers, reflux drum and pump, at
+    continuous sizes); the cost sheets hold the same design priced by the sizing and costing layers
+    at standard sizes.
     """
     best, s = optimum.best, optimum.solver
     c = best.cost.currency

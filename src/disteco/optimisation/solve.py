@@ -222,7 +222,7 @@ def _charged_again(model, report: SolverReport, config, time_limit: float):
 
     The charge is exact only above the TAC a unit of shortfall saves, which near the fewest stages that
     meet the specifications can exceed it: a vapour-fed toluene column of 25 stages ended 0.49 % short
-    at R 3.26 where R 3.41 meets both specifications (TAC 6 % higher), and was counted infeasible, so
+    at R 3.26 where R 3.40 meets both specifications (TAC 6 % higher), and was counted infeasible, so
     that the search's first steps walked to 32 stages through two stalled solves (12 and 16 s). A charge
     ten times higher from the start loosened the solver's convergence at every configuration (the
     bound multiplier of the shortfall scales its test): TACs 3e-5 apart against 1e-5.

@@ -385,11 +385,13 @@ def final_model(evaluator: Evaluator, chosen: tuple[int, int]):
 
 
 def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
-             start: tuple[int, int] | None = None) -> OptimumDesign:
+             start: tuple[int, int] | None = None, starts=()) -> OptimumDesign:
     """Lowest-TAC design: discrete descent over (N, NF), NLP in (R, D) for each configuration.
 
     ``start`` (stages, feed stage): descend from this configuration (a previous optimum)
-    instead of the shortcut's start and its line searches.
+    instead of the shortcut's start and its line searches. ``starts``: designs solved before
+    (a previous round's, on other constants) whose profiles start the configurations nearest
+    them; their TACs are not taken.
 
     Raises :class:`InfeasibleSpecError` when no configuration in the stage range meets the
     specifications and :class:`SolverError` when the time limit passes before any design is
@@ -406,6 +408,7 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
     with worker_pool(config) as pool:
         evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config),
                               pool=pool)
+        evaluator.profiles.update({(d.stages, d.feed_stage): start_of(d) for d in starts})
         try:
             if start is not None and evaluator.allowed(*start):
                 # along the stage count first, the feed in proportion: a round whose constants moved its

@@ -423,3 +423,23 @@ def test_a_configuration_short_only_by_the_charge_is_solved_again_at_a_higher_on
     monkeypatch.setattr(solve, "PENALTY_STEP", 1.0)  # the second solve at the same charge
     with pytest.raises(InfeasibleSpecError, match="falls 0.49 % short"):
         solve.solve_configuration(problem, basis, 25, 14, config)
+
+
+def test_a_stage_bound_the_user_gives_holds():
+    """The benzene example's optimum lies near 27 stages; with max_stages 20 (`--max-stages 20`) the
+    optimum sits on the bound and stays there, said by its limits, instead of a search with 1.5 x the
+    stages beyond it (a butane splitter given 70 stages was reported at 78). Without the option the
+    default bound is searched past where the optimum sits on it."""
+    from disteco.api import cost_data_of, load_case, mixture_of
+    from disteco.properties import feed_state
+    from disteco.sizing.options import sizing_options
+
+    from conftest import EXAMPLES
+
+    case = load_case(EXAMPLES / "aromatics_binary.toml")
+    mixture, data = mixture_of(case), cost_data_of(case)
+    feed = feed_state(case.feed, mixture, case.column.top_pressure)
+    optimum = optimise_design(case, mixture, feed, data, {"max_stages": 20}, sizing_options(case))
+    assert optimum.best.stages == 20
+    assert any(limit.option == "max_stages" for limit in optimum.limits)
+    assert optimum.layout.chosen != "more stages"

@@ -267,3 +267,17 @@ def test_a_price_far_from_the_cost_data_s_own_is_noted_as_a_likely_unit_mistake(
     assert notes("reference.hot_oil=20USD/kWh") == ()  # not a utility of this design
     assert _apply("lp_steam=20USD/kWh").price("reference", "lp_steam").cost_data_ratio == pytest.approx(
         20.0 / 3.6e-3 / 13.28, rel=1e-3)
+
+
+def test_check_gives_the_far_price_note_before_a_design_runs_on_it(capsys):
+    """`check` names the same likely unit mistake for the utilities of the search's first column, so that
+    a design of minutes is not run on it first (a cooling-water price of 1e9 USD/GJ designed for 137 s)."""
+    from disteco.cli import main
+
+    from conftest import EXAMPLES
+
+    assert main(["check", str(EXAMPLES / "aromatics_binary.toml"), "--price", "lp_steam=20USD/kWh"]) == 0
+    out = capsys.readouterr().out
+    assert "Note: scenario 'reference': lp_steam is set to 20 USD/kWh (--price), 418 x the cost data's own" in out
+    assert main(["check", str(EXAMPLES / "aromatics_binary.toml"), "--price", "lp_steam=20USD/GJ"]) == 0
+    assert "check the number and its unit" not in capsys.readouterr().out

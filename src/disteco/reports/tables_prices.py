@@ -59,13 +59,20 @@ PRICE_SCALE = 20.0
 
 
 def price_notes(parts: ReportParts) -> tuple[str, ...]:
-    """The notes on the prices of the scenarios run: :func:`power_price_notes`, then a note for each
-    price a case field or option set that the design uses and that lies more than :data:`PRICE_SCALE`
-    times above or below the cost data's own price it replaced (per joule of duty)."""
-    used = ({u.utility for u in parts.cost.utilities} if parts.cost is not None else set()) | {ELECTRICITY}
-    far = [p for p in run_prices(parts) if p.set_by is not None and p.utility in used and p.cost_data_ratio
+    """The notes on the prices of the scenarios run: :func:`power_price_notes`, then
+    :func:`far_price_notes` for the utilities the design uses."""
+    used = ({u.utility for u in parts.cost.utilities} if parts.cost is not None else set())
+    return power_price_notes(parts) + far_price_notes(run_prices(parts), used)
+
+
+def far_price_notes(prices, used) -> tuple[str, ...]:
+    """A note for each of ``prices`` (:class:`UtilityPrice`) a case field or option set for a utility in
+    ``used`` (or electricity) that lies more than :data:`PRICE_SCALE` times above or below the cost data's
+    own price it replaced (per joule of duty)."""
+    used = set(used) | {ELECTRICITY}
+    far = [p for p in prices if p.set_by is not None and p.utility in used and p.cost_data_ratio
            and not 1.0 / PRICE_SCALE <= p.cost_data_ratio <= PRICE_SCALE]
-    return power_price_notes(parts) + tuple(
+    return tuple(
         f"scenario '{p.scenario}': {p.utility} is set to {_given(p):.4g} {p.unit} ({p.set_by}), "
         f"{p.cost_data_ratio:.3g} x the cost data's own price for it per unit of duty: check the number and its "
         "unit (per GJ, kWh, t or m3)" for p in far)
@@ -134,5 +141,5 @@ def economics_json(parts: ReportParts) -> dict | None:
     }
 
 
-__all__ = ["economics_json", "power_price_notes", "price_notes", "prices_table", "prices_text", "run_prices",
+__all__ = ["economics_json", "far_price_notes", "power_price_notes", "price_notes", "prices_table", "prices_text", "run_prices",
            "run_scenarios"]

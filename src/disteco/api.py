@@ -109,7 +109,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     from .optimisation.options import model_options
     from .optimisation.start import shortcut
     from .reports.check_result import CaseCheck
-    from .reports.tables_prices import far_price_notes
+    from .reports.tables_prices import far_price_notes, scenario_prices
     from .sizing.options import sizing_options
     from .stages import design_stages
 
@@ -157,8 +157,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
             freezing = condensate_freezing_warning(mixture.liquidus(condensate(reference)), ends[0].utility)
             notes += (freezing,) if freezing else ()
             # a price set far from the cost data's, said before a design runs on it (20 USD/kWh meant per GJ)
-            notes += far_price_notes(tuple(data.price(name, p.utility, year) for name in names for p in data.prices
-                                           if p.scenario == name), {end.utility.name for end in ends})
+            notes += far_price_notes(scenario_prices(data, names, year), {end.utility.name for end in ends})
     found = CaseCheck(case, summary, feed, stages, names, year, currency, config.max_stages,
                       estimate.minimum_stages, estimate.minimum_reflux,
                       None if given is None else (given.reflux_ratio, given.stages, given.feed_stage),

@@ -72,11 +72,12 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     utility-price scenario of the cost data (None: the data's default). One shell within the
     height limit is optimised first; where the limit cuts its stage range, two shells in series
     are optimised too, and where the chosen optimum sits on the search's default stage bound (no
-    ``max_stages`` option: a bound given holds), a search with more stages. The cheapest is returned with :attr:`OptimumDesign.layout` saying what was
-    compared and why (see :mod:`disteco.optimisation.layout`). ``warm``: an optimum of the
-    same case under other options (a reflux bound), whose pressure profile, reference profile,
-    tray spacing and configuration the one-shell search starts from; ``start`` (stages, feed
-    stage): the configuration it starts from instead.
+    ``max_stages`` option: a bound given holds), a search with more stages. The cheapest is
+    returned with :attr:`OptimumDesign.layout` saying what was compared and why (see
+    :mod:`disteco.optimisation.layout`). ``warm``: an optimum of the same case under other options
+    (a reflux bound), whose pressure profile, reference profile, tray spacing and configuration the
+    one-shell search starts from; ``start`` (stages, feed stage): the configuration it starts from
+    instead.
     """
     config = model_options(options)
     bound_given = config.max_stages is not None  # a bound the user set holds: no search beyond it

@@ -26,9 +26,12 @@ def run_prices(parts: ReportParts) -> tuple[UtilityPrice, ...]:
     """Every price of the scenarios run, moved to the run's cost year."""
     if parts.cost_data is None or parts.cost is None:
         return ()
-    data, year = parts.cost_data, parts.cost.cost_year
-    return tuple(data.price(name, p.utility, year) for name in run_scenarios(parts)
-                 for p in data.prices if p.scenario == name)
+    return scenario_prices(parts.cost_data, run_scenarios(parts), parts.cost.cost_year)
+
+
+def scenario_prices(data, scenarios, year: int | None) -> tuple[UtilityPrice, ...]:
+    """Every price of ``data`` (:class:`CostData`) in ``scenarios``, moved to ``year``."""
+    return tuple(data.price(name, p.utility, year) for name in scenarios for p in data.prices if p.scenario == name)
 
 
 def _as_given(p: UtilityPrice) -> str:
@@ -141,5 +144,5 @@ def economics_json(parts: ReportParts) -> dict | None:
     }
 
 
-__all__ = ["economics_json", "far_price_notes", "power_price_notes", "price_notes", "prices_table", "prices_text", "run_prices",
-           "run_scenarios"]
+__all__ = ["economics_json", "far_price_notes", "power_price_notes", "price_notes", "prices_table", "prices_text",
+           "run_prices", "run_scenarios", "scenario_prices"]

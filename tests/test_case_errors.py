@@ -68,6 +68,20 @@ def test_design_with_bad_input_writes_no_file(tmp_path, capsys):
     assert not (tmp_path / "out" / "result.json").exists()
 
 
+def test_byte_order_mark_and_crlf_read(tmp_path):
+    """A case saved by a Windows editor (UTF-8 with a byte-order mark, CRLF line ends) reads as the same case."""
+    path = tmp_path / "case.toml"
+    path.write_bytes(b"\xef\xbb\xbf" + BASE.replace("\n", "\r\n").encode("utf-8"))
+    assert load_case(path).feed.flow == pytest.approx(load_case(_plain(tmp_path)).feed.flow)
+    assert load_case(path).components == ("benzene", "toluene")
+
+
+def _plain(tmp_path):
+    path = tmp_path / "plain.toml"
+    path.write_text(BASE, encoding="utf-8")
+    return path
+
+
 def test_not_toml(tmp_path):
     path = tmp_path / "case.toml"
     path.write_text("title = \n")

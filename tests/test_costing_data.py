@@ -106,6 +106,14 @@ def test_user_folder_is_used(folder):
     assert data.folder == str(folder.resolve())
 
 
+def test_user_file_with_byte_order_mark(folder):
+    """A table saved by a spreadsheet as UTF-8 CSV starts with a byte-order mark; its first column still reads."""
+    _edit(folder / "utility_prices.csv", "reference,lp_steam,13.28,", "reference,lp_steam,99.5,")
+    path = folder / "utility_prices.csv"
+    path.write_bytes(b"\xef\xbb\xbf" + path.read_bytes())
+    assert load_cost_data(folder).price("reference", "lp_steam").price == 99.5
+
+
 def test_missing_folder_names_the_case_field(tmp_path):
     with pytest.raises(CostDataError, match="economics.cost_data: folder not found"):
         load_cost_data(tmp_path / "nowhere")

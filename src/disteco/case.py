@@ -191,7 +191,7 @@ def load_case(path: str | Path) -> Case:
     if not path.is_file():
         raise CaseError("case file", f"{path} does not exist or is not a file")
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
+        data = tomllib.loads(path.read_text(encoding="utf-8-sig"))
     except tomllib.TOMLDecodeError as exc:
         raise CaseError("case file", f"{path} is not valid TOML: {exc}") from None
     except UnicodeDecodeError:

@@ -51,7 +51,7 @@ class Folder:
         if not entry.is_file():
             raise CostDataError(self.name_of(filename), "file not found")
         try:
-            return entry.read_text(encoding="utf-8")
+            return entry.read_text(encoding="utf-8-sig")
         except UnicodeDecodeError:
             raise CostDataError(self.name_of(filename), "not UTF-8 text") from None
 

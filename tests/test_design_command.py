@@ -13,10 +13,25 @@ from conftest import EXAMPLES
 CASE = str(EXAMPLES / "aromatics_binary.toml")
 
 
+SEARCHES = []  # (scenario, start, optimum) of each scenario's own search (not the margin's) in the ``result`` run
+
+
 @pytest.fixture(scope="module")
 def result(tmp_path_factory):
+    from disteco.optimisation import design as searching
+
+    def recorded(case, mixture, feed, data, options=None, sizing=None, scenario=None, warm=None, start=None):
+        optimum = search(case, mixture, feed, data, options, sizing, scenario, warm=warm, start=start)
+        if warm is None:  # the control margin's searches start warm
+            SEARCHES.append((scenario, start, optimum))
+        return optimum
+
+    search = searching.optimise_design
     out = tmp_path_factory.mktemp("design")
-    code = main(["design", CASE, "-o", str(out), "-q", "--scenario", "reference", "--scenario", "cheap-steam-demo"])
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setattr(searching, "optimise_design", recorded)
+        code = main(["design", CASE, "-o", str(out), "-q", "--scenario", "reference", "--scenario",
+                     "cheap-steam-demo"])
     assert code == 0
     return out, json.loads((out / "result.json").read_text())
 
@@ -66,6 +81,22 @@ def test_design_is_consistent(result):
     for i, row in enumerate(extra):
         for j, value in enumerate(row):
             assert value >= -SEARCH_AGAIN_TOLERANCE * data["cross_table"]["tac_per_year"][j][j]
+
+
+def test_a_later_scenario_searches_from_the_one_before(result, searched):
+    """The cheap-steam search descends from the reference search's optimum, without the shortcut's line
+    searches, in fewer solves, and ends where a search of its own from the shortcut's start ends."""
+    from disteco.optimisation.design import optimise_design
+    from disteco.sizing.options import sizing_options
+
+    (first, no_start, reference), (second, start, cheap) = SEARCHES
+    assert (first, no_start, second) == ("reference", None, "cheap-steam-demo")
+    assert start == (reference.best.stages, reference.best.feed_stage)
+    assert cheap.solver.configurations_solved < reference.solver.configurations_solved
+    case, mixture, feed, data, _, _ = searched
+    alone = optimise_design(case, mixture, feed, data, None, sizing_options(case), "cheap-steam-demo")
+    assert (cheap.best.stages, cheap.best.feed_stage) == (alone.best.stages, alone.best.feed_stage)
+    assert cheap.sequential.cost.tac_per_year == pytest.approx(alone.sequential.cost.tac_per_year, rel=1e-6)
 
 
 def test_dearer_steam_scenario_does_not_raise_the_reflux(result):

@@ -291,7 +291,11 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
 
     for k, name in enumerate(names):
         plan.start(f"searching stages, feed stage and reflux under '{name}' ({k + 1} of {len(names)})")
-        optimum = optimise_design(case, mixture, feed, data, options, sizing, name)
+        # a later scenario's search descends from the one before's optimum instead of the shortcut's start and
+        # line searches: price scenarios move the optimum a few stages at most
+        before = runs[-1].searched.best if runs else None
+        optimum = optimise_design(case, mixture, feed, data, options, sizing, name,
+                                  start=None if before is None else (before.stages, before.feed_stage))
         plan.finish(optimum.solver.configurations_solved)
         runs.append(checked_run(k, name, optimum))
     cross = _cross_table(case, mixture, data, sizing, names, runs, plan)

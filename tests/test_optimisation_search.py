@@ -443,3 +443,28 @@ def test_a_stage_bound_the_user_gives_holds():
     assert optimum.best.stages == 20
     assert any(limit.option == "max_stages" for limit in optimum.limits)
     assert optimum.layout.chosen != "more stages"
+
+
+@pytest.mark.parametrize("queue, usable, expected", [
+    ("1.95 1.80 1.70 1/84 15577", 2, 2),  # a design just finished: the load average lags, the queue holds us only
+    ("3.90 3.10 2.00 3/120 999", 2, 1),  # two others running: one worker
+    ("0.10 0.10 0.10 2/90 7", 4, 3),
+])
+def test_free_cores_follow_the_run_queue_not_the_lagging_load_average(tmp_path, monkeypatch, queue, usable, expected):
+    from disteco.optimisation import search
+
+    path = tmp_path / "loadavg"
+    path.write_text(queue + "\n")
+    monkeypatch.setattr(search, "LOADAVG", str(path))
+    monkeypatch.setattr(search, "usable_cores", lambda: usable)
+    assert search.free_cores() == expected
+
+
+def test_free_cores_fall_back_on_the_load_average_without_a_run_queue(tmp_path, monkeypatch):
+    from disteco.optimisation import search
+
+    monkeypatch.setattr(search, "LOADAVG", str(tmp_path / "absent"))
+    monkeypatch.setattr(search, "usable_cores", lambda: 2)
+    monkeypatch.setattr(search.os, "getloadavg", lambda: (1.9, 1.0, 1.0))
+    assert search.runnable_others() is None
+    assert search.free_cores() == 1

@@ -193,13 +193,39 @@ MAX_WORKERS = 4  # the default's cap: a neighbourhood holds 8 configurations, a 
 
 
 def free_cores() -> int:
-    """Cores not busy with other work: the usable cores less the one-minute load average, this process's
-    own share counted back, at least one."""
+    """Cores not busy with other work, at least one: the usable cores less the processes ready to run now
+    besides this one (:func:`runnable_others`), else less the one-minute load average with this process's
+    own share counted back.
+
+    The load average lags a minute: after a design it still counts that design's own work, and the next
+    design searched with one worker on an idle machine (a five-component LPG splitter 45 s against 40 s
+    with two; DEVELOPERS.md, Speed).
+    """
+    others = runnable_others()
+    if others is not None:
+        return max(1, usable_cores() - others)
     try:
         load = os.getloadavg()[0]
     except (AttributeError, OSError):  # not on every platform
         load = 0.0
     return max(1, usable_cores() - round(load) + 1)
+
+
+LOADAVG = "/proc/loadavg"
+SNAPSHOTS = 5  # reads of the run queue; the least counts, so that a passing process is not taken for load
+
+
+def runnable_others() -> int | None:
+    """Processes ready to run now besides this one: the least of a few reads of the run queue in
+    ``/proc/loadavg`` (its fourth field, running/all); None where there is no such file."""
+    try:
+        counts = []
+        for _ in range(SNAPSHOTS):
+            with open(LOADAVG, encoding="ascii") as stream:
+                counts.append(int(stream.read().split()[3].split("/")[0]))
+    except (OSError, ValueError, IndexError):
+        return None
+    return max(0, min(counts) - 1)
 
 
 @contextmanager

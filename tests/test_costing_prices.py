@@ -228,8 +228,7 @@ def test_a_power_price_that_the_design_s_power_following_utilities_do_not_follow
     """A scenario whose electricity price the case sets, run on a design cooled by cooling water (priced
     by the cost data, escalated by an electricity index), gets a note naming that utility; a scenario
     that sets the cooling water as well, or leaves the power price alone, gets none."""
-    from types import SimpleNamespace
-
+    from disteco.reports.tables_design import ReportParts
     from disteco.reports.tables_prices import power_price_notes
 
     tables = {"dear_power": {"based_on": "reference", "electricity": "0.15 USD/kWh"},
@@ -239,8 +238,8 @@ def test_a_power_price_that_the_design_s_power_following_utilities_do_not_follow
     assert data.price("reference", "cooling_water", 2023).price_index.endswith("electricity")
 
     def notes(*scenarios):
-        return power_price_notes(SimpleNamespace(cost_data=data, cost=cost,
-                                                 scenarios=tuple((name, None) for name in scenarios)))
+        return power_price_notes(ReportParts(cost_data=data, cost=cost,
+                                             scenarios=tuple((name, None) for name in scenarios)))
     (note,) = notes("reference", "dear_power", "dear_both")
     assert note.startswith("scenario 'dear_power': electricity is set to 0.15 USD/kWh (prices.dear_power.electricity)")
     assert "cooling_water" in note and "lp_steam" not in note  # steam follows a gas index
@@ -251,14 +250,13 @@ def test_a_price_far_from_the_cost_data_s_own_is_noted_as_a_likely_unit_mistake(
     """20 USD/kWh of low-pressure steam (meant per GJ) is 5,556 USD/GJ, 418 x the bundled reference's
     13.28 USD/GJ of 2006 (cost_data/utility_prices.csv): a note asks to check the number and its unit;
     20 USD/GJ (1.5 x) gets none, nor does a utility the design does not use."""
-    from types import SimpleNamespace
-
+    from disteco.reports.tables_design import ReportParts
     from disteco.reports.tables_prices import price_notes
 
     def notes(*options):
         data = _apply(*options)
         cost = cost_column(data, INPUT, "reference", 2023)
-        return price_notes(SimpleNamespace(cost_data=data, cost=cost, scenarios=(("reference", None),)))
+        return price_notes(ReportParts(cost_data=data, cost=cost, scenarios=(("reference", None),)))
 
     (note,) = notes("reference.lp_steam=20USD/kWh")
     assert note.startswith("scenario 'reference': lp_steam is set to 20 USD/kWh (--price), 418 x the cost data's own")

@@ -240,19 +240,26 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         plan.start("checking the design on thermo (energy balances, minimum reflux)")
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
         plan.finish()
-        optimum = None
-        if compare:
-            plan.start(f"the optimum under '{names[0]}' to compare with")
-            optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), names[0])
+        parts = _checked(_evaluation_parts(evaluation, data), checks)
+        optima: list[OptimumDesign] = []
+        before = None  # a later scenario's search descends from the one before's optimum, as when optimising
+        for name in names if compare else ():
+            plan.start(f"the optimum under '{name}' to compare with")
+            optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), name,
+                                      start=None if before is None else (before.stages, before.feed_stage))
+            before = optimum.best
             # the optimum an optimising run would report: the control margin held as there
             optimum, _ = hold_margin(case, mixture, feed, data, optimum, optimum.best.reflux_ratio,
                                      checks.minimum.reflux_ratio if checks.minimum else None, options,
-                                     sizing_options(case), names[0])
+                                     sizing_options(case), name)
+            optima.append(optimum)
             plan.finish(optimum.solver.configurations_solved)
         plan.end()
-        held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optimum)
+        under = _given_under_prices(case, mixture, data, sizing, names, parts, optima)
+        held = GivenDesignReport(given.reflux_ratio, given.stages, given.feed_stage, optima[0] if optima else None,
+                                 under)
         diagram, diagram_notes = _binary_parts(stages, checks.reflux_ratio, case)
-        parts = replace(_checked(_evaluation_parts(evaluation, data), checks), given=held, **diagram)
+        parts = replace(parts, given=held, **diagram)
         return DesignResult(case, summary, feed, stages=stages, parts=parts, evaluation=evaluation,
                             warnings=_warnings(stages.shortcut.warnings + checks.warnings + evaluation.warnings
                                                + mixture.warnings + _utility_notes(mixture, parts, data, sizing)
@@ -414,6 +421,22 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
     return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
                        cost=sequential.cost if sequential else None, cost_data=data,
                        coefficients=sequential.coefficients if sequential else ())
+
+
+def _given_under_prices(case, mixture, data, sizing, names, parts: ReportParts, optima) -> tuple:
+    """With more than one scenario, the given design as reported (its column as sized) priced under each
+    scenario's prices, the first the headline's own, beside each scenario's optimum (``optima``, empty when
+    not compared)."""
+    from .optimisation.pricing import price_profile
+    from .reports.tables_design import GivenUnderPrices
+
+    if len(names) < 2 or parts.cost is None:
+        return ()
+    chosen = replace(sizing, light_key=case.products.light_key, heavy_key=case.products.heavy_key)
+    costs = [parts.cost] + [price_profile(parts.profile, mixture, data, chosen, name, case.economics.cost_year)[1]
+                            for name in names[1:]]
+    return tuple(GivenUnderPrices(name, cost, optima[k] if optima else None)
+                 for k, (name, cost) in enumerate(zip(names, costs)))
 
 
 def _cross_table(case, mixture, data, sizing, names, runs, plan: ProgressPlan) -> CrossTable | None:

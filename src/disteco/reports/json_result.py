@@ -26,7 +26,7 @@ from .choices import inputs_json, margin_json
 from .design_result import SCHEMA_VERSION, DesignResult
 from .json_checks import checks_json, scenario_verification_json
 from .tables_prices import economics_json
-from .tables_design import GivenDesignReport
+from .tables_design import GivenDesignReport, GivenUnderPrices
 from .tables_scenarios import reported
 
 KMOL_PER_H = 3.6  # (kmol/h) per (mol/s)
@@ -294,14 +294,27 @@ def given_json(given: GivenDesignReport | None, cost: CostSummary | None) -> dic
     if given is None:
         return None
     held = {"reflux_ratio": given.reflux_ratio, "stages": given.stages, "feed_stage": given.feed_stage}
+    under = {"scenarios": [_given_under_json(u) for u in given.scenarios]} if given.scenarios else {}
     extra = given.extra_tac(cost.tac_per_year) if cost is not None else None
     if extra is None:
-        return {"held": held, "optimum": None}
-    best = given.optimum.best
-    return {"held": held, "optimum": {
-        "reflux_ratio": best.reflux_ratio, "stages": best.stages, "feed_stage": best.feed_stage,
-        "tac_per_year": cost.tac_per_year - extra, "scenario": cost.scenario},
-        "extra_tac_per_year": extra, "extra_tac_fraction": extra / (cost.tac_per_year - extra)}
+        return {"held": held, "optimum": None, **under}
+    return {"held": held, **_against_optimum(given.optimum, cost.tac_per_year, extra, cost.scenario), **under}
+
+
+def _against_optimum(optimum, tac: float, extra: float, scenario: str) -> dict:
+    best = optimum.best
+    return {"optimum": {"reflux_ratio": best.reflux_ratio, "stages": best.stages, "feed_stage": best.feed_stage,
+                        "tac_per_year": tac - extra, "scenario": scenario},
+            "extra_tac_per_year": extra, "extra_tac_fraction": extra / (tac - extra)}
+
+
+def _given_under_json(under: GivenUnderPrices) -> dict:
+    """The given design under one scenario's prices, and that scenario's optimum (None: not compared)."""
+    c = under.cost
+    priced = {"scenario": under.scenario, "utilities_per_year": c.utilities_per_year, "tac_per_year": c.tac_per_year}
+    if under.extra_tac is None:
+        return {**priced, "optimum": None}
+    return {**priced, **_against_optimum(under.optimum, c.tac_per_year, under.extra_tac, under.scenario)}
 
 
 def result_json(result: DesignResult) -> dict:

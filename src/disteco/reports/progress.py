@@ -54,9 +54,9 @@ Progress = Callable[[ProgressStep], None]
 
 def run_steps(scenarios: int, given: bool, compare: bool = False) -> list[str]:
     """The kinds of step of a run, in order: a given design is priced once, then checked, then
-    (``compare``) the optimum under the same prices is searched for."""
+    (``compare``) the optimum under each scenario's prices is searched for."""
     if given:
-        return [SHORTCUT, PRICING, CHECKS] + ([SEARCH] if compare else [])
+        return [SHORTCUT, PRICING, CHECKS] + ([SEARCH] * scenarios if compare else [])
     others = [SEARCH, VERIFY, CURVE] * (scenarios - 1)
     return [SHORTCUT, SEARCH, CHECKS, CURVE] + others + [PRICING] * (scenarios * (scenarios - 1))
 

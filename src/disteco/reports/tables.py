@@ -18,6 +18,7 @@ from ..stages.results import StageProfile
 from .cautions import CAUTIONS
 
 TEXT = "@"  # Excel's number format for text
+MONEY = "#,##0"  # whole money units with thousands separators
 MIXED = "General"  # a column of labelled values: numbers stay numbers, text stays text
 KMOL_PER_H = HOUR / 1e3  # (kmol/h) per (mol/s)
 KPA = 1e3  # Pa per kPa

@@ -11,10 +11,9 @@ from .._base.units import to_degC
 from ..costing import CostData, CostSummary, HeatTransferCoefficient, PressureFactorCurve
 from ..costing.validation import FILES
 from ..sizing import ColumnSizing, ExchangerSizing
-from .tables import KPA, KW, MIXED, Cell, Column, Table, quantity_table, text
+from .tables import KPA, KW, MIXED, MONEY, Cell, Column, Table, quantity_table, text
 
 MM = 1e3  # mm per m
-MONEY = "#,##0"
 FACTOR = "0.000"
 # Display unit and factor from the SI size units the lower layers use.
 SIZE_DISPLAY = {"W": ("kW", 1e-3), "m^2": ("m^2", 1.0), "m2": ("m^2", 1.0), "m^3": ("m^3", 1.0),

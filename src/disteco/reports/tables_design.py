@@ -13,12 +13,34 @@ from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
 from .choices import margin_items
 from .plots import composition_profile_plot, stages_duty_plot, tac_curve_plot, temperature_profile_plot, xy_plot
-from .tables import Cell, Plot, Table, design_items, quantity_table
+from .tables import MONEY, Cell, Column, Plot, Table, design_items, quantity_table, text
 from .tables_scenarios import CrossTable
 
 if TYPE_CHECKING:  # annotations only; importing them would pull in the solver interfaces
     from ..optimisation.margin import ControlMargin
     from ..optimisation.thermo_checks import ThermoChecks
+
+
+def _extra_tac(optimum: OptimumDesign | None, tac: float) -> float | None:
+    """A given design's TAC ``tac`` above ``optimum``'s [currency/yr]; both are the sequential prices."""
+    if optimum is None or optimum.sequential is None:
+        return None
+    return tac - optimum.sequential.cost.tac_per_year
+
+
+@dataclass(frozen=True)
+class GivenUnderPrices:
+    """A given design, its column as sized, priced under one scenario's utility prices, and the optimum
+    under the same prices (None when no comparison was asked for)."""
+
+    scenario: str
+    cost: CostSummary
+    optimum: OptimumDesign | None = None
+
+    @property
+    def extra_tac(self) -> float | None:
+        """The given design's TAC above the optimum's [currency/yr]."""
+        return _extra_tac(self.optimum, self.cost.tac_per_year)
 
 
 @dataclass(frozen=True)
@@ -27,18 +49,35 @@ class GivenDesignReport:
 
     The reflux ratio, stages and feed stage are held; the distillate flow is the model's choice
     that meets both specifications at least cost. ``optimum`` is None when no comparison was asked for.
+    ``scenarios``: with more than one price scenario, the design under each (the first the headline's).
     """
 
     reflux_ratio: float  # [-]
     stages: int  # equilibrium stages, reboiler included
     feed_stage: int  # from the top
     optimum: OptimumDesign | None = None
+    scenarios: tuple[GivenUnderPrices, ...] = ()
 
     def extra_tac(self, tac: float) -> float | None:
         """The given design's TAC ``tac`` above the optimum's [currency/yr]; both are the sequential prices."""
-        if self.optimum is None or self.optimum.sequential is None:
-            return None
-        return tac - self.optimum.sequential.cost.tac_per_year
+        return _extra_tac(self.optimum, tac)
+
+
+def given_scenarios_table(given: GivenDesignReport) -> Table:
+    """The given design under each price scenario's prices beside that scenario's optimum (one row each)."""
+    currency = given.scenarios[0].cost.currency
+    columns = (text("Scenario", 22.0), Column("Utilities", f"{currency}/year", MONEY, 16.0),
+               Column("TAC", f"{currency}/year", MONEY, 16.0), Column("Optimum's reflux ratio", "-", "0.000"),
+               Column("Optimum's stages", "-", "0", 10.0), Column("Optimum's feed stage", "-", "0", 10.0),
+               Column("Optimum's TAC", f"{currency}/year", MONEY, 16.0),
+               Column("Given design's extra TAC", f"{currency}/year", MONEY, 16.0))
+    rows = []
+    for under in given.scenarios:
+        best, extra = (under.optimum.best, under.extra_tac) if under.extra_tac is not None else (None, None)
+        rows.append((under.scenario, under.cost.utilities_per_year, under.cost.tac_per_year)
+                    + ((best.reflux_ratio, best.stages, best.feed_stage, under.cost.tac_per_year - extra, extra)
+                       if best is not None else (None,) * 5))  # empty: not compared (--no-compare)
+    return Table("Given design under each price scenario", columns, tuple(rows))
 
 
 @dataclass(frozen=True)
@@ -78,6 +117,15 @@ class ReportParts:
     def margin(self) -> ControlMargin | None:
         """The control margin of the reported (first) scenario."""
         return self.margins[0][1] if self.margins else None
+
+    @property
+    def scenarios_run(self) -> tuple[str, ...]:
+        """The scenarios the run priced: every optimised one, or those a given design was priced in."""
+        if self.scenarios:
+            return tuple(name for name, _ in self.scenarios)
+        if self.given is not None and self.given.scenarios:
+            return tuple(under.scenario for under in self.given.scenarios)
+        return (self.cost.scenario,) if self.cost is not None else ()
 
 
 def optimum_parts(optimum: OptimumDesign, **others) -> ReportParts:
@@ -131,10 +179,7 @@ def run_table(parts: ReportParts, options: tuple[tuple[str, object], ...],
               given: DesignEvaluation | None = None) -> Table:
     """What was run: the mode (with the ``given`` design priced), the price scenarios run, the cost
     year and the optimiser options set."""
-    if parts.scenarios:
-        scenarios = ", ".join(name for name, _ in parts.scenarios)
-    else:
-        scenarios = parts.cost.scenario if parts.cost is not None else "none priced"
+    scenarios = ", ".join(parts.scenarios_run) or "none priced"
     items: list[tuple[str, Cell]] = [
         ("Mode", "a given design priced" if given is not None else "lowest-TAC design searched for each price scenario"),
         ("Price scenarios run", scenarios)]

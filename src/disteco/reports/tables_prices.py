@@ -15,18 +15,11 @@ if TYPE_CHECKING:  # the design parts pull in the optimiser; `check` prints pric
     from .tables_design import ReportParts
 
 
-def run_scenarios(parts: ReportParts) -> tuple[str, ...]:
-    """The scenarios the run priced: every optimised one, or the one a given design was priced in."""
-    if parts.scenarios:
-        return tuple(name for name, _ in parts.scenarios)
-    return (parts.cost.scenario,) if parts.cost is not None else ()
-
-
 def run_prices(parts: ReportParts) -> tuple[UtilityPrice, ...]:
     """Every price of the scenarios run, moved to the run's cost year."""
     if parts.cost_data is None or parts.cost is None:
         return ()
-    return scenario_prices(parts.cost_data, run_scenarios(parts), parts.cost.cost_year)
+    return scenario_prices(parts.cost_data, parts.scenarios_run, parts.cost.cost_year)
 
 
 def scenario_prices(data, scenarios, year: int | None) -> tuple[UtilityPrice, ...]:
@@ -97,7 +90,7 @@ def power_price_notes(parts: ReportParts) -> tuple[str, ...]:
     prices = run_prices(parts)
     used = {u.utility for u in parts.cost.utilities} if parts.cost is not None else set()
     notes = []
-    for name in run_scenarios(parts):
+    for name in parts.scenarios_run:
         power = next((p for p in prices if p.scenario == name and p.utility == ELECTRICITY), None)
         if power is None or power.set_by is None:
             continue
@@ -135,7 +128,7 @@ def economics_json(parts: ReportParts) -> dict | None:
         "cost_year": parts.cost.cost_year,
         "currency": parts.cost.currency,
         "cost_index": {"name": parts.cost.index_name, "value": parts.cost.cost_index},
-        "scenarios": list(run_scenarios(parts)),
+        "scenarios": list(parts.scenarios_run),
         "prices": [{"scenario": p.scenario, "utility": p.utility, "price": p.price, "unit": p.unit, "year": p.year,
                     "given_price": p.given_price, "given_year": p.given_year,
                     "escalation_factor": p.escalation_factor, "price_index": p.price_index,
@@ -145,4 +138,4 @@ def economics_json(parts: ReportParts) -> dict | None:
 
 
 __all__ = ["economics_json", "far_price_notes", "power_price_notes", "price_notes", "prices_table", "prices_text",
-           "run_prices", "run_scenarios", "scenario_prices"]
+           "run_prices", "scenario_prices"]

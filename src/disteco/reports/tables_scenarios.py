@@ -14,9 +14,8 @@ from dataclasses import dataclass
 from ..optimisation.layout import SEARCH_AGAIN_TOLERANCE
 from ..optimisation.results import DesignEvaluation, OptimumDesign, SequentialPrice
 from ..stages.results import StageProfile
-from .tables import KW, TEXT, Cell, Column, Table, quantity_table, text
+from .tables import KW, MONEY, TEXT, Cell, Column, Table, quantity_table, text
 
-MONEY = "#,##0"
 # what moves a design's reported TAC from the model's: the sizing layer's standard sizes
 ROUNDED_SIZES = "the reported price rounds the diameter and the shell's plate up to standard sizes"
 

@@ -15,7 +15,7 @@ from .notes import console_warnings
 from .tables import KMOL_PER_H
 from .tables_design import GivenDesignReport
 from .text_checks import checks_lines, fraction_text
-from .text_scenarios import scenario_lines
+from .text_scenarios import given_scenario_lines, scenario_lines
 
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
 # relative departure of the stage profile's R/Rmin from its row's factor that the console points out
@@ -284,5 +284,5 @@ def design_text(result: DesignResult) -> str:
                         if optimum.solver.status.startswith("time limit") else
                         f"{rounds} until the model's constants settled" if optimum.settled
                         else f"{rounds} without the model's constants settling (see the warnings)"))
-    lines += scenario_lines(parts)
+    lines += scenario_lines(parts) + (given_scenario_lines(parts.given) if parts.given is not None else [])
     return "\n".join(lines)

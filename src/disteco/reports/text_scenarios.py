@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from .tables_design import ReportParts
+from .tables_design import GivenDesignReport, ReportParts
 from .tables_scenarios import CrossTable, reported
 
 NAME_WIDTH = 24  # characters of a scenario name shown in a console table
@@ -48,4 +48,23 @@ def cross_lines(cross: CrossTable) -> list[str]:
     lines += [f"  {_name(name):<{NAME_WIDTH}}" + "".join(f"{_money(v):>{width}}" for v in row)
               for name, row in zip(cross.scenarios, cross.extra)]
     lines += ["  " + note[0].upper() + note[1:] for note in cross.close_notes()]
+    return lines
+
+
+def given_scenario_lines(given: GivenDesignReport) -> list[str]:
+    """The given design under each scenario's prices beside that scenario's optimum; empty for one scenario."""
+    if not given.scenarios:
+        return []
+    currency = given.scenarios[0].cost.currency
+    lines = ["", f"The given design under each price scenario [{currency}/year]:",
+             f"  {'scenario':<{NAME_WIDTH}}{'utilities':>14}{'TAC':>14}{'optimum R, N, NF':>22}{'optimum TAC':>14}"
+             f"{'given - optimum':>17}"]
+    for under in given.scenarios:
+        row = f"  {_name(under.scenario):<{NAME_WIDTH}}{_money(under.cost.utilities_per_year):>14}" \
+              f"{_money(under.cost.tac_per_year):>14}"
+        if under.extra_tac is not None:
+            best = under.optimum.best
+            row += (f"{f'{best.reflux_ratio:.3f}, {best.stages}, {best.feed_stage}':>22}"
+                    f"{_money(under.cost.tac_per_year - under.extra_tac):>14}{under.extra_tac:>+17,.0f}")
+        lines.append(row)
     return lines

@@ -27,7 +27,7 @@ from .tables_checks import checks_table
 from .tables_costs import (capital_factors_table, capital_sources_table, capital_table, column_table,
                            equipment_table, exchangers_table, provenance_table, tac_breakdown_table, tac_table,
                            utilities_table)
-from .tables_design import ReportParts, design_plots, run_table, summary_table
+from .tables_design import ReportParts, design_plots, given_scenarios_table, run_table, summary_table
 from .tables_prices import prices_table
 from .tables_scenarios import cross_tables, optimum_table, scenario_table, search_table, tac_curve_table
 from .workbook_cells import write_tables
@@ -95,6 +95,8 @@ def _scenario_tables(parts: ReportParts) -> tuple[Table, ...]:
         tables.append(scenario_table(parts.scenarios, parts.scenario_checks))
     if parts.cross is not None:
         tables += cross_tables(parts.cross)
+    if parts.given is not None and parts.given.scenarios:
+        tables.append(given_scenarios_table(parts.given))
     limits = {name: optimum.stage_limit for name, optimum in parts.scenarios}
     tables += [tac_curve_table(designs, name, limits.get(name)) for name, designs in parts.tac_curves if designs]
     return tuple(tables)

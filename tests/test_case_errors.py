@@ -36,6 +36,8 @@ def run_cli(tmp_path, text, capsys, command="check"):
     (("q = 1.0", "q = 1.0\ntemperature = \"90 degC\""), "feed", "2 thermal conditions"),
     (("q = 1.0  ", "# "), "feed", "no thermal condition given (allowed: exactly one of temperature"),
     (("0.985", "1.5"), "products.distillate_light_key_fraction", "not a fraction"),
+    (("q = 1.0", 'q = 1.0\ncomposition_basis = "weight"'), "feed.composition_basis", "'weight' (allowed: mole or mass)"),
+    (("0.58 }", '0.68 }\ncomposition_basis = "mass"'), "feed.composition", "mass fractions sum to 1.1"),
     (('"auto"', '"9 kPa"'), "column.pressure_drop_per_tray", "0 to 5 kPa per real tray"),
     (('pressure_drop_per_tray = "auto"', 'pressure_drop_per_tray = "auto"\npressure_drop_per_stage = "1 kPa"'),
      "column.pressure_drop_per_stage", "given together with pressure_drop_per_tray"),
@@ -137,3 +139,18 @@ def test_pressure_drop_per_tray_auto_value_and_deprecated_name():
     auto = parse_case(data).column
     assert auto.stage_pressure_drop(0.5) == pytest.approx(PRELIMINARY_TRAY_DROP / 0.5)
     assert auto.stage_pressure_drop(0.5, tray_drop=650.0) == pytest.approx(1300.0)
+
+
+def test_check_shows_a_mass_basis_feed_beside_its_mole_fractions(tmp_path, capsys):
+    """The benzene example's feed written as 38 % benzene by mass: `check` shows w as written and z, the
+    mole fractions used. By hand with 78.11 and 92.14 g/mol (from memory: CRC Handbook of Chemistry and
+    Physics): z = (0.38/78.11) / (0.38/78.11 + 0.62/92.14) = 0.4196."""
+    text = BASE.replace("{ benzene = 0.42, toluene = 0.58 }", '{ benzene = 0.38, toluene = 0.62 }\n'
+                        'composition_basis = "mass"')
+    case = tmp_path / "case.toml"
+    case.write_text(text)
+    assert main(["check", str(case)]) == 0
+    out = capsys.readouterr().out
+    (benzene,) = [line.split() for line in out.splitlines() if line.startswith("benzene ")]
+    assert float(benzene[-2]) == pytest.approx(0.4196, abs=2e-4) and benzene[-1] == "0.3800"
+    assert "Feed written as mass fractions w" in out and "w feed [-]" in out

@@ -53,3 +53,26 @@ def test_q_against_hand_calculation_with_thermo_pr_enthalpies(hand, mixture, kin
 def test_saturated_liquid_feed_at_column_pressure_has_q_one(mixture):
     feed = Feed(FeedFlow("molar", 50.0), Z, ThermalCondition("vapour_fraction", 0.0), None)
     assert feed_state(feed, mixture, P_COLUMN).q == pytest.approx(1.0, abs=1e-9)
+
+
+def test_a_feed_written_in_mass_fractions_is_the_same_feed():
+    """The propane/isobutane/n-butane feed above, written as mass fractions w_i = z_i M_i / sum(z_j M_j)
+    and as a mass flow, gives the feed state of the mole-fraction case: the same mole fractions, molar
+    flow and q. By hand with the molar masses 44.10, 58.12 and 58.12 g/mol (from memory: CRC Handbook of
+    Chemistry and Physics), 40 mol % propane is 33.6 % by mass."""
+    from disteco.properties import mole_fractions
+
+    mixture = build_mixture(NAMES, Thermo("peng-robinson"), P_COLUMN)
+    M = mixture.molar_masses
+    mass = [z * m for z, m in zip(Z, M)]
+    w = tuple(x / sum(mass) for x in mass)
+    assert w[0] == pytest.approx(0.40 * 44.10 / (0.40 * 44.10 + 0.60 * 58.12), rel=1e-3)
+    assert w[0] == pytest.approx(0.336, abs=5e-4)
+    molar_flow = 50.0  # mol/s
+    moles = Feed(FeedFlow("molar", molar_flow), Z, ThermalCondition("temperature", 320.0), None)
+    masses = Feed(FeedFlow("mass", molar_flow * sum(mass)), w, ThermalCondition("temperature", 320.0), None, "mass")
+    assert mole_fractions(masses, mixture) == pytest.approx(Z, abs=1e-12)
+    a, b = feed_state(moles, mixture, P_COLUMN), feed_state(masses, mixture, P_COLUMN)
+    assert b.z == pytest.approx(a.z, abs=1e-12)
+    assert b.molar_flow == pytest.approx(molar_flow, rel=1e-12)
+    assert b.q == pytest.approx(a.q, rel=1e-9)

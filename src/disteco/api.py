@@ -17,7 +17,7 @@ from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
 from .costing.prices import apply_prices
-from .properties import Mixture, build_mixture, feed_state, summarise_mixture
+from .properties import Mixture, build_mixture, feed_state, mole_fractions, summarise_mixture
 from .reports.files import ClaimedFolder, claim_folder, write_json
 
 if TYPE_CHECKING:  # the solver interfaces, plotting and the workbook are imported where used (quick `check`)
@@ -123,7 +123,7 @@ def _prepare(case: Case, given: GivenDesign | None, scenarios: tuple[str, ...], 
     mixture = mixture_of(case)
     mixture.clear_warnings()  # the mixture is cached across runs; its notes are this run's
     products = case.products
-    summary = summarise_mixture(mixture, case.feed.composition, case.column.top_pressure,
+    summary = summarise_mixture(mixture, mole_fractions(case.feed, mixture), case.column.top_pressure,
                                 products.light_key, products.heavy_key)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     stages = design_stages(mixture, feed, products, case.column,

@@ -51,9 +51,10 @@ class ThermalCondition:
 @dataclass(frozen=True)
 class Feed:
     flow: FeedFlow
-    composition: tuple[float, ...]  # mole fractions, in component order [-]
+    composition: tuple[float, ...]  # fractions as written, in component order [-], on composition_basis
     condition: ThermalCondition
     pressure: float | None  # Pa; None means the feed-stage pressure
+    composition_basis: str = "mole"  # "mole" or "mass"; properties.feed.mole_fractions gives mole fractions
 
 
 # Least reflux ratio over the energy-balance minimum: a margin for control and for the
@@ -324,7 +325,10 @@ def _components(mixture: dict) -> tuple[str, ...]:
     return tuple(n.strip() for n in names)
 
 
-def _composition(feed: dict, components: tuple[str, ...]) -> tuple[float, ...]:
+COMPOSITION_BASES = ("mole", "mass")
+
+
+def _composition(feed: dict, components: tuple[str, ...], basis: str) -> tuple[float, ...]:
     raw = _get(feed, "composition", (list, dict), "feed.")
     if isinstance(raw, dict):
         unknown = [k for k in raw if k not in components]
@@ -335,20 +339,24 @@ def _composition(feed: dict, components: tuple[str, ...]) -> tuple[float, ...]:
     else:
         if len(raw) != len(components):
             raise CaseError("feed.composition", f"{len(raw)} values for {len(components)} components",
-                            "one mole fraction per component, in the order of mixture.components")
+                            f"one {basis} fraction per component, in the order of mixture.components")
         values = raw
     for name, value in zip(components, values):
         if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0.0 <= value <= 1.0:
-            raise CaseError("feed.composition", f"mole fraction of {name} is {value!r}", "0 to 1")
+            raise CaseError("feed.composition", f"{basis} fraction of {name} is {value!r}", "0 to 1")
     total = float(sum(values))
     if abs(total - 1.0) > COMPOSITION_TOLERANCE:
-        raise CaseError("feed.composition", f"mole fractions sum to {total:.8g}",
+        raise CaseError("feed.composition", f"{basis} fractions sum to {total:.8g}",
                         f"a sum of 1 within {COMPOSITION_TOLERANCE:g}")
     return tuple(float(v) for v in values)
 
 
 def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
-    _only_keys(feed, "feed.", {"flow", "composition", "temperature", "vapour_fraction", "q", "pressure"})
+    _only_keys(feed, "feed.", {"flow", "composition", "composition_basis", "temperature", "vapour_fraction", "q",
+                               "pressure"})
+    basis = _get(feed, "composition_basis", str, "feed.") if "composition_basis" in feed else "mole"
+    if basis not in COMPOSITION_BASES:
+        raise CaseError("feed.composition_basis", repr(basis), " or ".join(COMPOSITION_BASES))
     flow_si, unit = parse_quantity(_get(feed, "flow", QUANTITY, "feed."), "flow", "feed.flow")
     if flow_si <= 0.0:
         raise CaseError("feed.flow", f"{feed['flow']!r} is not positive", "a flow above zero")
@@ -377,8 +385,8 @@ def _feed(feed: dict, components: tuple[str, ...]) -> Feed:
     pressure = None
     if "pressure" in feed:
         pressure = _pressure(feed, "pressure", "feed.")
-    return Feed(FeedFlow(unit.basis, flow_si), _composition(feed, components),
-                ThermalCondition(kind, value), pressure)
+    return Feed(FeedFlow(unit.basis, flow_si), _composition(feed, components, basis),
+                ThermalCondition(kind, value), pressure, basis)
 
 
 def _pressure(table: dict, key: str, prefix: str) -> float:

@@ -30,9 +30,18 @@ class FeedState:
     temperature: float  # K
 
 
+def mole_fractions(feed: Feed, mixture: Mixture) -> tuple[float, ...]:
+    """The feed's mole fractions [-]: as written, or from mass fractions w_i (``feed.composition_basis``
+    "mass") by the components' molar masses M_i, x_i = (w_i / M_i) / sum_j (w_j / M_j)."""
+    if feed.composition_basis == "mole":
+        return feed.composition
+    moles = np.asarray(feed.composition) / mixture.molar_masses
+    return tuple(float(v) for v in moles / moles.sum())
+
+
 def feed_molar_flow(feed: Feed, mixture: Mixture) -> float:
     """Feed molar flow [mol/s] from the flow as written (molar, mass or liquid volume)."""
-    z = np.asarray(feed.composition)
+    z = np.asarray(mole_fractions(feed, mixture))
     if feed.flow.basis == "molar":
         return feed.flow.value
     if feed.flow.basis == "mass":
@@ -54,7 +63,7 @@ def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
     """
     P = pressure
     P_feed = feed.pressure or pressure
-    z = feed.composition
+    z = mole_fractions(feed, mixture)
     bubble = mixture.bubble_point(P, z)
     dew = mixture.dew_point(P, z)
     h_liquid = mixture.liquid_enthalpy(bubble.T, P, z)

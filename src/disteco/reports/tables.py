@@ -210,6 +210,9 @@ def case_table(case: Case) -> Table:
         ("Case file", str(case.source) if case.source else "(not from a file)"),
         ("Component names (as written)", ", ".join(names)),
         ("Thermodynamic method (as asked)", case.thermo.method),
+        ("Feed composition basis (as written)", case.feed.composition_basis),
+        *((f"Feed mass fraction {name} [-] (as written)", w) for name, w in zip(names, case.feed.composition)
+          if case.feed.composition_basis == "mass"),
         ("Top pressure [kPa]", case.column.top_pressure / KPA),
         ("Pressure drop per real tray [kPa]", "auto (sieve-tray hydraulics)"
          if case.column.pressure_drop_per_tray is None else case.column.pressure_drop_per_tray / KPA),

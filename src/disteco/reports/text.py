@@ -48,8 +48,14 @@ def console_title(title: str, limit: int = CONSOLE_TITLE_LENGTH) -> str:
     return line if len(line) <= limit else line[:limit - 3] + "..."
 
 
-def mixture_text(summary: MixtureSummary) -> str:
-    """The mixture report printed by the check command."""
+def _mass_fractions(case) -> tuple[float, ...] | None:
+    """The feed's mass fractions as the case writes them, or None for mole fractions."""
+    return case.feed.composition if case.feed.composition_basis == "mass" else None
+
+
+def mixture_text(summary: MixtureSummary, mass_fractions: tuple[float, ...] | None = None) -> str:
+    """The mixture report printed by the check command; ``mass_fractions``: the feed's as written, where the
+    case gives them (shown beside the mole fractions computed from them)."""
     lines = [f"Thermodynamic method: {summary.method}"]
     if summary.untuned_polar_pairs:
         lines.append(f"Interaction parameters: none given for {', '.join(summary.untuned_polar_pairs)} (kij = 0, "
@@ -63,10 +69,14 @@ def mixture_text(summary: MixtureSummary) -> str:
     lines += [
              f"Top pressure: {summary.pressure / 1e3:.2f} kPa",
              "",
-             f"{'component':<22}{'CAS':>12}{'M [g/mol]':>11}{'Tb [degC]':>11}{'z feed [-]':>12}"]
-    for c in summary.components:
+             f"{'component':<22}{'CAS':>12}{'M [g/mol]':>11}{'Tb [degC]':>11}{'z feed [-]':>12}"
+             + (f"{'w feed [-]':>12}" if mass_fractions else "")]
+    for k, c in enumerate(summary.components):
         lines.append(f"{c.name:<22}{c.cas:>12}{c.molar_mass * 1e3:>11.2f}"
-                     f"{to_degC(c.normal_boiling_point):>11.2f}{c.feed_fraction:>12.4f}")
+                     f"{to_degC(c.normal_boiling_point):>11.2f}{c.feed_fraction:>12.4f}"
+                     + (f"{mass_fractions[k]:>12.4f}" if mass_fractions else ""))
+    if mass_fractions:
+        lines.append("Feed written as mass fractions w; z, the mole fractions used, from them and the molar masses")
     lines += ["",
               f"Feed bubble / dew point at top pressure: {to_degC(summary.feed_bubble_T):.2f} / "
               f"{to_degC(summary.feed_dew_T):.2f} degC",
@@ -110,7 +120,7 @@ def _against_minimum(stages) -> str:
 def check_text(found: CaseCheck) -> str:
     """What `check` found: the mixture report, the minima, and what a design run will use."""
     stages = found.stages
-    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture), "",
+    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture, _mass_fractions(found.case)), "",
              f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   minimum stages: {stages.minimum_stages:.2f} [-] "
              f"({stages.basis})",
              f"Stage profile{' meeting both specifications' if stages.meets_specs else ''}: {stages.profile.stages} "
@@ -180,7 +190,8 @@ def given_lines(given: GivenDesignReport, cost: CostSummary | None) -> list[str]
 
 def result_text(result: DesignResult) -> str:
     """A design run as the command line prints it: case, mixture, design, warnings."""
-    lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture), "", design_text(result)]
+    lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture, _mass_fractions(result.case)),
+             "", design_text(result)]
     shown, more = console_warnings(result.warnings)
     lines += [f"Warning: {w}" for w in shown]
     if more:

@@ -246,7 +246,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         for name in names if compare else ():
             plan.start(f"the optimum under '{name}' to compare with")
             optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), name,
-                                      start=None if before is None else (before.stages, before.feed_stage))
+                                      start=_configuration(before))
             before = optimum.best
             # the optimum an optimising run would report: the control margin held as there
             optimum, _ = hold_margin(case, mixture, feed, data, optimum, optimum.best.reflux_ratio,
@@ -301,8 +301,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         # a later scenario's search descends from the one before's optimum instead of the shortcut's start and
         # line searches: price scenarios move the optimum a few stages at most
         before = runs[-1].searched.best if runs else None
-        optimum = optimise_design(case, mixture, feed, data, options, sizing, name,
-                                  start=None if before is None else (before.stages, before.feed_stage))
+        optimum = optimise_design(case, mixture, feed, data, options, sizing, name, start=_configuration(before))
         plan.finish(optimum.solver.configurations_solved)
         runs.append(checked_run(k, name, optimum))
     cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
@@ -421,6 +420,11 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
     return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
                        cost=sequential.cost if sequential else None, cost_data=data,
                        coefficients=sequential.coefficients if sequential else ())
+
+
+def _configuration(design) -> tuple[int, int] | None:
+    """(stages, feed stage) of a solved ``design``, where a search starts from it; None: no design."""
+    return None if design is None else (design.stages, design.feed_stage)
 
 
 def _given_under_prices(case, mixture, data, sizing, names, parts: ReportParts, optima) -> tuple:

@@ -134,6 +134,10 @@ def test_misspelt_sizing_key_names_the_right_one(tmp_path, capsys):
     ('flood_fraction = "0.8"', "", "sizing.flood_fraction", "expected a number"),
     ('tray_spacing = "3 in"', "", "sizing.tray_spacing", "outside the range of the flooding correlations"),
     ('tray_spacing = "0.6"', "", "sizing.tray_spacing", "a unit is missing"),
+    ("tray_spacing = 0.6", "", "sizing.tray_spacing", 'a unit is missing: 0.6 is a bare number (allowed: text with '
+                                                      'a length unit, e.g. "0.6 m"'),
+    ("min_approach = 5", "", "sizing.min_approach", "a unit is missing: 5 is a bare number"),
+    ("max_height = true", "", "sizing.max_height", "expected a quantity with its unit, as text, got True"),
     ("tray_spacings = []", "", "sizing.tray_spacings", "empty list"),
     ('tray_spacings = ["0.5 m", "50 cm"]', "", "sizing.tray_spacings", "one or more different spacings"),
     ('tray_spacings = ["0.5 m", "2 m"]', "", "sizing.tray_spacings", "outside the range"),

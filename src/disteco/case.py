@@ -260,6 +260,8 @@ _KIND_NAMES = {str: "text", float: "a number", int: "a whole number", list: "a l
 
 
 def _kind_name(kind) -> str:
+    if kind == QUANTITY:
+        return "a quantity with its unit, as text"
     kinds = kind if isinstance(kind, tuple) else (kind,)
     return " or ".join(_KIND_NAMES.get(k, k.__name__) for k in kinds)
 
@@ -600,7 +602,8 @@ def _sizing(table) -> Sizing:
         if key not in table:
             continue
         field_name = "sizing." + key
-        value = _get(table, key, kind, "sizing.")
+        # a bare number where a quantity is asked for is let through, to be told its unit is missing
+        value = _get(table, key, QUANTITY if kind is str and quantity is not None else kind, "sizing.")
         if kind is list:
             if not value:
                 raise CaseError(field_name, "empty list", f"a list of {quantity}s with units, "

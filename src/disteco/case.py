@@ -279,10 +279,23 @@ def _get(table: dict, key: str, kind, prefix: str = "", default=_MISSING):
     if kind is float and isinstance(value, int) and not isinstance(value, bool):
         value = float(value)
     if not isinstance(value, kind) or isinstance(value, bool) and kind is not bool:
-        raise CaseError(f"{prefix}{key}", f"expected {_kind_name(kind)}, got {_shown(value)}")
+        raise CaseError(f"{prefix}{key}", f"expected {_kind_name(kind)}, got {_shown(value)}", _kind_hint(kind, value))
     if kind is float and not math.isfinite(value):
         raise CaseError(f"{prefix}{key}", f"{value!r} is not a finite number", "a finite number")
     return value
+
+
+def _kind_hint(kind, value) -> str | None:
+    """What to write instead, where a common slip is recognised: a number in quotes, one name not in a list."""
+    if kind in (int, float) and isinstance(value, str):
+        try:
+            number = float(value)
+        except ValueError:
+            return None
+        return f"the number without quotes, e.g. {value.strip()}" if math.isfinite(number) else None
+    if kind is list and isinstance(value, str):
+        return f'a list in brackets, e.g. ["{value if len(value) <= 60 else value[:60] + "..."}"]'
+    return None
 
 
 def _shown(value, limit: int = 60) -> str:

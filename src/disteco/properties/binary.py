@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from weakref import WeakKeyDictionary
 
 import numpy as np
 from scipy.optimize import brentq
@@ -149,15 +150,27 @@ def _azeotrope_temperature(mixture: Mixture, pressure: float, first: int, second
     return mixture.own_vapour_temperature(pressure, z, (min(ends) - BRACKET, max(ends) + BRACKET))
 
 
+_FOUND: WeakKeyDictionary = WeakKeyDictionary()  # mixture -> {pressure: azeotropes}
+
+
 def all_azeotropes(mixture: Mixture, pressure: float) -> list[Azeotrope]:
     """Binary azeotropes of every pair of components at ``pressure`` [Pa].
 
     A pair whose liquids have no bubble point at ``pressure`` (hydrogen and methane at 8 bar: the
     hydrogen keeps a vapour at any temperature; hydrogen-rich liquids above its critical pressure)
     forms no azeotrope there and is passed over; the key pair's own liquids are checked elsewhere.
+    Kept per mixture and pressure: the check, the stage design and every fit of the column's
+    temperature range ask at the top pressure (0.1-0.2 s each for a few Peng-Robinson pairs).
     """
     if mixture.method in ("ideal",):
         return []  # Raoult's law cannot form an azeotrope between components of distinct vapour pressure
+    kept = _FOUND.setdefault(mixture, {})
+    if pressure not in kept:
+        kept[pressure] = _azeotropes(mixture, pressure)
+    return list(kept[pressure])
+
+
+def _azeotropes(mixture: Mixture, pressure: float) -> list[Azeotrope]:
     found = []
     for i in range(mixture.size):
         for j in range(i + 1, mixture.size):

@@ -9,7 +9,8 @@ temperature to that range:
 * liquid non-ideality (activity-coefficient methods): NRTL with tau_ij = a_ij + b_ij/T and a
   non-randomness alpha_ij per pair, each pair fitted to the method's binary activity
   coefficients (alpha starts at 0.3 and is kept free where that fits better);
-* Peng-Robinson: ln K_i = a_i + b_i/T + c_i ln(P/Pa), fitted at the feed composition;
+* Peng-Robinson: ln K_i = a_i + b_i/T + c_i ln(P/Pa) + sum_j (d_ij + e_ij/T) x_j, fitted on bubble
+  points of the feed and sampled liquids (:func:`_fit_k`);
 * pure-component liquid and ideal-gas enthalpies (quadratic in T), liquid molar volume and
   surface tension (linear in T), mixed by mole fraction;
 * liquid excess enthalpy (activity-coefficient methods): a Redlich-Kister sum over pairs,
@@ -180,11 +181,14 @@ def column_temperature_range(mixture: Mixture, P_low: float, P_high: float,
     """Temperatures [K] a column between ``P_low`` and ``P_high`` [Pa] can reach, with a margin.
 
     From the lightest component's saturation temperature at the top pressure (or a lower
-    azeotrope) to the heaviest one's at the bottom pressure.
+    azeotrope) to the heaviest one's at the bottom pressure (or a higher azeotrope). A carbon
+    dioxide/ethane column at 20 bar (kij 0.13) runs its top at the azeotrope, 1 K below the
+    carbon dioxide's own saturation temperature and so below the range without it: its model
+    met no specification on any number of stages.
     """
     low = float(mixture.saturation_temperatures(P_low).min())
     high = float(mixture.saturation_temperatures(P_high).max())
-    if mixture.method not in ("ideal", "peng-robinson"):
+    if mixture.method != "ideal":  # Peng-Robinson with a kij forms them too (carbon dioxide/ethane at 20 bar)
         for azeotrope in all_azeotropes(mixture, P_low):
             low = min(low, azeotrope.T)
         for azeotrope in all_azeotropes(mixture, P_high):

@@ -548,3 +548,28 @@ def test_a_height_limit_the_final_spacing_lifts_is_not_reported_as_binding(searc
     tangent = optimum.sequential.sizing.height.tangent_length
     tight = replace(held, sizing_options=replace(held.sizing_options, max_height=tangent + 0.01))
     assert _height_limit_at_final_spacing(tight, spacing + 0.3, 60) is tight  # no room for one stage more
+
+
+def test_a_search_that_finds_nothing_where_thermo_met_the_specifications_says_so(monkeypatch):
+    """Where the model finds no column but thermo's own stage profile of the checks met both specifications,
+    the refusal says that thermo met them, with which column, and that the model departs from thermo (a
+    limit of the tool, not of the specifications); another kind of refusal passes unchanged."""
+    from disteco import api
+    from disteco._base.errors import InfeasibleSpecError
+    from disteco.optimisation import design as searching
+    from disteco.optimisation.first_round import HeightLimitError
+
+    case = api.load_case(CASE)
+    for raised, added in ((InfeasibleSpecError("no column with 3 to 60 stages meets the product specifications"),
+                           True), (HeightLimitError("one shell of 50 m holds 40 stages"), False)):
+        def refused(*args, raised=raised, **kwargs):
+            raise raised
+
+        monkeypatch.setattr(searching, "optimise_design", refused)
+        with pytest.raises(InfeasibleSpecError) as caught:
+            api.design(case)
+        text = str(caught.value)
+        assert text.startswith(str(raised))
+        assert ("yet thermo's own column of the checks meets both specifications with " in text) is added
+        if added:
+            assert "feed on stage" in text and "fitted equilibrium departs from thermo" in text

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import importlib
 import sys
-from contextlib import AbstractContextManager
+from contextlib import AbstractContextManager, contextmanager
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import TYPE_CHECKING
@@ -245,8 +245,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         before = None  # a later scenario's search descends from the one before's optimum, as when optimising
         for name in names if compare else ():
             plan.start(f"the optimum under '{name}' to compare with")
-            optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), name,
-                                      start=_configuration(before))
+            with _thermo_met(stages):
+                optimum = optimise_design(case, mixture, feed, data, options, sizing_options(case), name,
+                                          start=_configuration(before))
             before = optimum.best
             # the optimum an optimising run would report: the control margin held as there
             optimum, _ = hold_margin(case, mixture, feed, data, optimum, optimum.best.reflux_ratio,
@@ -301,7 +302,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         # a later scenario's search descends from the one before's optimum instead of the shortcut's start and
         # line searches: price scenarios move the optimum a few stages at most
         before = runs[-1].searched.best if runs else None
-        optimum = optimise_design(case, mixture, feed, data, options, sizing, name, start=_configuration(before))
+        with _thermo_met(stages):
+            optimum = optimise_design(case, mixture, feed, data, options, sizing, name, start=_configuration(before))
         plan.finish(optimum.solver.configurations_solved)
         runs.append(checked_run(k, name, optimum))
     cross = _cross_table(case, mixture, data, sizing, names, runs, plan)
@@ -420,6 +422,24 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
     return ReportParts(profile=evaluation.profile, sizing=sequential.sizing if sequential else None,
                        cost=sequential.cost if sequential else None, cost_data=data,
                        coefficients=sequential.coefficients if sequential else ())
+
+
+@contextmanager
+def _thermo_met(stages: StageDesign):
+    """A search that found no column meeting the specifications, where thermo's own stage profile of the
+    checks met both, says so: the model's fitted equilibrium departs from thermo there, and the refusal is
+    the tool's limit, not the specification's (a carbon dioxide/ethane column's fitted range once stopped
+    above its top temperature)."""
+    try:
+        yield
+    except InfeasibleSpecError as failure:
+        if type(failure) is not InfeasibleSpecError or not stages.meets_specs:
+            raise
+        p = stages.profile
+        raise InfeasibleSpecError(
+            f"{failure}; yet thermo's own column of the checks meets both specifications with {p.stages} stages, "
+            f"feed on stage {p.feed_stage}, at reflux ratio {p.reflux_ratio:.4g}: the optimisation model's fitted "
+            "equilibrium departs from thermo for this case (a limit of this tool; please report the case)") from None
 
 
 def _configuration(design) -> tuple[int, int] | None:

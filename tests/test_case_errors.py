@@ -159,3 +159,15 @@ def test_check_shows_a_mass_basis_feed_beside_its_mole_fractions(tmp_path, capsy
     (benzene,) = [line.split() for line in out.splitlines() if line.startswith("benzene ")]
     assert float(benzene[-2]) == pytest.approx(0.4196, abs=2e-4) and benzene[-1] == "0.3800"
     assert "Feed written as mass fractions w" in out and "w feed [-]" in out
+
+
+def test_result_json_gives_a_mass_basis_feed_as_written():
+    from disteco.case import Feed, FeedFlow, ThermalCondition
+    from disteco.properties import FeedState
+    from disteco.reports.json_result import feed_json
+
+    state = FeedState(0.05, (0.4196, 0.5804), 115e3, 1.0, -30e3, 370.0, 375.0, 370.0)
+    written = Feed(FeedFlow("mass", 1.0), (0.38, 0.62), ThermalCondition("q", 1.0), None, "mass")
+    assert feed_json(state, written)["mass_fractions_as_written"] == [0.38, 0.62]
+    assert "mass_fractions_as_written" not in feed_json(state, Feed(FeedFlow("molar", 0.05), (0.4196, 0.5804),
+                                                                     ThermalCondition("q", 1.0), None))

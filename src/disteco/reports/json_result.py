@@ -68,14 +68,18 @@ def mixture_json(summary: MixtureSummary) -> dict:
     }
 
 
-def feed_json(feed: FeedState) -> dict:
-    return {
+def feed_json(feed: FeedState, written=None) -> dict:
+    """The feed state; ``written`` (the case's :class:`Feed`) adds mass fractions where the case gave them."""
+    found = {
         "molar_flow_kmol_per_h": feed.molar_flow * KMOL_PER_H,
         "mole_fractions": list(feed.z),
         "pressure_kPa": feed.pressure / 1e3,
         "temperature_degC": to_degC(feed.temperature),
         "q": feed.q,
     }
+    if written is not None and written.composition_basis == "mass":
+        found["mass_fractions_as_written"] = list(written.composition)
+    return found
 
 
 def profile_json(profile: StageProfile) -> dict:
@@ -368,7 +372,7 @@ def result_json(result: DesignResult) -> dict:
                 for d in designs]}
             for name, designs in parts.tac_curves],
         "mixture": mixture_json(result.mixture),
-        "feed": feed_json(result.feed),
+        "feed": feed_json(result.feed, result.case.feed),
         "inputs": inputs_json(result.case),
         "control_margin": margin_json(parts.margin),
         "given_design": given_json(parts.given, parts.cost),

@@ -41,6 +41,8 @@ def run_cli(tmp_path, text, capsys, command="check"):
     (('scenarios = ["reference"]', 'scenarios = "reference"'), "economics.scenarios",
      'expected a list, got \'reference\' (allowed: a list in brackets, e.g. ["reference"])'),
     (("q = 1.0", 'q = "one"'), "feed.q", "expected a number, got 'one'"),
+    (("[products]", '[products]\nfraction_basis = "volume"'), "products.fraction_basis",
+     "'volume' (allowed: mole or mass)"),
     (("q = 1.0", 'q = 1.0\ncomposition_basis = "weight"'), "feed.composition_basis", "'weight' (allowed: mole or mass)"),
     (("0.58 }", '0.68 }\ncomposition_basis = "mass"'), "feed.composition", "mass fractions sum to 1.1"),
     (('"auto"', '"9 kPa"'), "column.pressure_drop_per_tray", "0 to 5 kPa per real tray"),
@@ -171,3 +173,54 @@ def test_result_json_gives_a_mass_basis_feed_as_written():
     assert feed_json(state, written)["mass_fractions_as_written"] == [0.38, 0.62]
     assert "mass_fractions_as_written" not in feed_json(state, Feed(FeedFlow("molar", 0.05), (0.4196, 0.5804),
                                                                      ThermalCondition("q", 1.0), None))
+
+
+def test_product_fractions_by_mass_are_used_as_mole_fractions(tmp_path, capsys):
+    """The benzene example's specifications written by mass (0.985 benzene in the distillate, 0.015 in the
+    bottoms) are the mole fractions 0.98725 and 0.017646 by hand with 78.11 and 92.14 g/mol (from memory:
+    CRC Handbook of Chemistry and Physics); `check` of the mass case finds the minimum reflux of the case
+    written with those mole fractions (the same conversion everywhere), and says what it used."""
+    from dataclasses import replace
+
+    from disteco import api
+    from disteco.case import EndSpec
+
+    mass = tmp_path / "mass.toml"
+    mass.write_text(BASE.replace("[products]", '[products]\nfraction_basis = "mass"'))
+    case = api.load_case(mass)
+    converted = api.on_mole_basis(case).products
+    assert 1.0 - converted.heavy_key_spec.value == pytest.approx(0.98725, abs=2e-5)
+    assert converted.light_key_spec.value == pytest.approx(0.017646, abs=2e-5)
+    assert converted.written == (case.products.light_key_spec, case.products.heavy_key_spec)
+    mole = replace(case, products=replace(case.products, fraction_basis="mole",
+                                          light_key_spec=EndSpec("fraction", converted.light_key_spec.value),
+                                          heavy_key_spec=EndSpec("fraction", converted.heavy_key_spec.value)))
+    assert api.check(case).stages.minimum_reflux == pytest.approx(api.check(mole).stages.minimum_reflux, rel=1e-12)
+    assert main(["check", str(mass)]) == 0
+    out = capsys.readouterr().out
+    assert ("Product specifications written by mass, used as mole fractions: benzene in the bottoms 0.015 -> 0.0176"
+            in out) and "benzene in the distillate 0.985 -> 0.987" in out
+
+
+def test_a_given_design_reaches_mass_specifications_shown_as_written(tmp_path, capsys):
+    """Priced as a given design, the products reached stand beside the mole fraction used and the mass
+    fraction as written, and the workbook's Inputs give both."""
+    from openpyxl import load_workbook
+
+    mass = tmp_path / "mass.toml"
+    mass.write_text(BASE.replace("[products]", '[products]\nfraction_basis = "mass"'))
+    assert main(["design", str(mass), "-o", str(tmp_path / "out"), "-q", "--no-figures", "--no-compare",
+                 "--reflux", "2.2", "--stages", "24", "--feed-stage", "12"]) == 0
+    out = capsys.readouterr().out
+    assert "(specification at most 0.01765; 0.015 by mass as written)" in out
+    assert "(specification at least 0.9873; 0.985 by mass as written)" in out
+    inputs = {r[0]: r[1] for r in load_workbook(tmp_path / "out" / "design.xlsx")["Inputs"].iter_rows(values_only=True)}
+    assert inputs["Light-key specification"] == ("benzene: mole fraction 0.017646 in the bottoms [-] (mass fraction "
+                                                  "0.015 as written)")
+
+
+def test_product_fractions_by_mass_need_two_components(tmp_path, capsys):
+    text = (EXAMPLES / "depentaniser.toml").read_text().replace("[products]", '[products]\nfraction_basis = "mass"')
+    code, err = run_cli(tmp_path, text, capsys)
+    assert code == 2
+    assert "products.fraction_basis: 'mass' with" in err and "give recoveries (the same on either basis)" in err

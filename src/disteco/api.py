@@ -17,7 +17,7 @@ from ._base.prices import PriceSetting, parse_price_option
 from .case import Case, load_case
 from .costing import CostData, check_currency, load_cost_data, resolve_cost_year, resolve_scenarios
 from .costing.prices import apply_prices
-from .properties import Mixture, build_mixture, feed_state, mole_fractions, summarise_mixture
+from .properties import Mixture, build_mixture, feed_state, mole_fractions, products_on_mole_basis, summarise_mixture
 from .reports.files import ClaimedFolder, claim_folder, write_json
 
 if TYPE_CHECKING:  # the solver interfaces, plotting and the workbook are imported where used (quick `check`)
@@ -67,7 +67,15 @@ def check(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, ..
     optimiser options, the stage bound or a given design against the minima on the fitted
     forms. Raises what ``design`` would raise before optimising; returns what it found.
     """
-    return _prepare(case, given, scenarios, options, compare, prices, utility_notes=True).check
+    return _prepare(on_mole_basis(case), given, scenarios, options, compare, prices, utility_notes=True).check
+
+
+def on_mole_basis(case: Case) -> Case:
+    """``case`` with product fractions written by mass turned into the mole fractions every layer works in
+    (the specifications as written kept beside them for the reports); as it is otherwise."""
+    if case.products.fraction_basis == "mole":
+        return case
+    return replace(case, products=products_on_mole_basis(case.products, mixture_of(case)))
 
 
 @dataclass(frozen=True)
@@ -223,6 +231,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
     from .reports.tables_prices import price_notes
     from .sizing.options import sizing_options
 
+    case = on_mole_basis(case)
     prepared = _prepare(case, given, scenarios, options, compare, prices)
     mixture, data, found = prepared.mixture, prepared.data, prepared.check
     names, summary, feed, stages = found.scenarios, found.mixture, found.feed, found.stages

@@ -10,7 +10,7 @@ import difflib
 import math
 import tomllib
 import unicodedata
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from ._base.errors import CaseError
@@ -116,6 +116,8 @@ class Products:
     heavy_key: int
     light_key_spec: EndSpec
     heavy_key_spec: EndSpec
+    fraction_basis: str = "mole"  # of the in-product fractions as written: "mole" or "mass" (two components)
+    written: tuple[EndSpec, EndSpec] | None = None  # the specifications as written, where turned into moles
 
 
 @dataclass(frozen=True)
@@ -467,7 +469,19 @@ def _products(products: dict, components: tuple[str, ...]) -> Products:
     binary_keys = {"distillate_light_key_fraction", "bottoms_light_key_fraction"}
     key_keys = {"light_key", "heavy_key", "light_key_recovery", "light_key_in_bottoms",
                 "heavy_key_recovery", "heavy_key_in_distillate"}
-    _only_keys(products, prefix, binary_keys | key_keys)
+    _only_keys(products, prefix, binary_keys | key_keys | {"fraction_basis"})
+    basis = _get(products, "fraction_basis", str, prefix) if "fraction_basis" in products else "mole"
+    if basis not in COMPOSITION_BASES:
+        raise CaseError(prefix + "fraction_basis", repr(basis), " or ".join(COMPOSITION_BASES))
+    if basis == "mass" and len(components) != 2:
+        raise CaseError(prefix + "fraction_basis", f"'mass' with {len(components)} components",
+                        "mole: a mass fraction in a product of more than two components depends on the others, "
+                        "unknown before the design; give recoveries (the same on either basis) or mole fractions")
+    return replace(_products_on(products, components, prefix, binary_keys, key_keys), fraction_basis=basis)
+
+
+def _products_on(products: dict, components: tuple[str, ...], prefix: str, binary_keys: set, key_keys: set
+                 ) -> Products:
     if binary_keys & products.keys():
         if len(components) != 2:
             raise CaseError(prefix + "distillate_light_key_fraction",

@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from .._base.errors import InfeasibleSpecError
-from ..case import Feed
+from ..case import EndSpec, Feed, Products
 from .mixture import Mixture
 
 STANDARD_T = 288.15  # K; volumetric feed flows are taken as liquid at 15 degC (common practice, no source)
@@ -37,6 +37,26 @@ def mole_fractions(feed: Feed, mixture: Mixture) -> tuple[float, ...]:
         return feed.composition
     moles = np.asarray(feed.composition) / mixture.molar_masses
     return tuple(float(v) for v in moles / moles.sum())
+
+
+def products_on_mole_basis(products: Products, mixture: Mixture) -> Products:
+    """``products`` with in-product fractions written by mass (``fraction_basis`` "mass", two components)
+    as mole fractions, x = (w / M_key) / (w / M_key + (1 - w) / M_other), recoveries as they are; the
+    specifications as written kept in ``written``."""
+    if products.fraction_basis == "mole":
+        return products
+    M = mixture.molar_masses
+
+    def moles(spec: EndSpec, key: int, other: int) -> EndSpec:
+        if spec.kind != "fraction":
+            return spec
+        key_moles, other_moles = spec.value / M[key], (1.0 - spec.value) / M[other]
+        return EndSpec("fraction", float(key_moles / (key_moles + other_moles)))
+
+    light, heavy = products.light_key, products.heavy_key
+    return replace(products, light_key_spec=moles(products.light_key_spec, light, heavy),
+                   heavy_key_spec=moles(products.heavy_key_spec, heavy, light), fraction_basis="mole",
+                   written=(products.light_key_spec, products.heavy_key_spec))
 
 
 def feed_molar_flow(feed: Feed, mixture: Mixture) -> float:

@@ -195,10 +195,11 @@ def quantity_table(title: str, items: list[tuple[str, Cell]]) -> Table:
     return Table(title, (QUANTITY, VALUE), tuple((label, v) for label, v in items))
 
 
-def _end_spec(spec: EndSpec, key: str, product: str) -> str:
+def _end_spec(spec: EndSpec, key: str, product: str, written: EndSpec | None = None) -> str:
     if spec.kind == "recovery":
         return f"{key}: recovery {spec.value:.6g} [-]"
-    return f"{key}: mole fraction {spec.value:.6g} in the {product} [-]"
+    by_mass = f" (mass fraction {written.value:.6g} as written)" if written is not None else ""
+    return f"{key}: mole fraction {spec.value:.6g} in the {product} [-]{by_mass}"
 
 
 def case_table(case: Case) -> Table:
@@ -220,8 +221,10 @@ def case_table(case: Case) -> Table:
         ("Subcooling [K]", case.column.subcooling),
         ("Light key", names[p.light_key]),
         ("Heavy key", names[p.heavy_key]),
-        ("Light-key specification", _end_spec(p.light_key_spec, names[p.light_key], "bottoms")),
-        ("Heavy-key specification", _end_spec(p.heavy_key_spec, names[p.heavy_key], "distillate")),
+        ("Light-key specification", _end_spec(p.light_key_spec, names[p.light_key], "bottoms",
+                                              p.written[0] if p.written else None)),
+        ("Heavy-key specification", _end_spec(p.heavy_key_spec, names[p.heavy_key], "distillate",
+                                              p.written[1] if p.written else None)),
         ("Cost data", str(case.economics.cost_data) if case.economics.cost_data else "bundled"),
         ("Cost year [year]", case.economics.cost_year if case.economics.cost_year is not None else "newest"),
         ("Scenarios named in the case file", ", ".join(case.economics.scenarios) or "none named (reference)"),

@@ -53,6 +53,21 @@ def _mass_fractions(case) -> tuple[float, ...] | None:
     return case.feed.composition if case.feed.composition_basis == "mass" else None
 
 
+def mass_specification_lines(case) -> list[str]:
+    """The product fractions a case writes by mass, as the mole fractions used (two components only)."""
+    p = case.products
+    if p.written is None:
+        return []
+    light = case.components[p.light_key]
+    parts = []
+    if p.light_key_spec.kind == "fraction":
+        parts.append(f"{light} in the bottoms {p.written[0].value:.4g} -> {fraction_text(p.light_key_spec.value, 4)}")
+    if p.heavy_key_spec.kind == "fraction":
+        parts.append(f"{light} in the distillate {1.0 - p.written[1].value:.4g} -> "
+                     f"{fraction_text(1.0 - p.heavy_key_spec.value, 4)}")
+    return [f"Product specifications written by mass, used as mole fractions: {'; '.join(parts)}"] if parts else []
+
+
 def mixture_text(summary: MixtureSummary, mass_fractions: tuple[float, ...] | None = None) -> str:
     """The mixture report printed by the check command; ``mass_fractions``: the feed's as written, where the
     case gives them (shown beside the mole fractions computed from them)."""
@@ -121,6 +136,7 @@ def check_text(found: CaseCheck) -> str:
     """What `check` found: the mixture report, the minima, and what a design run will use."""
     stages = found.stages
     lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture, _mass_fractions(found.case)), "",
+             *mass_specification_lines(found.case),
              f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   minimum stages: {stages.minimum_stages:.2f} [-] "
              f"({stages.basis})",
              f"Stage profile{' meeting both specifications' if stages.meets_specs else ''}: {stages.profile.stages} "
@@ -150,23 +166,28 @@ def products_lines(products: Products, feed: FeedState, profile: StageProfile, n
     light, heavy = products.light_key, products.heavy_key
     x_d, x_b = profile.distillate_composition, profile.bottoms_composition
     reached = []
+    light_mass = heavy_mass = ""
+    if products.written:  # by mass as written; a binary's distillate line gives the light key's fraction
+        light_mass = f"; {products.written[0].value:.4g} by mass as written"
+        written = products.written[1].value
+        heavy_mass = f"; {1.0 - written if len(names) == 2 else written:.4g} by mass as written"
     if products.light_key_spec.kind == "recovery":
         recovery = profile.distillate_flow * x_d[light] / (feed.molar_flow * feed.z[light])
         reached.append(f"{names[light]} recovery to the distillate {fraction_text(recovery, 4)} (specification at least "
                        f"{products.light_key_spec.value:.4g})")
     else:
         reached.append(f"{names[light]} in the bottoms {fraction_text(x_b[light], 4)} (specification at most "
-                       f"{products.light_key_spec.value:.4g})")
+                       f"{products.light_key_spec.value:.4g}{light_mass})")
     if products.heavy_key_spec.kind == "recovery":
         recovery = profile.bottoms_flow * x_b[heavy] / (feed.molar_flow * feed.z[heavy])
         reached.append(f"{names[heavy]} recovery to the bottoms {fraction_text(recovery, 4)} (specification at least "
                        f"{products.heavy_key_spec.value:.4g})")
     elif len(names) == 2:  # a binary's distillate is specified by its light-key fraction
         reached.append(f"{names[light]} in the distillate {fraction_text(x_d[light], 4)} (specification at least "
-                       f"{1.0 - products.heavy_key_spec.value:.4g})")
+                       f"{1.0 - products.heavy_key_spec.value:.4g}{heavy_mass})")
     else:
         reached.append(f"{names[heavy]} in the distillate {fraction_text(x_d[heavy], 4)} (specification at most "
-                       f"{products.heavy_key_spec.value:.4g})")
+                       f"{products.heavy_key_spec.value:.4g}{heavy_mass})")
     return [f"Held: reflux ratio {profile.reflux_ratio:.4g} [-], {profile.stages} stages, feed on stage "
             f"{profile.feed_stage}; the distillate flow ({profile.distillate_flow * KMOL_PER_H:,.2f} kmol/h) is "
             "chosen to meet both specifications at least cost",
@@ -191,7 +212,7 @@ def given_lines(given: GivenDesignReport, cost: CostSummary | None) -> list[str]
 def result_text(result: DesignResult) -> str:
     """A design run as the command line prints it: case, mixture, design, warnings."""
     lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture, _mass_fractions(result.case)),
-             "", design_text(result)]
+             "", *mass_specification_lines(result.case), design_text(result)]
     shown, more = console_warnings(result.warnings)
     lines += [f"Warning: {w}" for w in shown]
     if more:

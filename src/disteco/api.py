@@ -569,4 +569,4 @@ def __getattr__(name: str):
 
 
 __all__ = ["CaseCheck", "DesignResult", "GivenDesign", "OptimumDesign", "PriceSetting", "check", "claim_output", "cost_data_of", "design", "load_case",
-           "mixture_of", "priced_cost_data", "write_results"]
+           "mixture_of", "on_mole_basis", "priced_cost_data", "write_results"]

@@ -224,3 +224,22 @@ def test_product_fractions_by_mass_need_two_components(tmp_path, capsys):
     code, err = run_cli(tmp_path, text, capsys)
     assert code == 2
     assert "products.fraction_basis: 'mass' with" in err and "give recoveries (the same on either basis)" in err
+
+
+def test_mass_fractions_never_reach_the_layers_unconverted(tmp_path):
+    """A case with product fractions by mass, handed to the stages layer or the optimisation without
+    api.on_mole_basis, is stopped there instead of being read as mole fractions."""
+    from disteco import api
+    from disteco.optimisation.options import model_options
+    from disteco.optimisation.problem import resolved_problem
+    from disteco.properties import feed_state
+    from disteco.stages.splits import check_end_specs
+
+    mass = tmp_path / "mass.toml"
+    mass.write_text(BASE.replace("[products]", '[products]\nfraction_basis = "mass"'))
+    case = api.load_case(mass)
+    with pytest.raises(ValueError, match="api.on_mole_basis"):
+        check_end_specs(case.products, case.feed.composition)
+    mixture = api.mixture_of(case)
+    with pytest.raises(ValueError, match="api.on_mole_basis"):
+        resolved_problem(case, mixture, feed_state(case.feed, mixture, case.column.top_pressure), model_options(None))

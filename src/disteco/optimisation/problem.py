@@ -49,6 +49,9 @@ def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages
     figure (per-tray drop over a preliminary efficiency, see :meth:`disteco.case.Column.stage_pressure_drop`).
     """
     column = case.column
+    if case.products.fraction_basis != "mole":  # every layer works in mole fractions
+        raise ValueError("product fractions written by mass reached the optimisation: turn them into mole "
+                         "fractions first (api.on_mole_basis)")
     drop = column.pressure_drop_per_stage if stage_pressure_drop is None else stage_pressure_drop
     P_top = column.top_pressure
     P_bottom = P_top + max_stages * drop

@@ -58,6 +58,9 @@ def _spec_field(products: Products, end: str) -> str:
 
 def check_end_specs(products: Products, z) -> None:
     """Raise when an end specification is no fraction, or a binary purity contradicts the feed."""
+    if getattr(products, "fraction_basis", "mole") != "mole":  # every layer works in mole fractions
+        raise ValueError("product fractions written by mass reached the stages layer: turn them into mole "
+                         "fractions first (api.on_mole_basis)")
     for end, spec in (("light", products.light_key_spec), ("heavy", products.heavy_key_spec)):
         if spec.kind not in ("recovery", "fraction"):
             raise CaseError(_spec_field(products, end), f"unknown kind {spec.kind!r}", "recovery or fraction")

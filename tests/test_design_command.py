@@ -572,4 +572,4 @@ def test_a_search_that_finds_nothing_where_thermo_met_the_specifications_says_so
         assert text.startswith(str(raised))
         assert ("yet thermo's own column of the checks meets both specifications with " in text) is added
         if added:
-            assert "feed on stage" in text and "fitted equilibrium departs from thermo" in text
+            assert "feed on stage" in text and "fitted equilibrium is not what thermo gives" in text

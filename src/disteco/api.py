@@ -436,7 +436,7 @@ def _evaluation_parts(evaluation: DesignEvaluation, data: CostData) -> ReportPar
 @contextmanager
 def _thermo_met(stages: StageDesign):
     """A search that found no column meeting the specifications, where thermo's own stage profile of the
-    checks met both, says so: the model's fitted equilibrium departs from thermo there, and the refusal is
+    checks met both, says so: the model's fitted equilibrium is not thermo's there, and the refusal is
     the tool's limit, not the specification's (a carbon dioxide/ethane column's fitted range once stopped
     above its top temperature)."""
     try:
@@ -448,7 +448,7 @@ def _thermo_met(stages: StageDesign):
         raise InfeasibleSpecError(
             f"{failure}; yet thermo's own column of the checks meets both specifications with {p.stages} stages, "
             f"feed on stage {p.feed_stage}, at reflux ratio {p.reflux_ratio:.4g}: the optimisation model's fitted "
-            "equilibrium departs from thermo for this case (a limit of this tool; please report the case)") from None
+            "equilibrium is not what thermo gives for this case (a limit of this tool; please report the case)") from None
 
 
 def _configuration(design) -> tuple[int, int] | None:

@@ -448,7 +448,8 @@ def _thermo_met(stages: StageDesign):
         raise InfeasibleSpecError(
             f"{failure}; yet thermo's own column of the checks meets both specifications with {p.stages} stages, "
             f"feed on stage {p.feed_stage}, at reflux ratio {p.reflux_ratio:.4g}: the optimisation model's fitted "
-            "equilibrium is not what thermo gives for this case (a limit of this tool; please report the case)") from None
+            "equilibrium is not what thermo gives for this case (a limit of this tool; please report the case)"
+        ) from None
 
 
 def _configuration(design) -> tuple[int, int] | None:

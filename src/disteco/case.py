@@ -119,6 +119,14 @@ class Products:
     written: tuple[EndSpec, EndSpec] | None = None  # the specifications as written, where turned into moles
 
 
+def require_mole_basis(products, layer: str) -> None:
+    """Stop product fractions written by mass that reach ``layer`` unconverted: every layer works in mole
+    fractions (``api.on_mole_basis`` turns them, with the molar masses only the properties layer knows)."""
+    if getattr(products, "fraction_basis", "mole") != "mole":
+        raise ValueError(f"product fractions written by mass reached {layer}: turn them into mole fractions "
+                         "first (api.on_mole_basis)")
+
+
 @dataclass(frozen=True)
 class Thermo:
     """Thermodynamic method and user-supplied interaction parameters."""
@@ -532,5 +540,5 @@ def _sizing(table) -> Sizing:
     return Sizing(tuple(given))
 
 
-__all__ = ["Case", "Column", "Economics", "EndSpec", "Feed", "FeedFlow", "Products",
+__all__ = ["Case", "Column", "Economics", "EndSpec", "Feed", "FeedFlow", "Products", "require_mole_basis",
            "Sizing", "SIZING_KEYS", "ThermalCondition", "Thermo", "load_case", "parse_case", "ATMOSPHERE", "METHODS"]

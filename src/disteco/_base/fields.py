@@ -38,7 +38,7 @@ def table(data: dict, name: str, prefix: str = "") -> dict:
 
 MISSING = object()
 KIND_NAMES = {str: "text", float: "a number", int: "a whole number", list: "a list", dict: "a table",
-               bool: "true or false"}
+              bool: "true or false"}
 
 
 def kind_name(kind) -> str:
@@ -115,13 +115,13 @@ def matrix(table: dict, key: str, n: int, prefix: str, zero_diagonal: bool = Tru
             or any(not isinstance(row, list) or len(row) != n for row in value)
             or any(isinstance(x, bool) or not isinstance(x, (int, float)) for row in value for x in row)):
         raise CaseError(prefix + key, f"not a {n} x {n} matrix of numbers", f"a {n} x {n} list of lists")
-    matrix = tuple(tuple(float(x) for x in row) for row in value)
-    if not all(math.isfinite(x) for row in matrix for x in row):
+    rows = tuple(tuple(float(x) for x in row) for row in value)
+    if not all(math.isfinite(x) for row in rows for x in row):
         raise CaseError(prefix + key, "holds a value that is not a finite number", "finite numbers")
-    if zero_diagonal and any(matrix[i][i] != 0.0 for i in range(n)):
+    if zero_diagonal and any(rows[i][i] != 0.0 for i in range(n)):
         raise CaseError(prefix + key, "a diagonal entry is not zero",
                         "0 on the diagonal: a component does not interact with itself")
-    return matrix
+    return rows
 
 
 __all__ = ["KIND_NAMES", "MISSING", "QUANTITY", "fraction", "get", "key_name", "kind_hint", "kind_name", "matrix",

@@ -11,7 +11,7 @@ import math
 import numpy as np
 
 from .._base.errors import ConvergenceError, InfeasibleSpecError, PropertyError
-from ..case import Case
+from ..case import Case, require_mole_basis
 from ..properties import FeedState, Mixture
 from ..properties.fitted import fit_mixture
 from ..stages import StageProfile, design_stages
@@ -49,9 +49,7 @@ def separation_problem(case: Case, mixture: Mixture, feed: FeedState, max_stages
     figure (per-tray drop over a preliminary efficiency, see :meth:`disteco.case.Column.stage_pressure_drop`).
     """
     column = case.column
-    if case.products.fraction_basis != "mole":  # every layer works in mole fractions
-        raise ValueError("product fractions written by mass reached the optimisation: turn them into mole "
-                         "fractions first (api.on_mole_basis)")
+    require_mole_basis(case.products, "the optimisation")
     drop = column.pressure_drop_per_stage if stage_pressure_drop is None else stage_pressure_drop
     P_top = column.top_pressure
     P_bottom = P_top + max_stages * drop

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from .. import __version__
 from .._base.units import to_degC
+from ..case import Feed
 from ..costing import CostSummary
 from ..costing.from_sizing import swaged
 from ..optimisation.results import DesignEvaluation, LayoutChoice, OptimumDesign, SequentialPrice, SolverReport
@@ -68,7 +69,7 @@ def mixture_json(summary: MixtureSummary) -> dict:
     }
 
 
-def feed_json(feed: FeedState, written=None) -> dict:
+def feed_json(feed: FeedState, written: Feed | None = None) -> dict:
     """The feed state; ``written`` (the case's :class:`Feed`) adds mass fractions where the case gave them."""
     found = {
         "molar_flow_kmol_per_h": feed.molar_flow * KMOL_PER_H,

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .._base.errors import CaseError, InfeasibleSpecError
-from ..case import EndSpec, Products
+from ..case import EndSpec, Products, require_mole_basis
 from .correlations import fenske_distribution, fenske_minimum_stages
 
 MAX_ITERATIONS = 200
@@ -58,9 +58,7 @@ def _spec_field(products: Products, end: str) -> str:
 
 def check_end_specs(products: Products, z) -> None:
     """Raise when an end specification is no fraction, or a binary purity contradicts the feed."""
-    if getattr(products, "fraction_basis", "mole") != "mole":  # every layer works in mole fractions
-        raise ValueError("product fractions written by mass reached the stages layer: turn them into mole "
-                         "fractions first (api.on_mole_basis)")
+    require_mole_basis(products, "the stages layer")
     for end, spec in (("light", products.light_key_spec), ("heavy", products.heavy_key_spec)):
         if spec.kind not in ("recovery", "fraction"):
             raise CaseError(_spec_field(products, end), f"unknown kind {spec.kind!r}", "recovery or fraction")

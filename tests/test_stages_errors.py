@@ -18,7 +18,8 @@ COLUMN = Column(P_ATM, 0.0, "total", 0.0)
 
 
 def binary(x_distillate, x_bottoms):
-    return Products(0, 1, EndSpec("fraction", x_bottoms), EndSpec("fraction", 1.0 - x_distillate))
+    return Products(0, 1, EndSpec("fraction", x_bottoms), EndSpec("fraction", 1.0 - x_distillate),
+                    binary_fractions=True)
 
 
 def feed_of(mixture, z, q=1.0):
@@ -31,13 +32,19 @@ def bt_feed(benzene_toluene):
 
 
 def test_distillate_purity_at_or_below_feed(benzene_toluene, bt_feed):
+    """The message names the field as the case wrote it: the binary fraction, or the key form's."""
     for x_d in (0.45, 0.40):
-        with pytest.raises(InfeasibleSpecError, match="distillate light-key mole fraction .* at or below the feed"):
+        with pytest.raises(InfeasibleSpecError, match="^products.distillate_light_key_fraction: distillate "
+                           "light-key mole fraction .* at or below the feed"):
             shortcut_design(benzene_toluene, bt_feed, binary(x_d, 0.05), COLUMN)
+    key_form = dataclasses.replace(binary(0.40, 0.05), binary_fractions=False)
+    with pytest.raises(InfeasibleSpecError, match="^products.heavy_key_in_distillate: distillate light-key"):
+        shortcut_design(benzene_toluene, bt_feed, key_form, COLUMN)
 
 
 def test_bottoms_above_feed(benzene_toluene, bt_feed):
-    with pytest.raises(InfeasibleSpecError, match="bottoms light-key mole fraction .* at or above the feed"):
+    with pytest.raises(InfeasibleSpecError, match="^products.bottoms_light_key_fraction: bottoms light-key mole "
+                       "fraction .* at or above the feed"):
         shortcut_design(benzene_toluene, bt_feed, binary(0.95, 0.50), COLUMN)
 
 

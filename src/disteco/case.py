@@ -117,6 +117,7 @@ class Products:
     heavy_key_spec: EndSpec
     fraction_basis: str = "mole"  # of the in-product fractions as written: "mole" or "mass" (two components)
     written: tuple[EndSpec, EndSpec] | None = None  # the specifications as written, where turned into moles
+    binary_fractions: bool = False  # written as distillate_/bottoms_light_key_fraction (messages name those)
 
 
 def require_mole_basis(products, layer: str) -> None:
@@ -411,7 +412,8 @@ def _products_on(products: dict, components: tuple[str, ...], prefix: str, binar
             raise CaseError(prefix + "heavy_key", "same component as the light key", "the other component")
         x_d = _fraction(products, "distillate_light_key_fraction", prefix)
         x_b = _fraction(products, "bottoms_light_key_fraction", prefix)
-        return Products(light, heavy, EndSpec("fraction", x_b), EndSpec("fraction", 1.0 - x_d))
+        return Products(light, heavy, EndSpec("fraction", x_b), EndSpec("fraction", 1.0 - x_d),
+                        binary_fractions=True)
     light = _component_index(products, "light_key", components)
     heavy = _component_index(products, "heavy_key", components)
     if light == heavy:

@@ -51,6 +51,8 @@ class ProductSplit:
 
 def _spec_field(products: Products, end: str) -> str:
     spec = products.light_key_spec if end == "light" else products.heavy_key_spec
+    if products.binary_fractions:
+        return "products.bottoms_light_key_fraction" if end == "light" else "products.distillate_light_key_fraction"
     if spec.kind == "recovery":
         return f"products.{end}_key_recovery"
     return "products.light_key_in_bottoms" if end == "light" else "products.heavy_key_in_distillate"
@@ -74,12 +76,12 @@ def check_end_specs(products: Products, z) -> None:
         x_bottoms = products.light_key_spec.value
         if x_distillate <= z_light:
             raise InfeasibleSpecError(
-                f"distillate light-key mole fraction {x_distillate:.6g} is at or below the feed's "
-                f"{z_light:.6g}: the distillate must be richer in the light key than the feed")
+                f"{_spec_field(products, 'heavy')}: distillate light-key mole fraction {x_distillate:.6g} is at "
+                f"or below the feed's {z_light:.6g}: the distillate must be richer in the light key than the feed")
         if x_bottoms >= z_light:
             raise InfeasibleSpecError(
-                f"bottoms light-key mole fraction {x_bottoms:.6g} is at or above the feed's {z_light:.6g}: "
-                "the bottoms must be leaner in the light key than the feed")
+                f"{_spec_field(products, 'light')}: bottoms light-key mole fraction {x_bottoms:.6g} is at or "
+                f"above the feed's {z_light:.6g}: the bottoms must be leaner in the light key than the feed")
 
 
 def _key_equation(spec: EndSpec, end: str, f: np.ndarray, light: int, heavy: int,

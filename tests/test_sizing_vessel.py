@@ -140,6 +140,12 @@ def test_height_sums_parts_and_warns():
     assert height.overall == pytest.approx(height.tangent_length + 3.0)
     assert len(height.warnings) == 2
     assert "tangent height" in height.warnings[0] and "height-to-diameter" in height.warnings[1]
+    assert "consider two shells" in height.warnings[0]
+    # one of two shells in series names itself and cannot be advised to become two shells
+    upper = column_height(40, 0.6, 1.0, 0.002, 300.0, 1.2, 1.0, 3.0, 20.0, 15.0, "upper shell")
+    assert upper.warnings[0].startswith("upper shell tangent height 27.0 m exceeds 20 m")
+    assert "two shells in series are the most disteco builds" in upper.warnings[0]
+    assert upper.warnings[1].startswith("upper shell height-to-diameter ratio 27 exceeds 15")
 
 
 # ---------------------------------------------------------------- external pressure

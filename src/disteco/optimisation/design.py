@@ -459,14 +459,25 @@ def _given_shells(reference, mixture: Mixture, data: CostData, sizing: SizingOpt
 
     An optimum keeps the height limit inside its search (:func:`optimise_design`); a given
     design's stages are fixed, so the layout an estimator would build is priced instead of a
-    shell nobody would erect, and a note says so.
+    shell nobody would erect, and a note says so. Where no candidate spacing brings two shells
+    within the limit either, the spacing of the lowest shells is taken (two shells are the most
+    disteco builds), and the note says how far above the limit they stay.
     """
     if sizing.shells != 1:
         return sizing, ()
     tall = size_reference(mixture, data, reference, sizing).tallest_shell.tangent_length
     if tall <= sizing.max_height:
         return sizing, ()
-    return replace(sizing, shells=2), (
-        f"the given {stages} stages need one shell of {tall:.1f} m at {sizing.tray_spacing:.2f} m tray spacing, "
-        f"above the {sizing.max_height:g} m limit (sizing.max_height): the column is laid out and costed as two "
-        "shells in series",)
+    two = replace(sizing, shells=2)
+    note = (f"the given {stages} stages need one shell of {tall:.1f} m at {sizing.tray_spacing:.2f} m tray "
+            f"spacing, above the {sizing.max_height:g} m limit (sizing.max_height): the column is laid out and "
+            "costed as two shells in series")
+    heights = {spacing: size_reference(mixture, data, reference, replace(two, tray_spacing=spacing)
+                                       ).tallest_shell.tangent_length for spacing in two.spacing_candidates}
+    lowest = min(heights, key=heights.get)
+    if heights[lowest] <= sizing.max_height:
+        return two, (note,)  # the final spacing choice takes the cheapest spacing that fits
+    return replace(two, tray_spacing=lowest), (
+        f"{note}; even two shells are {heights[lowest]:.1f} m tall at the closest tray spacing of the candidates "
+        f"({lowest:.2f} m, taken), above the limit: two shells are the most disteco builds, so they are costed at "
+        "that height; packing, a third shell or fewer stages at a higher reflux would bring the column within it",)

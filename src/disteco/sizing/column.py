@@ -268,9 +268,10 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
                         "only")
 
     def shell(trays_in: int, sump_flow: float, first: int, last: int) -> tuple[ColumnHeight, VesselDesign]:
+        name = "" if len(counts) == 1 else "upper shell" if first == 0 else "lower shell"
         height = column_height(trays_in, options.tray_spacing, diameter, sump_flow, options.sump_residence_time,
                                options.top_space, options.bottom_space, options.skirt_height, options.max_height,
-                               options.max_height_to_diameter)
+                               options.max_height_to_diameter, name)
         warnings.extend(height.warnings)
         P, T = profile.P[first:last], profile.T[first:last]
         vessel = design_vessel(diameter, height.tangent_length, max(P), max(T), options.shell_material,

@@ -375,11 +375,13 @@ def least_diameter(tray_section: float, top_space: float, bottom_space: float, s
 
 def column_height(real_trays: int, tray_spacing: float, diameter: float, sump_liquid_flow: float,
                   residence_time: float, top_space: float, bottom_space: float, skirt: float,
-                  max_height: float, max_height_to_diameter: float) -> ColumnHeight:
+                  max_height: float, max_height_to_diameter: float, shell_name: str = "") -> ColumnHeight:
     """Tangent and overall height; warnings when common-practice limits are passed.
 
     ``sump_liquid_flow`` [m^3/s] is the liquid leaving the bottom tray to the reboiler;
     ``residence_time`` [s] of it is held in the sump of the column's cross-section.
+    ``shell_name`` names one of two shells in series ("upper shell", "lower shell"), whose
+    warnings cannot advise the two shells they already are; empty for a column of one shell.
     """
     tray_section = real_trays * tray_spacing
     sump = sump_liquid_flow * residence_time / (math.pi * diameter ** 2 / 4.0)
@@ -387,10 +389,12 @@ def column_height(real_trays: int, tray_spacing: float, diameter: float, sump_li
     ratio = tangent / diameter
     warnings = []
     if tangent > max_height:
-        warnings.append(f"column tangent height {tangent:.1f} m exceeds {max_height:.0f} m "
-                        "(common practice, no source): consider two shells or packing")
+        advice = ("two shells in series are the most disteco builds: consider packing, a third shell, or fewer "
+                  "stages at a higher reflux" if shell_name else "consider two shells or packing")
+        warnings.append(f"{shell_name or 'column'} tangent height {tangent:.1f} m exceeds {max_height:.0f} m "
+                        f"(common practice, no source): {advice}")
     if ratio > max_height_to_diameter:
-        warnings.append(f"height-to-diameter ratio {ratio:.0f} exceeds {max_height_to_diameter:.0f} "
+        warnings.append(f"{shell_name + ' ' if shell_name else ''}height-to-diameter ratio {ratio:.0f} exceeds {max_height_to_diameter:.0f} "
                         "(common practice, no source): wind and seismic loads may govern the shell")
     return ColumnHeight(real_trays, tray_spacing, tray_section, top_space, sump, bottom_space, tangent,
                         skirt, tangent + skirt, ratio, tuple(warnings))

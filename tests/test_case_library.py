@@ -150,3 +150,20 @@ def test_cost_curve_ranges_are_noted_once(verified):
     if name == "methanol_water":
         assert any(" cost curve at " in w and "reflux pump" in w for w in optimum.best.warnings)
         assert any("reflux pump: extrapolated" in w for w in optimum.sequential.cost.warnings)
+
+
+def test_shell_limits_never_read_as_a_saving(verified):
+    """The limits' cost is the chosen design against the same designs priced as one shell without limits, so
+    it cannot be negative; where a swaged shell is chosen (the deethaniser), the comparison is made after
+    the swage, at its spacing (it read -12,076 USD a year: the swaged shell at its own spacing against
+    the one-diameter shell at the searched spacing), and the sections line gives both diameters and
+    spacings."""
+    name, *_, optimum, _, _ = verified
+    layout = optimum.layout
+    assert layout.limit_cost is None or layout.limit_cost >= -0.5, name
+    if layout.sections.endswith("swaged chosen"):
+        sized = optimum.sequential.sizing
+        assert (f"swaged shell ({sized.rectifying_diameter:.2f} and {sized.stripping_diameter:.2f} m at "
+                f"{sized.height.tray_spacing:.2f} m tray spacing)") in layout.sections
+    if name == "deethaniser_partial":
+        assert layout.sections.endswith("swaged chosen")

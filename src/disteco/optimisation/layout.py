@@ -126,7 +126,9 @@ def swaged_design(optimum: OptimumDesign, mixture, data, scenario, cost_year) ->
     options = replace(options, tray_spacing=best_spacing(prices, options.tray_spacing))
     swaged, cost = price_profile(optimum.best.profile, mixture, data, options, scenario, cost_year)
     plain = optimum.sequential.cost.tac_per_year
-    verdict = f"swaged shell TAC {cost.tac_per_year:,.0f} against {plain:,.0f} with one diameter"
+    verdict = (f"swaged shell ({swaged.rectifying_diameter:.2f} and {swaged.stripping_diameter:.2f} m at "
+               f"{options.tray_spacing:.2f} m tray spacing) TAC {cost.tac_per_year:,.0f} against {plain:,.0f} with "
+               f"one diameter ({sized.diameter:.2f} m at {sized.height.tray_spacing:.2f} m)")
     if cost.tac_per_year >= plain:
         return optimum, f"{words}: {verdict}, one diameter kept"
     sequential = replace(optimum.sequential, sizing=swaged, cost=cost, model_check=None)

@@ -394,7 +394,8 @@ def column_height(real_trays: int, tray_spacing: float, diameter: float, sump_li
         warnings.append(f"{shell_name or 'column'} tangent height {tangent:.1f} m exceeds {max_height:.0f} m "
                         f"(common practice, no source): {advice}")
     if ratio > max_height_to_diameter:
-        warnings.append(f"{shell_name + ' ' if shell_name else ''}height-to-diameter ratio {ratio:.0f} exceeds {max_height_to_diameter:.0f} "
+        named = f"{shell_name} " if shell_name else ""
+        warnings.append(f"{named}height-to-diameter ratio {ratio:.0f} exceeds {max_height_to_diameter:.0f} "
                         "(common practice, no source): wind and seismic loads may govern the shell")
     return ColumnHeight(real_trays, tray_spacing, tray_section, top_space, sump, bottom_space, tangent,
                         skirt, tangent + skirt, ratio, tuple(warnings))

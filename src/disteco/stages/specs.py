@@ -99,8 +99,8 @@ def balance_distillate(products: Products, feed: FeedState) -> float | None:
     return feed.molar_flow * (feed.z[products.light_key] - x_b) / (x_d - x_b)
 
 
-def _least_reflux_at(run, predicted, log_r: float, distillate: float, start: StageProfile | None, max_step: float,
-                     resolution: float, stages: int, feed_stage: int) -> StageProfile:
+def _least_reflux_at(run, predicted, in_time, log_r: float, distillate: float, start: StageProfile | None,
+                     max_step: float, resolution: float, stages: int, feed_stage: int) -> StageProfile:
     """The profile at the least reflux meeting both specifications with the distillate held at
     :func:`balance_distillate`: one unknown, ln R, bracketed and then narrowed by false position.
 
@@ -111,11 +111,14 @@ def _least_reflux_at(run, predicted, log_r: float, distillate: float, start: Sta
     cut off at 100 s). Steps before a bracket are at most ``max_step`` in ln R; a column whose solve
     fails counts as missing (below a pinch). Each trial starts from ``predicted(profile, ln R, trial)``,
     the last solved column extrapolated to the trial's reflux. The search ends on |residual| <
-    TOLERANCE, or with the meeting end once the bracket is narrower than ``resolution``.
+    TOLERANCE, or with the meeting end once the bracket is narrower than ``resolution``; ``in_time()``
+    raises once the time limit has passed.
     """
-    meets = misses = last = None  # (ln R, residual sum) of the least reflux meeting both, the most missing
+    meets = misses = None  # (ln R, residual sum) of the least reflux meeting both, of the most missing
+    last = None  # (ln R, profile) of the last column solved
     best, trial, moved = None, log_r, []
     for _ in range(2 * MAX_ITERATIONS):
+        in_time()  # outside the try below: the time limit is not a trial that missed
         guess = start if last is None else predicted(last[1], last[0], trial)
         try:
             profile, r = run(trial, distillate, guess)
@@ -217,7 +220,7 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
                 return profile
             return PredictedStart(profile, ((moved, (new_log_r - log_r) / DIFFERENCE),))
 
-        return _least_reflux_at(run, predicted, math.log(reflux), held, start, max_log_reflux_step,
+        return _least_reflux_at(run, predicted, in_time, math.log(reflux), held, start, max_log_reflux_step,
                                 reflux_resolution, stages, feed_stage)
     u = np.array([math.log(reflux), start.distillate_flow if start is not None else design.distillate_flow])
     profile, r = run(u[0], u[1], start)

@@ -76,3 +76,37 @@ def test_a_feed_written_in_mass_fractions_is_the_same_feed():
     assert b.z == pytest.approx(a.z, abs=1e-12)
     assert b.molar_flow == pytest.approx(molar_flow, rel=1e-12)
     assert b.q == pytest.approx(a.q, rel=1e-9)
+
+
+def test_a_subcooled_feed_given_by_q_has_its_own_temperature(benzene_toluene):
+    """Geankoplis, Transport Processes and Separation Process Principles, 4th ed., Example 11.4-1 (from
+    memory): benzene-toluene, x_F = 0.45, fed at 54.4 degC to a column at 1 atm where it boils at
+    93.5 degC: q = 1.195 (his constant heat capacity 159 kJ/kmol K and latent heat 32,099 kJ/kmol).
+    On thermo's enthalpies the two directions agree with his within 1 K and 0.01."""
+    def state(condition):
+        return feed_state(Feed(FeedFlow("molar", 1.0), (0.45, 0.55), condition, None), benzene_toluene, 101325.0)
+
+    given_q = state(ThermalCondition("q", 1.195))
+    assert given_q.bubble_T - 273.15 == pytest.approx(93.5, abs=0.3)
+    assert given_q.temperature - 273.15 == pytest.approx(54.4, abs=1.0)
+    assert state(ThermalCondition("temperature", 54.4 + 273.15)).q == pytest.approx(1.195, abs=0.01)
+
+
+def test_a_q_colder_than_the_feed_can_be_is_refused(benzene_toluene):
+    """q = 5 asked for a benzene-toluene liquid about 800 K below its bubble point; it was designed as
+    given. Refused naming feed.q, where the liquid would freeze (benzene's liquidus) and the largest q
+    this feed allows, which itself is accepted."""
+    from disteco._base.errors import CaseError
+
+    def state(q):
+        return feed_state(Feed(FeedFlow("molar", 1.0), (0.42, 0.58), ThermalCondition("q", q), None),
+                          benzene_toluene, 115000.0)
+
+    with pytest.raises(CaseError) as refused:
+        state(5.0)
+    text = str(refused.value)
+    assert text.startswith("feed.q: q = 5 asks for a liquid feed colder than its freezing point (benzene freezes")
+    largest = float(text.split("q up to ")[1].split(" ")[0])
+    assert 1.4 < largest < 1.9
+    coldest = state(largest - 0.005)
+    assert coldest.temperature < 273.15 - 30.0

@@ -5,8 +5,9 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 import numpy as np
+from scipy.optimize import brentq
 
-from .._base.errors import InfeasibleSpecError
+from .._base.errors import CaseError, InfeasibleSpecError
 from ..case import EndSpec, Feed, Products
 from .mixture import Mixture
 
@@ -94,6 +95,8 @@ def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
         q = condition.value
         h_feed = h_vapour - q * latent
         T = _temperature_of(q, bubble.T, dew.T)
+        if q > 1.0:
+            T = _subcooled_temperature(mixture, P, z, q, h_feed, h_vapour, latent, bubble.T)
     elif condition.kind == "vapour_fraction":
         point = mixture.flash_pvf(P_feed, condition.value, z)
         T = point.T
@@ -126,8 +129,33 @@ def _two_phase_enthalpy(mixture: Mixture, point) -> float:
         + vf * mixture.vapour_enthalpy(point.T, point.P, point.y)
 
 
+SUBCOOLING_FLOOR = 0.5  # of the bubble point [K], the coldest liquid feed where the databank has no melting data
+
+
+def _subcooled_temperature(mixture: Mixture, P: float, z, q: float, h_feed: float, h_vapour: float,
+                           latent: float, bubble_T: float) -> float:
+    """The liquid temperature [K] whose enthalpy a q above 1 gives, H_L(T) = H_dew - q (H_dew - H_bubble).
+
+    Raises :class:`CaseError` (``feed.q``) where that liquid would be colder than where the feed
+    starts to freeze (the liquidus of ``solid_liquid``), or, without melting data, than half its
+    bubble point in kelvin: q = 5 for benzene-toluene asked for a liquid about 800 K below its
+    bubble point, below absolute zero, and was designed as given.
+    """
+    frozen = mixture.liquidus(z)
+    coldest = frozen.temperature if frozen is not None else SUBCOOLING_FLOOR * bubble_T
+    h_coldest = mixture.liquid_enthalpy(coldest, P, z)
+    if h_feed < h_coldest:
+        where = (f"its freezing point ({frozen.component} freezes out at {coldest - 273.15:.1f} degC)"
+                 if frozen is not None else f"half its bubble point in kelvin ({coldest - 273.15:.1f} degC)")
+        raise CaseError("feed.q", f"q = {q:g} asks for a liquid feed colder than {where}",
+                        f"q up to {(h_vapour - h_coldest) / latent:.3g} for this feed at {P / 1e3:.4g} kPa "
+                        "(1: saturated liquid; above 1: subcooled)", q)
+    return float(brentq(lambda T: mixture.liquid_enthalpy(T, P, z) - h_feed, coldest, bubble_T, xtol=1e-6))
+
+
 def _temperature_of(q: float, bubble_T: float, dew_T: float) -> float:
-    """Temperature for display only when q is given: bubble, dew, or linear in between [K]."""
+    """Temperature for display when q is given: bubble, dew, or linear in between [K] (a subcooled
+    liquid's own temperature replaces the bubble point, :func:`_subcooled_temperature`)."""
     if q >= 1.0:
         return bubble_T
     if q <= 0.0:

@@ -61,13 +61,15 @@ BEFORE_OPTIMISING = [
     ('title = "t"\n[mixture]\ncomponents = ["ethylbenzene", "p-xylene"]\n[feed]\nflow = "100 kmol/h"\n'
      'composition = [0.5, 0.5]\nq = 1.0\n[column]\ntop_pressure = "1.2 bar"\n[products]\n'
      'distillate_light_key_fraction = 0.95\nbottoms_light_key_fraction = 0.05\n',
-     "2 shells of at most 50 m hold at most 110 stages at 0.61 m tray spacing and 73 % tray efficiency, fewer "
-     "than the 156.1 stages Gilliland's correlation asks at the highest reflux ratio searched (50): two shells "
+     # judged at the closest spacing offered, where no spacing fits (at the default 0.61 m, which no
+     # candidate offers, it read "hold at most 110 stages")
+     "2 shells of at most 50 m hold at most 151 stages at 0.45 m tray spacing and 73 % tray efficiency, fewer "
+     "than the 156.0 stages Gilliland's correlation asks at the highest reflux ratio searched (50): two shells "
      "in series are the most disteco builds"),
     # shells too short for their own allowances: "holds at most 3 stages" was said of a 5 m shell whose
     # sump, top space and nozzles alone took 5.8 m (3 is the least stage count searched)
     (BENZENE.replace("[economics]", '[sizing]\nmax_height = "5 m"\n[economics]'),
-     "one shell of at most 5 m holds fewer than 3 stages at 0.61 m tray spacing"),
+     "one shell of at most 5 m holds fewer than 3 stages at 0.45 m tray spacing"),
     # p-xylene/m-xylene (relative volatility about 1.02): several hundred stages at total reflux, more
     # than two 50 m shells hold at any efficiency; check spent 15 s on a 584-stage column on thermo
     # before saying that it did not converge (no textbook value: Fenske's count is the program's own)

@@ -421,11 +421,15 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
     # for the shells below
     sizing, split = _given_shells(reference, mixture, data, keyed(sizing, problem), stages)
     previous, drops = None, []
-    for rounds in range(1, ROUNDS + 1):
+
+    def one_shell_basis(profile) -> CostBasis:
         # The model's basis stays one shell (with the reflux and stages held only the distillate is
         # free); the sequential price below prices the shells chosen.
-        basis, _ = cost_basis_from_data(data, mixture, reference, keyed(replace(sizing, shells=1), problem),
-                                        scenario, year)
+        return cost_basis_from_data(data, mixture, profile, keyed(replace(sizing, shells=1), problem),
+                                    scenario, year)[0]
+
+    for rounds in range(1, ROUNDS + 1):
+        basis = one_shell_basis(reference)
         try:  # a later round warm only: where that fails, the basis is most likely what changed (below)
             design = _given_solve(problem, basis, stages, feed_stage, config, reflux_ratio, previous,
                                   cold=previous is None)
@@ -437,9 +441,7 @@ def evaluate_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
             # drop per stage 1070 -> 1422 Pa took the reboiler from 143 to 151 degC, inside the 10 K
             # approach to low-pressure steam, and every solve stalled, exit 1). The basis is taken again
             # from a reference profile at the new pressures.
-            reference = reference_profile(problem, config, (stages, feed_stage), reflux_ratio)
-            basis, _ = cost_basis_from_data(data, mixture, reference, keyed(replace(sizing, shells=1), problem),
-                                            scenario, year)
+            basis = one_shell_basis(reference_profile(problem, config, (stages, feed_stage), reflux_ratio))
             try:
                 design = _given_solve(problem, basis, stages, feed_stage, config, reflux_ratio, previous)
             except SolverError as again:

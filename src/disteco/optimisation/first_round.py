@@ -116,11 +116,6 @@ def cheapest_spacing(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     spacings' prices at ``reference``."""
     spacings = spacing_prices(reference, mixture, data, keyed(sizing, problem), scenario, case.economics.cost_year)
     spacing = best_spacing(spacings, sizing.tray_spacing)
-    if all(p.tac is None for p in spacings):
-        # no spacing fits the reference in the layout's shells: the lowest shells hold the most stages (a
-        # propylene splitter's one shell was judged at the default 0.61 m, which no candidate offers, to hold
-        # 70 stages, where at 0.45 m it holds 94)
-        spacing = min(spacings, key=lambda p: p.tallest_shell).spacing
     if spacing != sizing.tray_spacing:
         sizing = replace(sizing, tray_spacing=spacing)
         problem, reference = settled_reference(case, mixture, feed, data, sizing, config)

@@ -54,13 +54,15 @@ SEARCH_AGAIN_TOLERANCE = SPACING_TOLERANCE
 
 
 def best_spacing(prices: tuple[SpacingPrice, ...], current: float) -> float:
-    """The cheapest priced spacing [m]; ``current`` when none fits the height limit, or when it is
-    within :data:`SPACING_TOLERANCE` of the cheapest (near-equal spacings would otherwise swap from
-    round to round and keep the rounds from settling: measured on the vacuum example, 0.50 and
-    0.60 m within 0.03 %)."""
+    """The cheapest priced spacing [m]; ``current`` when it is within :data:`SPACING_TOLERANCE` of the
+    cheapest (near-equal spacings would otherwise swap from round to round and keep the rounds from
+    settling: measured on the vacuum example, 0.50 and 0.60 m within 0.03 %). Where none fits the
+    height limit, the spacing of the lowest shells, which hold the most stages (``current`` kept the
+    default 0.61 m, which no candidate offers, and a propylene splitter's one shell was refused as
+    holding 70 stages, where at 0.45 m it holds 94)."""
     priced = [p for p in prices if p.tac is not None]
     if not priced:
-        return current
+        return min(prices, key=lambda p: p.tallest_shell).spacing if prices else current
     cheapest = min(priced, key=lambda p: p.tac)
     here = next((p.tac for p in priced if p.spacing == current), None)
     if here is not None and here <= cheapest.tac * (1.0 + SPACING_TOLERANCE):

@@ -84,25 +84,16 @@ def _within_floor(u: np.ndarray, step: np.ndarray, floor: float) -> np.ndarray:
     return step * (0.5 * (floor - u[0]) / step[0])
 
 
-def balance_distillate(products: Products, feed: FeedState) -> float | None:
-    """The distillate flow [mol/s] that a binary's two product fractions fix by the mass balance,
-    D = F (z - x_B) / (x_D - x_B); None for recoveries or more than two components.
-
-    >>> from types import SimpleNamespace
-    >>> feed = SimpleNamespace(molar_flow=50.0, z=(0.42, 0.58))
-    >>> round(balance_distillate(Products(0, 1, EndSpec("fraction", 0.015), EndSpec("fraction", 0.015)), feed), 6)
-    20.876289
-    """
-    if len(feed.z) != 2 or products.light_key_spec.kind != "fraction" or products.heavy_key_spec.kind != "fraction":
-        return None
-    x_b, x_d = products.light_key_spec.value, 1.0 - products.heavy_key_spec.value
-    return feed.molar_flow * (feed.z[products.light_key] - x_b) / (x_d - x_b)
+def fixes_distillate(products: Products, feed: FeedState) -> bool:
+    """Whether the specifications fix the distillate flow by the mass balance alone: a binary with both
+    product fractions, D = F (z - x_B) / (x_D - x_B) (the shortcut design's distillate, ``product_split``)."""
+    return len(feed.z) == 2 and products.light_key_spec.kind == products.heavy_key_spec.kind == "fraction"
 
 
 def _least_reflux_at(run, predicted, in_time, log_r: float, distillate: float, start: StageProfile | None,
                      max_step: float, resolution: float, stages: int, feed_stage: int) -> StageProfile:
-    """The profile at the least reflux meeting both specifications with the distillate held at
-    :func:`balance_distillate`: one unknown, ln R, bracketed and then narrowed by false position.
+    """The profile at the least reflux meeting both specifications with the distillate held where the mass
+    balance fixes it (:func:`fixes_distillate`): one unknown, ln R, bracketed, then narrowed by false position.
 
     With D held there, the two residuals share their sign (a purer distillate leaves a purer bottoms
     by the mass balance), both falling as R rises: one monotone equation. Newton on (ln R, D) instead
@@ -116,7 +107,7 @@ def _least_reflux_at(run, predicted, in_time, log_r: float, distillate: float, s
     """
     meets = misses = None  # (ln R, residual sum) of the least reflux meeting both, of the most missing
     last = None  # (ln R, profile) of the last column solved
-    best, trial, moved = None, log_r, []
+    best, trial, met_before = None, log_r, None
     for _ in range(2 * MAX_ITERATIONS):
         in_time()  # outside the try below: the time limit is not a trial that missed
         guess = start if last is None else predicted(last[1], last[0], trial)
@@ -127,23 +118,22 @@ def _least_reflux_at(run, predicted, in_time, log_r: float, distillate: float, s
             profile, r, total = None, None, math.inf
         if profile is not None and np.abs(r).max() < TOLERANCE:
             return profile
-        if profile is not None and np.all(r <= 0.0):
+        met = profile is not None and bool(np.all(r <= 0.0))
+        if met:
             meets, best = (trial, total), profile
         else:
             misses = (trial, total)
-        moved.append(profile is not None and np.all(r <= 0.0))
         last = (trial, profile) if profile is not None else last
         if meets and misses and meets[0] - misses[0] < resolution:
             return best
         if meets and misses:
             # false position, halving where the same end moved twice running (a kinked residual near a pinch)
             width = meets[0] - misses[0]
-            weight = 0.5 if math.isinf(misses[1]) else meets[1] / (meets[1] - misses[1])
-            if len(moved) > 1 and moved[-1] == moved[-2]:
-                weight = 0.5
+            weight = 0.5 if math.isinf(misses[1]) or met == met_before else meets[1] / (meets[1] - misses[1])
             trial = meets[0] - min(max(weight, 0.1), 0.9) * width
         else:
             trial += -max_step if meets else max_step
+        met_before = met
     raise ConvergenceError(
         f"could not meet the key specifications with {stages} stages and feed on stage {feed_stage} at the "
         f"distillate of the mass balance ({distillate:.6g} mol/s)")
@@ -209,8 +199,8 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
         reflux = start_reflux
     else:
         reflux = start.reflux_ratio if start is not None else gilliland_reflux(design, stages)
-    held = balance_distillate(products, feed) if reflux_resolution is not None else None
-    if held is not None:
+    if reflux_resolution is not None and fixes_distillate(products, feed):
+        held = design.distillate_flow
         def predicted(profile: StageProfile, log_r: float, new_log_r: float):
             # the column extrapolated along its own sensitivity to ln R (as Newton's trials below)
             try:

@@ -110,3 +110,18 @@ def test_a_q_colder_than_the_feed_can_be_is_refused(benzene_toluene):
     assert 1.4 < largest < 1.9
     coldest = state(largest - 0.005)
     assert coldest.temperature < 273.15 - 30.0
+
+
+def test_the_console_states_the_feed_condition_from_q(mixture):
+    """The console's feed line names the condition q describes: above 1 a subcooled liquid, 1 saturated,
+    between 0 and 1 partly vaporised with vapour fraction 1 - q, below 0 a superheated vapour."""
+    from disteco.reports.text import feed_condition, feed_line
+
+    cold = feed_state(Feed(FeedFlow("molar", 50.0), Z, ThermalCondition("temperature", 293.15), None), mixture,
+                      P_COLUMN)
+    assert feed_line(cold) == (f"Feed: 180.00 kmol/h at 20.00 degC and 1100.00 kPa, q {cold.q:.3f} [-] "
+                               "(subcooled liquid)")
+    assert [feed_condition(q) for q in (1.0002, 0.9998, 0.0, -0.0004)] == ["saturated liquid"] * 2 + [
+        "saturated vapour"] * 2
+    assert feed_condition(0.3) == "partly vaporised, vapour fraction 0.700"
+    assert feed_condition(-0.2) == "superheated vapour"

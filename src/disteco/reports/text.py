@@ -20,6 +20,7 @@ from .text_scenarios import given_scenario_lines, scenario_lines
 CONSOLE_TITLE_LENGTH = 100  # characters of the case title shown on the console
 # relative departure of the stage profile's R/Rmin from its row's factor that the console points out
 ROW_DEPARTURE = 0.25
+Q_SATURATED = 5e-4  # distance of q from 1 or 0 still called a saturated feed (the printed q's last digit)
 # What to do about a bound the optimum sits on (OptimumDesign.limits), by the option that sets it.
 RAISE_ADVICE = {"max_stages": "raise --max-stages (option max_stages) to look further",
                 "reflux_max": "the optimiser option reflux_max caps it; raise it to look further",
@@ -68,9 +69,27 @@ def mass_specification_lines(case) -> list[str]:
     return [f"Product specifications written by mass, used as mole fractions: {'; '.join(parts)}"] if parts else []
 
 
-def mixture_text(summary: MixtureSummary, mass_fractions: tuple[float, ...] | None = None) -> str:
+def feed_condition(q: float) -> str:
+    """The feed's thermal condition in words, from q, the liquid formed per mole of feed on the feed stage [-]."""
+    if q > 1.0 + Q_SATURATED:
+        return "subcooled liquid"
+    if q >= 1.0 - Q_SATURATED:
+        return "saturated liquid"
+    if q > Q_SATURATED:
+        return f"partly vaporised, vapour fraction {1.0 - q:.3f}"
+    return "saturated vapour" if q >= -Q_SATURATED else "superheated vapour"
+
+
+def feed_line(feed: FeedState) -> str:
+    """The feed's flow, temperature, pressure and q with its condition in words."""
+    return (f"Feed: {feed.molar_flow * KMOL_PER_H:,.2f} kmol/h at {to_degC(feed.temperature):.2f} degC and "
+            f"{feed.pressure / 1e3:.2f} kPa, q {feed.q:.3f} [-] ({feed_condition(feed.q)})")
+
+
+def mixture_text(summary: MixtureSummary, mass_fractions: tuple[float, ...] | None = None,
+                 feed: FeedState | None = None) -> str:
     """The mixture report printed by the check command; ``mass_fractions``: the feed's as written, where the
-    case gives them (shown beside the mole fractions computed from them)."""
+    case gives them (shown beside the mole fractions computed from them); ``feed``: its state, in a line."""
     lines = [f"Thermodynamic method: {summary.method}"]
     if summary.untuned_polar_pairs:
         lines.append(f"Interaction parameters: none given for {', '.join(summary.untuned_polar_pairs)} (kij = 0, "
@@ -92,7 +111,7 @@ def mixture_text(summary: MixtureSummary, mass_fractions: tuple[float, ...] | No
                      + (f"{mass_fractions[k]:>12.4f}" if mass_fractions else ""))
     if mass_fractions:
         lines.append("Feed written as mass fractions w; z, the mole fractions used, from them and the molar masses")
-    lines += ["",
+    lines += ["", *([feed_line(feed)] if feed is not None else []),
               f"Feed bubble / dew point at top pressure: {to_degC(summary.feed_bubble_T):.2f} / "
               f"{to_degC(summary.feed_dew_T):.2f} degC",
               f"Relative volatility {summary.light_key}/{summary.heavy_key}: "
@@ -135,7 +154,8 @@ def _against_minimum(stages) -> str:
 def check_text(found: CaseCheck) -> str:
     """What `check` found: the mixture report, the minima, and what a design run will use."""
     stages = found.stages
-    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture, _mass_fractions(found.case)), "",
+    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture, _mass_fractions(found.case), found.feed),
+             "",
              *mass_specification_lines(found.case),
              f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   minimum stages: {stages.minimum_stages:.2f} [-] "
              f"({stages.basis})",
@@ -211,7 +231,8 @@ def given_lines(given: GivenDesignReport, cost: CostSummary | None) -> list[str]
 
 def result_text(result: DesignResult) -> str:
     """A design run as the command line prints it: case, mixture, design, warnings."""
-    lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture, _mass_fractions(result.case)),
+    lines = [f"Case: {console_title(result.case.title)}", mixture_text(result.mixture, _mass_fractions(result.case),
+                                                                  result.feed),
              "", *mass_specification_lines(result.case), design_text(result)]
     shown, more = console_warnings(result.warnings)
     lines += [f"Warning: {w}" for w in shown]

@@ -1,11 +1,13 @@
 """The design command end to end on the bundled benzene column: result.json shape and consistency."""
 
 import json
+import math
 
 import pytest
 from openpyxl import load_workbook
 
 from disteco.cli import main
+from disteco.optimisation import minimum_reflux
 from disteco.optimisation.layout import SEARCH_AGAIN_TOLERANCE
 
 from conftest import EXAMPLES
@@ -591,3 +593,32 @@ def test_an_over_staged_given_design_whose_pressure_profile_moves_its_reboiler_u
     assert design["reboiler_temperature_degC"] > 158.9 - 10.0
     assert design["bottom_pressure_kPa"] > 300.0
     assert result["verification"]["specifications_met"] is True
+
+
+def test_a_far_over_staged_given_design_prices_and_its_minimum_reflux_column_is_capped(tmp_path, monkeypatch):
+    """The benzene example given at R 2 on 200 stages (21 x its minimum stages) ended in exit 1: toluene in
+    the distillate is about 4e-21, and against the bound x >= 0 ripopt stalled from every start. Now it is
+    priced, both products over-purified, met on thermo. Its energy-balance minimum reflux is searched on
+    8 x the minimum stages (76), not 2 x the design's 400; the same search on 16 x (152 stages) finds the
+    same minimum within 0.1 %."""
+    def run(folder):
+        code = main(["design", str(EXAMPLES / "aromatics_binary.toml"), "-o", str(folder), "-q", "--no-figures",
+                     "--no-compare", "--reflux", "2", "--stages", "200", "--feed-stage", "100"])
+        assert code == 0
+        return json.loads((folder / "result.json").read_text())
+
+    result = run(tmp_path / "capped")
+    assert result["design"]["stages"] == 200 and result["design"]["reflux_ratio"] == pytest.approx(2.0)
+    assert result["stage_profile"]["bottoms_mole_fractions"][0] < 1e-9
+    assert result["stage_profile"]["distillate_mole_fractions"][1] < 1e-9
+    assert result["verification"]["specifications_met"] is True
+    minimum = result["minimum_reflux_energy_balance"]
+    assert minimum["basis"].startswith(f"energy balances on thermo, {minimum['stages']} stages (8 x the minimum "
+                                       "stages ")
+    fenske = float(minimum["basis"].split("minimum stages ")[1].split(",")[0])
+    assert fenske == pytest.approx(result["minimum_stages"], rel=0.01)  # the shortcut's; McCabe-Thiele's here
+    assert minimum["stages"] == math.ceil(8 * fenske) < 400
+    monkeypatch.setattr(minimum_reflux, "STAGE_CAP", 16)
+    longer = run(tmp_path / "longer")["minimum_reflux_energy_balance"]
+    assert longer["stages"] > 1.9 * minimum["stages"]
+    assert minimum["reflux_ratio"] == pytest.approx(longer["reflux_ratio"], rel=1e-3)

@@ -11,6 +11,7 @@ The super-fractionator (`tests/test_super_fractionator.py`) and the vacuum colum
 (`tests/test_vacuum_column.py`) have their own tests.
 """
 
+import re
 from dataclasses import replace
 
 import numpy as np
@@ -22,6 +23,7 @@ from disteco.optimisation.verification import SPEC_TOLERANCE, verify_design
 from disteco.optimisation.pricing import price_profile
 from disteco.properties import feed_state
 from disteco.sizing.options import SizingOptions
+from disteco.sizing.trays import round_up
 from disteco.stages import shortcut_design, spec_residuals
 
 from conftest import EXAMPLES
@@ -167,3 +169,18 @@ def test_shell_limits_never_read_as_a_saving(verified):
                 f"{sized.height.tray_spacing:.2f} m tray spacing)") in layout.sections
     if name == "deethaniser_partial":
         assert layout.sections.endswith("swaged chosen")
+
+
+def test_the_sections_line_says_where_the_height_to_diameter_limit_sets_a_section(verified):
+    """The sections line read "flooding asks 0.81 m (rectifying) ...; sections sized 1.10 and 1.20 m" for a
+    DMF-water column at 30 kPa with no word why 0.81 became 1.10 (the limit of height to diameter); it now
+    names the spacing and any section the limit sets, i.e. sized more than one increment above its need."""
+    name, *_, optimum, _, _ = verified
+    text, options = optimum.layout.sections, optimum.sizing_options
+    found = re.search(r"flooding asks ([\d.]+) m \(rectifying\) and ([\d.]+) m \(stripping\), \d+ % apart; "
+                      r"sections sized ([\d.]+) and ([\d.]+) m", text)
+    need, sized = [float(v) for v in found.groups()[:2]], [float(v) for v in found.groups()[2:]]
+    limited = [section for section, n, d in zip(("rectifying", "stripping"), need, sized)
+               if d > round_up(n, options.diameter_increment) + 1e-9]
+    assert (f" ({' and '.join(limited)} by the height-to-diameter limit)" in text) == bool(limited), name
+    assert text.startswith("at ") and " m tray spacing flooding asks " in text, name

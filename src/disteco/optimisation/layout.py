@@ -17,6 +17,7 @@ from dataclasses import replace
 
 from ..sizing.column import ColumnSizing
 from ..sizing.options import SizingOptions
+from ..sizing.trays import round_up
 from ..stages.results import StageProfile
 from .pricing import price_profile
 from .results import LayoutChoice, LayoutOption, OptimumDesign, SpacingPrice
@@ -114,8 +115,12 @@ def swaged_design(optimum: OptimumDesign, mixture, data, scenario, cost_year) ->
     need_top = max((t.diameter for t in sized.hydraulics if t.stage < feed), default=0.0)
     need_bottom = max((t.diameter for t in sized.hydraulics if t.stage >= feed), default=0.0)
     gap = abs(need_top - need_bottom) / max(need_top, need_bottom)
-    words = (f"flooding asks {need_top:.2f} m (rectifying) and {need_bottom:.2f} m (stripping), {100 * gap:.0f} % "
-             f"apart; sections sized {d_top:.2f} and {d_bottom:.2f} m")
+    step = optimum.sizing_options.diameter_increment
+    slender = [name for name, need, d in (("rectifying", need_top, d_top), ("stripping", need_bottom, d_bottom))
+               if d > round_up(need, step) + 1e-9]
+    words = (f"at {sized.height.tray_spacing:.2f} m tray spacing flooding asks {need_top:.2f} m (rectifying) and "
+             f"{need_bottom:.2f} m (stripping), {100 * gap:.0f} % apart; sections sized {d_top:.2f} and "
+             f"{d_bottom:.2f} m" + (f" ({' and '.join(slender)} by the height-to-diameter limit)" if slender else ""))
     if sized.split is not None:
         return optimum, f"{words}: one diameter (a swaged shell is priced for one shell only)"
     if optimum.sizing_options.separate_sections:

@@ -56,6 +56,10 @@ def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostDat
                                 scenario, cost_year)
 
 
+def _percent_apart(a: float, b: float) -> str:
+    return f"{100.0 * abs(a / b - 1.0):.2g} %"
+
+
 def _unsettled(rounds: int, tac_change: float, moving: tuple[str, ...] = ()) -> tuple[str, ...]:
     """The warning of rounds that ended unsettled; ``moving`` names what still moved in the last one."""
     what = f": {', '.join(moving)}" if moving else ""
@@ -180,6 +184,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     else:
         problem, reference, sizing, spacings = first_reference(case, mixture, feed, data, config, sizing, scenario)
     previous, kept, previous_at_limit, two_back, drops, searched = None, (), False, None, [], None
+    previous_drop = math.nan  # the pressure drop per stage the previous round's trays gave [Pa]
     visited, wall, solved = (), 0.0, 0  # over all rounds
     allowed = most_rounds or ROUNDS
     confirming = False  # whether the confirming round was granted
@@ -245,6 +250,21 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                 f"N={best.stages} NF={best.feed_stage}, {100 * change:.2g} % apart in TAC: either is the "
                 f"optimum within the tolerance of {100 * TAC_TOLERANCE:g} %; the last is reported",))
             break
+        if here == two_back and not same and not drop_settled and spacing == sizing.tray_spacing:
+            # A cycle through the pressure drop: each configuration's trays give a drop at which the other is
+            # the optimum (octanol/decanol at 8 kPa: 19 stages give 1313 Pa per stage, where 18 are optimal,
+            # and 18 give 1344 Pa, where 19 are; four rounds ended "not settled"). More rounds repeat it; the
+            # cheaper of the two as priced is reported.
+            other, other_tac, tac = previous.best, kept[0].cost.tac_per_year, priced.cost.tac_per_year
+            words = (f"the model's pressure profile has not settled: the rounds alternated between N={other.stages} "
+                     f"NF={other.feed_stage} and N={best.stages} NF={best.feed_stage}, the trays of each giving a "
+                     f"pressure drop per stage ({previous_drop:.0f} and {drop:.0f} Pa) at which the other is the "
+                     f"optimum; costed, they come to {other_tac:,.0f} and {tac:,.0f} a year "
+                     f"({_percent_apart(other_tac, tac)} apart), and the cheaper is reported")
+            if other_tac < tac:
+                result, priced, problem, basis, sizing, limit = previous, *kept
+            result = replace(result, warnings=result.warnings + (words,), settled=False)
+            break
         if rounds >= allowed and same and drop_settled and spacing == sizing.tray_spacing and not confirming:
             # only the TAC moved, at the same configuration and a settled drop: one more round confirms it
             # with one solve (an acetone/methanol column's fourth round moved 0.5 % after the drop settled)
@@ -258,7 +278,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
             result = replace(result, warnings=result.warnings + _unsettled(rounds, change, moving), settled=False)
             break
         two_back = (previous.best.stages, previous.best.feed_stage) if previous is not None else None
-        previous, start, reference = result, (best.stages, best.feed_stage), best.profile
+        previous, start, reference, previous_drop = result, (best.stages, best.feed_stage), best.profile, drop
         kept = (priced, problem, basis, sizing, limit)
         if spacing != sizing.tray_spacing:  # a new spacing restarts the pressure drop's settling
             allowed = min(allowed + 1, (most_rounds or ROUNDS) + SPACING_ROUNDS)

@@ -29,7 +29,7 @@ from .pricing import cost_basis_from_data, price_design, reference_profile, size
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
 from .layout import MORE_STAGES, ONE_SHELL, SPACING_TOLERANCE, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, \
-    choose_layout, layout_option, spacing_prices, swaged_design, unconstrained_tac
+    choose_layout, layout_option, spacing_prices, swaged_design, unconstrained_tac, widened_by_slenderness
 from .problem import resolved_problem, separation_problem
 from .search import DIRECTIONS, optimise, start_of
 from .solve import solve_configuration
@@ -108,6 +108,8 @@ def optimise_design(case: Case, mixture: Mixture, feed: FeedState, data: CostDat
         raise optima[ONE_SHELL][2]
     if single is None or (single.stage_limit is not None and single.best.stages >= single.stage_limit):
         attempt(TWO_SHELLS, 2, config, None if single is None else (single.best.stages + 1, single.best.feed_stage))
+    elif widened_by_slenderness(single.sequential.sizing):
+        attempt(TWO_SHELLS, 2, config, (single.best.stages, single.best.feed_stage))
     found = [(label, r) for label, (_, r, _) in optima.items() if r is not None]
     if not found:
         failures = [failure for _, _, failure in optima.values()]

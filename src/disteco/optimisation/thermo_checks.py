@@ -57,7 +57,8 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
         return ThermoChecks(verification, None, None, verification.warnings)
     reported = verification.corrected or verification.profile
     minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported,
-                                     start_reflux=minimum_near.reflux_ratio if minimum_near else None)
+                                     start_reflux=minimum_near.reflux_ratio if minimum_near else None,
+                                     minimum_stages=stages.minimum_stages)
     if minimum_near is not None and minimum_near.reflux_ratio is not None and (
             minimum.reflux_ratio is None or minimum_near.reflux_ratio < minimum.reflux_ratio):
         minimum = minimum_near.of_unconstrained_design()

@@ -338,3 +338,28 @@ def test_an_over_staged_binary_design_gets_its_energy_balance_minimum(tmp_path):
     assert minimum["failure"] is None and minimum["stages"] == 77
     assert 1.7377 < minimum["reflux_ratio"] < 1.85
     assert minimum["bottom_pressure_kPa"] > 250.0
+
+
+def test_only_a_design_with_stages_to_spare_has_its_minimum_reflux_column_capped(monkeypatch):
+    """Twice the design's stages, but for a design over-purifying a product (a given design with stages to
+    spare) at most 8 x the minimum stages: an optimum meets its specifications, and a minimum-stages
+    estimate can lie far below its column's (acetone-water: Fenske 6.94, McCabe-Thiele 18.19)."""
+    from types import SimpleNamespace
+
+    from disteco.optimisation import minimum_reflux
+
+    columns = []
+
+    def solved(*args, **kwargs):
+        columns.append(args[5])  # the stages of the minimum-reflux column
+        return SimpleNamespace(reflux_ratio=1.0)
+
+    monkeypatch.setattr(minimum_reflux, "solve_to_specs", solved)
+    verified = SimpleNamespace(stages=40, feed_stage=20, P=(1e5, 1.2e5), reflux_ratio=2.0)
+    case, shortcut = SimpleNamespace(products=None, column=None), SimpleNamespace(minimum_stages=4.2)
+    for residuals in (np.zeros(2), np.array([-3.0, 0.0])):
+        monkeypatch.setattr(minimum_reflux, "spec_residuals", lambda *args, r=residuals: r)
+        found = minimum_reflux.energy_balance_minimum(case, SimpleNamespace(size=2), None, shortcut, verified)
+        assert found.stages == columns[-1]
+    assert columns == [80, 34]  # 2 x 40; then ceil(8 x 4.2)
+    assert "(8 x the minimum stages 4.20, fewer than 2 x the design's)" in found.basis

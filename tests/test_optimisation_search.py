@@ -196,6 +196,20 @@ def test_case_level_optimum_and_evaluation_agree():
     assert best.cost.pump_electricity_per_year == pytest.approx(electricity, rel=0.05)
 
 
+def test_an_over_staged_given_design_solves_from_a_start_with_one_product_purer():
+    """The ethanol-water example given 100 stages, feed on 80, at R 3: every try from the model's own start
+    (the distillate meeting both specifications exactly, 19.8 mol/s) stalled, exit 1. From a start with
+    the distillate purer than its specification it solves: the bottoms on its specification (0.001), the
+    distillate pinched near the azeotrope (about 0.87, above the 0.80 asked)."""
+    case, mixture, feed = example("ethanol_water")
+    priced = evaluate_design(case, mixture, feed, load_cost_data(), 3.0, 100, 80)
+    profile = priced.profile
+    assert profile.reflux_ratio == pytest.approx(3.0) and profile.stages == 100
+    assert profile.bottoms_composition[0] == pytest.approx(0.001, rel=0.01)
+    assert 0.86 < profile.distillate_composition[0] < 0.89
+    assert priced.shortfall <= 1e-6
+
+
 def test_reflux_at_minimum_is_infeasible_in_words():
     """A design at or below the minimum reflux ratio is reported infeasible, naming the minimum."""
     case, mixture, feed = example("aromatics_binary")

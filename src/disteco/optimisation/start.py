@@ -321,6 +321,32 @@ def starting_configuration(problem: SeparationProblem, estimate: Shortcut, confi
     return stages, feed_stage_of(stages, kirkbride(problem, estimate))
 
 
+# Share of the heavy key's distillate flow (light key's bottoms flow) that a given design's second starts
+# take off (add to) the shortcut's distillate, so that one product starts purer than its specification.
+PURER_SHARE = 0.8
+
+
+def purer_product_starts(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float) -> tuple:
+    """Start profiles at ``reflux`` with the distillate purer, then the bottoms purer, than the specifications.
+
+    A given design with stages to spare over-purifies one product, and the distillate that meets both
+    specifications exactly (the shortcut's) can start it far from its solution. Measured: ethanol-water on
+    100 stages, feed on 80, R 3: every try from the shortcut's distillate (19.8 mol/s) stalled (exit 1);
+    from 16.7 mol/s (the heavy key's share taken off) it solved in 0.3 s to 18.1 mol/s, distillate
+    pinched near the azeotrope at 0.8715.
+    """
+    estimate = shortcut(problem)
+    D = float(sum(estimate.distillate))
+    light_in_bottoms = problem.feed_flow * problem.z[problem.light_key] - estimate.distillate[problem.light_key]
+    starts = []
+    for flow in (D - PURER_SHARE * estimate.distillate[problem.heavy_key], D + PURER_SHARE * light_in_bottoms):
+        try:
+            starts.append(start_profile(problem, stages, feed_stage, reflux, distillate=flow))
+        except ConvergenceError:
+            continue  # no profile at that distillate: the other start is tried
+    return tuple(starts)
+
+
 def start_profile(problem: SeparationProblem, stages: int, feed_stage: int, reflux: float | None = None,
                   distillate: float | None = None, factor: float = 1.0) -> Profile:
     """Constant-molar-overflow profile at the shortcut's distillate and ``factor`` times Gilliland's reflux."""

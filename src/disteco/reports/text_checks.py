@@ -14,11 +14,18 @@ def fraction_text(value: float, decimals: int = 5) -> str:
     """A mole fraction or recovery [-] with the digits that tell it apart from 0 or 1 (:func:`fraction_decimals`):
     a 1 ppm bottoms read "0.00000" and a recovery of 0.999998 "1.0000".
 
+    Closer to 1 than nine decimals tell, the distance from 1 is written (an over-staged column's
+    recoveries read "1.000000000").
+
     >>> fraction_text(0.98512), fraction_text(1e-06), fraction_text(0.999998, 4), fraction_text(0.0)
     ('0.98512', '1e-06', '0.9999980', '0')
+    >>> fraction_text(1.0 - 2.3e-12)
+    '1 - 2.3e-12'
     """
     if value <= 0.0 or value >= 1.0:
         return f"{value:g}"
+    if 1.0 - value < 5e-10:
+        return f"1 - {1.0 - value:.2g}"
     places = fraction_decimals(value, decimals)
     return f"{value:.3g}" if places is None else f"{value:.{places}f}"
 

@@ -120,3 +120,22 @@ def test_solver_failure_near_the_minimum_reflux_is_put_down_to_it():
     assert "reflux ratio 1.6 is 1.07 x the minimum reflux ratio 1.5" in str(explained)
     assert "(allowed: a reflux ratio of at least 1.875 (1.25 x the minimum)" in str(explained)
     assert explain_failure(ESTIMATE, 1.49, 80, failure).field == "reflux_ratio"  # below it: the same words
+
+
+def test_a_reader_that_stops_reading_does_not_end_the_run(tmp_path):
+    """`disteco design case.toml | head -1` printed "internal error: BrokenPipeError" (exit 1) and wrote no
+    files: the reader left before the result was printed. The run now goes on quietly, writes its files
+    and exits 0."""
+    import subprocess
+    import sys
+
+    command = [sys.executable, "-c", "import sys; from disteco.cli import main; sys.exit(main(sys.argv[1:]))",
+               "design", str(EXAMPLES / "aromatics_binary.toml"), "-o", str(tmp_path / "out"), "--no-figures",
+               "--reflux", "2", "--stages", "30", "--feed-stage", "15", "--no-compare"]
+    run = subprocess.Popen(command, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+    assert run.stdout.readline().startswith(b"Case: ")
+    run.stdout.close()  # as head does after its first line
+    _, errors = run.communicate(timeout=300)
+    assert run.returncode == 0, errors.decode()
+    assert b"internal error" not in errors and b"Traceback" not in errors
+    assert (tmp_path / "out" / "result.json").is_file() and (tmp_path / "out" / "design.xlsx").is_file()

@@ -153,13 +153,49 @@ def _terminate_as_interrupt():
         signal.signal(signal.SIGTERM, previous)
 
 
+class _ClosedReaderSafe:
+    """Standard output that goes quiet when its reader closes the pipe, so that the run goes on."""
+
+    def __init__(self, stream):
+        self._stream = stream
+
+    def _guarded(self, call, *args):
+        try:
+            return call(*args)
+        except BrokenPipeError:
+            # what is left to print goes nowhere; a later flush (at exit too) finds the null device
+            os.dup2(os.open(os.devnull, os.O_WRONLY), self._stream.fileno())
+            return None
+
+    def write(self, text: str):
+        return self._guarded(self._stream.write, text)
+
+    def flush(self):
+        return self._guarded(self._stream.flush)
+
+    def __getattr__(self, name):
+        return getattr(self._stream, name)
+
+
+@contextmanager
+def _output_to_a_closed_reader():
+    """While the command runs, a reader that stops reading (`disteco design case.toml | head`) does not end it:
+    it printed "internal error: BrokenPipeError" and wrote no files."""
+    stream = sys.stdout
+    sys.stdout = _ClosedReaderSafe(stream)
+    try:
+        yield
+    finally:
+        sys.stdout = stream
+
+
 def main(argv: list[str] | None = None) -> int:
     from ._base.errors import DistecoError
 
     args = _parser().parse_args(argv)
     interrupt.clear()
     try:
-        with _terminate_as_interrupt():
+        with _terminate_as_interrupt(), _output_to_a_closed_reader():
             return _run(args)
     except KeyboardInterrupt:
         interrupt.request()  # for run(): the process ends at once after an interrupt

@@ -157,4 +157,5 @@ def minimum_warnings(reflux_ratio: float, cmo_minimum: float, cmo_basis: str,
     return tuple(found)
 
 
-__all__ = ["EnergyBalanceMinimum", "STAGE_CAP", "STAGE_FACTOR", "minimum_column", "energy_balance_minimum", "minimum_warnings"]
+__all__ = ["EnergyBalanceMinimum", "STAGE_CAP", "STAGE_FACTOR", "energy_balance_minimum", "minimum_column",
+           "minimum_warnings"]

@@ -154,8 +154,8 @@ def _against_minimum(stages) -> str:
 def check_text(found: CaseCheck) -> str:
     """What `check` found: the mixture report, the minima, and what a design run will use."""
     stages = found.stages
-    lines = [f"Case: {console_title(found.case.title)}", mixture_text(found.mixture, _mass_fractions(found.case), found.feed),
-             "",
+    lines = [f"Case: {console_title(found.case.title)}",
+             mixture_text(found.mixture, _mass_fractions(found.case), found.feed), "",
              *mass_specification_lines(found.case),
              f"Minimum reflux ratio: {stages.minimum_reflux:.3f} [-]   minimum stages: {stages.minimum_stages:.2f} [-] "
              f"({stages.basis})",

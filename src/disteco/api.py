@@ -247,7 +247,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
             sizing = replace(sizing, tray_spacing=evaluation.sequential.sizing.height.tray_spacing)
         plan.finish()
         plan.start("checking the design on thermo (energy balances, minimum reflux)")
-        checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0])
+        checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0],
+                               hold_reflux=True)
         plan.finish()
         parts = _checked(_evaluation_parts(evaluation, data), checks)
         optima: list[OptimumDesign] = []

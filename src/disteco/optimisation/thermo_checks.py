@@ -40,7 +40,8 @@ class ThermoChecks:
 def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData, design: DesignEvaluation,
                   stages: StageDesign, options=None, sizing: SizingOptions = SizingOptions(),
                   scenario: str | None = None, full: bool = True, fitted=None,
-                  minimum_near: EnergyBalanceMinimum | None = None, reflux_floor: float | None = None) -> ThermoChecks:
+                  minimum_near: EnergyBalanceMinimum | None = None, reflux_floor: float | None = None,
+                  hold_reflux: bool = False) -> ThermoChecks:
     """Verify ``design`` on thermo; with ``full`` also its energy-balance minimum reflux and the fit check.
 
     ``fitted``: the fitted forms the design was optimised on (:attr:`OptimumDesign.problem`); None
@@ -49,10 +50,11 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
     this one's starts; where it is the lower of the two it is the one reported: both bound the
     true minimum from above (the columns' stage counts are finite), and the margin's floor was
     set on it (a water/acetic acid design held at 1.1 x 0.7736 read "1.096 x" its own 0.7768). ``reflux_floor``: the control margin's
-    least reflux ratio, which a correction on thermo keeps (:func:`verify_design`).
+    least reflux ratio, which a correction on thermo keeps (:func:`verify_design`); ``hold_reflux``: a given
+    design's reflux, which a correction keeps where it can.
     """
     verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario,
-                                 reflux_floor)
+                                 reflux_floor, hold_reflux)
     if not full:
         return ThermoChecks(verification, None, None, verification.warnings)
     reported = verification.corrected or verification.profile

@@ -9,13 +9,15 @@ A specification counts as met when its key impurity (mole fraction, or the loss
 1 - recovery) is at most ``SPEC_TOLERANCE`` (relative) above the specified value. When
 thermo misses a specification by more, ``solve_to_specs`` corrects the reflux ratio and
 the distillate flow at the same stages and feed stage, the corrected design is priced
-again by the sizing and costing layers, and the result says so in a warning. Where the
+again by the sizing and costing layers, and the result says so in a warning (a given design keeps
+its reflux where its distillate flow alone meets both specifications). Where the
 correction's reflux falls below a control margin's floor, the corrected distillate is run at
 the floor instead (both products purer than specified), so the margin holds on thermo too.
 """
 
 from __future__ import annotations
 
+import math
 import time
 from dataclasses import dataclass, replace
 
@@ -116,11 +118,14 @@ def _beyond_tolerance(excess: float) -> str:
 
 def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignEvaluation,
                   shortcut: ShortcutDesign, data: CostData, sizing: SizingOptions = SizingOptions(),
-                  scenario: str | None = None, reflux_floor: float | None = None) -> Verification:
+                  scenario: str | None = None, reflux_floor: float | None = None,
+                  hold_reflux: bool = False) -> Verification:
     """Solve ``design`` on thermo; correct R and D and price again when a specification is missed.
 
     ``shortcut`` is the stages layer's shortcut design of the case (Newton's fallback start);
-    ``reflux_floor``: the control margin's least reflux ratio [-], which a correction keeps.
+    ``reflux_floor``: the control margin's least reflux ratio [-], which a correction keeps;
+    ``hold_reflux``: a given design's reflux, which a correction keeps where the distillate flow alone
+    meets both specifications (:func:`_distillate_at_reflux`).
     """
     began = time.monotonic()
     model = design.profile
@@ -135,9 +140,10 @@ def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignE
         missed = "; ".join(f"{name} key impurity {_beyond_tolerance(e)} % above its specification"
                            for name, e in zip(("light", "heavy"), keys.excess) if e > SPEC_TOLERANCE)
         try:
-            corrected = solve_to_specs(mixture, feed, case.products, case.column, shortcut, spec.stages,
-                                       spec.feed_stage, energy=True, start=thermo,
-                                       pressure_drop_per_stage=spec.pressure_drop_per_stage)
+            corrected = (hold_reflux and _distillate_at_reflux(mixture, feed, case, thermo, spec)) or \
+                solve_to_specs(mixture, feed, case.products, case.column, shortcut, spec.stages,
+                               spec.feed_stage, energy=True, start=thermo,
+                               pressure_drop_per_stage=spec.pressure_drop_per_stage)
         except (ConvergenceError, InfeasibleSpecError) as failure:
             warnings.append(
                 f"SPECIFICATION MISSED: solved on thermo, the design (reflux ratio {model.reflux_ratio:.4g}, "
@@ -160,6 +166,48 @@ def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignE
     return Verification(METHOD.format(method=mixture.method), met, SPEC_TOLERANCE, keys, dT, dx,
                         thermo.condenser_duty, thermo.reboiler_duty, thermo, time.monotonic() - began,
                         corrected, price, tuple(warnings))
+
+
+DISTILLATE_STEPS = 12  # secant steps on the distillate flow of a design corrected at its own reflux
+
+
+def _distillate_at_reflux(mixture: Mixture, feed: FeedState, case: Case, thermo: StageProfile,
+                          spec: ColumnSpec) -> StageProfile | None:
+    """``thermo``'s column at its own reflux and stages with the distillate flow that brings the missed
+    specification onto its value, where the other then holds too; None where it does not (the
+    reflux has to move as well) or the search fails.
+
+    A given design with stages to spare over-purifies one product; correcting reflux and distillate
+    together found the reflux that meets both exactly (ethanol-water given R 3 on 100 stages was
+    reported at R 1.11). The missed residual (light key in the bottoms, or heavy key in the
+    distillate, in logs) moves monotonically with D; secant steps from a first step that moves the
+    excess key flow into the other product.
+    """
+    residuals = spec_residuals(thermo, case.products, feed)
+    missed = int(np.argmax(residuals))
+    if residuals[1 - missed] > 0.0:
+        return None  # both missed: the distillate alone cannot meet both
+    light, heavy = case.products.light_key, case.products.heavy_key
+    # the missed key's flow in the wrong product, by which D rises (light key in the bottoms) or falls
+    excess = (thermo.bottoms_flow * thermo.bottoms_composition[light] if missed == 0
+              else -thermo.distillate_flow * thermo.distillate_composition[heavy])
+    points = [(thermo.distillate_flow, residuals[missed])]
+    D, profile = thermo.distillate_flow + excess * (1.0 - np.exp(-residuals[missed])), thermo
+    for _ in range(DISTILLATE_STEPS):
+        if not 0.0 < D < feed.molar_flow:
+            return None
+        try:
+            profile = solve_rigorous(mixture, feed, replace(spec, distillate_flow=D), guess=profile)
+        except (ConvergenceError, InfeasibleSpecError):
+            return None
+        residuals = spec_residuals(profile, case.products, feed)
+        if abs(residuals[missed]) <= math.log1p(SPEC_TOLERANCE) / 2.0:
+            return profile if max(key_fractions(profile, case, feed).excess) <= SPEC_TOLERANCE else None
+        (D0, r0), points = points[-1], points + [(D, residuals[missed])]
+        if residuals[missed] == r0:
+            return None
+        D = D - residuals[missed] * (D - D0) / (residuals[missed] - r0)
+    return None
 
 
 def _held_at_floor(case: Case, mixture: Mixture, feed: FeedState, corrected: StageProfile,

@@ -8,7 +8,7 @@ from disteco import api
 from disteco.case import Thermo
 from disteco.cli import main
 from disteco.properties import build_mixture
-from disteco.reports.text import console_title
+from disteco.reports.text import console_title, product_streams_lines
 from disteco.stages.binary import _operating_lines
 from disteco.stages.rigorous import ColumnSpec, solve_cmo, solve_rigorous
 
@@ -52,3 +52,25 @@ def test_a_component_without_feed_gives_no_numpy_warning(solve):
     assert profile.bottoms_composition[2] < 1e-20
     assert profile.distillate_composition[0] > 0.98
     assert_balances(mixture, feed, profile)
+
+
+def test_a_multicomponent_design_names_both_products_and_the_distributing_component():
+    """Benzene / toluene / p-xylene split between benzene and p-xylene: toluene boils between the
+    keys and splits; the console names its share of the feed to the distillate, which the
+    component balances fix once the keys' splits are known, and a binary prints no such lines."""
+    names = ("benzene", "toluene", "p-xylene")
+    mixture = build_mixture(names, Thermo("ideal"), P_ATM)
+    feed = feed_of(mixture, (0.3, 0.4, 0.3))
+    profile = solve_rigorous(mixture, feed, ColumnSpec(24, 9, 0.9, 0.45, P_ATM, 500.0))
+    lines = product_streams_lines(profile, feed, names, (0, 2))
+    d, xd = profile.distillate_flow, profile.distillate_composition
+    benzene_up, xylene_up = d * xd[0], d * xd[2]
+    assert benzene_up > 0.98 * 0.3 and xylene_up < 0.02 * 0.3  # the keys split sharply
+    toluene_share = (d - benzene_up - xylene_up) / 0.4  # the balance leaves toluene the rest of D
+    assert 0.3 < toluene_share < 0.5
+    assert lines[0].startswith(f"Products (mole fractions): distillate {d * 3.6:,.2f} kmol/h (benzene ")
+    assert lines[1] == ("Non-key components that distribute, fraction of the feed to the distillate: "
+                        f"toluene {toluene_share:.3f} [-]")
+    trace = profile.bottoms_composition[0]
+    assert (trace < 1e-3) == ("1 more below 0.001" in lines[0].split("bottoms")[1])
+    assert product_streams_lines(profile, feed, names[:2], (0, 1)) == []

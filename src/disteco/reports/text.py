@@ -214,6 +214,42 @@ def products_lines(products: Products, feed: FeedState, profile: StageProfile, n
             "Products reached (mole fractions): " + "; ".join(reached)]
 
 
+TRACE_FRACTION = 1e-3  # components below it in a product are counted, not listed
+
+
+def _stream_words(flow: float, composition, names: tuple[str, ...]) -> str:
+    listed = [f"{n} {fraction_text(x, 4)}" for n, x in zip(names, composition) if x >= TRACE_FRACTION]
+    traces = len(names) - len(listed)
+    more = f", {traces} more below {TRACE_FRACTION:g}" if traces else ""
+    return f"{flow * KMOL_PER_H:,.2f} kmol/h ({', '.join(listed)}{more})"
+
+
+def product_streams_lines(profile: StageProfile, feed: FeedState, names: tuple[str, ...],
+                          keys: tuple[int, int]) -> list[str]:
+    """Both products of a multicomponent design, and where each component that distributes goes.
+
+    A binary's products are told by its key fractions; with more components an engineer reads
+    here where the non-keys went (a component boiling between the keys splits by the column).
+    """
+    if len(names) <= 2:
+        return []
+    distillate = _stream_words(profile.distillate_flow, profile.distillate_composition, names)
+    bottoms = _stream_words(profile.bottoms_flow, profile.bottoms_composition, names)
+    lines = [f"Products (mole fractions): distillate {distillate}; bottoms {bottoms}"]
+    splits = []
+    for i, name in enumerate(names):
+        fed = feed.molar_flow * feed.z[i]
+        if i in keys or fed <= 0.0:
+            continue
+        split = profile.distillate_flow * profile.distillate_composition[i] / fed
+        if 0.01 <= split <= 0.99:
+            splits.append(f"{name} {split:.3f}")
+    if splits:
+        lines.append("Non-key components that distribute, fraction of the feed to the distillate: "
+                     f"{', '.join(splits)} [-]")
+    return lines
+
+
 def given_lines(given: GivenDesignReport, cost: CostSummary | None) -> list[str]:
     """The given design's TAC against the optimum's under the same prices."""
     if given.optimum is None:
@@ -302,6 +338,9 @@ def design_text(result: DesignResult) -> str:
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)
     lines += [margin] if margin else []
+    products = result.case.products
+    lines += product_streams_lines(profile, result.feed, result.case.components,
+                                   (products.light_key, products.heavy_key))
     if parts.given is not None:
         lines += products_lines(result.case.products, result.feed, profile, result.case.components)
     lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)

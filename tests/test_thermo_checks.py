@@ -4,6 +4,7 @@ The designs are the examples' optima found by the optimiser (a few seconds each)
 follow the model when it changes.
 """
 
+import math
 from dataclasses import replace
 
 import numpy as np
@@ -363,3 +364,49 @@ def test_only_a_design_with_stages_to_spare_has_its_minimum_reflux_column_capped
         assert found.stages == columns[-1]
     assert columns == [80, 34]  # 2 x 40; then ceil(8 x 4.2)
     assert "(8 x the minimum stages 4.20, fewer than 2 x the design's)" in found.basis
+
+
+def _fake_column(minimum: float, converges_below: float, trials: list):
+    """A column that meets both specifications above ``minimum`` and whose stage equations converge from a
+    cold start only below ``converges_below`` (warm starts converge everywhere): an over-refluxed pinched
+    column, as acetone/water's 76-stage minimum-reflux column from its design's R 13.3."""
+    from types import SimpleNamespace
+
+    from disteco._base.errors import ConvergenceError
+
+    def run(log_r, distillate, guess):
+        trials.append(float(np.exp(log_r)))
+        if guess is None and np.exp(log_r) > converges_below:
+            raise ConvergenceError("stage equations not converged in 60 Newton steps")
+        residual = 20.0 * (math.log(minimum) - log_r)  # both impurities fall as the reflux rises
+        return SimpleNamespace(reflux_ratio=float(np.exp(log_r)), warm=True), np.array([residual, residual])
+
+    return run
+
+
+@pytest.mark.parametrize("start_meets", [True, False])
+def test_a_minimum_search_from_a_meeting_reflux_steps_down_past_columns_that_do_not_converge(start_meets):
+    """Starting at a reflux known to meet both specifications, a column that does not converge before any
+    has lies above the minimum: the search steps down (the step doubling) until one converges, then
+    brackets the minimum from warm starts. Without that knowledge a failure counts as a miss (below a
+    pinch) and the search climbs away from the minimum until its iterations run out."""
+    from disteco._base.errors import ConvergenceError
+    from disteco.stages.specs import _least_reflux_at
+
+    trials = []
+    run = _fake_column(minimum=7.0, converges_below=9.0, trials=trials)
+
+    def search():
+        return _least_reflux_at(run, lambda profile, log_r, new: profile, lambda: None, math.log(13.3), 1.0, None,
+                                0.1, 1e-5, 76, 72, start_meets=start_meets)
+
+    if not start_meets:
+        with pytest.raises(ConvergenceError):
+            search()
+        assert trials[:3] == pytest.approx([13.3, 13.3 * math.exp(0.1), 13.3 * math.exp(0.2)])
+        return
+    found = search()
+    assert found.reflux_ratio == pytest.approx(7.0, rel=2e-5)
+    # 13.3 failed, then 13.3 e^-0.1 = 12.03 and 13.3 e^-0.3 = 9.85 failed: the next step lands at e^-0.7
+    assert trials[:4] == pytest.approx([13.3, 12.034, 9.853, 6.605], rel=1e-3)
+    assert len(trials) < 20

@@ -25,6 +25,7 @@ from .._base.errors import ConvergenceError, InfeasibleSpecError
 from ..case import Case
 from ..properties import FeedState, Mixture
 from ..stages import ShortcutDesign, StageProfile, solve_to_specs, spec_residuals
+from .verification import SPEC_TOLERANCE
 
 STAGE_FACTOR = 2  # stages of the minimum-reflux column over the design's
 # ... but, for a design with stages to spare, no more than this multiple of the minimum stages. Measured:
@@ -95,7 +96,10 @@ def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortc
     """
     began = time.monotonic()
     N, NF = verified.stages, verified.feed_stage
-    over = float(np.min(spec_residuals(verified, case.products, feed))) < -OVER_PURIFIED
+    residuals = spec_residuals(verified, case.products, feed)
+    over = float(np.min(residuals)) < -OVER_PURIFIED
+    # the design's own reflux meets both specifications on its stages, so on more of them too
+    meets = start_reflux is None and float(np.max(residuals)) <= math.log1p(SPEC_TOLERANCE)
     # only a design with stages to spare (over-purifying a product) is capped: an optimum meets its
     # specifications, and its stages say more of the separation than a minimum-stages estimate can
     stages, capped_at = (minimum_column(N, shortcut.minimum_stages if minimum_stages is None else minimum_stages)
@@ -110,7 +114,8 @@ def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortc
         return solve_to_specs(mixture, feed, case.products, case.column, shortcut, stages, feed_stage,
                               energy=True, start_reflux=reflux, start=start,
                               pressure_drop_per_stage=(bottom - top) / (stages - 1),
-                              max_log_reflux_step=REFLUX_STEP, time_limit=limit, reflux_resolution=REFLUX_RESOLUTION)
+                              max_log_reflux_step=REFLUX_STEP, time_limit=limit, reflux_resolution=REFLUX_RESOLUTION,
+                              start_meets=meets)
 
     # Newton from the design's own distillate where the design meets its specifications about exactly (an
     # optimum does); a design that over-purifies a product starts from the shortcut's distillate, which

@@ -17,6 +17,7 @@ from disteco.optimisation.minimum_reflux import EnergyBalanceMinimum, minimum_wa
 from disteco.optimisation.thermo_checks import thermo_checks
 from disteco.optimisation.verification import SPEC_TOLERANCE, verify_design
 from disteco.properties import feed_state
+from disteco.reports.notes import kind_of
 from disteco.sizing.options import SizingOptions
 from disteco.stages import design_stages, shortcut_design, spec_residuals
 
@@ -198,8 +199,12 @@ def test_reflux_below_either_minimum_is_loudly_warned():
     assert minimum_warnings(1.6, 1.4, "Underwood", m) == ()
     (low,) = minimum_warnings(1.45, 1.4, "Underwood", m)
     assert "REFLUX BELOW MINIMUM" in low and "energy-balance minimum 1.5" in low
+    # above the energy-balance minimum, below Underwood's: a note on the shortcut's assumptions, no alarm
     (cmo,) = minimum_warnings(1.6, 1.7, "Underwood", m)
-    assert "constant-molar-overflow minimum 1.7 (Underwood)" in cmo
+    assert "constant-molar-overflow minimum 1.7 (Underwood)" in cmo and "minimum is 1.5" in cmo
+    assert "REFLUX BELOW MINIMUM" not in cmo and kind_of(cmo).name == "properties and model"
+    (both,) = minimum_warnings(1.45, 1.7, "Underwood", m)[1:]
+    assert both.startswith("REFLUX BELOW MINIMUM") and "constant-molar-overflow minimum 1.7" in both
     (missing,) = minimum_warnings(1.6, 1.4, "Underwood", replace(m, reflux_ratio=None, failure="no convergence"))
     assert "not found" in missing
 

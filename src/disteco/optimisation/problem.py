@@ -89,7 +89,9 @@ def _fitted(case: Case, mixture: Mixture, feed: FeedState, P_top: float, P_botto
     """The fitted forms: an equation of state's K first fitted on liquids sampled over the whole
     composition range (:func:`~disteco.properties.fitted.saturated_states`), and again on the
     stage liquids of the case's own thermo profile (the stage design's) and its reflux, where
-    that fit misses the profile by more than the fit check's tolerances.
+    that fit misses the profile by more than the fit check's tolerances; likewise an activity
+    model's NRTL pairs of three or more components, fitted on their binaries, then together on
+    the binaries and the stage liquids (:func:`~disteco.properties.fitted.fit_mixture`).
 
     A column with several non-keys visits a small part of the range: on an invented
     demethaniser at 28 bar the sampled fit's bubble temperatures were up to 3.05 K off thermo
@@ -106,7 +108,9 @@ def _fit(case: Case, mixture: Mixture, feed: FeedState, P_top: float, P_bottom: 
     key = (case, mixture, feed)
     if _on_column.get(key) is not True:
         fitted = fit_mixture(mixture, P_top, P_bottom, z=feed.z)
-        if fitted.form != "k-fit" or _on_column.get(key) is False:
+        # an activity model's pairs are fitted on their binaries, which two components reproduce
+        if not (fitted.form == "k-fit" or (fitted.form == "nrtl" and fitted.size >= 3)) or \
+                _on_column.get(key) is False:
             return fitted
         profile = _column_profile(case, mixture, feed)
         _keep(_on_column, key, profile is not None and not check_fit(fitted, mixture, profile).within_tolerance)

@@ -202,7 +202,9 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
 
     ``z`` [-] is the composition used for the Peng-Robinson K fit (default equimolar);
     ``liquids`` (mole fractions [-]), if given, are the liquids that fit is made on besides
-    ``z``, instead of the samples of :func:`_k_fit_liquids` (the column's own stage liquids).
+    ``z``, instead of the samples of :func:`_k_fit_liquids` (the column's own stage liquids);
+    with NRTL and three or more components, the liquids the pairs are fitted on together
+    besides their binaries (:func:`_fit_nrtl`).
     """
     T_low, T_high = T_range or column_temperature_range(mixture, P_low, P_high)
     Ts = np.linspace(T_low, T_high, T_POINTS)
@@ -221,7 +223,7 @@ def fit_mixture(mixture: Mixture, P_low: float, P_high: float, z=None,
         form = "ideal"
     else:
         form = "nrtl"
-        nrtl_a, nrtl_b, nrtl_alpha = _fit_nrtl(mixture, Ts[:: max(1, T_POINTS // 4)], P_low)
+        nrtl_a, nrtl_b, nrtl_alpha = _fit_nrtl(mixture, Ts[:: max(1, T_POINTS // 4)], P_low, liquids)
     unit = np.eye(n)
     P_mid = 0.5 * (P_low + P_high)
 
@@ -418,12 +420,15 @@ def _fit_excess_enthalpy(mixture: Mixture, Ts, P: float, T_low: float) -> tuple[
     return tuple(rows)
 
 
-def _fit_nrtl(mixture: Mixture, Ts, P: float):
-    """NRTL pair parameters a, b and alpha fitted to the mixture's binary ln(gamma) over ``Ts`` and ``X_GRID``."""
+def _fit_nrtl(mixture: Mixture, Ts, P: float, liquids=None):
+    """NRTL pair parameters a, b and alpha fitted to the mixture's binary ln(gamma) over ``Ts`` and ``X_GRID``;
+    with ``liquids`` (three or more components), then all pairs together to those binaries and to the
+    mixture's ln(gamma) at the liquids' bubble points (:func:`_joint_nrtl`)."""
     n = mixture.size
     a = np.zeros((n, n))
     b = np.zeros((n, n))
     alpha = np.zeros((n, n))
+    grids = {}
     for i in range(n):
         for j in range(i + 1, n):
             points = []
@@ -434,9 +439,83 @@ def _fit_nrtl(mixture: Mixture, Ts, P: float):
                     x[i], x[j] = xi, 1.0 - xi
                     gamma = mixture.k_values(T, P, x) * P / psat
                     points.append((T, xi, math.log(gamma[i]), math.log(gamma[j])))
-            a[i, j], a[j, i], b[i, j], b[j, i], alpha[i, j] = _fit_pair(np.array(points))
+            grids[i, j] = np.array(points)
+            a[i, j], a[j, i], b[i, j], b[j, i], alpha[i, j] = _fit_pair(grids[i, j])
             alpha[j, i] = alpha[i, j]
+    if liquids is not None and n >= 3:
+        a, b, alpha = _joint_nrtl(mixture, P, liquids, grids, a, b, alpha)
     return tuple(map(tuple, a.tolist())), tuple(map(tuple, b.tolist())), tuple(map(tuple, alpha.tolist()))
+
+
+def _nrtl_ln_gamma(a, b, alpha, T, x) -> np.ndarray:
+    """Multicomponent NRTL ln(gamma) [-], shape (n, points), at temperatures ``T`` [K] (points) and
+    liquids ``x`` (n, points): the same formula as :meth:`FittedMixture.ln_gamma`, on arrays."""
+    n = len(x)
+    tau = a[:, :, None] + b[:, :, None] / T
+    G = np.exp(-alpha[:, :, None] * tau)
+    den = np.einsum("kjp,kp->jp", G, x)
+    num = np.einsum("mp,mjp,mjp->jp", x, tau, G)
+    ratio = num / den
+    return np.array([ratio[i] + sum(x[j] * G[i, j] / den[j] * (tau[i, j] - ratio[j]) for j in range(n))
+                     for i in range(n)])
+
+
+def _joint_nrtl(mixture: Mixture, P: float, liquids, grids: dict, a, b, alpha):
+    """All pairs' NRTL parameters fitted together to their binaries (``grids``, as :func:`_fit_pair`'s) and
+    to the mixture's ln(gamma) at the bubble points of ``liquids``, each set counted equally, from the
+    pairs' own fits.
+
+    Pairs fitted one by one reproduce each binary, but a group-contribution method's liquid of three or
+    more components is not the sum of its binaries: on methanol/ethanol/water (UNIFAC-Dortmund, 1.2 bar)
+    the pair fits missed thermo's vapour along the column by 0.016 (the fit check's tolerance 0.01) and the
+    model's column by 0.117 in a mole fraction. The result is kept only where it lowers the liquids' residual.
+    """
+    n = mixture.size
+    pairs = list(grids)
+    states = []
+    for x in liquids:
+        point = mixture.bubble_point(P, x)
+        gamma = mixture.k_values(point.T, P, x) * P / mixture.vapour_pressures(point.T)
+        states.append((point.T, np.asarray(x, dtype=float), np.log(gamma)))
+    T_liq = np.array([T for T, _, _ in states])
+    x_liq = np.array([x for _, x, _ in states]).T
+    ln_liq = np.array([g for _, _, g in states]).T
+    scale = 1.0 / float(np.mean(T_liq))
+    binary_count = sum(2 * len(grid) for grid in grids.values())
+    weight = math.sqrt(binary_count / ln_liq.size)
+
+    def unpack(p):
+        A, B, ALPHA = np.zeros((n, n)), np.zeros((n, n)), np.zeros((n, n))
+        for k, (i, j) in enumerate(pairs):
+            A[i, j], A[j, i], B[i, j], B[j, i] = p[5 * k: 5 * k + 4] * (1.0, 1.0, 1.0 / scale, 1.0 / scale)
+            ALPHA[i, j] = ALPHA[j, i] = p[5 * k + 4]
+        return A, B, ALPHA
+
+    def liquid_residual(p):
+        return (_nrtl_ln_gamma(*unpack(p), T_liq, x_liq) - ln_liq).ravel()
+
+    def residual(p):
+        parts = [weight * liquid_residual(p)]
+        for k, (i, j) in enumerate(pairs):
+            T, x1, ln1, ln2 = grids[i, j].T
+            m1, m2 = _binary_nrtl((p[5 * k], p[5 * k + 1], p[5 * k + 2] / scale, p[5 * k + 3] / scale,
+                                   p[5 * k + 4]), T, x1)
+            parts += [m1 - ln1, m2 - ln2]
+        return np.concatenate(parts)
+
+    start = np.array([v for i, j in pairs for v in (a[i, j], a[j, i], b[i, j] * scale, b[j, i] * scale,
+                                                    alpha[i, j])])
+    low = np.array([-np.inf] * 4 + [NRTL_ALPHA_BOUNDS[0]])
+    high = np.array([np.inf] * 4 + [NRTL_ALPHA_BOUNDS[1]])
+    start[4::5] = np.clip(start[4::5], *NRTL_ALPHA_BOUNDS)
+    with np.errstate(all="ignore"):
+        # tolerances 1e-6 (not 1e-8): half the evaluations, the same parameters to the fit check's digits
+        joint = least_squares(residual, start, bounds=(np.tile(low, len(pairs)), np.tile(high, len(pairs))),
+                              ftol=1e-6, xtol=1e-6)
+    if not (joint.success and np.all(np.isfinite(joint.fun))) or \
+            np.linalg.norm(liquid_residual(joint.x)) >= np.linalg.norm(liquid_residual(start)):
+        return a, b, alpha
+    return unpack(joint.x)
 
 
 def _binary_nrtl(p, T, x1):

@@ -139,3 +139,16 @@ def test_a_reader_that_stops_reading_does_not_end_the_run(tmp_path):
     assert run.returncode == 0, errors.decode()
     assert b"internal error" not in errors and b"Traceback" not in errors
     assert (tmp_path / "out" / "result.json").is_file() and (tmp_path / "out" / "design.xlsx").is_file()
+
+
+def test_a_price_written_with_a_space_is_explained(capsys):
+    """`--price lp_steam=20 USD/GJ` unquoted reaches the program as two arguments; the message names
+    both and the two ways to write it, and a stray argument of another kind keeps the parser's words."""
+    case = str(EXAMPLES / "aromatics_binary.toml")
+    assert main(["check", case, "--price", "lp_steam=20", "USD/GJ"]) == 2
+    assert capsys.readouterr().err.strip() == (
+        "error: --price: 'lp_steam=20' and 'USD/GJ' came as two arguments (allowed: the price without a space, "
+        "lp_steam=20USD/GJ, or quoted: --price 'lp_steam=20 USD/GJ')")
+    with pytest.raises(SystemExit) as stopped:
+        main(["check", case, "--price", "lp_steam=20USD/GJ", "other.toml"])
+    assert stopped.value.code == 2 and "unrecognized arguments: other.toml" in capsys.readouterr().err

@@ -6,6 +6,7 @@ Exit codes: 0 success, 2 bad input or an infeasible request, 1 internal failure.
 from __future__ import annotations
 
 import argparse
+import re
 import os
 import signal
 import sys
@@ -189,10 +190,28 @@ def _output_to_a_closed_reader():
         sys.stdout = stream
 
 
+def _price_split_by_a_space(args, extra: list[str]) -> str | None:
+    """What to say where a --price written with a space ("lp_steam=20 USD/GJ", unquoted) left its unit
+    as a stray argument; None where the stray arguments are something else."""
+    numbers = [p for p in getattr(args, "price", []) if re.search(r"=\s*[-+0-9.eE]+$", p)]
+    if not numbers or not re.match(r"^[A-Za-z]{3}/", extra[0]):
+        return None
+    given = f"{numbers[-1]} {extra[0]}"
+    return (f"'{numbers[-1]}' and '{extra[0]}' came as two arguments (allowed: the price without a space, "
+            f"{given.replace(' ', '')}, or quoted: --price '{given}')")
+
+
 def main(argv: list[str] | None = None) -> int:
     from ._base.errors import DistecoError
 
-    args = _parser().parse_args(argv)
+    parser = _parser()
+    args, extra = parser.parse_known_args(argv)
+    if extra:
+        split = _price_split_by_a_space(args, extra)
+        if split is None:
+            parser.error(f"unrecognized arguments: {' '.join(extra)}")
+        print(f"error: --price: {split}", file=sys.stderr)
+        return EXIT_BAD_INPUT
     interrupt.clear()
     try:
         with _terminate_as_interrupt(), _output_to_a_closed_reader():

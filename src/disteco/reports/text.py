@@ -338,9 +338,10 @@ def design_text(result: DesignResult) -> str:
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)
     lines += [margin] if margin else []
-    products = result.case.products
-    lines += product_streams_lines(profile, result.feed, result.case.components,
-                                   (products.light_key, products.heavy_key))
+    if result.case is not None and result.feed is not None:  # a bare optimum's text has neither
+        products = result.case.products
+        lines += product_streams_lines(profile, result.feed, result.case.components,
+                                       (products.light_key, products.heavy_key))
     if parts.given is not None:
         lines += products_lines(result.case.products, result.feed, profile, result.case.components)
     lines += checks_lines(parts.checks, profile.reflux_ratio, stages.minimum_reflux if stages else None)

@@ -287,7 +287,10 @@ def test_nrtl_pairs_fitted_again_together_on_the_column_liquids_of_three_compone
     needed R 12.1 where thermo's needs 9.2, TAC 30 % high). Fitted together on the binaries and the stage
     liquids they meet thermo there within 0.5 K and 0.008 (0.32 K, 0.006), each binary still within 0.08 in
     ln(gamma) over its grid (0.027, 0.018 and 0.069 against the pair fits' 0.014, 0.018 and 0.032; thermo's
-    UNIFAC-Dortmund is the reference). A binary (ethanol-water) keeps its pair fit."""
+    UNIFAC-Dortmund is the reference). A binary (ethanol-water) keeps its pair fit, and so do four aqueous
+    alcohols (tests/cases/alcohols_four_aqueous.toml), where the joint fit cut no third of the misfit
+    (0.0099 -> 0.0096 in a vapour fraction) and had cost 2.3 s at each of a run's twelve pressure ranges
+    (the design 121 -> 40 s)."""
     from pathlib import Path
 
     from disteco.optimisation.fit_check import check_fit
@@ -295,8 +298,9 @@ def test_nrtl_pairs_fitted_again_together_on_the_column_liquids_of_three_compone
 
     from conftest import EXAMPLES
 
-    for path, refitted in ((Path(__file__).parent / "cases" / "alcohols_aqueous.toml", True),
-                           (EXAMPLES / "ethanol_water.toml", False)):
+    cases = Path(__file__).parent / "cases"
+    for path, refitted in ((cases / "alcohols_aqueous.toml", True), (EXAMPLES / "ethanol_water.toml", False),
+                           (cases / "alcohols_four_aqueous.toml", False)):
         mixture, feed, profile, fitted = _fitted_as_designed(path)
         pairs = fit_mixture(mixture, fitted.P_low, fitted.P_high, z=feed.z)
         assert (fitted.nrtl_a != pairs.nrtl_a) == refitted, path.name

@@ -38,6 +38,16 @@ class FitCheck:
     max_enthalpy_error: float  # J/mol, liquid or vapour
     within_tolerance: bool
     warnings: tuple[str, ...] = ()
+    unreached: tuple[int, ...] = ()  # stages whose liquid has no bubble point on the fitted forms
+
+    @property
+    def misfit(self) -> float:
+        """The largest difference over its tolerance [-]; infinite where a stage's liquid has no fitted bubble point."""
+        if self.unreached:
+            return float("inf")
+        return max(self.max_bubble_temperature_error / BUBBLE_TEMPERATURE_TOLERANCE,
+                   self.max_vapour_fraction_error / VAPOUR_FRACTION_TOLERANCE,
+                   self.max_enthalpy_error / ENTHALPY_TOLERANCE)
 
 
 def check_fit(fitted: FittedMixture, mixture: Mixture, profile: StageProfile) -> FitCheck:
@@ -71,7 +81,7 @@ def check_fit(fitted: FittedMixture, mixture: Mixture, profile: StageProfile) ->
             warnings.append(f"the fitted property forms differ from the thermodynamic library in {what} (tolerance "
                             f"{allowed}) at the column's stages; the optimum rests on them, the verification "
                             "on thermo does not")
-    return FitCheck(stages, dT, dy, dh, not warnings, tuple(warnings))
+    return FitCheck(stages, dT, dy, dh, not warnings, tuple(warnings), tuple(unreached))
 
 
 __all__ = ["BUBBLE_TEMPERATURE_TOLERANCE", "ENTHALPY_TOLERANCE", "FitCheck", "VAPOUR_FRACTION_TOLERANCE",

@@ -91,10 +91,14 @@ def _add_stages(m) -> None:
     if p.partial_condenser:
         _add_partial_condenser(m)
 
-    def ln_k(j):
-        return f.ln_k(m.T[j], m.P[j], [m.x[j, i] for i in m.C], exp=pyo.exp, log=pyo.log)
+    ln_k = {}  # a stage's ln K of every component built at once (built per component: 5 x the work for 5)
 
-    m.lnK = pyo.Expression(m.J, m.C, rule=lambda m, j, i: ln_k(j)[i])
+    def ln_k_of(j, i):
+        if j not in ln_k:
+            ln_k[j] = f.ln_k(m.T[j], m.P[j], [m.x[j, c] for c in m.C], exp=pyo.exp, log=pyo.log)
+        return ln_k[j][i]
+
+    m.lnK = pyo.Expression(m.J, m.C, rule=lambda m, j, i: ln_k_of(j, i))
     m.equilibrium = pyo.Constraint(m.J, m.C, rule=equilibrium_rule)
     m.summation = pyo.Constraint(m.J, rule=summation_rule)
     m.component_balance = pyo.Constraint(m.J, m.C, rule=component_balance_rule)

@@ -29,7 +29,8 @@ from .pricing import cost_basis_from_data, price_design, reference_profile, size
 from .results import DesignEvaluation, OptimumDesign
 from .given import check_given_design, explain_failure
 from .layout import MORE_STAGES, ONE_SHELL, SPACING_TOLERANCE, STAGE_BOUND_STEP, TWO_SHELLS, best_spacing, \
-    choose_layout, layout_option, spacing_prices, swaged_design, unconstrained_tac, widened_by_slenderness
+    choose_layout, layout_option, percent_apart, spacing_prices, swaged_design, unconstrained_tac, \
+    widened_by_slenderness
 from .problem import resolved_problem, separation_problem
 from .search import DIRECTIONS, optimise, start_of
 from .solve import size_factor, solve_configuration
@@ -54,10 +55,6 @@ def model_cost_basis(problem: SeparationProblem, mixture: Mixture, data: CostDat
     """Cost basis frozen at the search's starting configuration (Gilliland reflux, CMO profile)."""
     return cost_basis_from_data(data, mixture, reference_profile(problem, config), keyed(sizing, problem),
                                 scenario, cost_year)
-
-
-def _percent_apart(a: float, b: float) -> str:
-    return f"{100.0 * abs(a / b - 1.0):.2g} %"
 
 
 def _unsettled(rounds: int, tac_change: float, moving: tuple[str, ...] = ()) -> tuple[str, ...]:
@@ -262,7 +259,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
                      f"NF={other.feed_stage} and N={best.stages} NF={best.feed_stage}, the trays of each giving a "
                      f"pressure drop per stage ({previous_drop:.0f} and {drop:.0f} Pa) at which the other is the "
                      f"optimum; costed, they come to {other_tac:,.0f} and {tac:,.0f} a year "
-                     f"({_percent_apart(other_tac, tac)} apart), and the cheaper is reported")
+                     f"({percent_apart(other_tac, tac)} apart), and the cheaper is reported")
             if other_tac < tac:
                 result, priced, problem, basis, sizing, limit = previous, *kept
             result = replace(result, warnings=result.warnings + (words,), settled=False)

@@ -154,8 +154,10 @@ def swaged_design(optimum: OptimumDesign, mixture, data, scenario, cost_year) ->
             f"{words}: {verdict}, swaged chosen")
 
 
-def _percent(a: float, b: float) -> str:
-    return f"{100.0 * (a / b - 1.0):.1f} %"
+def percent_apart(a: float, b: float) -> str:
+    """How far ``a`` lies from ``b``, in percent of ``b`` with two significant digits ("0.012 %" where one
+    decimal read "0.0 %": two shells "costing 0.0 % more")."""
+    return f"{100.0 * abs(a / b - 1.0):.2g} %"
 
 
 def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_sizing: ColumnSizing,
@@ -171,7 +173,7 @@ def choose_layout(options: list[LayoutOption], sizing: SizingOptions, chosen_siz
         if other.tac is None:
             reasons.append(f"{other.label}: {other.note}")
         else:
-            reasons.append(f"{other.label} ({other.stages} stages) costs {_percent(other.tac, chosen.tac)} more")
+            reasons.append(f"{other.label} ({other.stages} stages) costs {percent_apart(other.tac, chosen.tac)} more")
     binding = []
     one = next((o for o in options if o.label == ONE_SHELL), None)
     if one is not None and (one.tac is None or one.note):

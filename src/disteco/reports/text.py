@@ -5,6 +5,7 @@ from __future__ import annotations
 from .._base.units import to_degC
 from ..case import Products
 from ..costing import CostSummary
+from ..optimisation.layout import percent_apart
 from ..properties import FeedState, MixtureSummary
 from ..stages.results import StageProfile
 from .cautions import CAUTIONS
@@ -38,7 +39,7 @@ def limit_advice(limit, layout) -> str:
     chosen = [] if not two else [o for o in layout.options if o.label == layout.chosen and o.tac is not None]
     if two and chosen and two[0].tac > chosen[0].tac:
         return (f"raise [sizing] max_height; two shells in series ({two[0].stages} stages) were designed too and "
-                f"cost {100.0 * (two[0].tac / chosen[0].tac - 1.0):.1f} % more a year")
+                f"cost {percent_apart(two[0].tac, chosen[0].tac)} more a year")
     return RAISE_ADVICE.get((limit.option, limit.shells), RAISE_ADVICE[limit.option])
 
 

@@ -6,8 +6,8 @@ Exit codes: 0 success, 2 bad input or an infeasible request, 1 internal failure.
 from __future__ import annotations
 
 import argparse
-import re
 import os
+import re
 import signal
 import sys
 import threading

@@ -45,6 +45,19 @@ GAS_CONSTANT = 8.314462618  # J/(mol K)
 SURFACE_TENSION_FLOOR = 2e-4  # N/m, width of the smooth floor under the mixed surface tension (common practice, no source)
 
 
+def nrtl_ln_gamma(a, b, alpha, T, x, exp=math.exp) -> list:
+    """NRTL ln(gamma_i) [-] of liquid ``x`` [-] at ``T`` [K], tau_ij = a_ij + b_ij/T, G_ij = exp(-alpha_ij tau_ij)
+    (Renon and Prausnitz, AIChE J. 14 (1968) 135). ``T`` and each ``x[i]`` may be arrays of points (with
+    ``exp`` numpy's) or model expressions (with the modelling library's)."""
+    n = len(x)
+    tau = [[a[i][j] + b[i][j] / T for j in range(n)] for i in range(n)]
+    G = [[exp(-alpha[i][j] * tau[i][j]) if i != j else 1.0 for j in range(n)] for i in range(n)]
+    den = [sum(G[k][j] * x[k] for k in range(n)) for j in range(n)]
+    num = [sum(x[m] * tau[m][j] * G[m][j] for m in range(n)) for j in range(n)]
+    return [num[i] / den[i] + sum(x[j] * G[i][j] / den[j] * (tau[i][j] - num[j] / den[j]) for j in range(n))
+            for i in range(n)]
+
+
 @dataclass(frozen=True)
 class FittedMixture:
     """Fitted closed forms of one mixture, valid for T_low <= T <= T_high [K].
@@ -86,15 +99,9 @@ class FittedMixture:
 
     def ln_gamma(self, T, x, exp=math.exp):
         """NRTL ln(gamma_i) [-] for liquid ``x`` [-] at ``T`` [K] (zeros for the ideal form)."""
-        n = self.size
         if self.form != "nrtl":
-            return [0.0 * T for _ in range(n)]
-        tau = [[self.nrtl_a[i][j] + self.nrtl_b[i][j] / T for j in range(n)] for i in range(n)]
-        G = [[exp(-self.nrtl_alpha[i][j] * tau[i][j]) if i != j else 1.0 for j in range(n)] for i in range(n)]
-        den = [sum(G[k][j] * x[k] for k in range(n)) for j in range(n)]
-        num = [sum(x[m] * tau[m][j] * G[m][j] for m in range(n)) for j in range(n)]
-        return [num[i] / den[i] + sum(x[j] * G[i][j] / den[j] * (tau[i][j] - num[j] / den[j]) for j in range(n))
-                for i in range(n)]
+            return [0.0 * T for _ in range(self.size)]
+        return nrtl_ln_gamma(self.nrtl_a, self.nrtl_b, self.nrtl_alpha, T, x, exp)
 
     def ln_k(self, T, P, x, exp=math.exp, log=math.log):
         """ln K_i = ln(y_i/x_i) [-] at ``T`` [K], ``P`` [Pa] and liquid ``x`` [-]."""
@@ -447,19 +454,6 @@ def _fit_nrtl(mixture: Mixture, Ts, P: float, liquids=None):
     return tuple(map(tuple, a.tolist())), tuple(map(tuple, b.tolist())), tuple(map(tuple, alpha.tolist()))
 
 
-def _nrtl_ln_gamma(a, b, alpha, T, x) -> np.ndarray:
-    """Multicomponent NRTL ln(gamma) [-], shape (n, points), at temperatures ``T`` [K] (points) and
-    liquids ``x`` (n, points): the same formula as :meth:`FittedMixture.ln_gamma`, on arrays."""
-    n = len(x)
-    tau = a[:, :, None] + b[:, :, None] / T
-    G = np.exp(-alpha[:, :, None] * tau)
-    den = np.einsum("kjp,kp->jp", G, x)
-    num = np.einsum("mp,mjp,mjp->jp", x, tau, G)
-    ratio = num / den
-    return np.array([ratio[i] + sum(x[j] * G[i, j] / den[j] * (tau[i, j] - ratio[j]) for j in range(n))
-                     for i in range(n)])
-
-
 def _joint_nrtl(mixture: Mixture, P: float, liquids, grids: dict, a, b, alpha):
     """All pairs' NRTL parameters fitted together to their binaries (``grids``, as :func:`_fit_pair`'s) and
     to the mixture's ln(gamma) at the bubble points of ``liquids``, each set counted equally, from the
@@ -492,7 +486,7 @@ def _joint_nrtl(mixture: Mixture, P: float, liquids, grids: dict, a, b, alpha):
         return A, B, ALPHA
 
     def liquid_residual(p):
-        return (_nrtl_ln_gamma(*unpack(p), T_liq, x_liq) - ln_liq).ravel()
+        return (np.array(nrtl_ln_gamma(*unpack(p), T_liq, list(x_liq), np.exp)) - ln_liq).ravel()
 
     def residual(p):
         parts = [weight * liquid_residual(p)]

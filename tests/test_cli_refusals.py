@@ -152,3 +152,16 @@ def test_a_price_written_with_a_space_is_explained(capsys):
     with pytest.raises(SystemExit) as stopped:
         main(["check", case, "--price", "lp_steam=20USD/GJ", "other.toml"])
     assert stopped.value.code == 2 and "unrecognized arguments: other.toml" in capsys.readouterr().err
+
+
+def test_a_component_without_unifac_groups_is_refused_with_the_methods_that_can_take_it(tmp_path, capsys):
+    """Ammonia has no UNIFAC (Dortmund) groups in thermo's data: the refusal names the field and the
+    methods that can describe the pair from the case's own parameters, Peng-Robinson with kij among them."""
+    text = (EXAMPLES / "methanol_water.toml").read_text().replace('"methanol", "water"', '"ammonia", "water"')
+    text = text.replace("methanol = 0.35", "ammonia = 0.35")
+    case = tmp_path / "nh3.toml"
+    case.write_text(text)
+    assert main(["check", str(case)]) == 2
+    assert capsys.readouterr().err.strip() == (
+        "error: mixture.method: no UNIFAC (Dortmund) groups for ammonia (allowed: nrtl or wilson with parameters "
+        "in the case file, or peng-robinson with the pairs' kij in the case file)")

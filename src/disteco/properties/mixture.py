@@ -118,7 +118,8 @@ class Mixture:
             missing = [c.given for c, g in zip(self.components, groups) if not g]
             if missing:
                 raise CaseError("mixture.method", f"no UNIFAC (Dortmund) groups for {', '.join(missing)}",
-                                "nrtl or wilson with parameters in the case file")
+                                "nrtl or wilson with parameters in the case file, or peng-robinson with the pairs' "
+                                "kij in the case file")
             return UNIFAC.from_subgroups(T=REFERENCE_T, xs=z, chemgroups=groups, version=1,
                                          interaction_data=DOUFIP2016, subgroups=DOUFSG)
         if self.method == "nrtl":

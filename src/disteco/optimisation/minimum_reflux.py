@@ -62,7 +62,7 @@ class EnergyBalanceMinimum:
     def of_unconstrained_design(self) -> "EnergyBalanceMinimum":
         """The same minimum, its basis naming the design without the control margin as its column's source."""
         return replace(self, basis=_basis(self.stages, self.feed_stage, self.top_pressure, self.bottom_pressure,
-                                          "the design's without the control margin", self.capped_at))
+                                          "the design's without the control margin", self.capped_at, "that design"))
 
 
 def minimum_column(design_stages: int, minimum_stages: float) -> tuple[int, float | None]:
@@ -74,11 +74,11 @@ def minimum_column(design_stages: int, minimum_stages: float) -> tuple[int, floa
 
 
 def _basis(stages: int, feed_stage: int, top: float, bottom: float, whose: str = "the design's",
-           capped_at: float | None = None) -> str:
+           capped_at: float | None = None, pressures_of: str = "the design") -> str:
     multiple = (f"{STAGE_FACTOR} x {whose}" if capped_at is None else
                 f"{STAGE_CAP} x the minimum stages {capped_at:.2f}, fewer than {STAGE_FACTOR} x {whose}")
     return (f"energy balances on thermo, {stages} stages ({multiple}), feed on stage "
-            f"{feed_stage}, pressures {top / 1e3:.4g} to {bottom / 1e3:.4g} kPa as in the design")
+            f"{feed_stage}, pressures {top / 1e3:.4g} to {bottom / 1e3:.4g} kPa as in {pressures_of}")
 
 
 def energy_balance_minimum(case: Case, mixture: Mixture, feed: FeedState, shortcut: ShortcutDesign,

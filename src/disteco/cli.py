@@ -125,7 +125,7 @@ def _run(args) -> int:
         with ProgressDisplay() as display:
             result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
                                 progress=None if args.quiet else display, compare=not args.no_compare,
-                                prices=prices)
+                                prices=prices, files_next=True)
         print(result)
         for line in prices_text(result.parts):
             print(line)

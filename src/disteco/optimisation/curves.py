@@ -148,6 +148,11 @@ class CurveJob:
             notes.extend(found)
         return designs
 
+    @property
+    def beside(self) -> bool:
+        """Whether the curve is still being computed in its child process."""
+        return self.process is not None and self.process.is_alive()
+
     def cancel(self, wait: float = 0.0) -> None:
         """Stop the child (if any) and wait for it to go; ``wait`` [s]: first let it end on its own that long."""
         if self.process is None:

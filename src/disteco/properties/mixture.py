@@ -25,6 +25,7 @@ from .association import DIMERISING_ACIDS, dimerised_k_values, dimerising_acid
 from .solid_liquid import Liquidus, liquidus
 from .components import ComponentId, resolve_components
 from .data_cache import component_packages
+from .eos_bubble import newton_bubble_point
 from .vle_fallback import NoSplit, isothermal_split, saturation_point, wilson_k, wilson_start
 from .critical import (extrapolated_surface_tension, log_mixing, supercritical_liquid_density,
                        supercritical_liquid_viscosity, supercritical_surface_tension)
@@ -35,6 +36,10 @@ HIGH_PRESSURE = 1e6  # Pa; above this the automatic choice is Peng-Robinson (com
 IDEAL_GAS_VAPOUR_LIMIT = 2e5
 REFERENCE_T = 298.15  # K
 NEAR_PURE = 1e-6  # [-]; a composition within this of a pure component is an end point
+# Largest |kij| of a Peng-Robinson mixture whose bubble points skip thermo's stability test (hydrocarbon
+# pairs carry 0 to about 0.03; carbon dioxide with hydrocarbons about 0.13, where liquids can split;
+# common practice, no source)
+REGULAR_KIJ = 0.05
 
 
 @dataclass(frozen=True)
@@ -184,11 +189,27 @@ class Mixture:
         directly in T; this also holds at an azeotrope, where a general flash struggles.
         """
         if self.method == "peng-robinson":
-            return self.flash_pvf(P, 0.0, x)
+            own = self._newton_bubble_point(P, x) if self._regular_eos_liquid else None
+            return own or self.flash_pvf(P, 0.0, x)
         x = np.asarray(x, dtype=float)
         T = self.own_vapour_temperature(P, x)
         y = self.k_values(T, P, x) * x
         return PhasePoint(float(T), P, 0.0, tuple(map(float, x)), tuple(map(float, y / y.sum())))
+
+    @cached_property
+    def _regular_eos_liquid(self) -> bool:
+        """Whether the Peng-Robinson liquid can be taken as one phase at its bubble point: no polar
+        component and every |kij| at most :data:`REGULAR_KIJ` (see :mod:`.eos_bubble`)."""
+        return not any(c.is_polar for c in self.components) and \
+            float(np.max(np.abs(self._kij))) <= REGULAR_KIJ
+
+    def _newton_bubble_point(self, P: float, x) -> PhasePoint | None:
+        c = self._constants
+        found = newton_bubble_point(self._flasher.liquid, self._flasher.gas, P, x, c.Tcs, c.Pcs, c.omegas)
+        if found is None:
+            return None
+        T, y = found
+        return PhasePoint(float(T), P, 0.0, tuple(float(v) for v in x), tuple(map(float, y)))
 
     def own_vapour_temperature(self, P: float, x, bracket: tuple[float, float] | None = None) -> float:
         """Temperature [K] at which liquid ``x`` is in equilibrium with a vapour of its own

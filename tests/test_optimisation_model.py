@@ -11,7 +11,7 @@ import pytest
 
 from disteco._base.errors import InfeasibleSpecError, SolverError
 from disteco.optimisation.fitted_sizing import vapour_density
-from disteco.optimisation.model import build_column_model, initialise
+from disteco.optimisation.model import build_column_model, initialise, watch_flooding
 from disteco.optimisation.solve import attempts, make_solver, run_solver, solve_configuration, solved_model
 from disteco.optimisation.start import start_profile
 from disteco.optimisation.options import model_options
@@ -144,6 +144,47 @@ def test_both_barrier_strategies_reach_the_same_optimum(problem, basis, solved, 
                                                     "nlp_tolerance": None})
     assert pyo.value(tight.tac) == pytest.approx(pyo.value(model.tac), rel=1e-5)
     assert pyo.value(model.R) == pytest.approx(pyo.value(solved.R), rel=1e-4)
+
+
+def _initialised(problem, basis, config):
+    model = build_column_model(problem, basis, 18, 9, config)
+    initialise(model, start_profile(problem, 18, 9, None))
+    return model
+
+
+def test_flooding_constraints_left_out_give_the_whole_models_design(problem, basis):
+    """Only the trays that can set the diameter keep their flooding constraint (model.watch_flooding: the
+    three needing the largest cross-section at the start and each section's end trays, 6 of 17 here); the
+    design equals the one with every constraint in the model (TAC and diameter within 1e-5, the solver's
+    tolerance), and the solution meets flooding on every tray."""
+    config = model_options({"max_stages": MAX})
+    kept, whole = _initialised(problem, basis, config), _initialised(problem, basis, config)
+    assert sum(kept.flooding[j].active for j in kept.TRAYS) == 6 < len(kept.TRAYS) == 17
+    watch_flooding(whole)
+    assert all(whole.flooding[j].active for j in whole.TRAYS)
+    run_solver(kept, config)
+    run_solver(whole, config)
+    assert pyo.value(kept.tac) == pytest.approx(pyo.value(whole.tac), rel=1e-5)
+    assert pyo.value(kept.diameter) == pytest.approx(pyo.value(whole.diameter), rel=1e-5)
+    assert all(pyo.value(kept.tray_area * kept.allowable_velocity[j] - kept.vapour_volume[j]) >= -1e-6
+               for j in kept.TRAYS)
+
+
+def test_a_flooding_constraint_left_out_that_the_solution_breaks_is_added(problem, basis):
+    """With only the top tray's flooding constraint in the model, the first solution sizes the column for
+    the top tray while the bottom trays need more; run_solver adds the constraints it breaks and solves
+    again from that solution: the diameter is the whole model's, every tray within flooding."""
+    config = model_options({"max_stages": MAX})
+    model, whole = _initialised(problem, basis, config), _initialised(problem, basis, config)
+    for j in model.TRAYS:
+        if j != 1:
+            model.flooding[j].deactivate()
+    watch_flooding(whole)
+    run_solver(model, config)
+    run_solver(whole, config)
+    assert model.flooding[model.N - 1].active  # added: the bottom tray governs
+    assert pyo.value(model.diameter) == pytest.approx(pyo.value(whole.diameter), rel=1e-5)
+    assert pyo.value(model.tac) == pytest.approx(pyo.value(whole.tac), rel=1e-5)
 
 
 def test_initial_barrier_leaves_the_optimum(problem, basis, solved):

@@ -20,7 +20,8 @@ from .._base.errors import InfeasibleSpecError, SolverError
 from .._base.interrupt import stop_if_requested
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
-from .model import KILO, build_column_model, initialise, required_areas, shortfall
+from .model import KILO, build_column_model, initialise, required_areas, shortfall, unwatched_flooding, \
+    watch_flooding
 from .options import barrier_order, model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
 from .start import Profile, start_profile
@@ -74,7 +75,22 @@ def _timed_solve(model, config, name: str, time_limit: float, failure: str, barr
 
 def run_solver(model, config, time_limit: float | None = None, solver_name: str | None = None,
                barrier: str | None = None, iterations: int | None = None) -> SolverReport:
-    """Solve ``model``; return the report or raise our errors (never pass a failure on silently)."""
+    """Solve ``model``; return the report or raise our errors (never pass a failure on silently).
+
+    Flooding constraints left out of the model (:func:`~disteco.optimisation.model.watch_flooding`)
+    that the solution breaks are added and the model solved again from its solution, until none is.
+    """
+    report = _solved(model, config, time_limit, solver_name, barrier, iterations)
+    while missed := unwatched_flooding(model):
+        for j in missed:
+            model.flooding[j].activate()
+        again = _solved(model, config, time_limit, solver_name, barrier, iterations)
+        report = replace(again, wall_time=report.wall_time + again.wall_time)
+    return report
+
+
+def _solved(model, config, time_limit: float | None, solver_name: str | None, barrier: str | None,
+            iterations: int | None) -> SolverReport:
     name = solver_name or config.solver
     limit = config.configuration_time_limit if time_limit is None else time_limit
     results, wall = _timed_solve(model, config, name, limit, "failed on", barrier, iterations)
@@ -104,6 +120,7 @@ def certify(model, config, incumbent: float) -> SolverReport:
     when that gap is within ``config.relative_gap``.
     """
     name = config.certify_solver
+    watch_flooding(model)  # the bound of the whole model, every flooding constraint in it
     results, wall = _timed_solve(model, config, name, config.certify_time_limit, "failed to bound")
     tc = results.solver.termination_condition
     try:

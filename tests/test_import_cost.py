@@ -29,3 +29,15 @@ def test_check_leaves_the_modelling_layer_and_workbook_unloaded():
     for run in ("fills the cache", "reads it"):
         out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
     assert out.split() == ["0"]
+
+
+def test_ready_to_design_imports_the_modelling_layer_and_freezes_what_lasts():
+    """Before a design the command line imports what it uses and moves every object alive then out of the
+    cyclic collector's reach (gc.freeze, after a collection): the run's full collections no longer walk
+    pyomo's and thermo's modules (the benzene design 5.7 -> 5.2 s measured, see api.ready_to_design)."""
+    code = ("import gc, sys, disteco.api as api\n"
+            "before = gc.get_freeze_count()\n"
+            "api.ready_to_design()\n"
+            "print(before, gc.get_freeze_count(), 'pyomo.environ' in sys.modules, len(gc.garbage))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.split()
+    assert out[0] == "0" and int(out[1]) > 50_000 and out[2:] == ["True", "0"]

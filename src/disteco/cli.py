@@ -122,6 +122,7 @@ def _run(args) -> int:
                         compare=not args.no_compare, prices=prices))
         return EXIT_OK
     with api.claim_output(args.out, "--out", case) as out:  # before the search: a bad folder fails fast
+        api.ready_to_design()
         with ProgressDisplay() as display:
             result = api.design(case, given=given, scenarios=tuple(args.scenario), options=options,
                                 progress=None if args.quiet else display, compare=not args.no_compare,

@@ -47,10 +47,10 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
     ``fitted``: the fitted forms the design was optimised on (:attr:`OptimumDesign.problem`); None
     fits them again as the optimiser would. ``minimum_near``: the minimum reflux found on the design
     without the control margin, where the margin's floor was set on it: the design held to the floor is
-    reported against that minimum, not its own. Both bound the true minimum from above and came within
-    0.05 % of each other on the benzene example (1.7385 on 54 stages, 1.7377 on 48), and its own read
-    "1.096 x" on a water/acetic acid design held at 1.1 x 0.7736; on an ethylene/ethane splitter its own
-    (3.5 s, of a 27-s design) came out the higher and was discarded. ``reflux_floor``: the control margin's
+    reported against that minimum, not its own, so that R/Rmin reads the margin's factor. Both bound the
+    true minimum from above: 0.05 % apart on the benzene example (1.7385 on 54 stages, 1.7377 on 48); a
+    water/acetic acid design held at 1.1 x 0.7736 had read "1.096 x" its own 0.7768; on an ethylene/ethane
+    splitter its own took 3.5 s of a 27-s design and came out the higher. ``reflux_floor``: the control margin's
     least reflux ratio, which a correction on thermo keeps (:func:`verify_design`); ``hold_reflux``: a given
     design's reflux, which a correction keeps where it can.
     """

@@ -46,20 +46,3 @@ def test_liquids_that_can_split_keep_thermo_stability_test():
     kij = ((0.0, 0.13), (0.13, 0.0))
     assert not build_mixture(("carbon dioxide", "ethane"), Thermo("peng-robinson", kij=kij), 20e5)._regular_eos_liquid
     assert build_mixture(("ethane", "propane"), Thermo("peng-robinson"), 20e5)._regular_eos_liquid
-
-
-@pytest.mark.parametrize("names, method, P", [(("isobutane", "n-butane"), "peng-robinson", 8e5),
-                                              (("ethanol", "water"), "unifac-dortmund", 101325.0)])
-def test_a_bubble_point_started_from_its_neighbour_on_the_curve_is_the_same(names, method, P):
-    """Along an equilibrium curve each bubble point starts from its neighbour's (``near``): the same
-    temperatures and vapours as from the routes' own starts (Wilson's K; the saturation temperatures'
-    mean), within 1e-8 K and 1e-9 in y, on the grid the McCabe-Thiele curve is tabulated on."""
-    from disteco.stages.binary import binary_grid
-
-    mixture = build_mixture(names, Thermo(method), P)
-    point = None
-    for x1 in binary_grid(41):
-        cold = mixture.bubble_point(P, [x1, 1.0 - x1])
-        point = mixture.bubble_point(P, [x1, 1.0 - x1], near=point)
-        assert point.T == pytest.approx(cold.T, abs=1e-8)
-        assert point.y == pytest.approx(cold.y, abs=1e-9)

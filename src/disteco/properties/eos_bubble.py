@@ -33,23 +33,18 @@ T_TOLERANCE = 1e-10  # relative temperature step that ends the iteration [-]
 Y_TOLERANCE = 1e-10  # largest change of a vapour mole fraction that ends it [-]
 
 
-def newton_bubble_point(liquid, gas, P: float, x, Tcs, Pcs, omegas,
-                        near: tuple[float, np.ndarray] | None = None) -> tuple[float, np.ndarray] | None:
+def newton_bubble_point(liquid, gas, P: float, x, Tcs, Pcs, omegas) -> tuple[float, np.ndarray] | None:
     """(T [K], y [-]) at the bubble point of liquid ``x`` at ``P`` [Pa], or None where the iteration
     fails or ends on the trivial solution. ``liquid`` and ``gas``: thermo's phases of the equation of
     state (``to(T=, P=, zs=)``, ``lnphis()``, ``dlnphis_dT()``); ``Tcs`` [K], ``Pcs`` [Pa] and
-    ``omegas`` [-] for Wilson's starting K; ``near``: (T, y) of a nearby liquid's bubble point to start
-    from instead (the previous point of an equilibrium curve)."""
+    ``omegas`` [-] for Wilson's starting K."""
     x = np.asarray(x, dtype=float)
     zs = [float(v) for v in x]
-    if near is not None:
-        T, y = float(near[0]), np.asarray(near[1], dtype=float)
-    else:
-        try:
-            T, k = wilson_start(P, x, 0.0, Tcs, Pcs, omegas)
-        except ValueError:  # no temperature brackets Wilson's balance
-            return None
-        y = k * x / float(k @ x)
+    try:
+        T, k = wilson_start(P, x, 0.0, Tcs, Pcs, omegas)
+    except ValueError:  # no temperature brackets Wilson's balance
+        return None
+    y = k * x / float(k @ x)
     with np.errstate(all="ignore"):
         for _ in range(MAX_ITERATIONS):
             try:

@@ -212,17 +212,17 @@ class Mixture:
         y = tuple(gas.zs) if gas is not None else tuple(result.zs)
         return PhasePoint(result.T, P, float(result.VF), x, y)
 
-    def bubble_point(self, P: float, x, near: PhasePoint | None = None) -> PhasePoint:
+    def bubble_point(self, P: float, x) -> PhasePoint:
         """Bubble temperature and incipient vapour of liquid ``x`` at ``P`` [Pa].
 
         With an ideal-gas vapour K depends on T and x only, so sum(K_i x_i) = 1 is solved
         directly in T; this also holds at an azeotrope, where a general flash struggles.
         """
         if self.method == "peng-robinson":
-            own = self._newton_bubble_point(P, x, near) if self._regular_eos_liquid else None
+            own = self._newton_bubble_point(P, x) if self._regular_eos_liquid else None
             return own or self.flash_pvf(P, 0.0, x)
         x = np.asarray(x, dtype=float)
-        T = self.own_vapour_temperature(P, x, start=None if near is None else near.T)
+        T = self.own_vapour_temperature(P, x)
         y = self.k_values(T, P, x) * x
         return PhasePoint(float(T), P, 0.0, tuple(map(float, x)), tuple(map(float, y / y.sum())))
 
@@ -233,24 +233,22 @@ class Mixture:
         return not any(c.is_polar for c in self.components) and \
             float(np.max(np.abs(self._kij))) <= REGULAR_KIJ
 
-    def _newton_bubble_point(self, P: float, x, near: PhasePoint | None = None) -> PhasePoint | None:
+    def _newton_bubble_point(self, P: float, x) -> PhasePoint | None:
         c = self._constants
-        found = newton_bubble_point(self._flasher.liquid, self._flasher.gas, P, x, c.Tcs, c.Pcs, c.omegas,
-                                    None if near is None or near.P != P else (near.T, near.y))
+        found = newton_bubble_point(self._flasher.liquid, self._flasher.gas, P, x, c.Tcs, c.Pcs, c.omegas)
         if found is None:
             return None
         T, y = found
         return PhasePoint(float(T), P, 0.0, tuple(float(v) for v in x), tuple(map(float, y)))
 
-    def own_vapour_temperature(self, P: float, x, bracket: tuple[float, float] | None = None,
-                               start: float | None = None) -> float:
+    def own_vapour_temperature(self, P: float, x, bracket: tuple[float, float] | None = None) -> float:
         """Temperature [K] at which liquid ``x`` is in equilibrium with a vapour of its own
         composition at ``P`` [Pa]: sum_i K_i(T, x, y = x) x_i = 1.
 
         The bubble temperature where K do not depend on the vapour (an ideal-gas vapour), and
         for any method the temperature of an azeotrope at its composition. Without ``bracket``
-        first by the secant method from ``start`` [K] (a nearby liquid's) or the mole-fraction mean of
-        the saturation temperatures (:func:`_secant_temperature`), else, and where that fails, by brentq: ``bracket`` [K] is
+        first by the secant method from the mole-fraction mean of the saturation temperatures
+        (:func:`_secant_temperature`), else, and where that fails, by brentq: ``bracket`` [K] is
         where to look first (default the pure components' saturation temperatures, 20 K
         wider), widened by 20 K steps until it brackets.
         """
@@ -261,8 +259,8 @@ class Mixture:
 
         if bracket is None:
             T_sat = self.saturation_temperatures(P)
-            found = _secant_temperature(residual, float(x @ T_sat) if start is None else start,
-                                        float(T_sat.min()) - SECANT_REACH, float(T_sat.max()) + SECANT_REACH)
+            found = _secant_temperature(residual, float(x @ T_sat), float(T_sat.min()) - SECANT_REACH,
+                                        float(T_sat.max()) + SECANT_REACH)
             if found is not None:
                 return found
             bracket = (float(T_sat.min()) - 20.0, float(T_sat.max()) + 20.0)

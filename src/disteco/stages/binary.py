@@ -103,11 +103,11 @@ def equilibrium_curve(mixture: Mixture, pressure: float, light: int = 0, heavy: 
                       points: int = CURVE_POINTS) -> EquilibriumCurve:
     """Tabulate the light key's y(x) from bubble points at ``pressure`` [Pa]."""
     xs = binary_grid(points)
-    ys, point = [], None
+    ys = []
     for x1 in xs:
         z = np.zeros(mixture.size)
         z[light], z[heavy] = x1, 1.0 - x1
-        point = mixture.bubble_point(pressure, z, near=point)  # each from its neighbour's on the grid
+        point = mixture.bubble_point(pressure, z)
         ys.append(point.y[light] / (point.y[light] + point.y[heavy]))
     return tabulated_curve(xs, ys, pressure, mixture.untuned_pair_caveat(light, heavy))
 

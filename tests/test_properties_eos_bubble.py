@@ -46,3 +46,18 @@ def test_liquids_that_can_split_keep_thermo_stability_test():
     kij = ((0.0, 0.13), (0.13, 0.0))
     assert not build_mixture(("carbon dioxide", "ethane"), Thermo("peng-robinson", kij=kij), 20e5)._regular_eos_liquid
     assert build_mixture(("ethane", "propane"), Thermo("peng-robinson"), 20e5)._regular_eos_liquid
+
+
+def test_a_failure_inside_thermo_leaves_the_state_to_its_flash():
+    """thermo's phases raise more than arithmetic errors (fluids' UnconvergedError, a plain Exception, where
+    the cubic's volume iteration stalls): Newton's route then returns None, which leaves the state to thermo's
+    flash (Mixture.bubble_point), instead of ending the run with an internal error."""
+    from fluids.numerics import UnconvergedError
+
+    class Stalling:
+        def to(self, **state):
+            raise UnconvergedError("volume iteration did not converge (simulated)")
+
+    mixture = build_mixture(("ethane", "propane"), Thermo("peng-robinson"), 20e5)
+    c = mixture._constants
+    assert newton_bubble_point(Stalling(), mixture._flasher.gas, 20e5, [0.5, 0.5], c.Tcs, c.Pcs, c.omegas) is None

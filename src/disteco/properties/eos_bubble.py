@@ -51,8 +51,8 @@ def newton_bubble_point(liquid, gas, P: float, x, Tcs, Pcs, omegas) -> tuple[flo
                 at_liquid, at_gas = liquid.to(T=T, P=P, zs=zs), gas.to(T=T, P=P, zs=[float(v) for v in y])
                 ln_k = np.array(at_liquid.lnphis()) - np.array(at_gas.lnphis())
                 d_ln_k = np.array(at_liquid.dlnphis_dT()) - np.array(at_gas.dlnphis_dT())
-            except (ArithmeticError, ValueError):  # thermo found no root of the cubic there
-                return None
+            except Exception:  # noqa: BLE001 - thermo raises many kinds (no root of the cubic, unconverged
+                return None  # volume solutions); its flash, behind this route, names the state if it fails too
             if float(np.max(np.abs(ln_k))) < TRIVIAL_LN_K:
                 return None  # heading for the trivial solution (or an azeotrope, which thermo's routes handle)
             k = np.exp(ln_k)

@@ -498,10 +498,12 @@ def _given_solve(problem: SeparationProblem, basis: CostBasis, stages: int, feed
     Measured: benzene-toluene at R 2 on 120 stages, second round (new basis, see the caller): 0.3 s
     from the first round's solution; its first round's cold starts took 4 s, two of them stalling.
     """
+    def solve(**settings) -> DesignEvaluation:
+        return solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio, **settings)
+
     if previous is not None:
         try:
-            return solve_configuration(problem, basis, stages, feed_stage, config, start=start_of(previous),
-                                       fixed_reflux=reflux_ratio)
+            return solve(start=start_of(previous))
         except SolverError:
             if not cold:
                 raise
@@ -516,8 +518,7 @@ def _given_solve(problem: SeparationProblem, basis: CostBasis, stages: int, feed
     solved, failure = [], None
     for settings in [{}] + purer:
         try:
-            solved.append(solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio,
-                                              time_limit=quick, **settings))
+            solved.append(solve(time_limit=quick, **settings))
         except (SolverError, InfeasibleSpecError) as error:
             failure = failure or error
     if solved:
@@ -526,8 +527,7 @@ def _given_solve(problem: SeparationProblem, basis: CostBasis, stages: int, feed
         raise failure
     for settings in purer + [{}]:  # the full limits
         try:
-            return solve_configuration(problem, basis, stages, feed_stage, config, fixed_reflux=reflux_ratio,
-                                       **settings)
+            return solve(**settings)
         except SolverError:
             continue
     raise failure

@@ -35,6 +35,16 @@ class InfeasibleSpecError(DistecoError, ValueError):
     """The separation asked for cannot be done (mass balance, azeotrope, reflux)."""
 
 
+class UtilityTemperatureError(InfeasibleSpecError):
+    """Products that meet the specifications condense colder (boil hotter) than the condenser's
+    (reboiler's) utility level allows with the minimum approach; ``level`` names that level and
+    ``service`` its service ("cooling" or "heating")."""
+
+    def __init__(self, message: str, level: str, service: str):
+        self.level, self.service = level, service
+        super().__init__(message)
+
+
 class CorrelationRangeError(DistecoError, ValueError):
     """An input lies outside the range where a correlation is valid."""
 

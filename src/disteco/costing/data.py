@@ -8,7 +8,7 @@ cached; a user folder is reloaded when one of its files changes.
 from __future__ import annotations
 
 import functools
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from .._base.errors import CaseError, CostDataError
@@ -107,6 +107,12 @@ class CostData:
                 return level
         raise CaseError("utility level", f"unknown level {name!r} in {self._file('utility_levels.csv')}",
                         ", ".join(lv.name for lv in self.levels))
+
+    def without_levels(self, names) -> "CostData":
+        """These data with the utility levels ``names`` no longer offered (their prices kept, unused)."""
+        kept = [i for i, level in enumerate(self.levels) if level.name not in names]
+        return replace(self, levels=tuple(self.levels[i] for i in kept),
+                       level_densities=tuple(self.level_densities[i] for i in kept))
 
     def density(self, name: str) -> float | None:
         """Density of a level's utility [kg/m^3], None where not given."""

@@ -89,6 +89,7 @@ class ExchangerBasis:
     price: float  # currency/J of duty
     cost: InstalledCost  # size: area [m^2]
     service: str = "cooling"  # the utility's service: "cooling" (condenser) or "heating" (reboiler)
+    level: str = ""  # the utility level's name in the cost data
 
 
 @dataclass(frozen=True)

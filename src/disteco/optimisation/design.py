@@ -18,10 +18,11 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 
-from .._base.errors import InfeasibleSpecError, SolverError
+from .._base.errors import InfeasibleSpecError, SolverError, UtilityTemperatureError
 from ..case import Case
 from ..costing.data import CostData
 from ..properties import FeedState, Mixture
+from ..sizing.exchangers import offered_levels
 from ..sizing.options import SizingOptions
 from .basis import CostBasis, SeparationProblem
 from .options import barrier_order, first_strategy, model_options
@@ -204,7 +205,13 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
             # the previous round's solved profiles start this round's solves (a vapour-fed toluene column's
             # rounds solved their first configurations cold: 2-9 s each against about 0.3 s)
             seeds = previous.solved if previous is not None else (warm.solved if warm is not None else ())
-            result = confirmed or optimise(problem, basis, run, start=start, starts=seeds)
+            if confirmed is None:
+                result, basis = _search_within_reach(
+                    problem, basis, run, start, seeds, data,
+                    lambda offered: cost_basis_from_data(offered, mixture, reference, keyed(sizing, problem), scenario,
+                                                         year)[0])
+            else:
+                result = confirmed
             searched = searched if confirmed is not None else result
         except (InfeasibleSpecError, SolverError) as failure:
             if previous is None and limit is not None and type(failure) is InfeasibleSpecError:
@@ -295,6 +302,28 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
     return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,
                    problem=problem, basis=basis, visited=visited, solver=solver, stage_limit=limit,
                    sizing_options=keyed(sizing, problem), spacings=spacings)
+
+
+def _search_within_reach(problem: SeparationProblem, basis: CostBasis, run, start, seeds, data: CostData,
+                         basis_on) -> tuple[OptimumDesign, CostBasis]:
+    """The search's optimum and the basis it was found on: ``basis``, or where the search stops on a
+    utility level whose temperature holds the products short of their specifications, a basis
+    (``basis_on(data)``) on the next more extreme level of that service that ``data`` offers (the
+    held level and the milder ones no longer offered).
+
+    The level is chosen at the reference column, which need not meet the specifications: a
+    purer distillate condenses colder than the reference's, and may be out of reach of the level
+    that suits the reference; the searches' optima choose their own levels in later rounds.
+    """
+    while True:
+        try:
+            return optimise(problem, basis, run, start=start, starts=seeds), basis
+        except UtilityTemperatureError as held:
+            milder = [level.name for level in offered_levels(data.levels, held.service)]  # least extreme first
+            if held.level not in milder or milder[-1] == held.level:
+                raise
+            data = data.without_levels(milder[:milder.index(held.level) + 1])
+            basis = basis_on(data)
 
 
 def _confirmed(previous: OptimumDesign, problem: SeparationProblem, basis: CostBasis, run) -> OptimumDesign | None:

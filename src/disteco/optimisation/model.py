@@ -257,6 +257,15 @@ def shortfall(m) -> float:
     return max(pyo.value(m.shortfall[k]) for k in m.shortfall)
 
 
+APPROACH_HELD = 0.01  # K within the minimum approach at which an exchanger end counts as holding the solution
+
+
+def held_ends(m) -> tuple[tuple[str, int], ...]:
+    """The exchanger ends (name, end as in :func:`terminal_differences`) at their minimum approach at the
+    current point."""
+    return tuple(key for key, c in m.approach.items() if pyo.value(c.body) - pyo.value(c.lower) < APPROACH_HELD)
+
+
 # ------------------------------------------------------------------ sizing
 
 
@@ -299,14 +308,44 @@ def allowable_velocity_rule(m, j):
 # ------------------------------------------------------------------ costs
 
 
+def _exchanger_sides(m) -> tuple:
+    """(name, basis, process inlet, process outlet, outlet offset [K]) of the condenser and the reboiler.
+
+    Counter-current ends as the sizing layer takes them: the condenser cools the top vapour
+    (stage 1) to the reflux (TD less the subcooling); the reboiler heats the liquid from the last
+    tray to stage N.
+    """
+    b = m.basis
+    return (("condenser", b.condenser, m.T[1], m.TD, -m.problem.subcooling),
+            ("reboiler", b.reboiler, m.T[m.N - 1], m.T[m.N], 0.0))
+
+
+APPROACH_START = 0.5  # K beyond the minimum approach where a start's exchanger temperature is moved
+
+
+def _start_within_approach(m) -> None:
+    """Move a start's exchanger temperature that breaks a utility's minimum approach to just keep it.
+
+    A start whose top condenses colder than the condenser's utility allows (a demethaniser's start
+    at 1.5 x its reflux on a level chosen for a warmer reference) gives a negative temperature
+    difference, whose cube root in the mean temperature difference the solver cannot evaluate.
+    """
+    for _, side, inlet, outlet, offset in _exchanger_sides(m):
+        cooling = side.service == "cooling"
+        ends = terminal_differences(side.service, inlet.value, outlet.value + offset, side.utility_in,
+                                    side.utility_out)
+        # cooling: end 0 holds the inlet, end 1 the outlet; heating the other way round
+        for var, difference in zip((inlet, outlet) if cooling else (outlet, inlet), ends):
+            short = side.minimum_approach + APPROACH_START - difference
+            if short > 0.0:
+                var.set_value(_inside(var.value + (short if cooling else -short), var))
+
+
 def _add_costs(m) -> None:
     b = m.basis
     cond, reb = b.condenser, b.reboiler
-    # Counter-current ends as the sizing layer takes them: the condenser cools the top vapour
-    # (stage 1) to the reflux; the reboiler heats the liquid from the last tray to stage N.
-    ends = {"condenser": terminal_differences(cond.service, m.T[1], m.TD - m.problem.subcooling,
-                                              cond.utility_in, cond.utility_out),
-            "reboiler": terminal_differences(reb.service, m.T[m.N - 1], m.T[m.N], reb.utility_in, reb.utility_out)}
+    ends = {name: terminal_differences(side.service, inlet, outlet + offset, side.utility_in, side.utility_out)
+            for name, side, inlet, outlet, offset in _exchanger_sides(m)}
     m.approach = pyo.Constraint(
         [(name, k) for name in ends for k in (0, 1)],
         rule=lambda m, name, k: ends[name][k] >= (cond if name == "condenser" else reb).minimum_approach)
@@ -380,6 +419,7 @@ def initialise(m, start: Profile) -> None:
     else:
         T_d = f.bubble_temperature(m.problem.top_pressure, start.y[0])
     m.TD.set_value(_inside(T_d, m.TD))
+    _start_within_approach(m)
     m.Qc.set_value(_inside(pyo.value(m.V[1] * m.hV[1] - m.reflux * m.h_reflux - m.D * m.h_distillate), m.Qc))
     m.Qr.set_value(_inside(pyo.value(m.V[m.N] * (m.hV[m.N] - m.hL[m.N])), m.Qr))
     if m.config.energy_balances:

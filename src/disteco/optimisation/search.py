@@ -32,7 +32,8 @@ import numpy as np
 import pyomo.environ as pyo
 
 from .._base.cores import usable_cores
-from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError
+from .._base.errors import ConvergenceError, InfeasibleSpecError, SearchTimeLimitError, SolverError, \
+    UtilityTemperatureError
 from .given import check_stage_bound
 from .problem import default_max_stages
 from .basis import CostBasis, SeparationProblem, check_problem
@@ -69,6 +70,7 @@ class Evaluator:
     strategies: tuple = ()  # barrier strategies, the one that last worked first
     warm_starts: bool = True
     pool: object | None = None  # an executor whose workers solve the configurations of a batch
+    held: tuple | None = None  # (why, level, service) of a configuration held short by a utility's temperature
 
     low: int = 3
 
@@ -111,7 +113,15 @@ class Evaluator:
     def _record(self, key: tuple[int, int], outcome) -> float:
         """Record a solve's outcome (see :func:`solve_job`); return the configuration's TAC."""
         kind, found = outcome
-        if kind == "infeasible":
+        if kind == "held":
+            self.held, found = self.held or found, found[0]
+            if self.best() is None:
+                # the product's own condensing (boiling) temperature is out of the utility's reach: no other
+                # stages or feed stage can help, so the search stops here (a demethaniser on a level 3 K too
+                # warm tried 32 configurations in 45 s to say the same)
+                self.steps.append(SearchStep(*key, None, found))
+                raise UtilityHeld
+        if kind in ("infeasible", "held"):
             self.steps.append(SearchStep(*key, None, found))
             return float("inf")
         if kind == "failed":
@@ -163,9 +173,13 @@ class Evaluator:
         self.steps.append(SearchStep(stages, feed_stage, None, reason))
 
 
+class UtilityHeld(Exception):
+    """Stops a search whose first configurations are held short of the specifications by a utility's temperature."""
+
+
 def solve_job(job) -> tuple[str, object]:
     """Solve one configuration (in a worker process or not): ("ok", (design, profile)), ("infeasible",
-    why) or ("failed", why).
+    why), ("held", (why, level, service)) for a shortfall a utility's temperature holds, or ("failed", why).
 
     From the given start first when there is one (a solved neighbour's profile), then from the
     configuration's own start if that fails: a start can mislead a nonconvex solve.
@@ -182,6 +196,8 @@ def solve_job(job) -> tuple[str, object]:
         try:
             return "ok", configuration_design(problem, basis, stages, feed_stage, config, time_limit=budget,
                                               strategies=strategies, start=begin)
+        except UtilityTemperatureError as exc:
+            outcome = "held", (f"{type(exc).__name__}: {exc}", exc.level, exc.service)
         except InfeasibleSpecError as exc:
             outcome = "infeasible", f"{type(exc).__name__}: {exc}"
         except (SolverError, ConvergenceError) as exc:
@@ -389,6 +405,9 @@ def _search_status(evaluator: Evaluator, chosen: tuple[int, int], neighbours: li
 def _nothing_found(evaluator: Evaluator, estimate: Shortcut, config, timed_out: bool) -> Exception:
     """The error when no configuration gave a design: time, solver failures or infeasibility."""
     tried = "; ".join(f"N={s.stages} NF={s.feed_stage}: {s.status}" for s in evaluator.steps[:4])
+    if evaluator.held is not None:
+        why, level, service = evaluator.held
+        return UtilityTemperatureError(why.removeprefix(f"{UtilityTemperatureError.__name__}: "), level, service)
     if timed_out:
         return SearchTimeLimitError(
             "time_limit", f"the search's time limit of {config.time_limit:g} s passed before any configuration gave "
@@ -448,6 +467,8 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
                 descend(evaluator, stage_search(evaluator, stages, lambda n: feed_stage_of(n, ratio)))
         except TimeoutError:
             timed_out = True
+        except UtilityHeld:
+            pass
         evaluator.pool = None  # closed with the block
     chosen = evaluator.best()
     if chosen is None:

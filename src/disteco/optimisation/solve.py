@@ -16,12 +16,12 @@ import pyomo.environ as pyo
 import pyomo_ripopt  # noqa: F401  registers the 'ripopt' solver with Pyomo
 from pyomo.opt import SolverStatus, TerminationCondition as TC
 
-from .._base.errors import InfeasibleSpecError, SolverError
+from .._base.errors import InfeasibleSpecError, SolverError, UtilityTemperatureError
 from .._base.interrupt import stop_if_requested
 from ..stages.results import StageProfile
 from .basis import CostBasis, SeparationProblem
-from .model import KILO, build_column_model, initialise, required_areas, shortfall, unwatched_flooding, \
-    watch_flooding
+from .model import KILO, build_column_model, held_ends, initialise, required_areas, shortfall, \
+    unwatched_flooding, watch_flooding
 from .options import barrier_order, model_options
 from .results import ColumnSizes, CostBreakdown, CostItem, DesignEvaluation, SolverReport
 from .start import Profile, start_profile
@@ -223,11 +223,37 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
                                                min(full_limit, config.quick_time_limit * size_factor(problem, stages)))
     if missed > config.shortfall_tolerance:
         at = f"reflux ratio {fixed_reflux:.4g}, " if fixed_reflux is not None else ""
+        short = (f"{at}{stages} stages with the feed on stage {feed_stage}: the product specifications cannot be met "
+                 f"(best reachable falls {100 * missed:.3g} % short)")
+        held = held_ends(model)
+        if held:
+            raise utility_held(short, basis, *held[0])
         raise InfeasibleSpecError(
-            f"{at}{stages} stages with the feed on stage {feed_stage}: the product specifications cannot be met "
-            f"(best reachable falls {100 * missed:.3g} % short); more stages, more reflux or another feed stage "
+            f"{short}; more stages, more reflux or another feed stage "
             f"are needed{_pressure_rise(problem, stages) if fixed_reflux is not None else ''}")
     return model, report
+
+
+def utility_held(short: str, basis: CostBasis, exchanger: str, end: int) -> UtilityTemperatureError:
+    """The error of a configuration held short of its specifications by ``exchanger``'s utility temperature
+    at its ``end`` (0 or 1, as in :func:`disteco.sizing.exchangers.terminal_differences`).
+
+    A condenser's process side can be no colder than the utility plus the minimum approach (a
+    reboiler's no hotter than the utility less it); a product that meets the specifications
+    condenses colder (boils hotter) at the column's pressure, whatever the stages and reflux.
+    """
+    side = basis.condenser if exchanger == "condenser" else basis.reboiler
+    cooling = side.service == "cooling"
+    utility = (side.utility_out, side.utility_in)[end] if cooling else (side.utility_in, side.utility_out)[end]
+    bound = utility + side.minimum_approach if cooling else utility - side.minimum_approach
+    product, act, beyond, further, pressure = (("distillate", "condenses", "warmer", "colder", "raise") if cooling
+                                               else ("bottoms", "boils", "colder", "hotter", "lower"))
+    return UtilityTemperatureError(
+        f"{short}: the {exchanger} on {side.level} ({utility - 273.15:.1f} degC at that end) with the minimum "
+        f"approach of {side.minimum_approach:g} K holds its process side at {bound - 273.15:.1f} degC or {beyond}, "
+        f"and a {product} that meets the specifications {act} {further} at this pressure; {pressure} "
+        f"column.top_pressure, lower sizing.min_approach, or offer a {further} level in your own cost data "
+        "(economics.cost_data: utility_levels.csv and utility_prices.csv)", side.level, side.service)
 
 
 PENALTY_STEP = 10.0  # factor on the shortfall's charge for the second solve of a configuration that fell short

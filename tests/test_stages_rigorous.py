@@ -335,3 +335,44 @@ def test_a_passed_deadline_stops_the_newton_steps(benzene_toluene):
         solve_rigorous(benzene_toluene, feed, spec, deadline=time.monotonic() - 1.0)
     assert_balances(benzene_toluene, feed, solve_rigorous(benzene_toluene, feed, spec,
                                                           deadline=time.monotonic() + 60.0))
+
+
+def test_a_moved_phase_alone_is_evaluated_again_with_the_same_jacobian(monkeypatch):
+    """Propane/n-butane/n-pentane on Peng-Robinson at 15 bar with energy balances (invented feed): the
+    Jacobian built with the unmoved phase's fugacity coefficients and enthalpy kept from the base point
+    equals, bit for bit, the one with both phases evaluated again for every moved block, and it asks
+    thermo for 2C + 2 phases per stage instead of 2(2C + 1) (before, with the vapour's enthalpy from a
+    phase of its own, 5C + 3; the butane splitter's `check` 1.66 -> 1.47 s)."""
+    import disteco.stages.mesh as mesh
+    from disteco.stages.rigorous import _problem, _unknowns_from_profile
+
+    mixture = build_mixture(("propane", "n-butane", "n-pentane"), Thermo("peng-robinson"), 15e5)
+    feed = feed_of(mixture, (0.3, 0.4, 0.3), pressure=15e5)
+    spec = ColumnSpec(12, 6, 2.0, 0.3 * feed.molar_flow, 15e5, 500.0)
+    stages = mesh.Stages(mixture, _problem(spec, feed, energy=True))
+    U = _unknowns_from_profile(solve_rigorous(mixture, feed, spec))
+    props = stages.all_properties(U)
+    R0 = stages.residuals(U, props)
+    calls = [0]
+    liquid_state, vapour_state = mixture.liquid_state, mixture.vapour_state
+
+    def counted(method):
+        def call(*args, **kwargs):
+            calls[0] += 1
+            return method(*args, **kwargs)
+        return call
+
+    monkeypatch.setattr(mixture, "liquid_state", counted(liquid_state))
+    monkeypatch.setattr(mixture, "vapour_state", counted(vapour_state))
+    kept = stages.jacobian(U, props, R0)
+    kept_calls, calls[0] = calls[0], 0
+    full = mesh.Stages.block_properties
+    monkeypatch.setattr(mesh.Stages, "block_properties",
+                        lambda self, j, u, base=None, moved="all": full(self, j, u))
+    again = stages.jacobian(U, props, R0)
+    assert np.array_equal(kept, again)
+    C, N = 3, spec.stages
+    # per stage: C liquid moves and C vapour moves one phase each, the temperature move both; the total
+    # condenser's block (its distillate's bubble point) skips the reflux's C moves
+    assert kept_calls == N * (2 * C + 2) + 2 * (C + 1)
+    assert calls[0] == 2 * (N + 1) * (2 * C + 1)

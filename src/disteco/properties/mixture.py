@@ -367,20 +367,32 @@ class Mixture:
 
     def k_values(self, T: float, P: float, x, y=None) -> np.ndarray:
         """Equilibrium ratios K_i = y_i/x_i = phi_i^L(x)/phi_i^V(y) [-] (y defaults to x)."""
-        liquid, gas = self._phases(T, P, x, y)
-        return np.array(liquid.phis()) / np.array(gas.phis())
+        return self.k_values_and_liquid_enthalpy(T, P, x, y, enthalpy=False)[0]
 
-    def k_values_and_liquid_enthalpy(self, T: float, P: float, x, y=None) -> tuple[np.ndarray, float]:
+    def k_values_and_liquid_enthalpy(self, T: float, P: float, x, y=None,
+                                     enthalpy: bool = True) -> tuple[np.ndarray, float]:
         """:meth:`k_values` and :meth:`liquid_enthalpy` of liquid ``x`` from one liquid phase of thermo's:
         an activity model's intermediate terms are then computed once (measured on acetone/water,
-        UNIFAC-Dortmund: 71 instead of 98 microseconds for the pair)."""
-        liquid, gas = self._phases(T, P, x, y)
-        return np.array(liquid.phis()) / np.array(gas.phis()), float(liquid.H())
+        UNIFAC-Dortmund: 71 instead of 98 microseconds for the pair). The enthalpy is 0 without ``enthalpy``."""
+        phi_liquid, h_liquid = self.liquid_state(T, P, x, enthalpy)
+        phi_vapour, _ = self.vapour_state(T, P, x if y is None else y, enthalpy=False)
+        return phi_liquid / phi_vapour, h_liquid
 
-    def _phases(self, T: float, P: float, x, y=None):
-        """thermo's liquid at ``x`` and vapour at ``y`` (default ``x``)."""
-        return (self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]),
-                self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in (x if y is None else y)]))
+    def liquid_state(self, T: float, P: float, x, enthalpy: bool = True) -> tuple[np.ndarray, float]:
+        """Fugacity coefficients phi_i^L [-] of liquid ``x`` (an activity model's gamma_i Psat_i / P and its
+        corrections) and its molar enthalpy [J/mol] (0 without ``enthalpy``), from one phase of thermo's.
+
+        With :meth:`vapour_state`, K_i = phi_i^L / phi_i^V: a Newton column that moves one phase's flows
+        evaluates that phase only (one equation-of-state solve instead of two or three on Peng-Robinson).
+        """
+        liquid = self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x])
+        return np.array(liquid.phis()), float(liquid.H()) if enthalpy else 0.0
+
+    def vapour_state(self, T: float, P: float, y, enthalpy: bool = True) -> tuple[np.ndarray, float]:
+        """Fugacity coefficients phi_i^V [-] of vapour ``y`` (ones for an ideal gas) and its molar enthalpy
+        [J/mol] (0 without ``enthalpy``), from one phase of thermo's (see :meth:`liquid_state`)."""
+        gas = self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y])
+        return np.array(gas.phis()), float(gas.H()) if enthalpy else 0.0
 
     def relative_volatility(self, T: float, P: float, x, light: int, heavy: int, y=None) -> float:
         """alpha = K_light / K_heavy [-]."""

@@ -81,28 +81,31 @@ class Stages:
     # ------------------------------------------------------------ properties of one block
     def block_properties(self, j: int, u: np.ndarray, base: np.ndarray | None = None,
                          moved: str = "all") -> np.ndarray:
-        """[K (C), h_L, h_V] of block j at its unknowns u (length 2C + 1).
+        """[K (C), h_L, h_V, phi_L (C), phi_V (C)] of block j at its unknowns u (length 2C + 1).
 
-        With ``base`` (the properties before a change) and ``moved`` = "liquid" or
-        "vapour", the enthalpy of the phase that did not move is taken from ``base``.
+        With ``base`` (the properties before a change) and ``moved`` = "liquid" or "vapour", the
+        phase that did not move keeps its fugacity coefficients and enthalpy from ``base``, and
+        K_i = phi_i^L / phi_i^V is formed with the moved phase's new ones. Enthalpies are 0
+        without the energy balances.
         """
-        C, m, P = self.C, self.mixture, self.p.pressures[j]
+        C, m, P, energy = self.C, self.mixture, self.p.pressures[j], self.p.energy
         l, v, T = u[:C], u[C:2 * C], u[-1]
-        x, y = _fractions(l), _fractions(v)
         if j == 0 and not self.p.partial_condenser:
+            if moved == "liquid":
+                return base  # the reflux's flows do not enter the distillate's bubble point
+            y = _fractions(v)
             k = m.k_values(T, P, y)  # bubble point of the distillate
-            h_l = m.liquid_enthalpy(T - self.p.subcooling, P, y) if self.p.energy else 0.0
-            return np.concatenate([k, [h_l, h_l]])
-        if not self.p.energy:
-            return np.concatenate([m.k_values(T, P, x, y), [0.0, 0.0]])
+            h_l = m.liquid_enthalpy(T - self.p.subcooling, P, y) if energy else 0.0
+            return np.concatenate([k, [h_l, h_l], np.zeros(2 * C)])
         if moved == "vapour":
-            # an ideal-gas vapour leaves K = gamma Psat phi_sat / P to the liquid: only h_V moved
-            k = base[:C] if m.ideal_gas_vapour else m.k_values(T, P, x, y)
-            h_l = base[C]
+            phi_l, h_l = base[C + 2:2 * C + 2], base[C]
         else:
-            k, h_l = m.k_values_and_liquid_enthalpy(T, P, x, y)
-        h_v = base[C + 1] if moved == "liquid" else m.vapour_enthalpy(T, P, y)
-        return np.concatenate([k, [h_l, h_v]])
+            phi_l, h_l = m.liquid_state(T, P, _fractions(l), energy)
+        if moved == "liquid":
+            phi_v, h_v = base[2 * C + 2:], base[C + 1]
+        else:
+            phi_v, h_v = m.vapour_state(T, P, _fractions(v), energy)
+        return np.concatenate([phi_l / phi_v, [h_l, h_v], phi_l, phi_v])
 
     def all_properties(self, U: np.ndarray) -> np.ndarray:
         return np.array([self.block_properties(j, U[j]) for j in range(self.p.N + 1)])

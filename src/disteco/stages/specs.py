@@ -29,6 +29,7 @@ TOLERANCE = 1e-7  # on the log residuals of the specifications
 MAX_ITERATIONS = 30
 MAX_LOG_REFLUX_STEP = 0.5
 DIFFERENCE = 1e-6  # step in ln R and in D / F of the specifications' Jacobian (columns moved linearly)
+OVERSHOOT_FLOOR = 1e-3  # log residual within which a specification that changed sign is not past a pinch
 FLOOR_RESOLUTION = 1e-5  # ln R: a column this close above a failed trial forgets that trial's floor
 
 
@@ -61,9 +62,17 @@ def _overshot(r: np.ndarray, change: np.ndarray, new_r: np.ndarray) -> bool:
     True
     >>> _overshot(np.array([-1e-3, 1e-4]), np.array([1e-3, -1e-4]), np.array([1e-6, -1e-7]))
     False
+
+    A residual that lands within :data:`OVERSHOOT_FLOOR` of zero has not crossed a pinch, whatever its
+    sign: a demethaniser's methane recovery, met to 1e-7 while Newton moved the reflux and the distillate
+    to meet the ethylene's, flipped to +5e-7 at each step, and each such step was refused as a crossing
+    until the time limit.
+
+    >>> _overshot(np.array([-1e-7, -6.4]), np.array([1e-7, 0.04]), np.array([5.6e-7, -6.36]))
+    False
     """
     flipped = np.sign(new_r) != np.sign(r)
-    return bool(np.any(flipped & (np.abs(new_r) > np.abs(change))))
+    return bool(np.any(flipped & (np.abs(new_r) > np.abs(change)) & (np.abs(new_r) > OVERSHOOT_FLOOR)))
 
 
 def _within_floor(u: np.ndarray, step: np.ndarray, floor: float) -> np.ndarray:

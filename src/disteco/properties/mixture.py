@@ -385,14 +385,25 @@ class Mixture:
         With :meth:`vapour_state`, K_i = phi_i^L / phi_i^V: a Newton column that moves one phase's flows
         evaluates that phase only (one equation-of-state solve instead of two or three on Peng-Robinson).
         """
-        liquid = self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x])
+        liquid = self._phase_at(self._flasher.liquid, T, P, x)
         return np.array(liquid.phis()), float(liquid.H()) if enthalpy else 0.0
 
     def vapour_state(self, T: float, P: float, y, enthalpy: bool = True) -> tuple[np.ndarray, float]:
         """Fugacity coefficients phi_i^V [-] of vapour ``y`` (ones for an ideal gas) and its molar enthalpy
         [J/mol] (0 without ``enthalpy``), from one phase of thermo's (see :meth:`liquid_state`)."""
-        gas = self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y])
+        gas = self._phase_at(self._flasher.gas, T, P, y)
         return np.array(gas.phis()), float(gas.H()) if enthalpy else 0.0
+
+    @staticmethod
+    def _phase_at(phase, T: float, P: float, z):
+        """thermo's ``phase`` at (T, P, z); PropertyError where it cannot be evaluated (a Newton step's
+        temperature at or below zero: the square root of T in Peng-Robinson's alpha function)."""
+        if not T > 0.0:
+            raise PropertyError(f"no phase at T={T:.6g} K")
+        try:
+            return phase.to(T=T, P=P, zs=[float(v) for v in z])
+        except (ValueError, ArithmeticError) as exc:
+            raise PropertyError(f"thermo could not evaluate a phase at T={T:.6g} K, P={P:.6g} Pa: {exc}") from exc
 
     def relative_volatility(self, T: float, P: float, x, light: int, heavy: int, y=None) -> float:
         """alpha = K_light / K_heavy [-]."""
@@ -509,7 +520,7 @@ class Mixture:
     # ------------------------------------------------------------ caloric
     def liquid_enthalpy(self, T: float, P: float, x) -> float:
         """Molar enthalpy of liquid ``x`` [J/mol] (ideal-gas elements reference of thermo)."""
-        return float(self._flasher.liquid.to(T=T, P=P, zs=[float(v) for v in x]).H())
+        return float(self._phase_at(self._flasher.liquid, T, P, x).H())
 
     def liquid_root_exists(self, T: float, P: float, x) -> bool:
         """False where the equation of state has no liquid-like root at (T, P, x): thermo's "liquid" is then the vapour.
@@ -534,7 +545,7 @@ class Mixture:
 
     def vapour_enthalpy(self, T: float, P: float, y) -> float:
         """Molar enthalpy of vapour ``y`` [J/mol]."""
-        return float(self._flasher.gas.to(T=T, P=P, zs=[float(v) for v in y]).H())
+        return float(self._phase_at(self._flasher.gas, T, P, y).H())
 
     def heat_of_vaporisation(self, P: float, z) -> float:
         """Dew-point vapour minus bubble-point liquid enthalpy of composition ``z`` [J/mol]."""

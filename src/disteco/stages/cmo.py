@@ -63,6 +63,27 @@ class TemperatureNewton:
         y = np.where(np.isnan(self.y), x, self.y)
         return np.array([self.m.k_values(T[j], self.P[j], x[j], y[j]) for j in range(len(T))])
 
+    def follow_vapour(self, K: np.ndarray, x: np.ndarray) -> float:
+        """Move the vapour a contact on its bubble point's vapour is evaluated at (see
+        :func:`_two_phase_evaluation`) to the one its last K give, y = K x / sum(K x); return the largest
+        change of such a vapour mole fraction [-] (0 for an ideal-gas vapour).
+
+        Near the critical region a liquid-like composition has no vapour root at y = x; such a contact
+        keeps a vapour of its own, and one held at its first bubble point's while its liquid moved let
+        Newton's steps in T land it on the one-fluid side, where the bubble condition holds trivially:
+        a demethaniser at 35 bar converged with trays at 437 and 586 K between trays near 190 K, and its
+        full stage equations then failed from that start. Contacts at y = x keep it (their K hardly
+        depend on y; following it everywhere kept an ethylene/ethane column at 45 bar from converging).
+        """
+        if self.m.ideal_gas_vapour:
+            return 0.0
+        with np.errstate(divide="ignore", invalid="ignore"):
+            y = K * x / (K * x).sum(axis=1, keepdims=True)
+        usable = np.all(np.isfinite(y), axis=1) & ~_one_fluid(K) & ~np.isnan(self.y).any(axis=1)
+        before = np.where(np.isnan(self.y), x, self.y)
+        self.y[usable] = y[usable]
+        return float(np.abs(self.y[usable] - before[usable]).max(initial=0.0))
+
     def liquid_flows(self, K: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Component liquid flows (contacts, C) at fixed K, and the inverse matrix per component."""
         n, C = K.shape
@@ -135,7 +156,11 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
         Ts = T[1:].copy()
     Ts, g, J, K, l = _two_phase_evaluation(newton, Ts, x)
     for _ in range(MAX_ITERATIONS):
-        step = np.linalg.solve(J, -g)
+        try:
+            step = np.linalg.solve(J, -g)
+        except np.linalg.LinAlgError:  # a contact whose K lost their temperature slope (one fluid)
+            raise ConvergenceError("constant-molar-overflow profile: the bubble-point equations became singular "
+                                   "(a stage's liquid and vapour alike, near the critical region)") from None
         step *= min(1.0, MAX_STEP / np.abs(step).max())
         norm = np.linalg.norm(g)  # Newton steps descend the 2-norm, not necessarily the max-norm
         for _ in range(10):
@@ -147,7 +172,7 @@ def cmo_unknowns(mixture: Mixture, problem: ColumnProblem) -> np.ndarray:
             step *= 0.5
         Ts, g, J, K, l = trial, g_new, J_new, K_new, l_new
         x_new = l / l.sum(axis=1, keepdims=True)
-        change = np.abs(x_new - x).max()
+        change = max(np.abs(x_new - x).max(), newton.follow_vapour(K, x_new))
         x = x_new
         if change > 0.0:
             Ts, g, J, K, l = _two_phase_evaluation(newton, Ts, x)

@@ -105,7 +105,9 @@ class Stages:
             phi_v, h_v = base[2 * C + 2:], base[C + 1]
         else:
             phi_v, h_v = m.vapour_state(T, P, _fractions(v), energy)
-        return np.concatenate([phi_l / phi_v, [h_l, h_v], phi_l, phi_v])
+        with np.errstate(divide="ignore", invalid="ignore"):  # a state thermo cannot evaluate: the step is halved
+            k = phi_l / phi_v
+        return np.concatenate([k, [h_l, h_v], phi_l, phi_v])
 
     def all_properties(self, U: np.ndarray) -> np.ndarray:
         return np.array([self.block_properties(j, U[j]) for j in range(self.p.N + 1)])
@@ -228,6 +230,7 @@ class Stages:
         after the longest step along ``step`` (halved up to 8 times) that lowers the 2-norm."""
         norm_2 = np.linalg.norm(R0)
         alpha = first = min(1.0, MAX_TEMPERATURE_STEP / max(np.abs(step[:, -1]).max(), 1e-30))
+        props = None
         for _ in range(8):
             trial = U + alpha * step
             flows = trial[:, :-1]
@@ -250,6 +253,8 @@ class Stages:
             if lower or (np.isfinite(new_norm) and alpha < 0.05):
                 return trial, props, R, new_norm, lower and alpha == first
             alpha *= 0.5
+        if props is None:  # no step along the direction could be evaluated
+            raise ConvergenceError("the stage equations' Newton step left the states thermo can evaluate")
         return trial, props, R, new_norm, False
 
 

@@ -258,10 +258,11 @@ def test_energy_balance_minimum_time_limit_grows_with_the_column(monkeypatch):
     from disteco._base.errors import ConvergenceError
     from disteco.optimisation import minimum_reflux
 
-    limits = []
+    limits, retried = [], []
 
-    def stopped(*args, time_limit=None, **kwargs):
+    def stopped(*args, time_limit=None, first_retries=True, **kwargs):
         limits.append(time_limit)
+        retried.append(first_retries)
         raise ConvergenceError("stopped")
 
     monkeypatch.setattr(minimum_reflux, "solve_to_specs", stopped)
@@ -275,6 +276,8 @@ def test_energy_balance_minimum_time_limit_grows_with_the_column(monkeypatch):
     # each column: the first try gets the whole limit, the second (from the shortcut's distillate) what is left
     assert limits[0::2] == [pytest.approx(117.0, abs=0.5), pytest.approx(30.0, abs=0.5)]
     assert limits[1] <= limits[0] and limits[3] <= limits[2] and len(limits) == 4
+    # the first start's first column is not retried at more reflux (the second start follows), the last's is
+    assert retried == [False, True, False, True]
 
 
 def test_energy_balance_minimum_of_a_ppm_bottoms_is_found(tmp_path):

@@ -179,7 +179,7 @@ def gilliland_reflux(design: ShortcutDesign, stages: int) -> float:
 FIRST_COLUMN_REFLUX_FACTORS = (1.5, 2.0, 3.0)
 
 
-def _first_column(run, u: np.ndarray, start: StageProfile | None):
+def _first_column(run, u: np.ndarray, start: StageProfile | None, retries: bool = True):
     """(profile, residuals, unknowns) of Newton's first column: at ``u`` (ln R, D), or where that column does
     not converge, at the first of :data:`FIRST_COLUMN_REFLUX_FACTORS` times its reflux that does.
 
@@ -191,7 +191,7 @@ def _first_column(run, u: np.ndarray, start: StageProfile | None):
     try:
         return (*run(u[0], u[1], start), u)
     except ConvergenceError as failure:
-        for factor in FIRST_COLUMN_REFLUX_FACTORS:
+        for factor in FIRST_COLUMN_REFLUX_FACTORS if retries else ():
             higher = u + np.array([math.log(factor), 0.0])
             try:
                 return (*run(higher[0], higher[1], start), higher)
@@ -206,7 +206,7 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
                    pressure_drop_per_stage: float | None = None,
                    max_log_reflux_step: float = MAX_LOG_REFLUX_STEP,
                    time_limit: float | None = None, reflux_resolution: float | None = None,
-                   start_meets: bool = False) -> StageProfile:
+                   start_meets: bool = False, first_retries: bool = True) -> StageProfile:
     """Profile of a column with ``stages`` and ``feed_stage`` that meets both key specifications.
 
     ``energy`` chooses the stage model (energy balances, or constant molar overflow);
@@ -221,7 +221,9 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
     smaller than this (near a pinch a ppm specification's residual jumps by several units over
     1e-5 in ln R, and the tolerance on the residuals cannot be reached; the reflux ratio is then
     known to that resolution); with it, ``start_meets`` says the starting reflux meets both
-    specifications on these stages (see :func:`_least_reflux_at`).
+    specifications on these stages (see :func:`_least_reflux_at`). ``first_retries``: a first column
+    that does not converge is tried again at more reflux (:func:`_first_column`); off where the caller
+    has another start to fall back on.
     Raises InfeasibleSpecError when the stages are too few, ConvergenceError when Newton
     fails (usually: too close to the minimum number of stages).
     """
@@ -265,7 +267,7 @@ def solve_to_specs(mixture: Mixture, feed: FeedState, products: Products, column
         return _least_reflux_at(run, predicted, in_time, math.log(reflux), held, start, max_log_reflux_step,
                                 reflux_resolution, stages, feed_stage, start_meets)
     u = np.array([math.log(reflux), start.distillate_flow if start is not None else design.distillate_flow])
-    profile, r, u = _first_column(run, u, start)
+    profile, r, u = _first_column(run, u, start, first_retries)
     floor = -math.inf  # ln R of a trial below the current one that crossed a pinch or failed
     for _ in range(MAX_ITERATIONS):
         if np.abs(r).max() < TOLERANCE:

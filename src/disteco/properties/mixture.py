@@ -108,6 +108,10 @@ def choose_published_methods(correlations) -> None:
                 correlation.method = chosen
 
 
+# Share of a fluid's pseudo-critical pressure (Kay's rule) above which a split neither flash route finds
+# is put down to the critical region (a demethaniser's top vapour at 44 bar, its pseudo-critical 46 bar).
+NEAR_CRITICAL_SHARE = 0.9
+
 class Mixture:
     """Phase equilibrium and physical properties of one mixture over thermo.
 
@@ -336,7 +340,8 @@ class Mixture:
         """Raise: no vapour-liquid split at ``P``. Infeasible at or above the fluid's pseudo-critical
         pressure (Kay's rule, the mole-fraction mean of the critical pressures: a trace of a gas above
         its own critical pressure does not make a mixture critical), and a liquid with no bubble point
-        because light gases in it keep a vapour at any temperature; else ``failure`` itself."""
+        because light gases in it keep a vapour at any temperature; within 10 % below the pseudo-critical
+        pressure, not found there (:data:`NEAR_CRITICAL_SHARE`); else ``failure`` itself."""
         present = [i for i, zi in enumerate(z) if zi > 1e-9]
         critical = ", ".join(f"{self.names[i]} {self.critical_pressures[i] / 1e5:.4g} bar" for i in present)
         fluid = ", ".join(f"{self.names[i]} {z[i]:.4g}" for i in present)
@@ -354,6 +359,12 @@ class Mixture:
         heaviest = max(self.normal_boiling_points[i] for i in present)
         gases = [i for i in present if self.critical_temperatures[i] < mean] or \
             [i for i in present if self.critical_temperatures[i] < heaviest]
+        if P >= NEAR_CRITICAL_SHARE * pseudo_critical and not (vapour_fraction == 0.0 and gases):
+            raise InfeasibleSpecError(
+                f"no vapour-liquid split found at {P / 1e5:.4g} bar for a fluid of mole fractions {fluid}: the "
+                f"pressure lies within {100 * (1.0 - NEAR_CRITICAL_SHARE):.0f} % of its pseudo-critical pressure "
+                f"({pseudo_critical / 1e5:.4g} bar; critical pressures: {critical}), where neither thermo's flash "
+                "nor disteco's own route finds the two phases; lower the column pressure") from None
         if vapour_fraction == 0.0 and gases:
             named = ", ".join(f"{self.names[i]} {z[i]:.3g} (critical temperature "
                               f"{self.critical_temperatures[i] - 273.15:.0f} degC)" for i in gases)

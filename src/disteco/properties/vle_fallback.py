@@ -25,6 +25,8 @@ from typing import Callable
 import numpy as np
 from scipy.optimize import brentq
 
+from .._base.errors import PropertyError
+
 KFunction = Callable[[float, np.ndarray, np.ndarray], np.ndarray]  # (T, x, y) -> K [-]
 
 TRIVIAL_LN_K = 1e-4  # [-]; all |ln K| below this: both phases are the same fluid
@@ -51,7 +53,10 @@ def residual(k_values: KFunction, T: float, z: np.ndarray, beta: float, k0: np.n
     k = k0
     for _ in range(INNER_ITERATIONS):
         x, y = _phases(k, z, beta)
-        k_new = k_values(T, x, y)
+        try:
+            k_new = k_values(T, x, y)
+        except PropertyError:  # a state thermo cannot evaluate (a bracket step below 0 K): no split there
+            raise NoSplit from None
         if not np.all(np.isfinite(k_new)) or np.any(k_new <= 0.0):
             raise NoSplit
         if np.max(np.abs(np.log(k_new / k))) < INNER_TOLERANCE:

@@ -151,3 +151,17 @@ def test_at_44_bar_the_refusal_names_the_critical_region(tmp_path, capsys):
     assert main(["check", str(case)]) == 2
     err = capsys.readouterr().err
     assert "lies within 10 % of its pseudo-critical pressure (46.03 bar" in err and "lower the column pressure" in err
+
+
+def test_a_held_column_short_of_stages_does_not_stop_the_search():
+    """A configuration held short by its condenser's utility stops a search without a design only with
+    stages to spare (at least twice the minimum stages): a shorter column may over-purify one product up
+    to the utility's bound while it falls short of the other, which more stages would meet."""
+    from disteco.optimisation.search import Evaluator, UtilityHeld
+
+    evaluator = Evaluator(problem=None, basis=None, config=None, deadline=0.0, held_stops_from=14.4)
+    held = ("held", ("UtilityTemperatureError: held", "refrigerant_minus_100", "cooling"))
+    assert evaluator._record((12, 6), held) == float("inf")
+    assert evaluator.held[1] == "refrigerant_minus_100"
+    with pytest.raises(UtilityHeld):
+        evaluator._record((15, 9), held)

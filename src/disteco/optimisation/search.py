@@ -21,6 +21,7 @@ References
 
 from __future__ import annotations
 
+import math
 import multiprocessing
 import os
 import time
@@ -71,6 +72,7 @@ class Evaluator:
     warm_starts: bool = True
     pool: object | None = None  # an executor whose workers solve the configurations of a batch
     held: tuple | None = None  # (why, level, service) of a configuration held short by a utility's temperature
+    held_stops_from: float = math.inf  # stages from which such a configuration stops a search without a design
 
     low: int = 3
 
@@ -115,10 +117,11 @@ class Evaluator:
         kind, found = outcome
         if kind == "held":
             self.held, found = self.held or found, found[0]
-            if self.best() is None:
-                # the product's own condensing (boiling) temperature is out of the utility's reach: no other
-                # stages or feed stage can help, so the search stops here (a demethaniser on a level 3 K too
-                # warm tried 32 configurations in 45 s to say the same)
+            if self.best() is None and key[0] >= self.held_stops_from:
+                # with stages to spare, the product's own condensing (boiling) temperature is out of the
+                # utility's reach: no other stages or feed stage can help, so the search stops here (a
+                # demethaniser on a level 3 K too warm tried 32 configurations in 45 s to say the same); a
+                # column short of stages may over-purify one product towards the bound to meet the other
                 self.steps.append(SearchStep(*key, None, found))
                 raise UtilityHeld
         if kind in ("infeasible", "held"):
@@ -171,6 +174,9 @@ class Evaluator:
         self.designs[(stages, feed_stage)] = float("inf")
         self.failures[(stages, feed_stage)] = reason
         self.steps.append(SearchStep(stages, feed_stage, None, reason))
+
+
+HELD_STAGES = 2.0  # multiple of the minimum stages from which a held configuration stops the search
 
 
 class UtilityHeld(Exception):
@@ -452,7 +458,7 @@ def optimise(problem: SeparationProblem, basis: CostBasis, options=None,
     timed_out = False
     with worker_pool(config) as pool:
         evaluator = Evaluator(problem, basis, config, clock + config.time_limit, low=stage_floor(estimate, config),
-                              pool=pool)
+                              pool=pool, held_stops_from=HELD_STAGES * estimate.minimum_stages)
         evaluator.profiles.update({(d.stages, d.feed_stage): start_of(d) for d in starts})
         try:
             if start is not None and evaluator.allowed(*start):

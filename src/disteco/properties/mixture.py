@@ -112,6 +112,7 @@ def choose_published_methods(correlations) -> None:
 # is put down to the critical region (a demethaniser's top vapour at 44 bar, its pseudo-critical 46 bar).
 NEAR_CRITICAL_SHARE = 0.9
 
+
 class Mixture:
     """Phase equilibrium and physical properties of one mixture over thermo.
 

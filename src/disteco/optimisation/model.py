@@ -23,7 +23,7 @@ from .._base.operations import Operations
 from ..costing.annual import total_annualised_cost
 from ..costing.operating import yearly_cost
 from ..sizing.auxiliaries import drum_volume, pump_shaft_power
-from ..sizing.exchangers import exchanger_area, mean_temperature_difference, terminal_differences
+from ..sizing.exchangers import exchanger_area, mean_temperature_difference, terminal_differences, terminal_pairs
 from ..sizing.flooding import allowable_vapour_velocity, diameter_of, flow_parameter, required_tray_area, tray_area
 from .basis import CostBasis, SeparationProblem
 from .fitted_sizing import liquid_density, vapour_density
@@ -260,10 +260,15 @@ def shortfall(m) -> float:
 APPROACH_HELD = 0.01  # K within the minimum approach at which an exchanger end counts as holding the solution
 
 
-def held_ends(m) -> tuple[tuple[str, int], ...]:
-    """The exchanger ends (name, end as in :func:`terminal_differences`) at their minimum approach at the
-    current point."""
-    return tuple(key for key, c in m.approach.items() if pyo.value(c.body) - pyo.value(c.lower) < APPROACH_HELD)
+def held_ends(m) -> tuple[tuple[str, float], ...]:
+    """(exchanger, utility temperature [K] at that end) of each exchanger end (as :func:`terminal_pairs`
+    pairs them) at its minimum approach at the current point."""
+    held = []
+    for name, side, inlet, outlet, _ in _exchanger_sides(m):
+        pairs = terminal_pairs(side.service, inlet, outlet, side.utility_in, side.utility_out)
+        held += [(name, utility) for end, (_, utility) in enumerate(pairs)
+                 if pyo.value(m.approach[name, end].body) - pyo.value(m.approach[name, end].lower) < APPROACH_HELD]
+    return tuple(held)
 
 
 # ------------------------------------------------------------------ sizing
@@ -334,8 +339,8 @@ def _start_within_approach(m) -> None:
         cooling = side.service == "cooling"
         ends = terminal_differences(side.service, inlet.value, outlet.value + offset, side.utility_in,
                                     side.utility_out)
-        # cooling: end 0 holds the inlet, end 1 the outlet; heating the other way round
-        for var, difference in zip((inlet, outlet) if cooling else (outlet, inlet), ends):
+        pairs = terminal_pairs(side.service, inlet, outlet, side.utility_in, side.utility_out)
+        for (var, _), difference in zip(pairs, ends):
             short = side.minimum_approach + APPROACH_START - difference
             if short > 0.0:
                 var.set_value(_inside(var.value + (short if cooling else -short), var))

@@ -234,9 +234,9 @@ def solved_model(problem: SeparationProblem, basis: CostBasis, stages: int, feed
     return model, report
 
 
-def utility_held(short: str, basis: CostBasis, exchanger: str, end: int) -> UtilityTemperatureError:
-    """The error of a configuration held short of its specifications by ``exchanger``'s utility temperature
-    at its ``end`` (0 or 1, as in :func:`disteco.sizing.exchangers.terminal_differences`).
+def utility_held(short: str, basis: CostBasis, exchanger: str, utility: float) -> UtilityTemperatureError:
+    """The error of a configuration held short of its specifications by ``exchanger``'s utility temperature,
+    ``utility`` [K] at the end where the minimum approach binds (:func:`~disteco.optimisation.model.held_ends`).
 
     A condenser's process side can be no colder than the utility plus the minimum approach (a
     reboiler's no hotter than the utility less it); a product that meets the specifications
@@ -244,7 +244,6 @@ def utility_held(short: str, basis: CostBasis, exchanger: str, end: int) -> Util
     """
     side = basis.condenser if exchanger == "condenser" else basis.reboiler
     cooling = side.service == "cooling"
-    utility = (side.utility_out, side.utility_in)[end] if cooling else (side.utility_in, side.utility_out)[end]
     bound = utility + side.minimum_approach if cooling else utility - side.minimum_approach
     product, act, beyond, further, pressure = (("distillate", "condenses", "warmer", "colder", "raise") if cooling
                                                else ("bottoms", "boils", "colder", "hotter", "lower"))

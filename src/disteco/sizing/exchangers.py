@@ -106,15 +106,25 @@ def mean_temperature_difference(dt_one, dt_two):
     return ((dt_one ** (1.0 / 3.0) + dt_two ** (1.0 / 3.0)) / 2.0) ** 3
 
 
-def terminal_differences(service: str, process_in, process_out, utility_in, utility_out):
-    """(dT_1, dT_2) [K] of a counter-current condenser (``service`` "cooling") or reboiler ("heating").
+def terminal_pairs(service: str, process_in, process_out, utility_in, utility_out):
+    """((process, utility) at end 1, (process, utility) at end 2) of a counter-current condenser
+    (``service`` "cooling") or reboiler ("heating"): the temperatures that face each other.
 
-    Cooling: the process is the hot side, dT_1 = process in - utility out, dT_2 = process out -
-    utility in; heating the other way round.
+    Cooling: the process inlet meets the utility outlet, the process outlet the utility inlet;
+    heating: the process outlet meets the utility inlet, the process inlet the utility outlet.
     """
     if service == "cooling":
-        return process_in - utility_out, process_out - utility_in
-    return utility_in - process_out, utility_out - process_in
+        return (process_in, utility_out), (process_out, utility_in)
+    return (process_out, utility_in), (process_in, utility_out)
+
+
+def terminal_differences(service: str, process_in, process_out, utility_in, utility_out):
+    """(dT_1, dT_2) [K] of a counter-current condenser (``service`` "cooling") or reboiler ("heating")
+    at the ends of :func:`terminal_pairs`: the hot side less the cold side (the process is the hot
+    side of a condenser)."""
+    cooling = service == "cooling"
+    return tuple(process - utility if cooling else utility - process
+                 for process, utility in terminal_pairs(service, process_in, process_out, utility_in, utility_out))
 
 
 @dataclass(frozen=True)

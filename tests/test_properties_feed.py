@@ -48,6 +48,8 @@ def test_q_against_hand_calculation_with_thermo_pr_enthalpies(hand, mixture, kin
     feed = Feed(FeedFlow("molar", 50.0), Z, ThermalCondition(kind, value), P_feed)
     state = feed_state(feed, mixture, P_COLUMN)
     assert state.q == pytest.approx(hand_q(hand, spec, P_feed or P_COLUMN), abs=1e-6)
+    # the feed's own vapour fraction, thermo's flash at its temperature and pressure
+    assert state.vapour_fraction == pytest.approx(hand.flash(P=P_feed or P_COLUMN, zs=list(Z), **spec).VF, abs=1e-6)
 
 
 def test_saturated_liquid_feed_at_column_pressure_has_q_one(mixture):
@@ -114,7 +116,8 @@ def test_a_q_colder_than_the_feed_can_be_is_refused(benzene_toluene):
 
 def test_the_console_states_the_feed_condition_from_q(mixture):
     """The console's feed line names the condition q describes: above 1 a subcooled liquid, 1 saturated,
-    between 0 and 1 partly vaporised with vapour fraction 1 - q, below 0 a superheated vapour."""
+    between 0 and 1 partly vaporised with the feed's own vapour fraction where known (not 1 - q: q weighs
+    the phases by enthalpy), below 0 a superheated vapour."""
     from disteco.reports.text import feed_condition, feed_line
 
     cold = feed_state(Feed(FeedFlow("molar", 50.0), Z, ThermalCondition("temperature", 293.15), None), mixture,
@@ -123,5 +126,10 @@ def test_the_console_states_the_feed_condition_from_q(mixture):
                                "(subcooled liquid)")
     assert [feed_condition(q) for q in (1.0002, 0.9998, 0.0, -0.0004)] == ["saturated liquid"] * 2 + [
         "saturated vapour"] * 2
-    assert feed_condition(0.3) == "partly vaporised, vapour fraction 0.700"
+    assert feed_condition(0.3) == "partly vaporised"
+    assert feed_condition(0.3, 0.62) == "partly vaporised, vapour fraction 0.620"
+    flashed = feed_state(Feed(FeedFlow("molar", 50.0), Z, ThermalCondition("vapour_fraction", 0.3), None), mixture,
+                         P_COLUMN)
+    assert feed_line(flashed).endswith(f"q {flashed.q:.3f} [-] (partly vaporised, vapour fraction 0.300)")
+    assert abs(flashed.q - 0.7) > 2e-3  # q weighs by enthalpy: 0.703 here, 0.556 on a wide-boiling feed
     assert feed_condition(-0.2) == "superheated vapour"

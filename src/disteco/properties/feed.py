@@ -19,6 +19,9 @@ class FeedState:
     """Feed molar flow [mol/s], composition [-], its own pressure [Pa], q [-] and enthalpy [J/mol].
 
     ``bubble_T`` and ``dew_T`` are those of the feed composition at the column pressure it enters.
+    ``vapour_fraction`` is the feed's own molar vapour fraction at its temperature and pressure [-]
+    (None for a feed given by a q between 0 and 1): on a wide-boiling feed it differs from 1 - q,
+    which weighs the phases by enthalpy.
     """
 
     molar_flow: float
@@ -29,6 +32,7 @@ class FeedState:
     bubble_T: float  # K
     dew_T: float  # K
     temperature: float  # K
+    vapour_fraction: float | None = None
 
 
 def mole_fractions(feed: Feed, mixture: Mixture) -> tuple[float, ...]:
@@ -97,21 +101,24 @@ def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
         T = _temperature_of(q, bubble.T, dew.T)
         if q > 1.0:
             T = _subcooled_temperature(mixture, P, z, q, h_feed, h_vapour, latent, bubble.T)
+        vapour_fraction = 0.0 if q >= 1.0 else 1.0 if q <= 0.0 else None
     elif condition.kind == "vapour_fraction":
         point = mixture.flash_pvf(P_feed, condition.value, z)
         T = point.T
         h_feed = _two_phase_enthalpy(mixture, point)
         q = (h_vapour - h_feed) / latent
+        vapour_fraction = condition.value
     else:
         T = condition.value
         own_bubble, own_dew = (bubble, dew) if P_feed == P else (mixture.bubble_point(P_feed, z),
                                                                  mixture.dew_point(P_feed, z))
         if T <= own_bubble.T:
-            h_feed = mixture.liquid_enthalpy(T, P_feed, z)
+            h_feed, vapour_fraction = mixture.liquid_enthalpy(T, P_feed, z), 0.0
         elif T >= own_dew.T:
-            h_feed = mixture.vapour_enthalpy(T, P_feed, z)
+            h_feed, vapour_fraction = mixture.vapour_enthalpy(T, P_feed, z), 1.0
         else:
-            h_feed = _two_phase_enthalpy(mixture, mixture.flash_tp(T, P_feed, z))
+            point = mixture.flash_tp(T, P_feed, z)
+            h_feed, vapour_fraction = _two_phase_enthalpy(mixture, point), float(point.vapour_fraction)
         q = (h_vapour - h_feed) / latent
     if not -5.0 <= q <= 5.0:
         raise InfeasibleSpecError(
@@ -119,7 +126,7 @@ def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
             f"bubble point {bubble.T - 273.15:.1f} degC and dew point {dew.T - 273.15:.1f} degC); "
             "check the feed temperature and pressure")
     return FeedState(feed_molar_flow(feed, mixture), tuple(z), P_feed, float(q), float(h_feed),
-                     bubble.T, dew.T, float(T))
+                     bubble.T, dew.T, float(T), vapour_fraction)
 
 
 def _two_phase_enthalpy(mixture: Mixture, point) -> float:

@@ -77,6 +77,7 @@ def feed_json(feed: FeedState, written: Feed | None = None) -> dict:
         "pressure_kPa": feed.pressure / 1e3,
         "temperature_degC": to_degC(feed.temperature),
         "q": feed.q,
+        "vapour_fraction": feed.vapour_fraction,
     }
     if written is not None and written.composition_basis == "mass":
         found["mass_fractions_as_written"] = list(written.composition)

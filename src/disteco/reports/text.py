@@ -70,21 +70,22 @@ def mass_specification_lines(case) -> list[str]:
     return [f"Product specifications written by mass, used as mole fractions: {'; '.join(parts)}"] if parts else []
 
 
-def feed_condition(q: float) -> str:
-    """The feed's thermal condition in words, from q, the liquid formed per mole of feed on the feed stage [-]."""
+def feed_condition(q: float, vapour_fraction: float | None = None) -> str:
+    """The feed's thermal condition in words, from q, the liquid formed per mole of feed on the feed stage [-],
+    and the feed's own molar vapour fraction where known [-] (not 1 - q on a wide-boiling feed)."""
     if q > 1.0 + Q_SATURATED:
         return "subcooled liquid"
     if q >= 1.0 - Q_SATURATED:
         return "saturated liquid"
     if q > Q_SATURATED:
-        return f"partly vaporised, vapour fraction {1.0 - q:.3f}"
+        return "partly vaporised" + (f", vapour fraction {vapour_fraction:.3f}" if vapour_fraction is not None else "")
     return "saturated vapour" if q >= -Q_SATURATED else "superheated vapour"
 
 
 def feed_line(feed: FeedState) -> str:
     """The feed's flow, temperature, pressure and q with its condition in words."""
     return (f"Feed: {feed.molar_flow * KMOL_PER_H:,.2f} kmol/h at {to_degC(feed.temperature):.2f} degC and "
-            f"{feed.pressure / 1e3:.2f} kPa, q {feed.q:.3f} [-] ({feed_condition(feed.q)})")
+            f"{feed.pressure / 1e3:.2f} kPa, q {feed.q:.3f} [-] ({feed_condition(feed.q, feed.vapour_fraction)})")
 
 
 def mixture_text(summary: MixtureSummary, mass_fractions: tuple[float, ...] | None = None,

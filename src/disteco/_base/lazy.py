@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import importlib
 import sys
+import types
 
 
 def lazy_names(package: str, modules: dict[str, tuple[str, ...]]):
@@ -34,3 +35,26 @@ def lazy_names(package: str, modules: dict[str, tuple[str, ...]]):
         return sorted(set(vars(sys.modules[package])) | set(home))
 
     return __getattr__, __dir__, sorted(home)
+
+
+class _LoadedOnFirstUse(types.ModuleType):
+    """Stands in ``sys.modules`` for a module not imported yet; the first attribute it lacks imports it."""
+
+    def __getattr__(self, name: str):
+        if sys.modules.get(self.__name__) is self:
+            del sys.modules[self.__name__]
+        return getattr(importlib.import_module(self.__name__), name)
+
+
+def import_on_first_use(*modules: str) -> None:
+    """Let ``modules`` be imported on first use although a dependency imports them eagerly.
+
+    Pyomo's dependency module imports scipy's statistics and integration packages as soon as
+    scipy and Pyomo are both loaded (``_finalize_scipy``; no option turns it off), 0.26 s of
+    every process that builds a model, for packages that neither disteco nor the parts of Pyomo
+    it uses touch. A module already imported is left alone; one that is used after all is
+    imported then, whole (the placeholder hands every attribute on to it).
+    """
+    for module in modules:
+        if module not in sys.modules:
+            sys.modules[module] = _LoadedOnFirstUse(module)

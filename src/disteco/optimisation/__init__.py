@@ -5,7 +5,9 @@ Entry points: :func:`optimise_design` (search over reflux, stages and feed stage
 is the checking tool that solves every configuration.
 """
 
-from .._base.lazy import lazy_names
+from .._base.lazy import import_on_first_use, lazy_names
+
+import_on_first_use("scipy.stats", "scipy.integrate")  # before any module of this layer imports Pyomo
 
 __getattr__, __dir__, __all__ = lazy_names(__name__, {
     "basis": ("CostBasis", "ExchangerBasis", "SeparationProblem", "TrayBasis"),

@@ -199,6 +199,18 @@ def test_initial_barrier_leaves_the_optimum(problem, basis, solved):
     assert pyo.value(own.R) == pytest.approx(pyo.value(solved.R), rel=1e-4)
 
 
+def test_one_solver_object_per_process_with_each_solves_own_options():
+    """The solver object is kept (its executable and version looked up once), its options set anew each
+    time: nothing of one solve's limits or barrier strategy reaches the next."""
+    first = make_solver("ripopt", 5.0, 40, 1e-4, barrier="adaptive", tolerance=1e-3)
+    made_with = dict(first.options)
+    second = make_solver("ripopt", 12.0, 300, 1e-4)
+    assert second is first
+    assert "mu_strategy" not in second.options and "tol" not in second.options
+    assert (second.options["max_iter"], second.options["max_wall_time"]) == (300, 12.0)
+    assert made_with["mu_strategy"] == "adaptive" and made_with["solver"] == second.options["solver"]
+
+
 def test_distillate_without_a_bubble_point_is_refused_in_words(problem, monkeypatch):
     """A top vapour the fitted forms cannot condense totally (light components at a low top pressure:
     a 20-component case with 6.6 % methane at 3 bar) is an infeasible request, not an internal error."""

@@ -81,6 +81,8 @@ def test_bar_in_a_terminal_counts_down_and_reaches_its_total():
         display(ProgressStep("searching", 1, 4, 100.0))
         clock.now = 40.0
         assert display.left_text() == "about 1 min 00 s left"
+        clock.now = 99.5
+        assert display.left_text() == "under a second left"
         clock.now = 120.0
         assert display.left_text() == "taking longer than estimated"
         display(ProgressStep("done", 4, 4, 0.0))

@@ -174,7 +174,10 @@ class ProgressDisplay:
         if step.seconds_left is None:
             return "time left not known yet"  # nothing measured for a step still to come
         left = step.seconds_left - (self.clock() - self._step_start)
-        return f"about {_duration(left)} left" if left >= 1.0 else "taking longer than estimated"
+        if left >= 1.0:
+            return f"about {_duration(left)} left"
+        # an estimate under a second is no delay: the TAC curve's step, drawn beside the checks, often ends so
+        return "under a second left" if left >= 0.0 else "taking longer than estimated"
 
     def __call__(self, step: ProgressStep) -> None:
         with self._lock:

@@ -176,6 +176,25 @@ def test_given_design_taller_than_the_limit_is_laid_out_as_two_shells():
     assert not any(w.startswith("extrapolated: column shell") for w in design.warnings)
 
 
+def test_a_given_design_re_priced_on_thermo_keeps_its_two_shells(monkeypatch):
+    """The checks on thermo price a corrected given design again with the sizing they are handed: it
+    carries the shells chosen for the design, not the case's one shell (ethanol-water given 100 stages
+    at R 3, corrected on thermo, was reported as one 116 m shell of 3.9 m set by the height-to-diameter
+    limit beside the note that it was costed as two shells)."""
+    from disteco import api
+    from disteco.optimisation import thermo_checks as checks_module
+
+    from conftest import EXAMPLES
+
+    handed = []
+    checks = checks_module.thermo_checks
+    monkeypatch.setattr(checks_module, "thermo_checks", lambda *a, **k: handed.append(a[7]) or checks(*a, **k))
+    case = api.load_case(EXAMPLES / "aromatics_binary.toml")
+    result = api.design(case, given=api.GivenDesign(2.0, 80, 40), compare=False)
+    assert [sizing.shells for sizing in handed] == [2]
+    assert handed[0].tray_spacing == result.evaluation.sequential.sizing.height.tray_spacing
+
+
 def test_given_design_too_tall_even_for_two_shells_takes_the_lowest_spacing(tmp_path, monkeypatch):
     """Redwater propylene splitter (tests/cases/propylene_splitter.toml, invented) given at R 13 on 190
     stages: 204 real trays. At the default 0.61 m spacing one shell would be 127 m and two shells 67 m

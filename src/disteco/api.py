@@ -268,8 +268,9 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         plan.start(f"pricing the given design under '{names[0]}'")
         evaluation = evaluate_design(case, mixture, feed, data, given.reflux_ratio, given.stages,
                                      given.feed_stage, options, sizing, names[0], choose_spacing=True)
-        if evaluation.sequential is not None:  # the tray spacing chosen for it
-            sizing = replace(sizing, tray_spacing=evaluation.sequential.sizing.height.tray_spacing)
+        if evaluation.sequential is not None:  # the tray spacing and shells chosen for it, kept when re-priced
+            chosen = evaluation.sequential.sizing
+            sizing = replace(sizing, tray_spacing=chosen.height.tray_spacing, shells=chosen.shells)
         plan.finish()
         plan.start("checking the design on thermo (energy balances, minimum reflux)")
         checks = thermo_checks(case, mixture, feed, data, evaluation, stages, options, sizing, names[0],

@@ -303,7 +303,12 @@ def test_nrtl_pairs_fitted_again_together_on_the_column_liquids_of_three_compone
                            (cases / "alcohols_four_aqueous.toml", False)):
         mixture, feed, profile, fitted = _fitted_as_designed(path)
         pairs = fit_mixture(mixture, fitted.P_low, fitted.P_high, z=feed.z)
-        assert (fitted.nrtl_a != pairs.nrtl_a) == refitted, path.name
+        # compared by ln(gamma) on the column's liquids, not by parameters: a pair's a and b trade off along a
+        # flat valley (tau = a + b/T over a narrow range of T), and two fits of the same points have ended
+        # 0.05 K apart in b, 1e-4 in a, with ln(gamma) the same to 1e-6
+        apart = max(abs(g - h) for T, x in zip(profile.T, profile.x)
+                    for g, h in zip(fitted.ln_gamma(T, list(x)), pairs.ln_gamma(T, list(x))))
+        assert (apart > 1e-3 if refitted else apart < 1e-5), (path.name, apart)
         if not refitted:
             continue
         before, after = check_fit(pairs, mixture, profile), check_fit(fitted, mixture, profile)

@@ -19,9 +19,9 @@ class FeedState:
     """Feed molar flow [mol/s], composition [-], its own pressure [Pa], q [-] and enthalpy [J/mol].
 
     ``bubble_T`` and ``dew_T`` are those of the feed composition at the column pressure it enters.
-    ``vapour_fraction`` is the feed's own molar vapour fraction at its temperature and pressure [-]
-    (None for a feed given by a q between 0 and 1): on a wide-boiling feed it differs from 1 - q,
-    which weighs the phases by enthalpy.
+    ``vapour_fraction`` is the feed's molar vapour fraction as it enters the column [-], None where not
+    computed (a feed given by a q between 0 and 1, or one let down from its own pressure, which flashes
+    on entry): on a wide-boiling feed it differs from 1 - q, which weighs the phases by enthalpy.
     """
 
     molar_flow: float
@@ -126,7 +126,7 @@ def feed_state(feed: Feed, mixture: Mixture, pressure: float) -> FeedState:
             f"bubble point {bubble.T - 273.15:.1f} degC and dew point {dew.T - 273.15:.1f} degC); "
             "check the feed temperature and pressure")
     return FeedState(feed_molar_flow(feed, mixture), tuple(z), P_feed, float(q), float(h_feed),
-                     bubble.T, dew.T, float(T), vapour_fraction)
+                     bubble.T, dew.T, float(T), vapour_fraction if P_feed == P or condition.kind == "q" else None)
 
 
 def _two_phase_enthalpy(mixture: Mixture, point) -> float:

@@ -240,8 +240,8 @@ def feed_table(feed: FeedState, names: tuple[str, ...]) -> Table:
         ("Pressure [kPa]", feed.pressure / KPA),
         ("Temperature [degC]", to_degC(feed.temperature)),
         ("Thermal condition q [-]", feed.q),
-        ("Vapour fraction at its temperature and pressure [-]",
-         feed.vapour_fraction if feed.vapour_fraction is not None else "not computed (given by q)"),
+        ("Vapour fraction on entry [-]",
+         feed.vapour_fraction if feed.vapour_fraction is not None else "not computed (given by q, or let down)"),
         ("Bubble point [degC]", to_degC(feed.bubble_T)),
         ("Dew point [degC]", to_degC(feed.dew_T)),
     ]

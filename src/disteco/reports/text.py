@@ -72,7 +72,7 @@ def mass_specification_lines(case) -> list[str]:
 
 def feed_condition(q: float, vapour_fraction: float | None = None) -> str:
     """The feed's thermal condition in words, from q, the liquid formed per mole of feed on the feed stage [-],
-    and the feed's own molar vapour fraction where known [-] (not 1 - q on a wide-boiling feed)."""
+    and the feed's molar vapour fraction on entry where known [-] (not 1 - q on a wide-boiling feed)."""
     if q > 1.0 + Q_SATURATED:
         return "subcooled liquid"
     if q >= 1.0 - Q_SATURATED:

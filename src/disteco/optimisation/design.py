@@ -380,8 +380,10 @@ def _spacing_descent(result: OptimumDesign, sizing: SizingOptions, optimise_at, 
     best, tried = result, {result.sizing_options.tray_spacing}
     while True:
         here = best.sizing_options.tray_spacing
-        fixed = {p.spacing: p.tac for p in spacing_prices(best.best.profile, mixture, data, best.sizing_options,
-                                                        scenario, year) if p.tac is not None}
+        # priced at every candidate: an optimum found at a neighbour's spacing holds that spacing alone
+        every = replace(best.sizing_options, tray_spacings=sizing.tray_spacings)
+        fixed = {p.spacing: p.tac for p in spacing_prices(best.best.profile, mixture, data, every, scenario, year)
+                 if p.tac is not None}
         if here not in fixed:
             break
         index = candidates.index(here) if here in candidates else None

@@ -226,10 +226,12 @@ def test_reported_optimum_priced_as_a_given_design(result, tmp_path, capsys):
     compared = given["given_design"]
     assert compared["held"]["stages"] == design["stages"]
     optimum = compared["optimum"]
-    # the same design up to a near-tie of neighbouring feed stages (the comparison holds the control
-    # margin on the energy-balance minimum found on the given design's own pressures)
-    assert optimum["stages"] == design["stages"] and abs(optimum["feed_stage"] - design["feed_stage"]) <= 1
-    assert optimum["tac_per_year"] == pytest.approx(data["cost"]["tac_per_year"], rel=0.005)
+    # the optimum an optimising run reports: held to the control margin on its own energy-balance minimum
+    # (until 2026-12-05 on the given design's, another column's pressures: a feed stage apart, or for a
+    # given 80 stages up to 240 kPa, R 1.956 on 23 stages and TAC +0.8 %)
+    assert (optimum["stages"], optimum["feed_stage"]) == (design["stages"], design["feed_stage"])
+    assert optimum["reflux_ratio"] == pytest.approx(design["reflux_ratio"], rel=1e-4)
+    assert optimum["tac_per_year"] == pytest.approx(data["cost"]["tac_per_year"], rel=1e-5)
     assert abs(compared["extra_tac_fraction"]) < 0.005
     assert "Given design (priced): " in out and "Lowest-TAC" not in out
     assert "benzene in the bottoms 0.0150 (specification at most 0.015)" in out

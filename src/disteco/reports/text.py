@@ -216,11 +216,13 @@ def products_lines(products: Products, feed: FeedState, profile: StageProfile, n
             "Products reached (mole fractions): " + "; ".join(reached)]
 
 
-TRACE_FRACTION = 1e-3  # components below it in a product are counted, not listed
+TRACE_FRACTION = 1e-3  # components below it in a product are counted, not listed (the keys always are)
 
 
-def _stream_words(flow: float, composition, names: tuple[str, ...]) -> str:
-    listed = [f"{n} {fraction_text(x, 4)}" for n, x in zip(names, composition) if x >= TRACE_FRACTION]
+def _stream_words(flow: float, composition, names: tuple[str, ...], keys: tuple[int, int]) -> str:
+    # a key below the threshold is what a ppm specification is about: listed, in its own digits
+    listed = [f"{n} {fraction_text(x, 4)}" for i, (n, x) in enumerate(zip(names, composition))
+              if x >= TRACE_FRACTION or i in keys]
     traces = len(names) - len(listed)
     more = f", {traces} more below {TRACE_FRACTION:g}" if traces else ""
     return f"{flow * KMOL_PER_H:,.2f} kmol/h ({', '.join(listed)}{more})"
@@ -235,8 +237,8 @@ def product_streams_lines(profile: StageProfile, feed: FeedState, names: tuple[s
     """
     if len(names) <= 2:
         return []
-    distillate = _stream_words(profile.distillate_flow, profile.distillate_composition, names)
-    bottoms = _stream_words(profile.bottoms_flow, profile.bottoms_composition, names)
+    distillate = _stream_words(profile.distillate_flow, profile.distillate_composition, names, keys)
+    bottoms = _stream_words(profile.bottoms_flow, profile.bottoms_composition, names, keys)
     lines = [f"Products (mole fractions): distillate {distillate}; bottoms {bottoms}"]
     splits = []
     for i, name in enumerate(names):

@@ -257,6 +257,20 @@ def test_partial_condenser_is_an_equilibrium_contact(partial_and_total):
     assert mixture.bubble_point(P, reflux).T == pytest.approx(p.condenser_temperature, abs=0.5)
 
 
+def test_the_stage_count_says_the_partial_condenser_is_not_in_it(partial_and_total):
+    """N counts the trays' stages and the reboiler; a partial condenser is an equilibrium contact above
+    stage 1 besides them (the model's own xD, yD), which the console line and the workbook say."""
+    from disteco.reports.tables import design_items
+    from disteco.reports.text import stages_counted
+
+    _, _, (partial, total) = partial_and_total
+    assert partial.profile.stages == total.profile.stages == 31
+    assert stages_counted(partial.profile) == "reboiler included, the partial condenser a further equilibrium stage"
+    assert stages_counted(total.profile) == "reboiler included"
+    labels = [label for label, _ in design_items(partial.profile)]
+    assert "Equilibrium stages, reboiler included (the partial condenser a further one) [-]" in labels
+
+
 def test_partial_condenser_condenses_only_the_reflux(partial_and_total):
     """At the same R, N and NF the partial condenser removes about R/(R + 1) of the total
     condenser's duty (only the reflux is condensed; latent heats of benzene and toluene differ

@@ -216,6 +216,12 @@ def products_lines(products: Products, feed: FeedState, profile: StageProfile, n
             "Products reached (mole fractions): " + "; ".join(reached)]
 
 
+def stages_counted(profile: StageProfile) -> str:
+    """What the stage count holds: the reboiler, and not a partial condenser (an equilibrium contact above stage 1)."""
+    return "reboiler included" + (", the partial condenser a further equilibrium stage" if profile.partial_condenser
+                                  else "")
+
+
 TRACE_FRACTION = 1e-3  # components below it in a product are counted, not listed (the keys always are)
 
 
@@ -336,7 +342,7 @@ def design_text(result: DesignResult) -> str:
         heading = "Best design found (search incomplete, see the warnings)"
     factor = f" ({profile.reflux_ratio / stages.minimum_reflux:.2f} x the constant-molar-overflow minimum)" if stages else ""
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
-              f"(reboiler included), feed on stage {profile.feed_stage} from the top",
+              f"({stages_counted(profile)}), feed on stage {profile.feed_stage} from the top",
               *(f"Limited by {limit.text}: {limit_advice(limit, parts.optimum.layout)}" for limit in limits),
               f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",

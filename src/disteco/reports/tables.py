@@ -313,8 +313,8 @@ def stage_profile_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
 def design_items(profile: StageProfile) -> list[tuple[str, Cell]]:
     return [
         ("Reflux ratio [-]", profile.reflux_ratio),
-        ("Equilibrium stages, reboiler included" + (" (the partial condenser a further one)" if profile.partial_condenser
-                                                     else "") + " [-]", profile.stages),
+        ("Equilibrium stages, reboiler included"
+         + (" (the partial condenser a further one)" if profile.partial_condenser else "") + " [-]", profile.stages),
         ("Feed stage, from the top [-]", profile.feed_stage),
         ("Distillate flow [kmol/h]", profile.distillate_flow * KMOL_PER_H),
         ("Bottoms flow [kmol/h]", profile.bottoms_flow * KMOL_PER_H),

@@ -38,7 +38,8 @@ def test_ready_to_design_imports_the_modelling_layer_and_freezes_what_lasts():
     code = ("import gc, sys, disteco.api as api\n"
             "before = gc.get_freeze_count()\n"
             "api.ready_to_design()\n"
-            "print(before, gc.get_freeze_count(), 'pyomo.environ' in sys.modules, len(gc.garbage), gc.get_threshold()[0])")
+            "print(before, gc.get_freeze_count(), 'pyomo.environ' in sys.modules, len(gc.garbage),"
+            " gc.get_threshold()[0])")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.split()
     assert out[0] == "0" and int(out[1]) > 50_000 and out[2:] == ["True", "0", "20000"]
 

@@ -63,7 +63,7 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
         minimum = minimum_near.of_unconstrained_design()
     else:
         minimum = energy_balance_minimum(case, mixture, feed, stages.shortcut, reported,
-                                         minimum_stages=stages.minimum_stages)
+                                         minimum_stages=stages.minimum_stages, given=hold_reflux)
     if fitted is None:
         fitted = resolved_problem(case, mixture, feed, model_options(options), at_least=design.stages).fitted
     fit = check_fit(fitted, mixture, verification.profile)

@@ -52,26 +52,7 @@ def build_column_model(problem: SeparationProblem, basis: CostBasis, stages: int
     _add_specs(m)
     _add_sizing(m)
     _add_costs(m)
-    _add_scaling(m)
     return m
-
-
-DUTY_PER_FEED = 40.0  # kW per mol/s of feed: about a molar latent heat [kJ/mol], the duties' order per unit of feed
-
-
-def _add_scaling(m) -> None:
-    """Scaling factors the solver reads with the model (the .nl file's ``scaling_factor`` suffix): flows per
-    unit of feed, duties per unit of the feed's latent heat, so that the model's conditioning does not follow
-    the throughput. Measured: the depentaniser example at 20 x its feed took 2-14 s per configuration and
-    failed many from their warm starts (iterate to 1.7e4 kW, dual infeasibility stuck at 1.4e8); scaled,
-    0.1-0.2 s each, the same TACs."""
-    per_feed = 1.0 / m.problem.feed_flow
-    m.scaling_factor = pyo.Suffix(direction=pyo.Suffix.EXPORT)
-    for flows in (m.L, m.V):
-        for flow in flows.values():
-            m.scaling_factor[flow] = per_feed
-    m.scaling_factor[m.D] = per_feed
-    m.scaling_factor[m.Qc] = m.scaling_factor[m.Qr] = per_feed / DUTY_PER_FEED
 
 
 # ------------------------------------------------------------------ stages

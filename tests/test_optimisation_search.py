@@ -261,14 +261,14 @@ def test_the_stage_count_says_the_partial_condenser_is_not_in_it(partial_and_tot
     """N counts the trays' stages and the reboiler; a partial condenser is an equilibrium contact above
     stage 1 besides them (the model's own xD, yD), which the console line and the workbook say."""
     from disteco.reports.tables import design_items
-    from disteco.reports.text import stages_counted
+    from disteco.reports.tables import stages_counted
 
     _, _, (partial, total) = partial_and_total
     assert partial.profile.stages == total.profile.stages == 31
     assert stages_counted(partial.profile) == "reboiler included, the partial condenser a further equilibrium stage"
     assert stages_counted(total.profile) == "reboiler included"
     labels = [label for label, _ in design_items(partial.profile)]
-    assert "Equilibrium stages, reboiler included (the partial condenser a further one) [-]" in labels
+    assert "Equilibrium stages, reboiler included, the partial condenser a further equilibrium stage [-]" in labels
 
 
 def test_partial_condenser_condenses_only_the_reflux(partial_and_total):

@@ -310,11 +310,16 @@ def stage_profile_table(profile: StageProfile, names: tuple[str, ...]) -> Table:
     return Table("Stage profile", tuple(columns), tuple(rows))
 
 
+def stages_counted(profile: StageProfile) -> str:
+    """What the stage count holds: the reboiler, and not a partial condenser (an equilibrium contact above stage 1)."""
+    return "reboiler included" + (", the partial condenser a further equilibrium stage" if profile.partial_condenser
+                                  else "")
+
+
 def design_items(profile: StageProfile) -> list[tuple[str, Cell]]:
     return [
         ("Reflux ratio [-]", profile.reflux_ratio),
-        ("Equilibrium stages, reboiler included"
-         + (" (the partial condenser a further one)" if profile.partial_condenser else "") + " [-]", profile.stages),
+        (f"Equilibrium stages, {stages_counted(profile)} [-]", profile.stages),
         ("Feed stage, from the top [-]", profile.feed_stage),
         ("Distillate flow [kmol/h]", profile.distillate_flow * KMOL_PER_H),
         ("Bottoms flow [kmol/h]", profile.bottoms_flow * KMOL_PER_H),

@@ -14,7 +14,7 @@ from dataclasses import dataclass
 from ..optimisation.layout import SEARCH_AGAIN_TOLERANCE
 from ..optimisation.results import DesignEvaluation, OptimumDesign, SequentialPrice
 from ..stages.results import StageProfile
-from .tables import KW, MONEY, TEXT, Cell, Column, Table, quantity_table, text
+from .tables import KW, MONEY, TEXT, Cell, Column, Table, quantity_table, stages_counted, text
 
 # what moves a design's reported TAC from the model's: the sizing layer's standard sizes
 ROUNDED_SIZES = "the reported price rounds the diameter and the shell's plate up to standard sizes"
@@ -107,7 +107,7 @@ def optimum_table(optimum: OptimumDesign) -> Table:
         ("Reflux ratio [-]", best.reflux_ratio),
         ("Minimum reflux ratio, on the model's fitted forms [-]", optimum.minimum_reflux_ratio),
         ("Reflux ratio / that minimum [-]", best.reflux_ratio / optimum.minimum_reflux_ratio),
-        ("Equilibrium stages, reboiler included [-]", best.stages),
+        (f"Equilibrium stages, {stages_counted(best.profile)} [-]", best.stages),
         ("Minimum stages on the model's fitted forms, reboiler included [-]", optimum.minimum_stages),
         ("Feed stage, from the top [-]", best.feed_stage),
         ("Real trays [-]", best.sizes.real_trays),

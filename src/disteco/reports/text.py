@@ -13,7 +13,7 @@ from .choices import margin_text, sizing_text
 from .check_result import CaseCheck
 from .design_result import DesignResult
 from .notes import console_warnings
-from .tables import KMOL_PER_H
+from .tables import KMOL_PER_H, stages_counted
 from .tables_design import GivenDesignReport
 from .text_checks import checks_lines, fraction_text
 from .text_scenarios import given_scenario_lines, scenario_lines
@@ -214,12 +214,6 @@ def products_lines(products: Products, feed: FeedState, profile: StageProfile, n
             f"{profile.feed_stage}; the distillate flow ({profile.distillate_flow * KMOL_PER_H:,.2f} kmol/h) is "
             "chosen to meet both specifications at least cost",
             "Products reached (mole fractions): " + "; ".join(reached)]
-
-
-def stages_counted(profile: StageProfile) -> str:
-    """What the stage count holds: the reboiler, and not a partial condenser (an equilibrium contact above stage 1)."""
-    return "reboiler included" + (", the partial condenser a further equilibrium stage" if profile.partial_condenser
-                                  else "")
 
 
 TRACE_FRACTION = 1e-3  # components below it in a product are counted, not listed (the keys always are)

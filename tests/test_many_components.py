@@ -29,9 +29,10 @@ MAX = 30
 STAGES, FEED_STAGE = 17, 8  # the search's start (twice Fenske's 7.9, Kirkbride's feed stage)
 
 
-def problem_and_basis(max_stages: int = MAX):
-    """The case's separation problem (forms fitted to ``max_stages``) and reference cost basis."""
-    case = load_case(CASE)
+def problem_and_basis(max_stages: int = MAX, case=None):
+    """The separation problem (forms fitted to ``max_stages``) and reference cost basis of ``case`` (a loaded
+    case; this module's by default)."""
+    case = case or load_case(CASE)
     mixture = mixture_of(case)
     feed = feed_state(case.feed, mixture, case.column.top_pressure)
     problem = separation_problem(case, mixture, feed, max_stages)

@@ -38,10 +38,14 @@ def test_tower_above_range_is_extrapolated_with_a_warning():
     assert any(w.startswith("column shell: extrapolated") and "520" in w for w in cost.warnings)
 
 
-def test_small_pump_below_range_is_extrapolated_with_a_warning():
+def test_small_pump_below_range_is_costed_along_the_tangent_with_a_warning():
+    """Turton et al., 4th ed., Table A.1 (centrifugal pump, 1-300 kW; from memory): K1 3.3892, K2 0.0536; at
+    the range's 1 kW, u = 0, the tangent's slope is K2: 0.5 kW costs 10**(3.3892 + 0.0536 log10 0.5) at the
+    base index, less than the 1 kW pump (the quadratic itself would price it higher: K3 > 0)."""
     cost = cost_equipment(DATA, "reflux pump", "centrifugal_pump", 500.0, 397.0)
-    assert cost.installed > 0
-    assert any("extrapolated" in w and "shaft_power" in w for w in cost.warnings)
+    assert cost.purchased_base == pytest.approx(10 ** (3.3892 + 0.0536 * math.log10(0.5)), rel=1e-6)
+    assert cost.purchased_base < cost_equipment(DATA, "reflux pump", "centrifugal_pump", 1000.0, 397.0).purchased_base
+    assert any("shaft_power 500 W is below 1000 W" in w and "tangent" in w for w in cost.warnings)
 
 
 def test_raise_policy_refuses_a_size_outside_the_range():

@@ -70,6 +70,50 @@ def turton_purchased_cost(size, k1: float, k2: float, k3: float, ops: Operations
     return ops.exp(LN10 * (k1 + k2 * log_a + k3 * log_a * log_a))
 
 
+def tangent_below(size, smallest: float, k1: float, k2: float, k3: float, ops: Operations = FLOAT):
+    """Purchased cost of :func:`turton_purchased_cost` above ``smallest``, continued below it along the
+    curve's tangent in log-log coordinates (value and slope kept: differentiable for the model).
+
+    .. math::
+        \log_{10} C = K_1 + K_2 u + K_3 u^2 - K_3 \min(u - u_s, 0)^2,\quad u = \log_{10} A,\ u_s = \log_{10} A_s
+
+    (below :math:`u_s` the last term cancels the quadratic's curvature: the tangent line at :math:`u_s`).
+    Not the source's: the constants are fitted over a size range, and a quadratic with :math:`K_3 > 0`
+    rises again below its lowest point, so that a 0.05 m2 exchanger read 99 000 USD and a 10 m2 one
+    15 000 USD (2001). A tangent with a slope of zero or more holds the price of the smallest unit
+    built (common practice, no source). The min is :meth:`Operations.min`, smooth.
+
+    Parameters
+    ----------
+    size : float
+        Size A in the source's unit [source unit]
+    smallest : float
+        Size A_s below which the tangent holds [source unit]
+    k1, k2, k3 : float
+        The curve's constants [-]
+    ops : Operations
+        exp, log, sqrt of the numbers used [-]
+
+    Returns
+    -------
+    float
+        Purchased cost at the base cost index [USD]
+
+    Examples
+    --------
+    The fixed-tube-sheet row (range 10-1000 m2): equal at 10 m2 and above, nearly flat below.
+
+    >>> k = (4.3247, -0.3030, 0.1634)
+    >>> round(tangent_below(100.0, 10.0, *k)) == round(turton_purchased_cost(100.0, *k))
+    True
+    >>> round(tangent_below(0.05, 10.0, *k)), round(turton_purchased_cost(0.05, *k))
+    (13500, 98968)
+    """
+    log_a = ops.log(size) / LN10
+    short = ops.min(log_a - math.log10(smallest), 0.0)
+    return ops.exp(LN10 * (k1 + k2 * log_a + k3 * (log_a * log_a - short * short)))
+
+
 def pressure_factor_polynomial(pressure_gauge: float, c1: float, c2: float, c3: float,
                                pressure_min_gauge: float) -> float:
     """Pressure factor of exchangers and pumps, Turton et al. Appendix A.
@@ -298,12 +342,21 @@ class CostCurve:
                              self.size_max * self.si_per_unit, unit, self.source)
 
     def expression(self, size, ops: Operations = FLOAT):
-        """Purchased cost at the base index, :func:`turton_purchased_cost` over ``ops`` (float or Pyomo).
+        """Purchased cost at the base index, :func:`turton_purchased_cost` over ``ops`` (float or Pyomo), held
+        to its tangent below :attr:`held_below`.
 
         ``size`` is in SI units (m3, m2, W). The one form the costing layer and the
         optimisation model both evaluate.
         """
-        return turton_purchased_cost(size / self.si_per_unit, self.k1, self.k2, self.k3, ops)
+        return tangent_below(size / self.si_per_unit, self.held_below, self.k1, self.k2, self.k3, ops)
+
+    @property
+    def held_below(self) -> float:
+        """Size [size_unit] below which the cost follows the curve's tangent (:func:`tangent_below`): the range's
+        lower end, or the curve's lowest point where that lies above it (a floating-head exchanger's at 21.6 m2,
+        a sieve tray's at 0.27 m2: below them the fitted curve rises as the size falls)."""
+        lowest = 10.0 ** (-self.k2 / (2.0 * self.k3)) if self.k3 > 0.0 else 0.0
+        return max(self.size_min, lowest)
 
     def purchased_cost(self, size: float, policy: OutOfRange = OutOfRange.RAISE,
                        warnings: list[str] | None = None) -> float:

@@ -45,8 +45,16 @@ def first_strategy(problem, options) -> str:
     return barrier_order(model_options(options), len(problem.z))[0]
 
 
+def violation(constraint) -> float:
+    """How far the solved point breaks ``constraint`` (0 where it holds), in the constraint's own unit."""
+    body = pyo.value(constraint.body)
+    return max(0.0, (constraint.lower - body) if constraint.lower is not None else 0.0,
+               (body - constraint.upper) if constraint.upper is not None else 0.0)
+
+
 @pytest.mark.parametrize("stages, feed_stage", [(20, 8), (21, 11), (22, 12)])
 def test_a_large_feed_solves_by_the_first_strategy(large, stages, feed_stage):
+    """The scaled problem's convergence test still holds the balances in their own units: mol/s and kW."""
     problem, basis = large
     assert problem.feed_flow == pytest.approx(1900 / 3.6)
     options = {"max_stages": MAX}
@@ -54,17 +62,20 @@ def test_a_large_feed_solves_by_the_first_strategy(large, stages, feed_stage):
     assert report.barrier == first_strategy(problem, options)
     # n-butane, isopentane and 98 % of the n-pentane overhead with 2 % of the n-hexane: 0.55 of the feed
     assert pyo.value(model.D) == pytest.approx(0.55 * problem.feed_flow, rel=0.01)
+    assert max(violation(c) for c in model.component_balance.values()) < 1e-10 * problem.feed_flow
+    assert max(violation(c) for c in model.energy_balance.values()) < 1e-10 * pyo.value(model.Qr)
 
 
-@pytest.mark.parametrize("stages, feed_stage", [(18, 11), (24, 12)])
-def test_scaled_and_unscaled_reach_the_same_optimum(large, monkeypatch, stages, feed_stage):
-    """Where the unscaled model solves at all (by the second strategy, 0.4-1.6 s)."""
+def test_scaled_and_unscaled_reach_the_same_optimum(large, monkeypatch):
+    """On 24 stages, feed on 12, where the unscaled model solves (by the second strategy, 0.1-0.6 s; whether
+    an unscaled configuration solves at all is erratic: 18/11 solved and failed between two cost-data
+    changes that did not touch it)."""
     problem, basis = large
     options = {"max_stages": MAX}
-    model, _ = solved_model(problem, basis, stages, feed_stage, options)
+    model, _ = solved_model(problem, basis, 24, 12, options)
     scaled = pyo.value(model.tac), pyo.value(model.R)
     monkeypatch.setattr(column_model, "throughput_scale", lambda feed_flow: 1.0)
-    model, report = solved_model(problem, basis, stages, feed_stage, options)
+    model, report = solved_model(problem, basis, 24, 12, options)
     assert report.barrier != first_strategy(problem, options)  # as it was measured
     assert scaled[0] == pytest.approx(pyo.value(model.tac), rel=1e-5)
     assert scaled[1] == pytest.approx(pyo.value(model.R), rel=1e-4)

@@ -338,7 +338,8 @@ def design_text(result: DesignResult) -> str:
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"({stages_counted(profile)}), feed on stage {profile.feed_stage} from the top",
               *(f"Limited by {limit.text}: {limit_advice(limit, parts.optimum.layout)}" for limit in limits),
-              f"Condenser duty {profile.condenser_duty / 1e3:,.0f} kW, reboiler duty {profile.reboiler_duty / 1e3:,.0f} kW"]
+              f"Condenser duty {_figures(profile.condenser_duty / 1e3)} kW, "
+              f"reboiler duty {_figures(profile.reboiler_duty / 1e3)} kW"]
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)
     lines += [margin] if margin else []
@@ -356,8 +357,8 @@ def design_text(result: DesignResult) -> str:
         lines.append(f"Column: {s.diameter:.2f} m diameter, {s.real_trays} real trays "
                      f"(efficiency {s.efficiency.value:.2f}) at {s.height.tray_spacing:.2f} m spacing, "
                      f"{_shells_words(s)}; "
-                     f"condenser {s.condenser.area:,.0f} m2 on {s.condenser.utility.name}, "
-                     f"reboiler {s.reboiler.area:,.0f} m2 on {s.reboiler.utility.name}")
+                     f"condenser {_figures(s.condenser.area)} m2 on {s.condenser.utility.name}, "
+                     f"reboiler {_figures(s.reboiler.area)} m2 on {s.reboiler.utility.name}")
     if parts.cost is not None:
         c = parts.cost
         lines.append(f"Cost ({c.currency} {c.cost_year}, scenario '{c.scenario}'): installed capital "
@@ -383,3 +384,8 @@ def design_text(result: DesignResult) -> str:
                         else f"{rounds} without the model's constants settling (see the warnings)"))
     lines += scenario_lines(parts) + (given_scenario_lines(parts.given) if parts.given is not None else [])
     return "\n".join(lines)
+
+
+def _figures(value: float) -> str:
+    """A size or duty to the unit, or to two significant figures below ten (a pilot column's 0.046 m2 read 0)."""
+    return f"{value:,.0f}" if abs(value) >= 10.0 else f"{value:.2g}"

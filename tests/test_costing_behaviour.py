@@ -32,10 +32,15 @@ def test_exchanger_above_range_is_split_into_parallel_units():
 
 
 def test_tower_above_range_is_extrapolated_with_a_warning():
-    """A column cannot be split: 600 m3 (range 0.3-520 m3) is extrapolated and says so."""
+    """A column cannot be split: 600 m3 (range 0.3-520 m3) is costed along the curve's tangent at 520 m3
+    and says so. Turton et al., 4th ed., Table A.1 (vertical vessel, from memory): K1 3.4974, K2 0.4485,
+    K3 0.1074; the tangent's slope at 520 m3 is K2 + 2 K3 log10 520 = 1.032."""
     cost = cost_equipment(DATA, "column shell", "vertical_vessel", 600.0, 397.0, diameter=5.0)
     assert cost.parallel_units == 1
-    assert any(w.startswith("column shell: extrapolated") and "520" in w for w in cost.warnings)
+    assert any(w.startswith("column shell: volume 600 m3 is above 520 m3") and "tangent" in w for w in cost.warnings)
+    at_top = 10 ** (3.4974 + 0.4485 * math.log10(520) + 0.1074 * math.log10(520) ** 2)
+    slope = 0.4485 + 2 * 0.1074 * math.log10(520)
+    assert cost.purchased_base == pytest.approx(at_top * (600 / 520) ** slope, rel=1e-6)
 
 
 def test_small_pump_below_range_is_costed_along_the_tangent_with_a_warning():

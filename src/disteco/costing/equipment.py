@@ -3,9 +3,9 @@
 C_BM = N_units N_q F_q C_p^0(size per unit) (I / I_base) (B_1 + B_2 F_M F_P)
 
 A size above a correlation's range is split into identical parallel units where the
-data row says ``above_range = parallel``, and extrapolated otherwise; either way a
-warning is listed. Below the range, or below the curve's lowest point where that lies inside it, the
-cost follows the curve's tangent (``CostCurve.held_below``), with a warning.
+data row says ``above_range = parallel``, and costed along the curve's tangent otherwise;
+a size below the range (or below the curve's lowest point where that lies inside it,
+``CostCurve.held_below``) along its tangent there too. Each adds a warning.
 """
 
 from __future__ import annotations
@@ -102,16 +102,16 @@ def cost_equipment(data: CostData, item: str, equipment: str, size: float, cost_
         warnings.append(f"{item}: {curve.size_variable} {size:.4g} {validity.unit} is above the "
                         f"{validity.high:.4g} {validity.unit} of {equipment}; split into {units} parallel units "
                         f"of {size / units:.4g} {validity.unit}")
-    held = curve.held_below * curve.si_per_unit
-    if size / units < held and policy is OutOfRange.WARN:
-        where = "begins" if curve.held_below == curve.size_min else \
-            f"is lowest (its range is {validity.low:g} to {validity.high:g} {validity.unit})"
-        warnings.append(f"{curve.size_variable} {size / units:.4g} {validity.unit} is below {held:.4g} "
-                        f"{validity.unit}, where the {equipment} cost curve {where}: costed along the curve's "
-                        f"tangent there, so that a smaller unit never costs more ({curve.source}; the tangent is "
-                        "common practice, no source)")
+    per_unit, held = size / units, curve.held_below * curve.si_per_unit
+    if policy is OutOfRange.WARN and not held <= per_unit <= validity.high:
+        where = (f"above {validity.high:.4g} {validity.unit}, where the {equipment} cost curve ends" if per_unit > held
+                 else f"below {held:.4g} {validity.unit}, where the {equipment} cost curve " + (
+                     "begins" if curve.held_below == curve.size_min else
+                     f"is lowest (its range is {validity.low:g} to {validity.high:g} {validity.unit})"))
+        warnings.append(f"{curve.size_variable} {per_unit:.4g} {validity.unit} is {where}: costed along the curve's "
+                        f"tangent there ({curve.source}; the tangent is common practice, no source)")
     else:
-        validity.check(size / units, policy, warnings)
+        validity.check(per_unit, policy, warnings)
     warnings = [w if w.startswith(item) else f"{item}: {w}" for w in warnings]
     material_row = data.material_factor(curve.material_group, material)
     pressure_factor = pressure_factor_of(data, curve.pressure_group, pressure_gauge, diameter, item, warnings)

@@ -240,3 +240,19 @@ def test_an_efficiency_far_beyond_o_connell_s_data_is_said_on_the_console():
     assert warning.startswith("tray efficiency 0.19 from O'Connell's correlation at 6.16 times the top of its data")
     assert kind_of(warning).name == "sizing and mechanical" and console_warnings((warning,))[0] == (warning,)
     assert efficiency(1.25)[1] == []
+
+
+def test_a_column_wider_than_eight_metres_is_said_to_be_rare(mixture, sized):
+    """Fifty times the flows: a column about 7 x wider (the flooding area goes with the vapour flow), warned
+    as rare with two columns in parallel to consider (common practice, no source)."""
+    base = make_profile(mixture)
+    scale = 50.0
+    wide = dataclasses.replace(base, L=tuple(scale * f for f in base.L), V=tuple(scale * f for f in base.V),
+                               distillate_flow=scale * D, bottoms_flow=scale * D,
+                               condenser_duty=scale * base.condenser_duty, reboiler_duty=scale * base.reboiler_duty)
+    column = size_column(wide, mixture, UTILITIES, 850.0, 1000.0)
+    assert column.diameter == pytest.approx(sized.diameter * math.sqrt(scale), rel=0.05)
+    assert column.diameter > 8.0
+    [warning] = [w for w in column.warnings if "above 8 m" in w]
+    assert f"column diameter {column.diameter:.2f} m" in warning and "two columns in parallel" in warning
+    assert not any("above 8 m" in w for w in sized.warnings)

@@ -32,6 +32,7 @@ from .vessel import ColumnHeight, VesselDesign, column_height, design_pressure, 
 # bottom over top pressure of a vacuum column above which its trays' drop is pointed out [-]
 # (common practice, no source: packing's drop per stage is a fraction of a tray's)
 VACUUM_DROP_RATIO = 3.0
+WIDE_COLUMN = 8.0  # m, above which a single column is rare (common practice, no source)
 
 
 class SizingProperties(Protocol):
@@ -258,6 +259,12 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
     if diameter < 0.6:
         warnings.append(f"column diameter {diameter:.2f} m is below 0.6 m (common practice, no source): "
                         "trays are hard to install; consider packing")
+    elif diameter > WIDE_COLUMN:
+        # a depropaniser at 15,000 kmol/h came out 10.9 m wide, one shell, 97 % of its capital in a vessel
+        # with walls 20 x the thinnest, without a word
+        warnings.append(f"column diameter {diameter:.2f} m is above {WIDE_COLUMN:g} m (common practice, no "
+                        "source): few columns are built wider (transport, tray support, the shell's wall under "
+                        "pressure); consider two columns in parallel, which disteco does not price")
     top, bottom = profile.P[0], profile.P[-1]
     if top < ATMOSPHERE and bottom > VACUUM_DROP_RATIO * top:
         # a glycol column at 2 kPa reached 21.6 kPa in its sump through 37 trays, with no word about it

@@ -119,9 +119,9 @@ def held_to_tangents(size, smallest: float, largest: float, k1: float, k2: float
     log_a = ops.log(size) / LN10
     if k3 == 0.0:  # a straight line is its own tangent
         return ops.exp(LN10 * (k1 + k2 * log_a))
-    # Written so that log_a appears three times, as in the quadratic itself: the model's solver expands each
-    # appearance (with the size's own expression) anew, and the plain form (eleven) made every solve 9 %
-    # slower on the benzene example. The quadratic about its vertex; the distance outside [u_s, u_l] as the
+    # Written so that log_a appears three times, as in the quadratic itself: each appearance is written into
+    # the model's file and evaluated apart, and the plain form (eleven) made every solve 9 % slower on the
+    # benzene example. The quadratic about its vertex; the distance outside [u_s, u_l] as the
     # smooth max of a smooth |u - centre| less the half width (both at most 1e-8 off inside the range).
     low, high = math.log10(smallest), math.log10(largest)
     vertex = -k2 / (2.0 * k3)

@@ -34,7 +34,7 @@ from .layout import MORE_STAGES, ONE_SHELL, SPACING_TOLERANCE, STAGE_BOUND_STEP,
     widened_by_slenderness
 from .problem import resolved_problem, separation_problem
 from .search import DIRECTIONS, optimise, start_of
-from .solve import size_factor, solve_configuration
+from .solve import RANGE_NOTE, size_factor, solve_configuration
 from .start import purer_product_starts, shortcut
 from .first_round import DROP_TOLERANCE, NO_MORE_SHELLS, ROUNDS, HeightLimitError, check_height_limit, \
     cheapest_spacing, close_enough, keyed, next_drop, record_drop, shells_hold, first_reference, settled_reference, \
@@ -294,9 +294,10 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
             problem = separation_problem(case, mixture, feed, config.max_stages,
                                          record_drop(drops, here, problem.stage_pressure_drop, drop))
     solver = replace(result.solver, wall_time=wall, configurations_solved=solved)
-    # the chosen configuration's cost-curve range notes from the model: the sequential price
-    # reports the same curves' ranges for the reported sizes (they were printed twice)
-    warnings = tuple(w for w in result.warnings if w not in result.best.warnings)
+    # the model's cost-curve range notes: the sequential price reports the curves' ranges for the reported
+    # sizes (the chosen configuration's were printed twice; an earlier round's optimum's beside them, with
+    # other sizes, a pilot column's drum and pump noted twice more)
+    warnings = tuple(w for w in result.warnings if w not in result.best.warnings and RANGE_NOTE not in w)
     if limit is not None:  # the search's "raise max_stages" does not apply to a height limit
         warnings = tuple(w for w in warnings if "raise max_stages" not in w)
     return replace(result, sequential=priced, rounds=rounds, warnings=case.column.warnings + warnings,

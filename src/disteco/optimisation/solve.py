@@ -405,12 +405,16 @@ def _item(pricing, size: float, installed: float) -> CostItem:
                     installed)
 
 
+RANGE_NOTE = " cost curve at "  # in the notes of a model design's sizes beyond a cost curve's range
+
+
 def _range_warnings(priced) -> list[str]:
     notes = []
     for pricing, size, _ in priced:
         validity = pricing.curve.validity()
         per_unit = size / pricing.parallel_units
         if not validity.contains(per_unit):
-            notes.append(f"extrapolated: {pricing.item} cost curve at {per_unit:.4g} {validity.unit}, outside "
-                         f"{validity.low:g} to {validity.high:g} {validity.unit} ({pricing.curve.source or 'cost data'})")
+            notes.append(f"extrapolated: {pricing.item}{RANGE_NOTE}{per_unit:.4g} {validity.unit}, outside "
+                         f"{validity.low:g} to {validity.high:g} {validity.unit}, costed along the curve's tangent "
+                         f"({pricing.curve.source or 'cost data'})")
     return notes

@@ -33,6 +33,12 @@ def large():
     return problem_and_basis(MAX, replace(case, feed=replace(case.feed, flow=replace(flow, value=TIMES * flow.value))))
 
 
+def test_the_example_s_model_carries_no_scaling():
+    problem, basis = problem_and_basis(MAX, load_case(CASE))
+    model = column_model.build_column_model(problem, basis, 22, 11, {"max_stages": MAX})
+    assert not hasattr(model, "scaling_factor")
+
+
 def test_feeds_inside_the_measured_range_are_not_scaled():
     low, high = column_model.MEASURED_FEEDS
     assert column_model.throughput_scale(95 / 3.6) == 1.0  # the example, mol/s
@@ -60,6 +66,7 @@ def test_a_large_feed_solves_by_the_first_strategy(large, stages, feed_stage):
     options = {"max_stages": MAX}
     model, report = solved_model(problem, basis, stages, feed_stage, options)
     assert report.barrier == first_strategy(problem, options)
+    assert model.scaling_factor[model.D] == model.scaling_factor[model.Qr] == pytest.approx(300 / 1900)
     # n-butane, isopentane and 98 % of the n-pentane overhead with 2 % of the n-hexane: 0.55 of the feed
     assert pyo.value(model.D) == pytest.approx(0.55 * problem.feed_flow, rel=0.01)
     assert max(violation(c) for c in model.component_balance.values()) < 1e-10 * problem.feed_flow

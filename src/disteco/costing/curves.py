@@ -371,9 +371,10 @@ class CostCurve:
     def held_below(self) -> float:
         """Size [size_unit] below which the cost follows the curve's tangent (:func:`held_to_tangents`): the range's
         lower end, or the curve's lowest point where that lies above it (a floating-head exchanger's at 21.6 m2,
-        a sieve tray's at 0.27 m2: below them the fitted curve rises as the size falls)."""
+        a sieve tray's at 0.27 m2: below them the fitted curve rises as the size falls); at most the range's
+        upper end (a user's row falling over its whole range)."""
         lowest = 10.0 ** (-self.k2 / (2.0 * self.k3)) if self.k3 > 0.0 else 0.0
-        return max(self.size_min, lowest)
+        return min(max(self.size_min, lowest), self.size_max)
 
     def purchased_cost(self, size: float, policy: OutOfRange = OutOfRange.RAISE,
                        warnings: list[str] | None = None) -> float:

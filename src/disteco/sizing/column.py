@@ -260,8 +260,8 @@ def size_column(profile: StageProfile, mixture: SizingProperties, utilities: Seq
         warnings.append(f"column diameter {diameter:.2f} m is below 0.6 m (common practice, no source): "
                         "trays are hard to install; consider packing")
     elif diameter > WIDE_COLUMN:
-        # a depropaniser at 15,000 kmol/h came out 10.9 m wide, one shell, 97 % of its capital in a vessel
-        # with walls 20 x the thinnest, without a word
+        # a depropaniser at 15,000 kmol/h came out 10.9 m wide in one shell, 88 % of its capital in a vessel
+        # whose pressure factor was 20, without a word
         warnings.append(f"column diameter {diameter:.2f} m is above {WIDE_COLUMN:g} m (common practice, no "
                         "source): few columns are built wider (transport, tray support, the shell's wall under "
                         "pressure); consider two columns in parallel, which disteco does not price")

@@ -147,14 +147,21 @@ def _least_reflux_at(run, predicted, in_time, log_r: float, distillate: float, s
             meets, best = (trial, total), profile
         else:
             misses = (trial, total)
+        if meets and misses and met == met_before:
+            # the same end moved twice running: the Illinois step halves the other end's residual (a residual
+            # curved near a pinch otherwise moves one end only, by ever smaller steps)
+            if met:
+                misses = (misses[0], 0.5 * misses[1])
+            else:
+                meets = (meets[0], 0.5 * meets[1])
         last = (trial, profile) if profile is not None else last
         if meets and misses and meets[0] - misses[0] < resolution:
             return best
         if meets and misses:
-            # false position, halving where the same end moved twice running (a kinked residual near a pinch)
+            # false position (Illinois), bisection beside a column that did not solve
             width = meets[0] - misses[0]
-            weight = 0.5 if math.isinf(misses[1]) or met == met_before else meets[1] / (meets[1] - misses[1])
-            trial = meets[0] - min(max(weight, 0.1), 0.9) * width
+            weight = 0.5 if math.isinf(misses[1]) else meets[1] / (meets[1] - misses[1])
+            trial = meets[0] - min(max(weight, 0.02), 0.98) * width
         else:
             trial += -max_step if meets else max_step
         met_before = met

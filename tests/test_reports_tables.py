@@ -246,3 +246,17 @@ def test_a_mole_fraction_keeps_the_digits_that_tell_it_from_zero_or_one(value, s
     from disteco.reports.workbook_cells import number_format_of
 
     assert number_format_of(value, "mole fraction") == shown == number_format_of(value, "fraction")  # a recovery
+
+
+@pytest.mark.parametrize("value, unit, shown", [(0.0036, "m^2", "0.00000"), (0.14, "kW", "0.00000"),
+                                                (12.3, "m^2", "0.0"), (5.0, "kW", "0.0"), (1860.0, "kW", "#,##0"),
+                                                (0.0, "kW", "0.0"), (0.16, "1/year", "0.0000")])
+def test_a_pilot_column_s_sizes_keep_two_figures_in_the_workbook_and_on_the_console(value, unit, shown):
+    """A 10 mol/h column's 0.0036 m2 condenser and 0.14 kW duty read 0.0 in the workbook and 0 on the console;
+    a value the unit's format would show with fewer than two figures takes the format by size."""
+    from disteco.reports.tables import size_text
+    from disteco.reports.workbook_cells import number_format_of
+
+    assert number_format_of(value, unit) == shown
+    assert size_text(value) == {0.0036: "0.0036", 0.14: "0.14", 12.3: "12", 5.0: "5", 1860.0: "1,860", 0.0: "0",
+                                0.16: "0.16"}[value]

@@ -15,7 +15,7 @@ from ..optimisation.results import DesignEvaluation, OptimumDesign
 from ..properties import BinaryDiagram, MixtureSummary
 from ..stages.binary import EquilibriumCurve, SteppedColumn
 from ..stages.results import StageProfile
-from .tables import KPA, KW, PALETTE, Note, Plot, SecondAxis, Series, nice_limits
+from .tables import KPA, KW, PALETTE, Note, Plot, SecondAxis, Series, nice_limits, size_text
 
 # Colours of our own for the x-y diagram's parts (hex RGB).
 EQUILIBRIUM, CONSTRUCTION, DESIGN, GUIDE, PRODUCT, AZEOTROPE = (
@@ -241,7 +241,7 @@ def stages_duty_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], o
                              tuple(float(d.stages) for d in ordered), "markers" if k == 0 else "open_markers",
                              PALETTE[(0, 1, 2, 3, 4, 7)[k % 6]]))
     best = optimum.best
-    series.append(Series(f"Chosen design: N = {best.stages}, {best.sizes.reboiler_duty / KW:,.0f} kW",
+    series.append(Series(f"Chosen design: N = {best.stages}, {size_text(best.sizes.reboiler_duty / KW)} kW",
                          (best.sizes.reboiler_duty / KW,), (float(best.stages),), "highlight", AZEOTROPE))
     duties = [v for s in series for v in s.x]
     stages = [v for s in series for v in s.y] + [optimum.minimum_stages]
@@ -254,7 +254,7 @@ def stages_duty_plot(curves: Sequence[tuple[str, Sequence[DesignEvaluation]]], o
     series.append(Series(f"Minimum stages, {optimum.minimum_by('stages')} ({optimum.minimum_stages:.1f})", x_limits,
                          (optimum.minimum_stages,) * 2, "guide", GUIDE))
     if q_min is not None and q_min > 0.0:
-        series.append(Series(f"Duty at minimum reflux, {basis} ({q_min / KW:,.0f} kW)", (q_min / KW,) * 2,
+        series.append(Series(f"Duty at minimum reflux, {basis} ({size_text(q_min / KW)} kW)", (q_min / KW,) * 2,
                              y_limits, "guide", GUIDE))
     return Plot("stages_vs_duty", "Ideal stages against reboiler duty", "Reboiler duty [kW]",
                 "Ideal stages, reboiler included [-]", tuple(series), x_limits=x_limits, y_limits=y_limits)

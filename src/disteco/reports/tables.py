@@ -85,6 +85,16 @@ class Table:
         return frame
 
 
+def size_text(value: float) -> str:
+    """A size or duty to the unit, or to two significant figures below ten (a pilot column's 0.0036 m2 condenser
+    and 0.14 kW duty read "0").
+
+    >>> size_text(1860.4), size_text(0.0036), size_text(9.96)
+    ('1,860', '0.0036', '10')
+    """
+    return f"{value:,.0f}" if abs(value) >= 10.0 else f"{value:.2g}"
+
+
 def fraction_decimals(value: float, decimals: int) -> int | None:
     """Decimal places that tell a fraction [-] apart from 0 or 1: ``decimals`` in between, one past
     the first digit that differs from 1 near 1 (at most 9); None below 0.001, where three

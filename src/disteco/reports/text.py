@@ -13,7 +13,7 @@ from .choices import margin_text, sizing_text
 from .check_result import CaseCheck
 from .design_result import DesignResult
 from .notes import console_warnings
-from .tables import KMOL_PER_H, stages_counted
+from .tables import KMOL_PER_H, size_text, stages_counted
 from .tables_design import GivenDesignReport
 from .text_checks import checks_lines, fraction_text
 from .text_scenarios import given_scenario_lines, scenario_lines
@@ -338,8 +338,8 @@ def design_text(result: DesignResult) -> str:
     lines += [f"{heading}: reflux ratio {profile.reflux_ratio:.3f} [-]{factor}, {profile.stages} stages "
               f"({stages_counted(profile)}), feed on stage {profile.feed_stage} from the top",
               *(f"Limited by {limit.text}: {limit_advice(limit, parts.optimum.layout)}" for limit in limits),
-              f"Condenser duty {_figures(profile.condenser_duty / 1e3)} kW, "
-              f"reboiler duty {_figures(profile.reboiler_duty / 1e3)} kW"]
+              f"Condenser duty {size_text(profile.condenser_duty / 1e3)} kW, "
+              f"reboiler duty {size_text(profile.reboiler_duty / 1e3)} kW"]
     margin = margin_text(parts.margin, parts.cost.currency if parts.cost else "",
                          parts.cost.tac_per_year if parts.cost else None)
     lines += [margin] if margin else []
@@ -357,8 +357,8 @@ def design_text(result: DesignResult) -> str:
         lines.append(f"Column: {s.diameter:.2f} m diameter, {s.real_trays} real trays "
                      f"(efficiency {s.efficiency.value:.2f}) at {s.height.tray_spacing:.2f} m spacing, "
                      f"{_shells_words(s)}; "
-                     f"condenser {_figures(s.condenser.area)} m2 on {s.condenser.utility.name}, "
-                     f"reboiler {_figures(s.reboiler.area)} m2 on {s.reboiler.utility.name}")
+                     f"condenser {size_text(s.condenser.area)} m2 on {s.condenser.utility.name}, "
+                     f"reboiler {size_text(s.reboiler.area)} m2 on {s.reboiler.utility.name}")
     if parts.cost is not None:
         c = parts.cost
         lines.append(f"Cost ({c.currency} {c.cost_year}, scenario '{c.scenario}'): installed capital "
@@ -385,7 +385,3 @@ def design_text(result: DesignResult) -> str:
     lines += scenario_lines(parts) + (given_scenario_lines(parts.given) if parts.given is not None else [])
     return "\n".join(lines)
 
-
-def _figures(value: float) -> str:
-    """A size or duty to the unit, or to two significant figures below ten (a pilot column's 0.046 m2 read 0)."""
-    return f"{value:,.0f}" if abs(value) >= 10.0 else f"{value:.2g}"

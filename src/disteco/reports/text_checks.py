@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from .tables import fraction_decimals
+from .tables import fraction_decimals, size_text
 
 if TYPE_CHECKING:  # an annotation only; importing it would pull in the solver interfaces
     from ..optimisation.thermo_checks import ThermoChecks
@@ -42,7 +42,8 @@ def checks_lines(checks: ThermoChecks | None, reflux_ratio: float, cmo_minimum: 
              f"{fraction_text(k.light_key_recovery, 4)} / {fraction_text(k.heavy_key_recovery, 4)} [-]",
              f"  model against thermo: largest difference {v.max_temperature_difference:.3g} K, "
              f"{v.max_composition_difference:.3g} mole fraction; thermo duties condenser "
-             f"{v.condenser_duty / 1e3:,.0f} kW, reboiler {v.reboiler_duty / 1e3:,.0f} kW ({v.wall_time:.1f} s)"]
+             f"{size_text(v.condenser_duty / 1e3)} kW, reboiler {size_text(v.reboiler_duty / 1e3)} kW "
+             f"({v.wall_time:.1f} s)"]
     if v.corrected is not None:
         lines.append(f"  corrected on thermo to reflux ratio {v.corrected.reflux_ratio:.4f} [-], distillate "
                      f"{3.6 * v.corrected.distillate_flow:.3f} kmol/h (reported design)")

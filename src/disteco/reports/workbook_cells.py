@@ -57,13 +57,15 @@ def number_format_of(value: float | int, unit: str | None = None) -> str:
     if unit is not None:
         if MONEY_UNIT.fullmatch(unit):
             return "#,##0"
-        if unit == "kW" and abs(value) < SMALL_POWER:
-            return "0.0"  # a pump's few kW keep their tenth
         if unit in ("mole fraction", "fraction"):  # a ppm impurity or a recovery near 1 keeps its digits
             places = fraction_decimals(value, 5)
             return "0.000E+00" if places is None else "0." + "0" * places
-        if unit in UNIT_FORMATS:
-            return UNIT_FORMATS[unit]
+        # a pump's few kW keep their tenth
+        fixed = "0.0" if unit == "kW" and abs(value) < SMALL_POWER else UNIT_FORMATS.get(unit)
+        # a value the unit's format would show with fewer than two figures (a pilot column's 0.0036 m2
+        # condenser read 0.0) takes the format by size, as the console's two figures
+        if fixed is not None and not 0.0 < abs(value) < 10.0 ** (1 - decimals_shown(fixed)):
+            return fixed
     size = abs(value)
     if size >= 1e4:
         return "#,##0"

@@ -615,9 +615,10 @@ def test_a_far_over_staged_given_design_prices_and_its_minimum_reflux_column_is_
 
     result = run(tmp_path / "capped")
     assert result["design"]["stages"] == 200 and result["design"]["reflux_ratio"] == pytest.approx(2.0)
-    # both products far beyond their specifications (1.5 % benzene in the bottoms, toluene in the distillate)
-    assert result["stage_profile"]["bottoms_mole_fractions"][0] < 1e-6
-    assert result["stage_profile"]["distillate_mole_fractions"][1] < 1e-6
+    # both products far beyond their specifications (1.5 % benzene in the bottoms, toluene in the distillate):
+    # how far is the solver's to choose, the cost being flat there (1.2e-6 and 1.0e-6 on two machines)
+    assert result["stage_profile"]["bottoms_mole_fractions"][0] < 1e-4
+    assert result["stage_profile"]["distillate_mole_fractions"][1] < 1e-4
     assert result["verification"]["specifications_met"] is True
     minimum = result["minimum_reflux_energy_balance"]
     assert minimum["basis"].startswith(f"energy balances on thermo, {minimum['stages']} stages (8 x the minimum "

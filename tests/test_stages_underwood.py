@@ -329,5 +329,9 @@ def test_class_2_minimum_reflux_is_the_limit_of_ever_taller_columns(alpha, z, q,
     assert excess[0] > 1e-2
     assert abs(excess[-1]) < 1e-5 and abs(excess[-1]) < 0.01 * abs(excess[1])
     assert d == pytest.approx(d_min, rel=1e-4, abs=1e-9)
-    assert 0.0 < d[2] < f_flow[2]
-    assert (0.0 < d[0] < f_flow[0]) == (alpha is ALPHA)
+    # distributing: a share of the feed in each product beyond round-off (a non-key held wholly in the
+    # distillate comes out as its feed flow to a few units in the last place, differently on other machines)
+    def distributes(j):
+        return 1e-9 * f_flow[j] < d[j] < (1.0 - 1e-9) * f_flow[j]
+    assert distributes(2)
+    assert distributes(0) == (alpha is ALPHA)

@@ -45,7 +45,7 @@ def verified(request):
     optimum = optimise_design(case, mixture, feed, data, {"time_limit": LIBRARY[name]}, sizing, "reference")
     shortcut = shortcut_design(mixture, feed, case.products, case.column)
     verification = verify_design(case, mixture, feed, optimum.best, shortcut, data, optimum.sizing_options,
-                                 "reference")
+                                 "reference", priced=optimum.sequential)  # at its trays' pressures, as reported
     return name, case, feed, optimum, verification, mixture.warnings
 
 

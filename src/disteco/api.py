@@ -291,7 +291,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
             # benzene example given 80 stages up to 240 kPa held the optimum to 1.1 x 1.7778, not 1.1 x 1.7385)
             own = thermo_checks(case, mixture, feed, data, optimum.best, stages, options,
                                 optimum.sizing_options or sizing_options(case), name, full=k == 0,
-                                fitted=optimum.problem.fitted if optimum.problem else None)
+                                fitted=optimum.problem.fitted if optimum.problem else None,
+                                priced=optimum.sequential)
             minimum = own.minimum if k == 0 else minimum
             optimum, _ = hold_margin(case, mixture, feed, data, optimum, own.reflux_ratio,
                                      minimum.reflux_ratio if minimum else None, options, sizing_options(case), name)
@@ -315,7 +316,7 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         reflux the floor was set on (the design's without the margin)."""
         return thermo_checks(case, mixture, feed, data, optimum.best, stages, options, optimum.sizing_options or sizing,
                              name, full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
-                             minimum_near=minimum, reflux_floor=margin.reflux_floor)
+                             minimum_near=minimum, reflux_floor=margin.reflux_floor, priced=optimum.sequential)
 
     def checked_run(k: int, name: str, optimum) -> ScenarioRun:
         """The scenario's optimum checked on thermo, held to the control margin, with its curve."""
@@ -327,7 +328,8 @@ def design(case: Case, given: GivenDesign | None = None, scenarios: tuple[str, .
         with start_curve(case, mixture, feed, data, optimum, stages.table, options, chosen, name) as curve:
             plan.start(f"checking the '{name}' optimum on thermo" + (" (with minimum reflux and fit)" if k == 0 else ""))
             checks = thermo_checks(case, mixture, feed, data, optimum.best, stages, options, chosen, name,
-                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None)
+                                   full=k == 0, fitted=optimum.problem.fitted if optimum.problem else None,
+                                   priced=optimum.sequential)
             minimum = checks.minimum if k == 0 else minimum
             optimum, margin = hold_margin(case, mixture, feed, data, optimum, checks.reflux_ratio,
                                           minimum.reflux_ratio if minimum else None, options, sizing, name)

@@ -17,7 +17,7 @@ from .problem import resolved_problem
 from .fit_check import FitCheck, check_fit
 from .minimum_reflux import EnergyBalanceMinimum, energy_balance_minimum, minimum_warnings
 from .options import model_options
-from .results import DesignEvaluation
+from .results import DesignEvaluation, SequentialPrice
 from .verification import Verification, verify_design
 
 
@@ -41,7 +41,7 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
                   stages: StageDesign, options=None, sizing: SizingOptions = SizingOptions(),
                   scenario: str | None = None, full: bool = True, fitted=None,
                   minimum_near: EnergyBalanceMinimum | None = None, reflux_floor: float | None = None,
-                  hold_reflux: bool = False) -> ThermoChecks:
+                  hold_reflux: bool = False, priced: SequentialPrice | None = None) -> ThermoChecks:
     """Verify ``design`` on thermo; with ``full`` also its energy-balance minimum reflux and the fit check.
 
     ``fitted``: the fitted forms the design was optimised on (:attr:`OptimumDesign.problem`); None
@@ -52,10 +52,12 @@ def thermo_checks(case: Case, mixture: Mixture, feed: FeedState, data: CostData,
     water/acetic acid design held at 1.1 x 0.7736 had read "1.096 x" its own 0.7768; on an ethylene/ethane
     splitter its own took 3.5 s of a 27-s design and came out the higher. ``reflux_floor``: the control margin's
     least reflux ratio, which a correction on thermo keeps (:func:`verify_design`); ``hold_reflux``: a given
-    design's reflux, which a correction keeps where it can.
+    design's reflux, which a correction keeps where it can; ``priced``: the design sized and costed (an
+    optimum's :attr:`OptimumDesign.sequential`; a given design carries its own), whose trays set the
+    pressures it is verified at.
     """
     verification = verify_design(case, mixture, feed, design, stages.shortcut, data, sizing, scenario,
-                                 reflux_floor, hold_reflux)
+                                 reflux_floor, hold_reflux, priced or design.sequential)
     if not full:
         return ThermoChecks(verification, None, None, verification.warnings)
     reported = verification.corrected or verification.profile

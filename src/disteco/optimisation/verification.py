@@ -29,6 +29,7 @@ from ..costing.data import CostData
 from ..properties import FeedState, Mixture
 from ..sizing.options import SizingOptions
 from ..stages import ColumnSpec, ShortcutDesign, StageProfile, solve_rigorous, solve_to_specs, spec_residuals
+from .first_round import DROP_TOLERANCE, close_enough, stage_pressure_drop
 from .pricing import price_design
 from .results import DesignEvaluation, SequentialPrice
 
@@ -87,10 +88,11 @@ def key_fractions(profile: StageProfile, case: Case, feed: FeedState) -> KeyFrac
                         float(b[heavy] / (F * z[heavy])), (float(excess[0]), float(excess[1])))
 
 
-def column_spec(design: StageProfile, case: Case) -> ColumnSpec:
-    """The design's stages, feed, R and D at its own pressures (top and a uniform drop to the reboiler)."""
+def column_spec(design: StageProfile, case: Case, stage_drop: float | None = None) -> ColumnSpec:
+    """The design's stages, feed, R and D at its top pressure and a uniform drop per stage to the reboiler:
+    ``stage_drop`` [Pa], the drop its own trays give, where known, else its profile's."""
     N = design.stages
-    drop = (design.P[-1] - design.P[0]) / (N - 1) if N > 1 else 0.0
+    drop = stage_drop if stage_drop is not None else (design.P[-1] - design.P[0]) / (N - 1) if N > 1 else 0.0
     return ColumnSpec(N, design.feed_stage, design.reflux_ratio, design.distillate_flow, design.P[0], drop,
                       case.column.condenser == "partial", case.column.subcooling)
 
@@ -101,6 +103,18 @@ def _differences(model: StageProfile, thermo: StageProfile) -> tuple[float, floa
              float(np.max(np.abs(np.subtract(model.y, thermo.y)))))
     return dT, dx
 
+
+
+def _pressure_note(model: StageProfile, thermo: StageProfile) -> list[str]:
+    """Where the model's pressure profile and the design's own trays' differ beyond the rounds' settling
+    tolerance (a round at the trays' drop found no design, or the rounds stopped unsettled), the
+    pressures thermo verified the design at."""
+    drops = [(p.P[-1] - p.P[0]) for p in (model, thermo)]
+    if not drops[0] > 0.0 or close_enough(drops[1], drops[0], DROP_TOLERANCE):
+        return []
+    return [f"verified at its own trays' pressures: {thermo.P[0] / 1e3:.4g} kPa at the top to {thermo.P[-1] / 1e3:.4g} kPa "
+            f"in the reboiler, where the model's profile, set on the trays of another design, reached "
+            f"{model.P[-1] / 1e3:.4g} kPa"]
 
 
 def _beyond_tolerance(excess: float) -> str:
@@ -119,23 +133,27 @@ def _beyond_tolerance(excess: float) -> str:
 def verify_design(case: Case, mixture: Mixture, feed: FeedState, design: DesignEvaluation,
                   shortcut: ShortcutDesign, data: CostData, sizing: SizingOptions = SizingOptions(),
                   scenario: str | None = None, reflux_floor: float | None = None,
-                  hold_reflux: bool = False) -> Verification:
+                  hold_reflux: bool = False, priced: SequentialPrice | None = None) -> Verification:
     """Solve ``design`` on thermo; correct R and D and price again when a specification is missed.
 
     ``shortcut`` is the stages layer's shortcut design of the case (Newton's fallback start);
     ``reflux_floor``: the control margin's least reflux ratio [-], which a correction keeps;
     ``hold_reflux``: a given design's reflux, which a correction keeps where the distillate flow alone
-    meets both specifications (:func:`_distillate_at_reflux`).
+    meets both specifications (:func:`_distillate_at_reflux`); ``priced``: the design sized, whose trays'
+    hydraulics and efficiency give the pressures it is solved at (else its profile's pressures, the model's,
+    which the optimiser's rounds settle to within ``DROP_TOLERANCE`` of the trays' but a round that found no
+    design at its trays' drop leaves further off).
     """
     began = time.monotonic()
     model = design.profile
-    spec = column_spec(model, case)
+    own = None if priced is None else stage_pressure_drop(case, priced.sizing)
+    spec = column_spec(model, case, own)
     thermo = solve_rigorous(mixture, feed, spec, guess=model)
     keys = key_fractions(thermo, case, feed)
     met = max(keys.excess) <= SPEC_TOLERANCE
     dT, dx = _differences(model, thermo)
     corrected = price = None
-    warnings: list[str] = []
+    warnings: list[str] = [] if own is None else _pressure_note(model, thermo)
     if not met:
         missed = "; ".join(f"{name} key impurity {_beyond_tolerance(e)} % above its specification"
                            for name, e in zip(("light", "heavy"), keys.excess) if e > SPEC_TOLERANCE)

@@ -309,7 +309,7 @@ def _optimise_rounds(case: Case, mixture: Mixture, feed: FeedState, data: CostDa
 def _drop_moved(searched_drop: float, kept: SeparationProblem, rounds: int) -> str:
     """Where the round that found no design searched at another pressure drop per stage (set from the kept
     optimum's own trays), the two drops, and where the kept design is verified (acetone/water at 1.2 bar:
-    2367 against 2111 Pa per stage, its 170 trays raising the pressure 130 % above the top's)."""
+    2367 against 2111 Pa per stage, its 172 trays raising the pressure 130 % above the top's)."""
     if close_enough(searched_drop, kept.stage_pressure_drop, DROP_TOLERANCE):
         return ""
     return (f"; that round searched at {searched_drop:.0f} Pa per equilibrium stage, set from the reported design's "
